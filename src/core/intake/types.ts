@@ -1,0 +1,149 @@
+/**
+ * Types of the intake layer: cells as a spreadsheet hands them over in, typed columns and issues out.
+ * The intake decides blanks, text, error values and dates once; later layers receive clean typed arrays.
+ */
+
+/** One cell as a host hands it over: a number, text, a boolean, or blank (null, undefined or ""). Error values
+ * (#N/A, #VALUE!, ...) arrive as their text. */
+export type CellValue = number | string | boolean | null | undefined;
+
+/** The roles a column can play (SPEC §3). */
+export type Role =
+  | 'subject'
+  | 'date'
+  | 'studyDay'
+  | 'reference'
+  | 'visit'
+  | 'value'
+  | 'arm'
+  | 'site'
+  | 'covariate';
+
+/** Which column (0-based index within the range) plays which role. `covariates` may be empty. */
+export interface ColumnMapping {
+  readonly subject?: number;
+  readonly date?: number;
+  readonly studyDay?: number;
+  readonly reference?: number;
+  readonly visit?: number;
+  readonly value?: number;
+  readonly arm?: number;
+  readonly site?: number;
+  readonly covariates: readonly number[];
+}
+
+/** Blinded mode reads no arm column; unblinded mode does (SPEC §2). */
+export type Mode = 'blinded' | 'unblinded';
+
+/** The spreadsheet date system: serial 0 is 1899-12-30 (1900 system, as used in practice) or 1904-01-01. ECMA-376 Part 1, §18.17.4. */
+export type DateSystem = 1900 | 1904;
+
+export interface IntakeOptions {
+  /** Sheet name used in cell addresses, e.g. "Visits" gives "Visits!C17". */
+  readonly sheet: string;
+  /** Address of the top-left cell of the range (the header row's first cell), e.g. "A1" or "B3". */
+  readonly topLeft: string;
+  readonly dateSystem: DateSystem;
+  readonly mode: Mode;
+  /** The user's confirmed mapping; when absent the detected one is used. */
+  readonly mapping?: ColumnMapping;
+}
+
+/** The uses a row can serve (SPEC §3): visit timing, and the model. */
+export type Use = 'timing' | 'model';
+
+export type Severity = 'error' | 'warning';
+
+/** Every problem intake can report. Errors block a run; warnings exclude a row from a use and say so. */
+export type IssueCode =
+  | 'no-rows' // the range has a header but no data rows
+  | 'no-subject-column'
+  | 'no-time-column' // neither a date nor a study-day column
+  | 'no-value-column'
+  | 'no-arm-column' // unblinded mode without an arm column
+  | 'duplicate-role' // one column mapped twice, or a mapping outside the range
+  | 'subject-in-two-arms'
+  | 'too-few-subjects-per-arm'
+  | 'no-usable-rows'
+  | 'blank-subject'
+  | 'blank-time'
+  | 'bad-date'
+  | 'bad-study-day'
+  | 'bad-reference-date'
+  | 'blank-value'
+  | 'text-in-numeric'
+  | 'error-value'
+  | 'blank-arm'
+  | 'bad-covariate';
+
+export interface Issue {
+  readonly code: IssueCode;
+  readonly severity: Severity;
+  /** e.g. "Visits!C17"; null for issues about the whole range. */
+  readonly cell: string | null;
+  /** 1-based worksheet row number of the data row concerned, or null. */
+  readonly row: number | null;
+  readonly role: Role | null;
+  /** The offending value as text ("" for blank). */
+  readonly value: string;
+  /** Which use the row is left out of; null when the issue blocks the run or concerns no single use. */
+  readonly use: Use | null;
+  /** A plain sentence, rendered from the code in one place (messages.ts). */
+  readonly message: string;
+}
+
+/** A covariate column after intake: numeric (NaN where missing) or categorical (levels as text, "" where missing). */
+export type CovariateColumn =
+  | { readonly name: string; readonly kind: 'numeric'; readonly values: Float64Array }
+  | { readonly name: string; readonly kind: 'categorical'; readonly values: readonly string[]; readonly levels: readonly string[] };
+
+/**
+ * Typed columns, one entry per data row (index i is worksheet row sheetRows[i]).
+ * Dates are whole day numbers counted so that 1899-12-30 is 0 (the 1900-system serial for dates from 1900-03-01 on;
+ * 1904-system serials are shifted by 1462 on the way in). Missing or unusable numbers are NaN.
+ */
+export interface IntakeTable {
+  readonly nRows: number;
+  readonly headers: readonly string[];
+  readonly mapping: ColumnMapping;
+  readonly mode: Mode;
+  /** 1-based worksheet row of each data row. */
+  readonly sheetRows: Int32Array;
+  /** Subject id per row, trimmed, case kept; "" if blank. */
+  readonly subject: readonly string[];
+  /** Index into subjectIds per row, -1 if blank. */
+  readonly subjectIndex: Int32Array;
+  /** Distinct non-blank subject ids in order of first appearance. */
+  readonly subjectIds: readonly string[];
+  /** 'date' when a date column is mapped (study day is derived later), else 'studyDay'. */
+  readonly timeKind: 'date' | 'studyDay';
+  /** Visit date as a day number (see above); all NaN when timeKind is 'studyDay'. */
+  readonly date: Float64Array;
+  /** Given study day (integer, never 0); all NaN when timeKind is 'date'. */
+  readonly studyDay: Float64Array;
+  /** Reference (randomisation or first-dose) date as a day number, NaN when absent. */
+  readonly reference: Float64Array;
+  /** Visit label per row, trimmed; null when no visit column is mapped. */
+  readonly visit: readonly string[] | null;
+  readonly value: Float64Array;
+  /** Arm per row (unblinded mode only), "" if blank; null in blinded mode or when not mapped. */
+  readonly arm: readonly string[] | null;
+  /** Distinct arms in order of first appearance (empty in blinded mode). */
+  readonly arms: readonly string[];
+  readonly site: readonly string[] | null;
+  readonly covariates: readonly CovariateColumn[];
+  /** 1 where the row can serve visit timing (subject and a valid date or study day). */
+  readonly usableTiming: Uint8Array;
+  /** 1 where the row can also serve the model (numeric value, arm in unblinded mode, covariates present). */
+  readonly usableModel: Uint8Array;
+}
+
+export type IntakeResult =
+  | { readonly ok: true; readonly table: IntakeTable; readonly issues: readonly Issue[] }
+  | { readonly ok: false; readonly issues: readonly Issue[] };
+
+/** A proposed mapping from header text, with the reason each role was chosen (shown to the user for confirmation). */
+export interface DetectedMapping {
+  readonly mapping: ColumnMapping;
+  readonly reasons: Readonly<Partial<Record<Exclude<Role, 'covariate'>, string>>>;
+}

@@ -1,0 +1,56 @@
+/** Settings and output of one analysis run, shared by the command line, the browser page and the add-in. */
+import type { ColumnMapping, DateSystem, Issue, Mode } from '../intake/types';
+import type { ScheduleVisit } from '../schedule/types';
+import type { SheetSpec } from '../report/types';
+
+export type TimeUnit = 'month' | 'week' | 'day';
+export type DfMethod = 'kenward-roger' | 'satterthwaite' | 'residual';
+export type FitMethod = 'reml' | 'ml';
+
+/** Days per time unit (SPEC §3): a month is 30.4375 days (365.25 / 12, common practice). */
+export const DAYS_PER_UNIT: Readonly<Record<TimeUnit, number>> = { month: 30.4375, week: 7, day: 1 };
+
+export interface AnalysisSettings {
+  readonly sheet: string;
+  readonly topLeft: string;
+  readonly dateSystem: DateSystem;
+  readonly mode: Mode;
+  /** The confirmed mapping; when absent the detected one is used. */
+  readonly mapping?: ColumnMapping;
+  readonly schedule: readonly ScheduleVisit[];
+  /** Data cut-off as ISO date (YYYY-MM-DD); defaults to the latest date in the data. */
+  readonly cutoff?: string;
+  /** Unblinded mode: the reference arm; defaults to the first arm in order of appearance. */
+  readonly referenceArm?: string;
+  readonly timeUnit: TimeUnit;
+  readonly dfMethod: DfMethod;
+  readonly method: FitMethod;
+  /** Confidence level, e.g. 0.95. */
+  readonly level: number;
+  /** Restrict the model to records matched to scheduled visits (default false: all valid rows). */
+  readonly scheduledOnly: boolean;
+  /** Add a per-subject sheet with random intercepts and residual summaries. */
+  readonly perSubject: boolean;
+  /** Free text describing the input, e.g. "visits.csv" or "Data!A1:G2401"; goes into the analysis record. */
+  readonly inputLabel: string;
+  /** ISO timestamp of the run; passed in so the core stays pure and testable. */
+  readonly runAt: string;
+}
+
+export interface ExcludedRow {
+  readonly row: number;
+  readonly cell: string | null;
+  readonly use: 'timing' | 'model';
+  readonly reason: string;
+}
+
+export type AnalysisOutput =
+  | {
+      readonly ok: true;
+      readonly issues: readonly Issue[];
+      readonly excluded: readonly ExcludedRow[];
+      readonly sheets: readonly SheetSpec[];
+      /** The machine-readable results (schema in the README). */
+      readonly json: Record<string, unknown>;
+    }
+  | { readonly ok: false; readonly issues: readonly Issue[] };

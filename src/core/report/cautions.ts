@@ -1,0 +1,12 @@
+/** The cautions of SPEC §2, shown on every output sheet, in one place so every front end shows the same words. */
+export const CAUTIONS: readonly string[] = [
+  'This is an interim look, not a final analysis. Looking at the data repeatedly inflates the chance of a false-positive finding.',
+  'Longipane is not a validated system for regulatory submissions.',
+  "Results must be read by a qualified statistician under the trial's charter and local regulations. The protocol and the statistical analysis plan take precedence over anything shown here.",
+];
+
+/** Shown when unblinded mode is chosen (SPEC §2). */
+export const UNBLINDED_CAUTION =
+  'Unblinded mode shows results by treatment arm. It is meant only for an unblinded statistician or the statistician of a data monitoring committee; anyone who must stay blinded should not open these sheets.';
+
+export const INVENTED_DATA_NOTE = 'The demo data are invented for illustration; they describe no real trial, site or person.';

@@ -53,4 +53,15 @@ export type AnalysisOutput =
       /** The machine-readable results (schema in the README). */
       readonly json: Record<string, unknown>;
     }
-  | { readonly ok: false; readonly issues: readonly Issue[] };
+  | { readonly ok: false; readonly issues: readonly Issue[]; readonly cancelled?: true };
+
+/** The stages a run reports as it goes (the pane shows them as progress). */
+export type Stage = 'reading' | 'windowing' | 'fitting' | 'writing';
+
+export interface RunHooks {
+  readonly onStage?: (stage: Stage) => void;
+  /** Checked between stages; when aborted the run returns { ok: false, cancelled: true }. */
+  readonly signal?: { readonly aborted: boolean };
+  /** Lets the front end yield to its event loop between stages (core has no timers). */
+  readonly yieldControl?: () => Promise<void>;
+}

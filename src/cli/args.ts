@@ -1,0 +1,151 @@
+/** Command-line argument parsing for `longipane analyze` (no library: a dozen flags do not need one). */
+import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
+
+/** Misuse of the command line: the message says what was wrong; main prints it and exits with code 2. */
+export class UsageError extends Error {
+  override readonly name = 'UsageError';
+}
+
+export interface AnalyzeArgs {
+  readonly data: string;
+  readonly schedule: string;
+  readonly sheet?: string;
+  readonly cutoff?: string;
+  readonly out?: string;
+  readonly json?: string;
+  /** role → header text, in the order given. */
+  readonly map: readonly (readonly [string, string])[];
+  readonly unblinded: boolean;
+  readonly referenceArm?: string;
+  readonly timeUnit: TimeUnit;
+  readonly df: DfMethod;
+  readonly method: FitMethod;
+  readonly level: number;
+  readonly covariates: readonly string[];
+  readonly scheduledOnly: boolean;
+  readonly perSubject: boolean;
+}
+
+const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate'] as const;
+const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-subject'] as const;
+type ValueFlag = (typeof VALUE_FLAGS)[number];
+type BooleanFlag = (typeof BOOLEAN_FLAGS)[number];
+
+function oneOf<T extends string>(flag: string, value: string, allowed: readonly T[]): T {
+  if ((allowed as readonly string[]).includes(value)) return value as T;
+  throw new UsageError(`--${flag} must be one of ${allowed.join(', ')}; got "${value}".`);
+}
+
+/** True when text is a real calendar date written YYYY-MM-DD (ISO 8601 calendar date, extended format). */
+export function isIsoDate(text: string): boolean {
+  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(text);
+  if (!m) return false;
+  const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
+  const t = new Date(Date.UTC(y, mo - 1, d));
+  return t.getUTCFullYear() === y && t.getUTCMonth() === mo - 1 && t.getUTCDate() === d;
+}
+
+/**
+ * Parses the arguments after `analyze`. Flags take their value as the next argument or after "=" (`--level=0.9`);
+ * --map and --covariate may repeat.
+ * Example: parseAnalyzeArgs(['--data','v.csv','--schedule','s.csv']) → { data: 'v.csv', schedule: 's.csv', mode defaults … }
+ * @throws UsageError for an unknown flag, a missing value, a missing --data/--schedule or a value out of range.
+ */
+export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
+  const values = new Map<ValueFlag, string[]>();
+  const flags = new Set<BooleanFlag>();
+  for (let i = 0; i < argv.length; i++) {
+    const arg = argv[i]!;
+    if (!arg.startsWith('--')) throw new UsageError(`Unexpected argument "${arg}" (flags start with --).`);
+    const eq = arg.indexOf('=');
+    const name = eq >= 0 ? arg.slice(2, eq) : arg.slice(2);
+    if ((BOOLEAN_FLAGS as readonly string[]).includes(name)) {
+      if (eq >= 0) throw new UsageError(`--${name} takes no value.`);
+      flags.add(name as BooleanFlag);
+      continue;
+    }
+    if (!(VALUE_FLAGS as readonly string[]).includes(name)) throw new UsageError(`Unknown flag "--${name}".`);
+    let value: string | undefined;
+    if (eq >= 0) value = arg.slice(eq + 1);
+    else {
+      value = argv[i + 1];
+      if (value === undefined || value.startsWith('--')) throw new UsageError(`--${name} needs a value.`);
+      i++;
+    }
+    const list = values.get(name as ValueFlag) ?? [];
+    if (list.length > 0 && name !== 'map' && name !== 'covariate') throw new UsageError(`--${name} is given twice.`);
+    list.push(value);
+    values.set(name as ValueFlag, list);
+  }
+  const one = (f: ValueFlag): string | undefined => values.get(f)?.[0];
+  const data = one('data');
+  const schedule = one('schedule');
+  if (data === undefined) throw new UsageError('--data FILE is required (a .csv or .xlsx file of visits).');
+  if (schedule === undefined) throw new UsageError('--schedule FILE is required (a CSV with header visit,target_day,days_before,days_after).');
+  const cutoff = one('cutoff');
+  if (cutoff !== undefined && !isIsoDate(cutoff)) throw new UsageError(`--cutoff must be a real date written YYYY-MM-DD; got "${cutoff}".`);
+  const levelText = one('level') ?? '0.95';
+  const level = Number(levelText);
+  if (!(level > 0 && level < 1)) throw new UsageError(`--level must be a number between 0 and 1, such as 0.95; got "${levelText}".`);
+  const map = (values.get('map') ?? []).map((m): readonly [string, string] => {
+    const at = m.indexOf('=');
+    if (at <= 0 || at === m.length - 1) throw new UsageError(`--map takes role=Header, such as value=AVAL; got "${m}".`);
+    return [m.slice(0, at).trim(), m.slice(at + 1).trim()];
+  });
+  const referenceArm = one('reference-arm');
+  const unblinded = flags.has('unblinded');
+  if (referenceArm !== undefined && !unblinded) throw new UsageError('--reference-arm only applies with --unblinded.');
+  const optional = {
+    ...(one('sheet') === undefined ? {} : { sheet: one('sheet')! }),
+    ...(cutoff === undefined ? {} : { cutoff }),
+    ...(one('out') === undefined ? {} : { out: one('out')! }),
+    ...(one('json') === undefined ? {} : { json: one('json')! }),
+    ...(referenceArm === undefined ? {} : { referenceArm }),
+  };
+  return {
+    data,
+    schedule,
+    ...optional,
+    map,
+    unblinded,
+    timeUnit: oneOf('time-unit', one('time-unit') ?? 'month', ['month', 'week', 'day'] as const),
+    df: oneOf('df', one('df') ?? 'kenward-roger', ['kenward-roger', 'satterthwaite', 'residual'] as const),
+    method: oneOf('method', one('method') ?? 'reml', ['reml', 'ml'] as const),
+    level,
+    covariates: values.get('covariate') ?? [],
+    scheduledOnly: flags.has('scheduled-only'),
+    perSubject: flags.has('per-subject'),
+  };
+}
+
+export const HELP_TEXT = `longipane — visit-window checks and a random-intercept mixed model for repeated-measures trial data
+
+Usage:
+  longipane analyze --data FILE --schedule FILE [options]
+  longipane help
+
+Input:
+  --data FILE             visits, one row per assessment: a .csv file or an .xlsx workbook
+  --sheet NAME            which worksheet of an .xlsx file (default: the first)
+  --schedule FILE         CSV with header visit,target_day,days_before,days_after
+  --map role=Header       confirm a column's role (repeatable); roles: subject, date, studyDay,
+                          reference, visit, value, arm, site. Columns not given are detected from headers.
+  --covariate Header      add a model covariate column (repeatable)
+  --cutoff YYYY-MM-DD     data cut-off (default: the latest date in the data)
+
+Model:
+  --unblinded             read the arm column and report treatment effects (unblinded staff only)
+  --reference-arm NAME    the arm others are compared with (default: the first arm seen)
+  --time-unit UNIT        month (30.4375 days, default), week or day
+  --df METHOD             kenward-roger (default), satterthwaite or residual
+  --method METHOD         reml (default) or ml
+  --level P               confidence level (default 0.95)
+  --scheduled-only        fit only records matched to scheduled visits (default: all valid rows)
+  --per-subject           add a sheet of per-subject random intercepts and residuals
+
+Output:
+  --out FILE.xlsx         write the report workbook
+  --json FILE.json        write the machine-readable results
+Files are written under a temporary name and renamed when complete; an existing file is only replaced by a
+finished one. Exit codes: 0 done, 1 the data could not be analysed, 2 wrong command line or unreadable file.
+`;

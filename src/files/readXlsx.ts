@@ -1,0 +1,88 @@
+import ExcelJS from 'exceljs';
+import type { CellValue, DateSystem } from '../core/intake/types';
+import { columnLetters } from './cellAddress';
+import { FileFormatError } from './errors';
+
+/** A sheet read from an .xlsx file: its name, the address of its first used cell, its date system and its cells. */
+export interface XlsxSheet {
+  readonly sheet: string;
+  readonly topLeft: string;
+  readonly dateSystem: DateSystem;
+  readonly cells: CellValue[][];
+  /** Names of all worksheets in the workbook, in order. */
+  readonly sheetNames: readonly string[];
+}
+
+const MS_PER_DAY = 86_400_000;
+/** Days from 1899-12-30 (serial 0 of the 1900 system) to 1970-01-01 (ECMA-376 Part 1, §18.17.4.1). */
+const UNIX_EPOCH_SERIAL_1900 = 25_569;
+/** 1904-system serial 0 is 1904-01-01, which is 1900-system serial 1462 (ECMA-376 Part 1, §18.17.4.1). */
+const OFFSET_1904 = 1462;
+
+/** exceljs turns a date-formatted number into a UTC Date; this turns it back into the workbook's own serial. */
+function dateToSerial(d: Date, system: DateSystem): number {
+  const serial1900 = d.getTime() / MS_PER_DAY + UNIX_EPOCH_SERIAL_1900;
+  return system === 1904 ? serial1900 - OFFSET_1904 : serial1900;
+}
+
+function plainValue(v: ExcelJS.CellValue, system: DateSystem): CellValue {
+  if (v === null || v === undefined) return null;
+  if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean') return v;
+  if (v instanceof Date) return Number.isNaN(v.getTime()) ? null : dateToSerial(v, system);
+  if ('error' in v) return v.error;
+  if ('richText' in v) return v.richText.map((r) => r.text).join('');
+  if ('formula' in v || 'sharedFormula' in v) {
+    const result = (v as ExcelJS.CellFormulaValue).result;
+    return result === undefined ? null : plainValue(result, system);
+  }
+  if ('hyperlink' in v) return v.text;
+  return String(v);
+}
+
+/**
+ * Reads one worksheet of an .xlsx file into a grid of plain cells: numbers, text, booleans, null for blank.
+ * Date-formatted cells become serials in the workbook's own date system (the 1904 flag is honoured and returned as
+ * dateSystem, so intake treats dated and plain-number cells alike); formulas give their cached result; rich text
+ * gives its plain text; error cells give their text such as "#N/A". The grid starts at the first used row and
+ * column (topLeft) and ends at the last used ones. Cost O(cells).
+ *
+ * Example: a sheet "Visits" with A1 "id", A2 1 → { sheet: 'Visits', topLeft: 'A1', dateSystem: 1900, cells: [['id'],[1]] }
+ * @throws FileFormatError when the bytes are not an .xlsx workbook, the named sheet does not exist, or it is empty.
+ */
+export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: string): Promise<XlsxSheet> {
+  const wb = new ExcelJS.Workbook();
+  try {
+    await wb.xlsx.load(buf as unknown as Parameters<typeof wb.xlsx.load>[0]);
+  } catch (e) {
+    throw new FileFormatError(`The file is not a readable .xlsx workbook (${e instanceof Error ? e.message : String(e)}).`);
+  }
+  const sheetNames = wb.worksheets.map((w) => w.name);
+  const ws = sheetName === undefined ? wb.worksheets[0] : wb.worksheets.find((w) => w.name === sheetName);
+  if (!ws) {
+    const which = sheetName === undefined ? 'any worksheet' : `a sheet named "${sheetName}"`;
+    throw new FileFormatError(`The workbook has no ${which}; its sheets are: ${sheetNames.join(', ') || '(none)'}.`);
+  }
+  const system: DateSystem = wb.properties.date1904 ? 1904 : 1900;
+  let minRow = Infinity;
+  let maxRow = 0;
+  let minCol = Infinity;
+  let maxCol = 0;
+  const found: { r: number; c: number; v: CellValue }[] = [];
+  ws.eachRow({ includeEmpty: false }, (row, r) => {
+    row.eachCell({ includeEmpty: false }, (cell, c) => {
+      const v = plainValue(cell.value, system);
+      if (v === null || v === '') return;
+      found.push({ r, c, v });
+      minRow = Math.min(minRow, r);
+      maxRow = Math.max(maxRow, r);
+      minCol = Math.min(minCol, c);
+      maxCol = Math.max(maxCol, c);
+    });
+  });
+  if (found.length === 0) throw new FileFormatError(`The sheet "${ws.name}" is empty.`);
+  const cells: CellValue[][] = Array.from({ length: maxRow - minRow + 1 }, () =>
+    new Array<CellValue>(maxCol - minCol + 1).fill(null),
+  );
+  for (const { r, c, v } of found) cells[r - minRow]![c - minCol] = v;
+  return { sheet: ws.name, topLeft: `${columnLetters(minCol)}${minRow}`, dateSystem: system, cells, sheetNames };
+}

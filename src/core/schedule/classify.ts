@@ -1,0 +1,239 @@
+import type { IntakeTable } from '../intake/types';
+import { cellAddress } from './address';
+import type { DataPlace } from './computeStudyDays';
+import { isoDate } from './dates';
+import { labelKey } from './labels';
+import { studyDay } from './studyDay';
+import { NO_STATUS, STATUS_CODE, STATUS_ORDER } from './types';
+import type { CutoffRule, ScheduleIssue, ScheduleVisit, StatusCounts, StudyDays, VisitStatus, VisitTiming } from './types';
+
+/** Thrown on misuse: an empty schedule, or study days that do not belong to the table. */
+export class ClassifyError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'ClassifyError';
+  }
+}
+
+export interface ClassifyOptions {
+  /**
+   * The data cut-off ("as of"). For dated data a day number (0 = 1899-12-30); default: the latest usable date in the
+   * data. For study-day data a study day applied to every subject; default: each subject's own last record.
+   */
+  readonly cutoff?: number;
+  /** Where the data range sits, so that issues carry cell addresses. */
+  readonly place?: DataPlace;
+}
+
+const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NOT_YET_DUE, extra: EXTRA, repeat: REPEAT } = STATUS_CODE;
+
+/**
+ * Gives each (subject, scheduled visit) exactly one status and each record at most one (SPEC §4).
+ *
+ * Matching. With a visit column mapped, a record belongs to the visit whose label equals its label ignoring case and
+ * spaces; a label matching no scheduled visit (blank included) makes the record "extra". Without one, a record is
+ * drawn to the visit with the nearest target day (a tie between two visits goes to the earlier visit). Among the
+ * records belonging to one visit, the one closest to the target day is the visit's record (a tie goes to the earlier
+ * day, then the earlier row). The others are "repeat" — except, when matching by nearest target day, those outside
+ * that visit's window, which match no visit and are "extra".
+ *
+ * Status of a visit's record: on time when target − before ≤ day ≤ target + after (bounds included), else early or
+ * late; its deviation is day − target (negative = early). A visit with no record is "missed" when its window's last
+ * day (target + after) is before the cut-off's study day, else "not yet due".
+ *
+ * Cut-off. Dated data: options.cutoff (a day number), else the latest usable date; each subject's cut-off study day
+ * is studyDay(cutoff, that subject's reference date); records dated after the cut-off are left out with an issue.
+ * Study-day data: options.cutoff as a study day for every subject when given (later records left out likewise); else
+ * each subject's own last record, so a visit without a record is missed when the subject has a record after the
+ * visit's window closes, and not yet due otherwise.
+ *
+ * Subjects with no usable record take no part (their slots carry NO_STATUS). Rows whose study day is NaN carry
+ * NO_STATUS. Cost: O(rows · log visits) plus sorting each subject's records by day; memory O(rows + subjects · visits).
+ *
+ * Example: schedule [{Week 12, 85, 7, 7}], one subject with records on study days 80 and 93 (no labels) → day 80 is
+ * the visit's record, on time with deviation −5; day 93 is outside the window, so it is extra.
+ */
+export function classifyVisits(
+  table: IntakeTable,
+  days: StudyDays,
+  schedule: readonly ScheduleVisit[],
+  options: ClassifyOptions = {},
+): VisitTiming {
+  const n = table.nRows;
+  const V = schedule.length;
+  const S = table.subjectIds.length;
+  if (V === 0) throw new ClassifyError('The visit schedule has no visits.');
+  if (days.studyDays.length !== n || days.referenceDay.length !== S) {
+    throw new ClassifyError(`Study days cover ${days.studyDays.length} rows and ${days.referenceDay.length} subjects; the table has ${n} rows and ${S} subjects.`);
+  }
+  const sd = days.studyDays;
+  const subjectOf = table.subjectIndex;
+  const dated = table.timeKind === 'date';
+  const issues: ScheduleIssue[] = [];
+
+  // Visits in order of target day, for nearest-target matching.
+  const order = Array.from({ length: V }, (_, k) => k).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
+  const sortedTargets = Float64Array.from(order, (k) => schedule[k]!.targetDay);
+  const target = Float64Array.from(schedule, (v) => v.targetDay);
+  const open = Float64Array.from(schedule, (v) => v.targetDay - v.before);
+  const close = Float64Array.from(schedule, (v) => v.targetDay + v.after);
+  const byLabel = table.visit !== null;
+  const labelIndex = new Map<string, number>();
+  schedule.forEach((v, k) => {
+    if (!labelIndex.has(labelKey(v.label))) labelIndex.set(labelKey(v.label), k);
+  });
+
+  // Cut-off.
+  let cutoff: number | null = options.cutoff ?? null;
+  let cutoffRule: CutoffRule = options.cutoff === undefined ? (dated ? 'latestDate' : 'eachSubjectsLastRecord') : 'given';
+  if (dated && cutoff === null) {
+    let latest = -Infinity;
+    for (let i = 0; i < n; i++) if (Number.isFinite(sd[i]!) && subjectOf[i]! >= 0 && table.date[i]! > latest) latest = table.date[i]!;
+    cutoff = Number.isFinite(latest) ? latest : null;
+    cutoffRule = 'latestDate';
+  }
+  const afterCutoff = (i: number): boolean =>
+    cutoff !== null && (dated ? table.date[i]! > cutoff : cutoffRule === 'given' && sd[i]! > cutoff);
+
+  // Bucket usable rows by subject (counting sort), then sort each subject's rows by (day, row).
+  const rowStatus = new Uint8Array(n).fill(NO_STATUS);
+  const rowVisit = new Int32Array(n).fill(-1);
+  const rowDeviation = new Float64Array(n).fill(NaN);
+  const start = new Int32Array(S + 1);
+  for (let i = 0; i < n; i++) {
+    const s = subjectOf[i]!;
+    if (s < 0 || !Number.isFinite(sd[i]!)) continue;
+    if (afterCutoff(i)) {
+      issues.push(afterCutoffIssue(table, i, cutoff!, dated, options.place));
+      continue;
+    }
+    start[s + 1]!++;
+  }
+  for (let s = 0; s < S; s++) start[s + 1]! += start[s]!;
+  const fill = start.slice(0, S);
+  const idx = new Int32Array(start[S]!);
+  for (let i = 0; i < n; i++) {
+    const s = subjectOf[i]!;
+    if (s < 0 || !Number.isFinite(sd[i]!) || afterCutoff(i)) continue;
+    idx[fill[s]!++] = i;
+  }
+  const byDay = (a: number, b: number): number => sd[a]! - sd[b]! || a - b;
+  for (let s = 0; s < S; s++) sortSegment(idx, start[s]!, start[s + 1]!, byDay);
+
+  const slotStatus = new Uint8Array(S * V).fill(NO_STATUS);
+  const slotRow = new Int32Array(S * V).fill(-1);
+  const subjectInTiming = new Uint8Array(S);
+  const cutoffStudyDay = new Float64Array(S).fill(NaN);
+  const counts = new Float64Array(STATUS_ORDER.length);
+
+  for (let s = 0; s < S; s++) {
+    const a = start[s]!;
+    const b = start[s + 1]!;
+    if (a === b) continue;
+    subjectInTiming[s] = 1;
+    const base = s * V;
+    cutoffStudyDay[s] = dated
+      ? cutoff === null
+        ? NaN
+        : studyDay(cutoff, days.referenceDay[s]!)
+      : cutoff ?? sd[idx[b - 1]!]!;
+    // First pass: candidate visit per record; keep the closest record per visit (earlier wins ties: rows are sorted).
+    for (let j = a; j < b; j++) {
+      const i = idx[j]!;
+      const d = sd[i]!;
+      const v = byLabel ? (labelIndex.get(labelKey(table.visit![i]!)) ?? -1) : order[nearest(sortedTargets, d)]!;
+      rowVisit[i] = v;
+      if (v < 0) continue;
+      const best = slotRow[base + v]!;
+      if (best < 0 || Math.abs(d - target[v]!) < Math.abs(sd[best]! - target[v]!)) slotRow[base + v] = i;
+    }
+    // Second pass: statuses of records.
+    for (let j = a; j < b; j++) {
+      const i = idx[j]!;
+      const v = rowVisit[i]!;
+      const d = sd[i]!;
+      let code: number;
+      if (v < 0) code = EXTRA;
+      else if (slotRow[base + v] === i) code = d < open[v]! ? EARLY : d > close[v]! ? LATE : ON_TIME;
+      else if (byLabel || (d >= open[v]! && d <= close[v]!)) code = REPEAT;
+      else {
+        code = EXTRA;
+        rowVisit[i] = -1;
+      }
+      rowStatus[i] = code;
+      if (code !== EXTRA) rowDeviation[i] = d - target[v]!;
+      counts[code]!++;
+    }
+    // Statuses of scheduled visits.
+    for (let v = 0; v < V; v++) {
+      const r = slotRow[base + v]!;
+      const code = r >= 0 ? rowStatus[r]! : close[v]! < cutoffStudyDay[s]! ? MISSED : NOT_YET_DUE;
+      slotStatus[base + v] = code;
+      if (r < 0) counts[code]!++;
+    }
+  }
+
+  const countObject = Object.fromEntries(STATUS_ORDER.map((k, c) => [k, counts[c]!])) as Record<VisitStatus, number>;
+  return {
+    nVisits: V,
+    nSubjects: S,
+    rowStatus,
+    rowVisit,
+    rowDeviation,
+    slotStatus,
+    slotRow,
+    subjectInTiming,
+    cutoffStudyDay,
+    cutoff,
+    cutoffRule,
+    counts: countObject as StatusCounts,
+    issues,
+  };
+}
+
+/** Index (into ascending targets) of the target nearest to d; a tie goes to the lower index. O(log visits). */
+function nearest(targets: Float64Array, d: number): number {
+  let lo = 0;
+  let hi = targets.length - 1;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (targets[mid]! < d) lo = mid + 1;
+    else hi = mid;
+  }
+  // lo is the first target ≥ d (or the last one); compare with its left neighbour.
+  if (lo > 0 && d - targets[lo - 1]! <= Math.abs(targets[lo]! - d)) return lo - 1;
+  return lo;
+}
+
+/** Sorts idx[a..b) in place: insertion sort for short runs (the usual handful of visits), else the built-in sort. */
+function sortSegment(idx: Int32Array, a: number, b: number, cmp: (x: number, y: number) => number): void {
+  if (b - a > 24) {
+    idx.subarray(a, b).sort(cmp);
+    return;
+  }
+  for (let j = a + 1; j < b; j++) {
+    const x = idx[j]!;
+    let k = j - 1;
+    while (k >= a && cmp(idx[k]!, x) > 0) {
+      idx[k + 1] = idx[k]!;
+      k--;
+    }
+    idx[k + 1] = x;
+  }
+}
+
+function afterCutoffIssue(table: IntakeTable, i: number, cutoff: number, dated: boolean, place: DataPlace | undefined): ScheduleIssue {
+  const sheetRow = table.sheetRows[i]!;
+  const col = dated ? table.mapping.date : table.mapping.studyDay;
+  return {
+    code: 'after-cutoff',
+    severity: 'warning',
+    cell: place !== undefined && col !== undefined ? cellAddress(place.sheet, place.topLeft, col, sheetRow) : null,
+    row: sheetRow,
+    value: dated ? isoDate(table.date[i]!) : String(table.studyDay[i]),
+    use: 'timing',
+    message: dated
+      ? `This visit is dated after the data cut-off ${isoDate(cutoff)}, so it is left out of visit timing.`
+      : `This visit's study day is after the cut-off study day ${cutoff}, so it is left out of visit timing.`,
+  };
+}

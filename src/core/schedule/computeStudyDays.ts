@@ -1,0 +1,89 @@
+import type { IntakeTable } from '../intake/types';
+import { cellAddress } from './address';
+import { labelKey } from './labels';
+import { studyDay } from './studyDay';
+import type { ScheduleIssue, ScheduleVisit, StudyDays } from './types';
+
+/** Where the data range sits, for cell addresses in issues. */
+export interface DataPlace {
+  readonly sheet: string;
+  /** Top-left cell of the range (the header row's first cell), e.g. "A1". */
+  readonly topLeft: string;
+}
+
+/**
+ * Study day of every row usable for visit timing (CDISC SDTM IG: date − reference + 1 on or after the reference,
+ * date − reference before it; no day 0).
+ * - Study-day data (table.timeKind 'studyDay'): the given study day is used as it is.
+ * - Dated data with a reference-date column: the row's own reference date; when that cell is blank, the subject's
+ *   first reference date found on another row.
+ * - Dated data without one: the subject's baseline-visit date, i.e. the date of the subject's record of the schedule's
+ *   first visit (the smallest target day) — found by label when a visit column is mapped (the earliest such record),
+ *   else the subject's earliest dated record.
+ * A row whose study day cannot be computed gets NaN and an issue (the date cell's address and a plain reason); it is
+ * left out of visit timing and of the model's time axis. Cost O(rows + subjects).
+ * Example: a subject dated 45000, 45084, 45168 with no reference column → study days 1, 85, 169.
+ */
+export function computeStudyDays(table: IntakeTable, schedule: readonly ScheduleVisit[], place: DataPlace): StudyDays {
+  const n = table.nRows;
+  const nSubjects = table.subjectIds.length;
+  const days = new Float64Array(n).fill(NaN);
+  const refDay = new Float64Array(nSubjects).fill(NaN);
+  const issues: ScheduleIssue[] = [];
+
+  if (table.timeKind === 'studyDay') {
+    for (let i = 0; i < n; i++) {
+      if (table.usableTiming[i] === 1 && table.subjectIndex[i]! >= 0) days[i] = table.studyDay[i]!;
+    }
+    return { studyDays: days, referenceDay: refDay, issues };
+  }
+
+  const usable = (i: number): boolean =>
+    table.usableTiming[i] === 1 && table.subjectIndex[i]! >= 0 && Number.isFinite(table.date[i]!);
+  const hasRefColumn = table.mapping.reference !== undefined;
+
+  if (hasRefColumn) {
+    for (let i = 0; i < n; i++) {
+      const s = table.subjectIndex[i]!;
+      const r = table.reference[i]!;
+      if (s >= 0 && Number.isFinite(r) && Number.isNaN(refDay[s]!)) refDay[s] = r;
+    }
+  } else {
+    const first = schedule.reduce<ScheduleVisit | null>((a, v) => (a === null || v.targetDay < a.targetDay ? v : a), null);
+    const firstKey = first === null ? null : labelKey(first.label);
+    const byLabel = table.visit !== null;
+    for (let i = 0; i < n; i++) {
+      if (!usable(i)) continue;
+      if (byLabel && (firstKey === null || labelKey(table.visit![i]!) !== firstKey)) continue;
+      const s = table.subjectIndex[i]!;
+      const d = table.date[i]!;
+      if (Number.isNaN(refDay[s]!) || d < refDay[s]!) refDay[s] = d;
+    }
+  }
+
+  const dateColumn = table.mapping.date ?? 0;
+  for (let i = 0; i < n; i++) {
+    if (!usable(i)) continue;
+    const s = table.subjectIndex[i]!;
+    const own = hasRefColumn ? table.reference[i]! : NaN;
+    const ref = Number.isFinite(own) ? own : refDay[s]!;
+    if (Number.isFinite(ref)) {
+      days[i] = studyDay(table.date[i]!, ref);
+      continue;
+    }
+    const sheetRow = table.sheetRows[i]!;
+    const subject = table.subject[i]!;
+    issues.push({
+      code: hasRefColumn ? 'no-reference-date' : 'no-baseline-record',
+      severity: 'warning',
+      cell: cellAddress(place.sheet, place.topLeft, dateColumn, sheetRow),
+      row: sheetRow,
+      value: subject,
+      use: 'timing',
+      message: hasRefColumn
+        ? `Subject ${subject} has no reference date on any row, so the study day of this visit cannot be computed; the row is left out of visit timing.`
+        : `Subject ${subject} has no record of the first scheduled visit (the baseline), so the study day of this visit cannot be computed; the row is left out of visit timing.`,
+    });
+  }
+  return { studyDays: days, referenceDay: refDay, issues };
+}

@@ -1,0 +1,100 @@
+import { describe, expect, it } from 'vitest';
+import { parseSchedule } from '../../../src/core/schedule/parseSchedule';
+import { STARTER_SCHEDULE, starterScheduleCells } from '../../../src/core/schedule/starter';
+
+describe('parseSchedule', () => {
+  it('reads the CSV header and numeric text, and sorts visits by target day', () => {
+    const r = parseSchedule(
+      [
+        ['visit', 'target_day', 'days_before', 'days_after'],
+        ['Week 24', '169', '7', ' 7 '],
+        ['Baseline', 1, 0, 0],
+      ],
+      'egfr-schedule.csv',
+      'A1',
+    );
+    expect(r).toEqual({
+      ok: true,
+      schedule: [
+        { label: 'Baseline', targetDay: 1, before: 0, after: 0 },
+        { label: 'Week 24', targetDay: 169, before: 7, after: 7 },
+      ],
+      issues: [],
+    });
+  });
+
+  it('reads back the starter sheet and the starter CSV unchanged (round trip)', () => {
+    expect(parseSchedule(starterScheduleCells(), 'Schedule', 'A1').schedule).toEqual(STARTER_SCHEDULE);
+    expect(parseSchedule(starterScheduleCells({ csv: true }), 'Schedule', 'A1').schedule).toEqual(STARTER_SCHEDULE);
+  });
+
+  it('accepts our own headings in any case and column order, and skips blank rows', () => {
+    const r = parseSchedule(
+      [
+        ['DAYS ALLOWED AFTER', 'visit', 'Days allowed before', 'Target Study Day'],
+        [3, 'Week 12', 3, 85],
+        [null, '', undefined, ''],
+      ],
+      'Schedule',
+      'C3',
+    );
+    expect(r.ok).toBe(true);
+    expect(r.schedule).toEqual([{ label: 'Week 12', targetDay: 85, before: 3, after: 3 }]);
+  });
+
+  it('reports every bad cell with its address: blank and duplicate labels, day 0, fractions, negative allowances', () => {
+    const r = parseSchedule(
+      [
+        ['Visit', 'Target study day', 'Days allowed before', 'Days allowed after'],
+        ['Week 12', 85, 7, 7],
+        ['week12', 90, 7, 7], // same label ignoring case and spaces
+        ['', 100, 1, 1],
+        ['Day zero', 0, 0, 0],
+        ['Half', 12.5, 0, 0],
+        ['Neg', 200, -1, 'x'],
+      ],
+      'My Schedule',
+      'B2',
+    );
+    expect(r.ok).toBe(false);
+    expect(r.issues.map((i) => [i.code, i.cell, i.value])).toEqual([
+      ['schedule-duplicate-label', "'My Schedule'!B4", 'week12'],
+      ['schedule-blank-label', "'My Schedule'!B5", ''],
+      ['schedule-zero-target-day', "'My Schedule'!C6", '0'],
+      ['schedule-bad-target-day', "'My Schedule'!C7", '12.5'],
+      ['schedule-bad-allowance', "'My Schedule'!D8", '-1'],
+      ['schedule-bad-allowance', "'My Schedule'!E8", 'x'],
+    ]);
+    expect(r.issues[0]!.message).toBe(`The visit label "week12" repeats the label at 'My Schedule'!B3 (labels are compared ignoring case and spaces).`);
+    expect(r.schedule).toEqual([{ label: 'Week 12', targetDay: 85, before: 7, after: 7 }]);
+  });
+
+  it('warns about overlapping windows without blocking', () => {
+    const r = parseSchedule(
+      [
+        ['visit', 'target_day', 'days_before', 'days_after'],
+        ['A', 10, 0, 5],
+        ['B', 15, 0, 0], // day 15 is in both windows (bounds inclusive)
+        ['C', 30, 0, 0],
+      ],
+      'S',
+      'A1',
+    );
+    expect(r.ok).toBe(true);
+    expect(r.issues.map((i) => [i.code, i.severity, i.cell])).toEqual([['schedule-overlap', 'warning', 'S!B3']]);
+  });
+
+  it('reports missing columns and an empty table', () => {
+    expect(parseSchedule([['visit', 'target_day']], 'S', 'A1').issues.map((i) => i.code)).toEqual(['schedule-empty']);
+    const r = parseSchedule([['visit', 'target_day'], ['A', 1]], 'S', 'A1');
+    expect(r.ok).toBe(false);
+    expect(r.issues.map((i) => i.code)).toEqual(['schedule-missing-column', 'schedule-missing-column']);
+  });
+
+  it('does not mutate the cell grid', () => {
+    const cells = starterScheduleCells();
+    const copy = JSON.parse(JSON.stringify(cells));
+    parseSchedule(cells, 'Schedule', 'A1');
+    expect(cells).toEqual(copy);
+  });
+});

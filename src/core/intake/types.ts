@@ -47,6 +47,10 @@ export interface IntakeOptions {
   readonly mode: Mode;
   /** The user's confirmed mapping; when absent the detected one is used. */
   readonly mapping?: ColumnMapping;
+  /** How text in numeric roles (value, study day, numeric covariates) is treated: 'reject' (default, for spreadsheet
+   * cells, where a number typed as text is a problem) or 'accept' (for CSV input, where every cell is text): then text
+   * that is a plain decimal number (optional sign, digits, optional fraction, optional exponent) is taken. */
+  readonly numericText?: 'reject' | 'accept';
 }
 
 /** The uses a row can serve (SPEC §3): visit timing, and the model. */
@@ -74,7 +78,13 @@ export type IssueCode =
   | 'text-in-numeric'
   | 'error-value'
   | 'blank-arm'
-  | 'bad-covariate';
+  | 'bad-covariate'
+  | 'blank-row' // every cell of the data row is blank (one warning per use)
+  | 'empty-header' // the header row has no text at all
+  | 'column-outside-range' // a mapping points at a column the range does not have
+  | 'partial-date' // an ISO 8601 date with only a year or a year and month, e.g. "2025-03"
+  | 'not-finite' // a number that is not finite (NaN or infinite) in a numeric role
+  | 'too-few-arms'; // unblinded mode with fewer than two arms among usable rows
 
 export interface Issue {
   readonly code: IssueCode;
@@ -146,4 +156,8 @@ export type IntakeResult =
 export interface DetectedMapping {
   readonly mapping: ColumnMapping;
   readonly reasons: Readonly<Partial<Record<Exclude<Role, 'covariate'>, string>>>;
+  /** Columns that could serve as covariates (e.g. a baseline value, BASE); proposed only, never added to the mapping. */
+  readonly covariateSuggestions?: readonly number[];
+  /** Plain sentences about recognised columns that were not mapped (e.g. CHG is a change score, never the value). */
+  readonly notes?: readonly string[];
 }

@@ -1,0 +1,29 @@
+/** The intake layer: cells in, typed columns and issues out. */
+export type * from './types';
+export { readTable } from './readTable';
+export { detectMapping } from './detect';
+export { renderMessage, roleWords, type MessageInput } from './messages';
+export {
+  columnLetters,
+  columnIndex,
+  parseCell,
+  formatAddress,
+  sheetNeedsQuotes,
+  MAX_COLUMN_INDEX,
+  MAX_ROW,
+  type CellRef,
+} from './cellAddress';
+export {
+  serialToDayNumber,
+  isoToDayNumber,
+  dayNumberToIso,
+  daysFromCivil,
+  civilFromDays,
+  daysInMonth,
+  OFFSET_1904,
+  FIRST_DAY,
+  LAST_DAY,
+  type IsoDateResult,
+} from './dates';
+export { ERROR_LITERALS, isBlankCell, isErrorCell, cellText, parsePlainDecimal } from './cellText';
+export { IntakeUsageError } from './errors';

@@ -1,0 +1,115 @@
+/**
+ * The one place where issue sentences are written. Every issue's message is rendered here from its code, role, value,
+ * cell and use, plus an optional short context (a column name, a subject id, a count) for the few codes that need it.
+ */
+import type { IssueCode, Role, Use } from './types';
+
+/** What a message is rendered from. */
+export interface MessageInput {
+  readonly code: IssueCode;
+  readonly role: Role | null;
+  /** The offending value as text ("" for blank). */
+  readonly value: string;
+  readonly cell: string | null;
+  readonly use: Use | null;
+  /** Extra words some codes need: the column name of a covariate, the subject of an arm conflict, a count. */
+  readonly context?: string;
+}
+
+const ROLE_WORDS: Readonly<Record<Role, string>> = {
+  subject: 'subject',
+  date: 'visit date',
+  studyDay: 'study day',
+  reference: 'reference date',
+  visit: 'visit label',
+  value: 'value',
+  arm: 'arm',
+  site: 'site',
+  covariate: 'covariate',
+};
+
+/** Plain words for a role, e.g. "visit date" for 'date'. */
+export function roleWords(role: Role): string {
+  return ROLE_WORDS[role];
+}
+
+function useWords(use: Use | null): string {
+  if (use === 'timing') return 'left out of the visit-timing checks';
+  if (use === 'model') return 'left out of the model';
+  return 'kept';
+}
+
+function quoted(value: string): string {
+  return `"${value}"`;
+}
+
+/**
+ * The plain sentence for an issue. Row-level sentences start with the cell address.
+ * @example renderMessage({ code: 'blank-value', role: 'value', value: '', cell: 'Visits!F7', use: 'model' })
+ * // "Visits!F7: the value is blank, so the row is left out of the model."
+ */
+export function renderMessage(m: MessageInput): string {
+  const at = m.cell === null ? '' : `${m.cell}: `;
+  const role = m.role === null ? 'cell' : m.role === 'covariate' && m.context !== undefined ? `covariate ${quoted(m.context)}` : ROLE_WORDS[m.role];
+  const left = useWords(m.use);
+  switch (m.code) {
+    case 'empty-header':
+      return 'The header row is empty: the first row of the range must name the columns.';
+    case 'no-rows':
+      return 'The range has a header row but no data rows.';
+    case 'no-subject-column':
+      return 'No column is mapped to the subject; every row needs a subject.';
+    case 'no-time-column':
+      return 'No column is mapped to a visit date or a study day; visit timing and the model need one of them.';
+    case 'no-value-column':
+      return 'No column is mapped to the value: the visit-timing checks can run, but every row is left out of the model.';
+    case 'no-arm-column':
+      return 'Unblinded mode needs a column mapped to the arm.';
+    case 'duplicate-role':
+      return `Column ${quoted(m.value)} is mapped to more than one role (${m.context ?? ''}); a column can play one role only.`;
+    case 'column-outside-range':
+      return `The ${role} is mapped to column ${m.value}, which is outside the range.`;
+    case 'subject-in-two-arms':
+      return `${at}subject ${quoted(m.context ?? '')} is in arm ${quoted(m.value)} here but in another arm elsewhere; a subject must stay in one arm.`;
+    case 'too-few-subjects-per-arm':
+      return `Arm ${quoted(m.value)} has ${m.context ?? 'fewer than two'} subject(s) with usable rows; unblinded mode needs at least two subjects in every arm.`;
+    case 'too-few-arms':
+      return `Unblinded mode needs at least two arms; the usable rows have ${m.context ?? 'fewer'}.`;
+    case 'no-usable-rows':
+      return m.use === 'model'
+        ? 'No row has everything the model needs (a numeric value, and an arm and covariates where mapped), so the model cannot run.'
+        : 'No data row has both a subject and a valid visit date or study day, so there is nothing to analyse.';
+    case 'blank-row':
+      return `${at}the whole row is blank, so it is ${left}.`;
+    case 'blank-subject':
+      return `${at}the subject is blank, so the row is ${left}.`;
+    case 'blank-time':
+      return `${at}the ${role} is blank, so the row is ${left}.`;
+    case 'bad-date':
+      return m.context === 'serial'
+        ? `${at}${m.value} is not a date serial between 1900-01-01 and 9999-12-31 in this workbook's date system (in the 1900 system, serial 60 stands for 1900-02-29, a day that never existed), so the row is ${left}.`
+        : `${at}${quoted(m.value)} is not a valid ${role}: date text must be an ISO 8601 date such as 2025-03-04 (a real day, from 1900-01-01 to 9999-12-31), so the row is ${left}.`;
+    case 'partial-date':
+      return `${at}${quoted(m.value)} gives only a year or a year and month; the full date is needed and is not guessed. The row is ${left}.`;
+    case 'bad-reference-date':
+      return `${at}${quoted(m.value)} is not a valid date, so this row's reference date is treated as missing; the row is kept.`;
+    case 'bad-study-day':
+      return /^[+-]?0+(\.0*)?$/.test(m.value)
+        ? `${at}study day 0 does not exist: by the CDISC convention the reference date is day 1 and the day before it is day -1. The row is ${left}.`
+        : `${at}${quoted(m.value)} is not a study day: a study day is a whole number other than 0. The row is ${left}.`;
+    case 'blank-value':
+      return `${at}the ${role} is blank, so the row is ${left}.`;
+    case 'text-in-numeric':
+      return `${at}${quoted(m.value)} is not a number, and the ${role} must be a number, so the row is ${left}.`;
+    case 'not-finite':
+      return `${at}${quoted(m.value)} is not a finite number, so the row is ${left}.`;
+    case 'error-value':
+      return m.use === null
+        ? `${at}the spreadsheet error value ${m.value} in the ${role} column is treated as blank; the row is kept.`
+        : `${at}the ${role} holds the spreadsheet error value ${m.value}, so the row is ${left}.`;
+    case 'blank-arm':
+      return `${at}the arm is blank, so the row is ${left}.`;
+    case 'bad-covariate':
+      return `${at}covariate ${quoted(m.context ?? '')} is treated as categorical because this cell holds the text ${quoted(m.value)}; make every cell a number to use it as a numeric covariate.`;
+  }
+}

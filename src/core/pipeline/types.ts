@@ -35,6 +35,11 @@ export interface AnalysisSettings {
   readonly inputLabel: string;
   /** ISO timestamp of the run; passed in so the core stays pure and testable. */
   readonly runAt: string;
+  /** How intake treats numbers written as text: 'reject' (default, spreadsheet cells) or 'accept' (CSV input, where
+   * every cell is text). Passed on to readTable as IntakeOptions.numericText. */
+  readonly numericText?: 'accept' | 'reject';
+  /** The tool's version, for the analysis record and the JSON (the front end knows it; core has no package.json). */
+  readonly toolVersion?: string;
 }
 
 export interface ExcludedRow {

@@ -1,0 +1,65 @@
+import { readFile } from 'node:fs/promises';
+import { basename, extname } from 'node:path';
+import type { CellValue, DateSystem } from '../core/intake/types';
+import { parseSchedule } from '../core/schedule';
+import type { ScheduleVisit } from '../core/schedule/types';
+import { readCsvText, readXlsxBuffer } from '../files';
+import { UsageError } from './args';
+
+/** The data file as cells, with where they came from (for cell addresses and the analysis record). */
+export interface DataInput {
+  readonly label: string;
+  readonly sheet: string;
+  readonly topLeft: string;
+  readonly dateSystem: DateSystem;
+  readonly cells: CellValue[][];
+  /** CSV cells are all text, so intake accepts numbers written as text. */
+  readonly numericText: 'accept' | 'reject';
+}
+
+async function readBytes(path: string, what: string): Promise<Buffer> {
+  try {
+    return await readFile(path);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : (e as Error).message;
+    throw new UsageError(`Cannot read the ${what} "${path}": ${why}.`);
+  }
+}
+
+/** Reads --data: a .csv file (sheet name = the file name without extension, as a spreadsheet program shows it) or
+ * one worksheet of an .xlsx file. */
+export async function readDataFile(path: string, sheet: string | undefined): Promise<DataInput> {
+  const ext = extname(path).toLowerCase();
+  const bytes = await readBytes(path, 'data file');
+  if (ext === '.csv' || ext === '.txt') {
+    if (sheet !== undefined) throw new UsageError('--sheet applies to .xlsx files only.');
+    const cells = readCsvText(new TextDecoder('utf-8').decode(bytes));
+    const name = basename(path, extname(path));
+    return { label: basename(path), sheet: name, topLeft: 'A1', dateSystem: 1900, cells, numericText: 'accept' };
+  }
+  if (ext === '.xlsx' || ext === '.xlsm') {
+    const read = await readXlsxBuffer(new Uint8Array(bytes), sheet);
+    return {
+      label: `${basename(path)} [${read.sheet}]`,
+      sheet: read.sheet,
+      topLeft: read.topLeft,
+      dateSystem: read.dateSystem,
+      cells: read.cells,
+      numericText: 'reject',
+    };
+  }
+  throw new UsageError(`--data must be a .csv or .xlsx file; got "${path}".`);
+}
+
+/** Reads --schedule (CSV, header visit,target_day,days_before,days_after). Problems come back as lines to print. */
+export async function readScheduleFile(
+  path: string,
+): Promise<{ readonly ok: true; readonly schedule: readonly ScheduleVisit[]; readonly warnings: readonly string[] } | { readonly ok: false; readonly errors: readonly string[] }> {
+  const bytes = await readBytes(path, 'schedule file');
+  const cells = readCsvText(new TextDecoder('utf-8').decode(bytes));
+  const parsed = parseSchedule(cells, basename(path, extname(path)), 'A1');
+  const line = (i: { cell: string | null; message: string }): string => (i.cell === null ? i.message : `${i.cell}: ${i.message}`);
+  if (!parsed.ok) return { ok: false, errors: parsed.issues.filter((i) => i.severity === 'error').map(line) };
+  return { ok: true, schedule: parsed.schedule, warnings: parsed.issues.map(line) };
+}

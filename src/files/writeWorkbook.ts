@@ -1,0 +1,168 @@
+import ExcelJS from 'exceljs';
+import type { ChartSpec, NumberFormat, SheetCell, SheetSpec, TableBlock } from '../core/report/types';
+import { EXCEL_FORMAT_CODES } from '../core/report/formats';
+import { uniqueSheetNames, uniqueTableName } from './sheetNames';
+
+/** The note placed where a chart would be: exceljs cannot draw native charts, so the sheet holds its numbers. */
+export const CHART_NOTE = 'The chart itself is drawn in the Excel add-in and on the browser page; its numbers are in the table below.';
+const CHART_NOTE_SOURCE = (table: string): string =>
+  `The chart itself is drawn in the Excel add-in and on the browser page; its numbers are in the table "${table}" on this sheet.`;
+
+const TITLE_FONT: Partial<ExcelJS.Font> = { bold: true, size: 14 };
+const HEADING_FONT: Partial<ExcelJS.Font> = { bold: true, size: 12 };
+const CAPTION_FONT: Partial<ExcelJS.Font> = { bold: true };
+const CAUTION_FONT: Partial<ExcelJS.Font> = { bold: true, italic: true, color: { argb: 'FF9C2A00' } };
+const MIN_WIDTH = 8;
+const MAX_WIDTH = 60;
+
+/** A table cell as exceljs should store it: text stays a string (never a formula), non-finite numbers become blank. */
+function storedValue(v: SheetCell, format: NumberFormat): string | number | null {
+  if (v === null) return null;
+  if (typeof v === 'string') return v;
+  if (!Number.isFinite(v)) return null;
+  return format === 'text' ? String(v) : v;
+}
+
+/** The data table behind a chart: one row per distinct x (in order of first appearance), one column per series
+ * (and its interval bounds when given). */
+function chartTable(chart: ChartSpec): TableBlock {
+  const xs: (number | string)[] = [];
+  const seen = new Map<string, number>();
+  for (const s of chart.series) {
+    for (const x of s.x) {
+      const key = `${typeof x}:${String(x)}`;
+      if (!seen.has(key)) {
+        seen.set(key, xs.length);
+        xs.push(x);
+      }
+    }
+  }
+  const allNumeric = xs.every((x) => typeof x === 'number');
+  const columns: { header: string; format: NumberFormat }[] = [{ header: chart.xLabel || 'x', format: allNumeric ? 'decimal2' : 'text' }];
+  const rows: SheetCell[][] = xs.map((x) => [x]);
+  for (const s of chart.series) {
+    const parts: [string, readonly (number | null)[] | undefined][] = [
+      [s.name, s.y],
+      [`${s.name} lower`, s.lower],
+      [`${s.name} upper`, s.upper],
+    ];
+    for (const [header, values] of parts) {
+      if (!values) continue;
+      columns.push({ header, format: 'decimal2' });
+      for (const row of rows) row.push(null);
+      s.x.forEach((x, i) => {
+        const at = seen.get(`${typeof x}:${String(x)}`);
+        if (at !== undefined) rows[at]![columns.length - 1] = values[i] ?? null;
+      });
+    }
+  }
+  return { kind: 'table', id: `${chart.id}Data`, caption: `${chart.title}: data`, columns, rows };
+}
+
+/** Header texts made unique within one table (Excel requires it): repeats get " 2", " 3", ... */
+function uniqueHeaders(headers: readonly string[]): string[] {
+  const used = new Set<string>();
+  return headers.map((h) => {
+    const base = h.trim() === '' ? 'Column' : h;
+    let name = base;
+    for (let k = 2; used.has(name.toLowerCase()); k++) name = `${base} ${k}`;
+    used.add(name.toLowerCase());
+    return name;
+  });
+}
+
+interface SheetState {
+  readonly ws: ExcelJS.Worksheet;
+  row: number;
+  readonly widths: number[];
+}
+
+function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font> | null): void {
+  const cell = st.ws.getCell(st.row, 1);
+  cell.value = text;
+  if (font) cell.font = font;
+  st.row += 2;
+}
+
+/** Writes one table (caption row, then a real Excel table) and returns the header's row number. */
+function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): number {
+  if (t.caption) {
+    st.ws.getCell(st.row, 1).value = t.caption;
+    st.ws.getCell(st.row, 1).font = CAPTION_FONT;
+    st.row += 1;
+  }
+  const headerRow = st.row;
+  const headers = uniqueHeaders(t.columns.map((c) => c.header));
+  const width = t.columns.length;
+  const rows = t.rows.map((r) => t.columns.map((c, j) => storedValue(r[j] ?? null, c.format)));
+  // An Excel table needs at least one data row; an empty result gets one blank row.
+  if (rows.length === 0) rows.push(new Array<null>(width).fill(null));
+  st.ws.addTable({
+    name: uniqueTableName(t.id, tableNames),
+    ref: `A${headerRow}`,
+    headerRow: true,
+    totalsRow: false,
+    style: { theme: 'TableStyleMedium2', showRowStripes: true },
+    columns: headers.map((name) => ({ name, filterButton: true })),
+    rows,
+  });
+  t.columns.forEach((c, j) => {
+    const code = EXCEL_FORMAT_CODES[c.format];
+    for (let i = 0; i < rows.length; i++) st.ws.getCell(headerRow + 1 + i, j + 1).numFmt = code;
+    const wanted = Math.min(MAX_WIDTH, Math.max(MIN_WIDTH, c.width ?? 0, (headers[j] ?? '').length + 3));
+    st.widths[j] = Math.max(st.widths[j] ?? 0, wanted);
+  });
+  st.row = headerRow + rows.length + 2;
+  return headerRow;
+}
+
+/**
+ * Renders sheet specs into an .xlsx workbook (ECMA-376) and returns its bytes. Per sheet: a title row, then each
+ * block in order — paragraphs (cautions in bold italic), tables as real Excel tables with header row, filter
+ * buttons, number formats from EXCEL_FORMAT_CODES and column widths, and for each chart a note plus the chart's data
+ * table (exceljs cannot draw native charts). A sheet that is one big table gets its header frozen. Text is always
+ * stored as a string cell, never as a formula: a subject id "=1+1" stays the text "=1+1". Sheet names are made
+ * legal and unique (≤ 31 characters, none of \ / ? * : [ ]). Runs in Node and in the browser. Cost O(cells).
+ *
+ * Example: writeWorkbook([{ name: 'A', title: 'T', blocks: [] }]) → bytes of a workbook with sheet "A", A1 = "T".
+ */
+export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8Array> {
+  const wb = new ExcelJS.Workbook();
+  wb.creator = 'longipane';
+  const names = uniqueSheetNames(sheets.map((s) => s.name));
+  const tableNames = new Set<string>();
+  sheets.forEach((spec, k) => {
+    const ws = wb.addWorksheet(names[k]!);
+    const st: SheetState = { ws, row: 1, widths: [] };
+    ws.getCell(1, 1).value = spec.title;
+    ws.getCell(1, 1).font = TITLE_FONT;
+    st.row = 3;
+    const tables = spec.blocks.filter((b) => b.kind === 'table').length;
+    const charts = spec.blocks.filter((b) => b.kind === 'chart').length;
+    let frozenAt = 0;
+    for (const b of spec.blocks) {
+      if (b.kind === 'paragraph') {
+        const font = b.style === 'caution' ? CAUTION_FONT : b.style === 'heading' ? HEADING_FONT : null;
+        writeParagraph(st, b.text, font);
+      } else if (b.kind === 'table') {
+        const header = writeTable(st, b, tableNames);
+        if (tables === 1 && charts === 0) frozenAt = header;
+      } else {
+        writeParagraph(st, b.chart.title, HEADING_FONT);
+        st.row -= 1;
+        if (b.chart.sourceTable !== undefined) {
+          writeParagraph(st, CHART_NOTE_SOURCE(b.chart.sourceTable), null);
+        } else {
+          writeParagraph(st, CHART_NOTE, null);
+          writeTable(st, chartTable(b.chart), tableNames);
+        }
+      }
+    }
+    st.widths.forEach((w, j) => {
+      if (w > 0) ws.getColumn(j + 1).width = w;
+    });
+    if (frozenAt > 0) ws.views = [{ state: 'frozen', xSplit: 0, ySplit: frozenAt, topLeftCell: `A${frozenAt + 1}` }];
+  });
+  const out = await wb.xlsx.writeBuffer();
+  return out instanceof Uint8Array ? out : new Uint8Array(out as ArrayBuffer);
+}

@@ -1,0 +1,147 @@
+import { describe, expect, it } from 'vitest';
+import ExcelJS from 'exceljs';
+import { writeWorkbook, CHART_NOTE } from '../../src/files/writeWorkbook';
+import { CAUTIONS } from '../../src/core/report/cautions';
+import type { SheetSpec } from '../../src/core/report/types';
+
+async function load(bytes: Uint8Array): Promise<ExcelJS.Workbook> {
+  const wb = new ExcelJS.Workbook();
+  await wb.xlsx.load(bytes as unknown as Parameters<typeof wb.xlsx.load>[0]);
+  return wb;
+}
+
+/** Tables as exceljs reads them back from the file (name and range). */
+function tablesOf(ws: ExcelJS.Worksheet): { name: string; ref: string; headers: string[] }[] {
+  return ws.getTables().map((t) => {
+    const model = (t as unknown as { table: { name: string; tableRef: string; columns: { name: string }[] } }).table;
+    return { name: model.name, ref: model.tableRef, headers: model.columns.map((c) => c.name) };
+  });
+}
+
+const listing: SheetSpec = {
+  name: 'Deviations',
+  title: 'Visits out of window',
+  blocks: [
+    { kind: 'paragraph', text: CAUTIONS[0]!, style: 'caution' },
+    { kind: 'paragraph', text: 'Listing of early, late and missed visits.' },
+    {
+      kind: 'table',
+      id: 'Listing',
+      caption: 'Deviation listing',
+      columns: [
+        { header: 'Subject', format: 'text', width: 14 },
+        { header: 'Visit date', format: 'date' },
+        { header: 'Days off', format: 'integer' },
+        { header: 'p', format: 'pvalue' },
+      ],
+      rows: [
+        ['=1+1', 45663, -9, 0.00001],
+        [1001, 45700, 12, NaN],
+        ['+SUM(A1)', null, null, null],
+      ],
+    },
+  ],
+};
+
+describe('writeWorkbook', () => {
+  it('writes user text as string cells, never formulas: a subject id "=1+1" stays the text "=1+1"', async () => {
+    const wb = await load(await writeWorkbook([listing]));
+    const ws = wb.getWorksheet('Deviations')!;
+    const subject = ws.getCell('A9');
+    expect(subject.value).toBe('=1+1');
+    expect(subject.type).toBe(ExcelJS.ValueType.String);
+    expect(subject.formula).toBeUndefined();
+    expect(ws.getCell('A11').type).toBe(ExcelJS.ValueType.String);
+    // A number in a text column is written as its text.
+    expect(ws.getCell('A10').value).toBe('1001');
+  });
+
+  it('puts the title in A1, emphasises cautions and writes each table as a real Excel table with its header row', async () => {
+    const wb = await load(await writeWorkbook([listing]));
+    const ws = wb.getWorksheet('Deviations')!;
+    expect(ws.getCell('A1').value).toBe('Visits out of window');
+    expect(ws.getCell('A1').font?.bold).toBe(true);
+    expect(ws.getCell('A3').value).toBe(CAUTIONS[0]);
+    expect(ws.getCell('A3').font?.bold).toBe(true);
+    expect(ws.getCell('A5').value).toBe('Listing of early, late and missed visits.');
+    expect(ws.getCell('A5').font?.bold).toBeFalsy();
+    expect(ws.getCell('A7').value).toBe('Deviation listing');
+    expect(ws.getCell('A8').value).toBe('Subject');
+    expect(tablesOf(ws)).toEqual([{ name: 'Listing', ref: 'A8:D11', headers: ['Subject', 'Visit date', 'Days off', 'p'] }]);
+  });
+
+  it('applies the number-format codes of report/formats.ts and leaves non-finite numbers blank', async () => {
+    const wb = await load(await writeWorkbook([listing]));
+    const ws = wb.getWorksheet('Deviations')!;
+    expect(ws.getCell('A9').numFmt).toBe('@');
+    expect(ws.getCell('B9').numFmt).toBe('yyyy-mm-dd');
+    // exceljs reads a date-formatted serial back as a Date: 45663 is 2025-01-06 (exact identity, ECMA-376 §18.17.4.1:
+    // serial = days since 1899-12-30).
+    expect(ws.getCell('B9').value).toEqual(new Date(Date.UTC(2025, 0, 6)));
+    expect(ws.getCell('C9').numFmt).toBe('0');
+    expect(ws.getCell('D9').numFmt).toBe('[<0.0001]"<0.0001";0.0000');
+    expect(ws.getCell('D10').value).toBeNull();
+  });
+
+  it('freezes the header of a sheet that is one big table and sets column widths', async () => {
+    const wb = await load(await writeWorkbook([listing]));
+    const ws = wb.getWorksheet('Deviations')!;
+    expect(ws.views[0]).toMatchObject({ state: 'frozen', ySplit: 8 });
+    expect(ws.getColumn(1).width).toBe(14);
+  });
+
+  it('makes sheet names legal and unique, and table names unique across the workbook', async () => {
+    const table = listing.blocks[2]!;
+    const sheets: SheetSpec[] = [
+      { name: 'Model: arms/time?', title: 'A', blocks: [table] },
+      { name: 'model- arms-time-', title: 'B', blocks: [table] },
+    ];
+    const wb = await load(await writeWorkbook(sheets));
+    expect(wb.worksheets.map((w) => w.name)).toEqual(['Model- arms-time-', 'model- arms-time- (2)']);
+    expect(tablesOf(wb.worksheets[1]!)[0]!.name).toBe('Listing_2');
+  });
+
+  it('writes a chart as a note and its data table, since the file format writer cannot draw native charts', async () => {
+    const sheet: SheetSpec = {
+      name: 'Trend',
+      title: 'Mean over time',
+      blocks: [
+        {
+          kind: 'chart',
+          chart: {
+            kind: 'line',
+            id: 'Means',
+            title: 'Observed means',
+            xLabel: 'Study day',
+            yLabel: 'eGFR',
+            series: [
+              { name: 'Placebo', x: [1, 85], y: [55, 54], lower: [53, 52], upper: [57, 56] },
+              { name: 'Active', x: [1, 169], y: [56, null] },
+            ],
+          },
+        },
+      ],
+    };
+    const wb = await load(await writeWorkbook([sheet]));
+    const ws = wb.getWorksheet('Trend')!;
+    expect(ws.getCell('A3').value).toBe('Observed means');
+    expect(ws.getCell('A4').value).toBe(CHART_NOTE);
+    const [t] = tablesOf(ws);
+    expect(t!.headers).toEqual(['Study day', 'Placebo', 'Placebo lower', 'Placebo upper', 'Active']);
+    const row = (r: number): unknown[] => [1, 2, 3, 4, 5].map((c) => ws.getCell(r, c).value);
+    const top = Number(/^A(\d+)/.exec(t!.ref)![1]);
+    expect(row(top + 1)).toEqual([1, 55, 53, 57, 56]);
+    expect(row(top + 2)).toEqual([85, 54, 52, 56, null]);
+    expect(row(top + 3)).toEqual([169, null, null, null, null]);
+  });
+
+  it('gives an empty table one blank row so the file stays valid', async () => {
+    const sheet: SheetSpec = {
+      name: 'Empty',
+      title: 'Nothing due',
+      blocks: [{ kind: 'table', id: 'Due', caption: 'Upcoming', columns: [{ header: 'Subject', format: 'text' }], rows: [] }],
+    };
+    const wb = await load(await writeWorkbook([sheet]));
+    expect(tablesOf(wb.getWorksheet('Empty')!)[0]!.ref).toBe('A4:A5');
+  });
+});

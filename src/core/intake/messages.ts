@@ -109,6 +109,14 @@ export function renderMessage(m: MessageInput): string {
         : `${at}the ${role} holds the spreadsheet error value ${m.value}, so the row is ${left}.`;
     case 'blank-arm':
       return `${at}the arm is blank, so the row is ${left}.`;
+    case 'no-reference-date':
+      return `${at}subject ${quoted(m.value)} has no reference date on any row, so the row is ${left}.`;
+    case 'no-baseline-record':
+      return `${at}subject ${quoted(m.value)} has no dated record of the first scheduled visit to count study days from, so the row is ${left}.`;
+    case 'after-cutoff':
+      return `${at}the record is dated after the data cut-off, so it is ${left}.`;
+    case 'model-not-fitted':
+      return `The model could not be fitted${m.context === undefined ? '' : `: ${m.context}`}. The visit-timing results stand.`;
     case 'bad-covariate':
       return `${at}covariate ${quoted(m.context ?? '')} is treated as categorical because this cell holds the text ${quoted(m.value)}; make every cell a number to use it as a numeric covariate.`;
   }

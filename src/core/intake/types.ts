@@ -84,7 +84,12 @@ export type IssueCode =
   | 'column-outside-range' // a mapping points at a column the range does not have
   | 'partial-date' // an ISO 8601 date with only a year or a year and month, e.g. "2025-03"
   | 'not-finite' // a number that is not finite (NaN or infinite) in a numeric role
-  | 'too-few-arms'; // unblinded mode with fewer than two arms among usable rows
+  | 'too-few-arms' // unblinded mode with fewer than two arms among usable rows
+  // Raised by later layers and passed on in the run's one issue list (src/core/pipeline):
+  | 'no-reference-date' // schedule: a dated row whose subject has no reference date
+  | 'no-baseline-record' // schedule: a dated row whose subject has no record of the first scheduled visit
+  | 'after-cutoff' // schedule: a record dated after the data cut-off
+  | 'model-not-fitted'; // pipeline: the model could not be fitted (the visit-timing results still stand)
 
 export interface Issue {
   readonly code: IssueCode;

@@ -1,0 +1,160 @@
+/**
+ * Renders a SheetSpec into a new worksheet: title, paragraphs, real tables with number formats, native charts, column
+ * widths and frozen rows. Never writes into an existing sheet. Every text cell gets the text format "@" before its
+ * value is written, so user text such as "=1+1" stays text and never becomes a formula.
+ */
+import type { DateSystem } from '../core/intake/types';
+import type { SheetSpec } from '../core/report/types';
+import type { WrittenSheet } from '../taskpane/actions';
+import { rangeAddress } from './address';
+import { ExcelAdapterError } from './errors';
+import type { CellPatch, ChartPlan, PatchStyle, SheetLayout } from './layout';
+import { layoutSheet } from './layout';
+import { isPayloadTooLarge } from './readRange';
+import { uniqueSheetName, uniqueTableName } from './sheetNames';
+import { halvePatch, planWrites } from './writePlan';
+
+export interface RenderOptions {
+  readonly dateSystem: DateSystem;
+  /** Called after each request with the fraction of the sheet written (0 to 1). */
+  readonly onProgress?: (fraction: number) => void;
+  /** Aimed-for bytes per write request (default 1,500,000, under a third of the web host's 5 MB limit). */
+  readonly targetBytes?: number;
+  /** Most cells per write request (default 200,000). */
+  readonly maxCells?: number;
+}
+
+/** Points per character of column width: an approximation for the default font (common practice: about 7). */
+const POINTS_PER_CHARACTER = 7;
+
+const CAUTION_COLOUR = '#9C2B00';
+
+/** Creates the sheet under a name no existing sheet has (ignoring case), in one request. */
+async function addSheet(wanted: string): Promise<string> {
+  return Excel.run(async (context) => {
+    const sheets = context.workbook.worksheets;
+    sheets.load('items/name');
+    await context.sync();
+    const name = uniqueSheetName(wanted, sheets.items.map((s) => s.name));
+    sheets.add(name);
+    await context.sync();
+    return name;
+  });
+}
+
+function applyStyle(range: Excel.Range, style: PatchStyle): void {
+  if (style === 'normal') return;
+  range.format.font.bold = true;
+  if (style === 'title') range.format.font.size = 14;
+  if (style === 'heading') range.format.font.size = 12;
+  if (style === 'caution') range.format.font.color = CAUTION_COLOUR;
+}
+
+/** Writes a group of patches in one request: number formats first (text cells "@"), then the values. */
+async function writeGroup(sheet: string, group: readonly CellPatch[]): Promise<void> {
+  await Excel.run(async (context) => {
+    const ws = context.workbook.worksheets.getItem(sheet);
+    for (const p of group) {
+      const rows = p.values.length;
+      const cols = p.values[0]?.length ?? 0;
+      if (rows === 0 || cols === 0) continue;
+      const range = ws.getRange(rangeAddress(p.row, p.column, rows, cols));
+      range.numberFormat = p.formats.map((r) => [...r]);
+      range.values = p.values.map((r) => [...r]);
+      applyStyle(range, p.style);
+    }
+    await context.sync();
+  });
+}
+
+/** Writes a group; when the host refuses it for its size, writes each half separately (down to single rows). */
+async function writeSplitting(sheet: string, group: readonly CellPatch[]): Promise<number> {
+  try {
+    await writeGroup(sheet, group);
+    return 1;
+  } catch (error) {
+    if (!isPayloadTooLarge(error)) throw error;
+    if (group.length > 1) {
+      const k = Math.ceil(group.length / 2);
+      return (await writeSplitting(sheet, group.slice(0, k))) + (await writeSplitting(sheet, group.slice(k)));
+    }
+    const only = group[0];
+    if (only === undefined || only.values.length < 2) throw error;
+    const [a, b] = halvePatch(only);
+    return (await writeSplitting(sheet, [a])) + (await writeSplitting(sheet, [b]));
+  }
+}
+
+function addChart(ws: Excel.Worksheet, plan: ChartPlan, name: string): void {
+  const d = plan.data;
+  const yRange = ws.getRange(rangeAddress(d.row, d.column + 1, d.rowCount, d.columnCount - 1));
+  const xRange = ws.getRange(rangeAddress(d.row + 1, d.column, d.rowCount - 1, 1));
+  const chart = ws.charts.add(plan.type, yRange, 'Columns');
+  chart.name = name;
+  chart.title.text = plan.spec.title;
+  chart.axes.categoryAxis.title.text = plan.spec.xLabel;
+  chart.axes.valueAxis.title.text = plan.spec.yLabel;
+  plan.series.forEach((s, i) => {
+    const series = chart.series.getItemAt(i);
+    series.setXAxisValues(xRange);
+    if (s.dashed) series.format.line.lineStyle = 'Dash';
+    if (s.markersOnly) {
+      series.format.line.lineStyle = 'None';
+      series.markerStyle = 'Circle';
+    }
+  });
+  chart.setPosition(rangeAddress(plan.from.row, plan.from.column, 1, 1), rangeAddress(plan.to.row, plan.to.column, 1, 1));
+}
+
+/** Turns the written cells into tables, adds the charts, sets widths and frozen rows, in one request. */
+async function finish(sheet: string, layout: SheetLayout): Promise<void> {
+  await Excel.run(async (context) => {
+    const all = context.workbook.tables;
+    all.load('items/name');
+    await context.sync();
+    const taken = all.items.map((t) => t.name);
+    const ws = context.workbook.worksheets.getItem(sheet);
+    for (const t of layout.tables) {
+      const name = uniqueTableName(t.id, taken);
+      taken.push(name);
+      const table = ws.tables.add(ws.getRange(rangeAddress(t.row, t.column, t.rowCount, t.columnCount)), true);
+      table.name = name;
+    }
+    for (const c of layout.charts) addChart(ws, c, `${c.spec.id}Chart`);
+    layout.columnWidths.forEach((chars, j) => {
+      if (chars > 0) ws.getRange(rangeAddress(0, j, 1, 1)).format.columnWidth = chars * POINTS_PER_CHARACTER;
+    });
+    ws.freezePanes.freezeRows(layout.freezeRows);
+    await context.sync();
+  });
+}
+
+/**
+ * Renders `spec` into a new worksheet named after spec.name (made legal and unique) and returns the name it got.
+ * Requests: one to add the sheet, one per write group (planned from the byte and cell budgets, split further if the
+ * host refuses one for its size), one to add tables, charts, widths and frozen rows. Cost O(cells).
+ * Example: a 3-table model sheet of a few hundred cells → 3 requests.
+ */
+export async function renderSheet(spec: SheetSpec, options: RenderOptions): Promise<WrittenSheet> {
+  const layout = layoutSheet(spec, options.dateSystem);
+  const groups = planWrites(layout.patches, options.targetBytes ?? 1_500_000, options.maxCells ?? 200_000);
+  const name = await addSheet(spec.name);
+  const total = groups.length + 2;
+  options.onProgress?.(1 / total);
+  let done = 1;
+  for (const group of groups) {
+    await writeSplitting(name, group);
+    done++;
+    options.onProgress?.(done / total);
+  }
+  try {
+    await finish(name, layout);
+  } catch (error) {
+    throw new ExcelAdapterError(
+      `The cells of sheet "${name}" were written, but its tables or charts could not be added: ${error instanceof Error ? error.message : String(error)}`,
+      { cause: error },
+    );
+  }
+  options.onProgress?.(1);
+  return { name, title: spec.title };
+}

@@ -1,0 +1,49 @@
+/**
+ * Quantiles and tail probabilities of the t, F and chi-square distributions, through jstat's incomplete beta and gamma
+ * functions. Non-finite or non-positive degrees of freedom give NaN rather than a throw (a numerical outcome). An
+ * infinite df gives the normal limit.
+ */
+import { jStat } from 'jstat';
+
+/** Upper quantile t(prob; df), e.g. tQuantile(0.975, 10) = 2.2281 (Abramowitz & Stegun 1964, Table 26.10). */
+export function tQuantile(prob: number, df: number): number {
+  if (df === Infinity) return jStat.normal.inv(prob, 0, 1);
+  if (!(df > 0) || !Number.isFinite(df)) return NaN;
+  return jStat.studentt.inv(prob, df);
+}
+
+/** Two-sided p-value of a t statistic: 2 P(T_df > |t|) = I_{df/(df+t²)}(df/2, 1/2). Example: t = 2.2281, df = 10 -> 0.05. */
+export function tTwoSided(t: number, df: number): number {
+  if (Number.isNaN(t)) return NaN;
+  if (df === Infinity) return 2 * (1 - jStat.normal.cdf(Math.abs(t), 0, 1));
+  if (!(df > 0) || !Number.isFinite(df)) return NaN;
+  if (!Number.isFinite(t)) return 0;
+  return jStat.ibeta(df / (df + t * t), df / 2, 0.5);
+}
+
+/** Upper tail P(F_{d1,d2} > f) = I_{d2/(d2+d1 f)}(d2/2, d1/2). Example: fUpper(4.103, 2, 10) = 0.0500. */
+export function fUpper(f: number, d1: number, d2: number): number {
+  if (Number.isNaN(f) || !(d1 > 0) || !(d2 > 0)) return NaN;
+  if (f <= 0) return 1;
+  if (d2 === Infinity) return 1 - jStat.chisquare.cdf(f * d1, d1);
+  return jStat.ibeta(d2 / (d2 + d1 * f), d2 / 2, d1 / 2);
+}
+
+/** Quantile of F(d1, d2) at probability prob, e.g. fQuantile(0.95, 3, 20) = 3.0984 (Abramowitz & Stegun 1964, Table 26.9). */
+export function fQuantile(prob: number, d1: number, d2: number): number {
+  if (!(d1 > 0) || !(d2 > 0) || !Number.isFinite(d1) || !Number.isFinite(d2)) return NaN;
+  // F = (d2/d1) x / (1 - x) with x ~ Beta(d1/2, d2/2).
+  const x = jStat.ibetainv(prob, d1 / 2, d2 / 2);
+  return (d2 / d1) * (x / (1 - x));
+}
+
+/** Quantile of chi-square(df), e.g. chiSquareQuantile(0.95, 1) = 3.8415 (Abramowitz & Stegun 1964, Table 26.8). */
+export function chiSquareQuantile(prob: number, df: number): number {
+  if (!(df > 0) || !Number.isFinite(df)) return NaN;
+  return jStat.chisquare.inv(prob, df);
+}
+
+/** Standard normal quantile, e.g. normalQuantile(0.975) = 1.95996. */
+export function normalQuantile(prob: number): number {
+  return jStat.normal.inv(prob, 0, 1);
+}

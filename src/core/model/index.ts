@@ -1,0 +1,5 @@
+/** The random-intercept model engine (SPEC §5, §7). */
+export { fitRandomIntercept, DAYS_PER_TIME_UNIT } from './fit';
+export { ModelInputError, RankDeficiencyError } from './errors';
+export { tQuantile, tTwoSided, fQuantile, fUpper, chiSquareQuantile, normalQuantile } from './distributions';
+export type * from './types';

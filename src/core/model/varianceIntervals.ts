@@ -1,0 +1,83 @@
+/**
+ * Intervals for the variance components and the intraclass correlation.
+ * - σ²_u and σ²: Wald intervals on the log scale from the inverse expected information W (Pinheiro & Bates 2000,
+ *   Mixed-Effects Models in S and S-PLUS, §2.4.3): θ·exp(±z √W_rr / θ), z the normal quantile. At the boundary
+ *   σ²_u = 0 the subject interval is [0, z √W_11] on the original scale (log scale undefined at zero).
+ * - ICC = σ²_u/(σ²_u + σ²): in a balanced one-way layout (intercept only, equal cluster sizes) the exact F-based
+ *   interval (Searle 1971, Linear Models, §9.8): F = MSB/MSW, F_L = F / F(1−α/2; a−1, a(n−1)),
+ *   F_U = F / F(α/2; a−1, a(n−1)), ICC_L = (F_L − 1)/(F_L + n − 1), ICC_U = (F_U − 1)/(F_U + n − 1), clipped to [0, 1].
+ *   Otherwise a Wald interval on the logit scale (logit ICC = log σ²_u − log σ², delta method with W).
+ * Cost O(1) (plus O(K) for the balanced check).
+ */
+import { fQuantile, normalQuantile } from './distributions';
+import type { SufficientStats } from './sufficient';
+import type { VarianceResult } from './types';
+
+export function varianceIntervals(
+  st: SufficientStats,
+  s2u: number,
+  s2: number,
+  W: Float64Array,
+  Wfull: Float64Array,
+  level: number,
+  atBoundary: boolean,
+): VarianceResult {
+  const z = normalQuantile(1 - (1 - level) / 2);
+  const icc = s2u / (s2u + s2);
+  const seLogRes = Math.sqrt(W[3]!) / s2;
+  const residualLower = s2 * Math.exp(-z * seLogRes);
+  const residualUpper = s2 * Math.exp(z * seLogRes);
+  let subjectLower: number;
+  let subjectUpper: number;
+  if (atBoundary) {
+    subjectLower = 0;
+    subjectUpper = z * Math.sqrt(Math.max(Wfull[0]!, 0));
+  } else {
+    const seLogSub = Math.sqrt(W[0]!) / s2u;
+    subjectLower = s2u * Math.exp(-z * seLogSub);
+    subjectUpper = s2u * Math.exp(z * seLogSub);
+  }
+  const balanced = st.p === 1 && st.sizes.length === 1 && st.sizes[0]! > 1 && st.nSubjects > 1;
+  let iccLower: number;
+  let iccUpper: number;
+  let iccMethod: string;
+  if (balanced) {
+    const n = st.sizes[0]!;
+    const a = st.nSubjects;
+    const N = st.nObs;
+    const ssb = st.q[0]! / n - (st.xty[0]! * st.xty[0]!) / N;
+    const ssw = st.yty - st.q[0]! / n;
+    const F = ssb / (a - 1) / (ssw / (a * (n - 1)));
+    const alpha = 1 - level;
+    const fl = F / fQuantile(1 - alpha / 2, a - 1, a * (n - 1));
+    const fu = F / fQuantile(alpha / 2, a - 1, a * (n - 1));
+    const clip = (v: number): number => Math.min(1, Math.max(0, v));
+    iccLower = clip((fl - 1) / (fl + n - 1));
+    iccUpper = clip((fu - 1) / (fu + n - 1));
+    iccMethod = 'ICC: exact F-based interval for balanced one-way data (Searle 1971)';
+  } else if (atBoundary) {
+    iccLower = 0;
+    iccUpper = Math.min(1, (z * Math.sqrt(Math.max(Wfull[0]!, 0))) / s2);
+    iccMethod = 'ICC: Wald interval on the original scale at the zero boundary';
+  } else {
+    const v = W[0]! / (s2u * s2u) + W[3]! / (s2 * s2) - (2 * W[1]!) / (s2u * s2);
+    const lg = Math.log(s2u / s2);
+    const se = Math.sqrt(Math.max(v, 0));
+    const inv = (x: number): number => 1 / (1 + Math.exp(-x));
+    iccLower = inv(lg - z * se);
+    iccUpper = inv(lg + z * se);
+    iccMethod = 'ICC: Wald interval on the logit scale (delta method)';
+  }
+  return {
+    subject: s2u,
+    residual: s2,
+    icc,
+    subjectLower,
+    subjectUpper,
+    residualLower,
+    residualUpper,
+    iccLower,
+    iccUpper,
+    intervalMethod: `Variances: Wald intervals on the log scale from the inverse expected information${atBoundary ? ' (between-patient: original scale, lower bound 0, at the zero boundary)' : ''}. ${iccMethod}.`,
+  };
+}

@@ -1,0 +1,30 @@
+import { describe, expect, it } from 'vitest';
+import { chiSquareQuantile, fQuantile, fUpper, tQuantile, tTwoSided } from '../../../src/core/model';
+
+// Handbook values are printed to 3 decimals, so each check allows half a unit in the last printed place (5e-4).
+describe('distribution quantiles match printed handbook tables', () => {
+  it('t(0.975; df) matches Abramowitz & Stegun 1964 Table 26.10 / NIST e-Handbook 1.3.6.7.2', () => {
+    const table: [number, number][] = [[1, 12.706], [2, 4.303], [5, 2.571], [10, 2.228], [30, 2.042]];
+    for (const [df, q] of table) expect(Math.abs(tQuantile(0.975, df) - q)).toBeLessThan(5e-4);
+  });
+  it('chi-square(0.95; df) matches Abramowitz & Stegun 1964 Table 26.8', () => {
+    expect(Math.abs(chiSquareQuantile(0.95, 1) - 3.841)).toBeLessThan(5e-4);
+    expect(Math.abs(chiSquareQuantile(0.95, 2) - 5.991)).toBeLessThan(5e-4);
+  });
+  it('F(0.95; d1, d2) matches Abramowitz & Stegun 1964 Table 26.9', () => {
+    expect(Math.abs(fQuantile(0.95, 2, 10) - 4.103)).toBeLessThan(5e-4);
+    expect(Math.abs(fQuantile(0.95, 3, 20) - 3.098)).toBeLessThan(5e-4);
+  });
+  it('tail probabilities invert the quantiles (exact identity; 1e-9 allows for the iterative inverse)', () => {
+    expect(tTwoSided(tQuantile(0.975, 7), 7)).toBeCloseTo(0.05, 9);
+    expect(fUpper(fQuantile(0.95, 3, 20), 3, 20)).toBeCloseTo(0.05, 9);
+  });
+  it('exact identity: t² with df ν is F(1, ν), so the two-sided t p-value equals the F upper tail', () => {
+    expect(tTwoSided(2.5, 9)).toBeCloseTo(fUpper(6.25, 1, 9), 12);
+  });
+  it('an infinite df gives the normal limit and an impossible df gives NaN, not a throw', () => {
+    expect(tQuantile(0.975, Infinity)).toBeCloseTo(1.959964, 6); // normal quantile, from memory
+    expect(tQuantile(0.975, 0)).toBeNaN();
+    expect(tTwoSided(1, -1)).toBeNaN();
+  });
+});

@@ -1,0 +1,78 @@
+import { windowDates } from '../schedule/studyDay';
+import { NO_STATUS, STATUS_CODE, STATUS_ORDER } from '../schedule/types';
+import type { DeviationRow, TimingInput } from './timingTypes';
+
+const { early: EARLY, late: LATE, missed: MISSED, extra: EXTRA, repeat: REPEAT } = STATUS_CODE;
+
+/**
+ * The deviation listing for follow-up (SPEC §4 c): every early, late and missed (subject, visit), and every extra and
+ * repeat record, with the visit's target date, window dates, the actual date and the days off. Dated data give day
+ * numbers (target and bounds from the subject's reference date, see windowDates); study-day data give study days (the
+ * window bounds as target − before and target + after). Sorted by site, then subject (order of first appearance),
+ * then study day. `siteOf` names each subject's site ("" when no site column). Cost O(rows + slots + k log k) for k
+ * listed lines.
+ * Example: a Week 12 record on study day 95 (target 85, window 78–92) → daysOff 10, status "late".
+ */
+export function listDeviations(input: TimingInput, siteOf: (subject: number) => string): DeviationRow[] {
+  const { table, schedule, days, timing } = input;
+  const V = timing.nVisits;
+  const dated = table.timeKind === 'date';
+  const lines: { row: DeviationRow; s: number; day: number }[] = [];
+  const bounds = (s: number, v: number): { opens: number; target: number; closes: number } => {
+    const vis = schedule[v]!;
+    if (dated) return windowDates(days.referenceDay[s]!, vis);
+    return { opens: vis.targetDay - vis.before, target: vis.targetDay, closes: vis.targetDay + vis.after };
+  };
+  const actual = (i: number): number => (dated ? table.date[i]! : days.studyDays[i]!);
+
+  for (let s = 0; s < timing.nSubjects; s++) {
+    if (timing.subjectInTiming[s] !== 1) continue;
+    for (let v = 0; v < V; v++) {
+      const code = timing.slotStatus[s * V + v]!;
+      if (code !== EARLY && code !== LATE && code !== MISSED) continue;
+      const r = timing.slotRow[s * V + v]!;
+      const b = bounds(s, v);
+      lines.push({
+        s,
+        day: schedule[v]!.targetDay,
+        row: {
+          subject: table.subjectIds[s]!,
+          site: siteOf(s),
+          visit: schedule[v]!.label,
+          targetDate: b.target,
+          windowOpens: b.opens,
+          windowCloses: b.closes,
+          actualDate: r >= 0 ? actual(r) : null,
+          daysOff: r >= 0 ? timing.rowDeviation[r]! : null,
+          status: STATUS_ORDER[code]!,
+          sheetRow: r >= 0 ? table.sheetRows[r]! : null,
+        },
+      });
+    }
+  }
+  for (let i = 0; i < table.nRows; i++) {
+    const code = timing.rowStatus[i]!;
+    if (code === NO_STATUS || (code !== EXTRA && code !== REPEAT)) continue;
+    const s = table.subjectIndex[i]!;
+    const v = timing.rowVisit[i]!;
+    const b = v >= 0 ? bounds(s, v) : null;
+    lines.push({
+      s,
+      day: days.studyDays[i]!,
+      row: {
+        subject: table.subjectIds[s]!,
+        site: siteOf(s),
+        visit: v >= 0 ? schedule[v]!.label : (table.visit?.[i] ?? ''),
+        targetDate: b?.target ?? null,
+        windowOpens: b?.opens ?? null,
+        windowCloses: b?.closes ?? null,
+        actualDate: actual(i),
+        daysOff: v >= 0 ? timing.rowDeviation[i]! : null,
+        status: STATUS_ORDER[code]!,
+        sheetRow: table.sheetRows[i]!,
+      },
+    });
+  }
+  lines.sort((a, b) => (a.row.site < b.row.site ? -1 : a.row.site > b.row.site ? 1 : a.s - b.s || a.day - b.day));
+  return lines.map((l) => l.row);
+}

@@ -1,0 +1,120 @@
+import { isoDate } from '../schedule/dates';
+import type { StatusCounts } from '../schedule/types';
+import type { DueStatus, TimingSummary, VisitSummaryRow } from './timingTypes';
+
+/** A date in the JSON: ISO 8601 text (YYYY-MM-DD) for dated data, a study day for study-day data, or null. */
+export type JsonDay = string | number | null;
+
+export interface VisitJson {
+  readonly arm?: string;
+  readonly visit: string;
+  readonly targetDay: number;
+  readonly expected: number;
+  readonly onTime: number;
+  readonly early: number;
+  readonly late: number;
+  readonly missed: number;
+  readonly notYetDue: number;
+  readonly due: number;
+  readonly onTimeRate: number | null;
+  readonly medianDeviation: number | null;
+  readonly minDeviation: number | null;
+  readonly maxDeviation: number | null;
+}
+
+/**
+ * The `visits` section of the results JSON. Keys are camelCase and stable:
+ * - `timeScale`: "date" (dates are ISO text) or "studyDay" (the data carry study days; dates are study days).
+ * - `cutoff`: ISO date, study day, or null when each subject's own last record serves; `cutoffRule`: "given",
+ *   "latestDate" or "eachSubjectsLastRecord".
+ * - `subjects`: subjects taking part in visit timing.
+ * - `counts`: exactly {onTime, early, late, missed, notYetDue, extra, repeat}: statuses of (subject, visit) pairs for
+ *   the first five, of records for extra and repeat.
+ * - `byVisit[]`: {visit, targetDay, expected, onTime, early, late, missed, notYetDue, due, onTimeRate,
+ *   medianDeviation, minDeviation, maxDeviation}; due = expected − notYetDue; onTimeRate = onTime / due (null if 0);
+ *   deviations in days (record − target) over the visits' own records.
+ * - `byArm[]` (unblinded mode only): the same with `arm` first.
+ * - `bySite[]` (empty without a site column): {site, subjects, due, onTime, outOfWindow, missed, onTimeRate,
+ *   outOfWindowRate, missedRate, combinedRate}, worst first.
+ * - `deviations[]`: {subject, site, visit, targetDate, windowOpens, windowCloses, actualDate, daysOff, status, row};
+ *   status is one of the count keys; row is the worksheet row of the record (null for a missed visit).
+ * - `upcoming[]`: {subject, site, visit, windowOpens, targetDate, windowCloses, daysUntilTarget, status} with status
+ *   "overdue", "windowOpen" or "comingUp".
+ */
+export interface VisitsJson {
+  readonly timeScale: 'date' | 'studyDay';
+  readonly cutoff: JsonDay;
+  readonly cutoffRule: TimingSummary['cutoffRule'];
+  readonly subjects: number;
+  readonly counts: StatusCounts;
+  readonly byVisit: readonly VisitJson[];
+  readonly byArm?: readonly VisitJson[];
+  readonly bySite: readonly Record<string, string | number | null>[];
+  readonly deviations: readonly Record<string, string | number | null>[];
+  readonly upcoming: readonly { readonly [k: string]: string | number | null; readonly status: DueStatus }[];
+}
+
+/** Builds the `visits` JSON section from the timing summary (see VisitsJson for the keys). O(listed lines). */
+export function timingJson(summary: TimingSummary): VisitsJson {
+  const day = (d: number | null): JsonDay => (d === null ? null : summary.dated ? isoDate(d) : d);
+  const visit = (r: VisitSummaryRow): VisitJson => ({
+    ...(r.arm !== undefined ? { arm: r.arm } : {}),
+    visit: r.visit,
+    targetDay: r.targetDay,
+    expected: r.expected,
+    onTime: r.onTime,
+    early: r.early,
+    late: r.late,
+    missed: r.missed,
+    notYetDue: r.notYetDue,
+    due: r.due,
+    onTimeRate: r.onTimeRate,
+    medianDeviation: r.medianDeviation,
+    minDeviation: r.minDeviation,
+    maxDeviation: r.maxDeviation,
+  });
+  const c = summary.counts;
+  return {
+    timeScale: summary.dated ? 'date' : 'studyDay',
+    cutoff: day(summary.cutoff),
+    cutoffRule: summary.cutoffRule,
+    subjects: summary.subjects,
+    counts: { onTime: c.onTime, early: c.early, late: c.late, missed: c.missed, notYetDue: c.notYetDue, extra: c.extra, repeat: c.repeat },
+    byVisit: summary.byVisit.map(visit),
+    ...(summary.byArm !== null ? { byArm: summary.byArm.map(visit) } : {}),
+    bySite: (summary.bySite ?? []).map((s) => ({
+      site: s.site,
+      subjects: s.subjects,
+      due: s.due,
+      onTime: s.onTime,
+      outOfWindow: s.outOfWindow,
+      missed: s.missed,
+      onTimeRate: s.onTimeRate,
+      outOfWindowRate: s.outOfWindowRate,
+      missedRate: s.missedRate,
+      combinedRate: s.combinedRate,
+    })),
+    deviations: summary.deviations.map((d) => ({
+      subject: d.subject,
+      site: d.site,
+      visit: d.visit,
+      targetDate: day(d.targetDate),
+      windowOpens: day(d.windowOpens),
+      windowCloses: day(d.windowCloses),
+      actualDate: day(d.actualDate),
+      daysOff: d.daysOff,
+      status: d.status,
+      row: d.sheetRow,
+    })),
+    upcoming: summary.upcoming.map((u) => ({
+      subject: u.subject,
+      site: u.site,
+      visit: u.visit,
+      windowOpens: day(u.windowOpens),
+      targetDate: day(u.targetDate),
+      windowCloses: day(u.windowCloses),
+      daysUntilTarget: u.daysUntilTarget,
+      status: u.status,
+    })),
+  };
+}

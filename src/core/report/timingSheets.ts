@@ -1,0 +1,231 @@
+import { isoDate } from '../schedule/dates';
+import { STATUS_WORDS } from '../schedule/types';
+import { CAUTIONS, UNBLINDED_CAUTION } from './cautions';
+import { DUE_WORDS } from './timingTypes';
+import type { TimingSummary, VisitSummaryRow } from './timingTypes';
+import type { Block, NumberFormat, SheetCell, SheetSpec, TableColumn } from './types';
+
+/** Sheet names of the visit-timing reports (front ends make them unique in the workbook). */
+export const TIMING_SHEET_NAMES = { timing: 'Visit timing', deviations: 'Visit deviations', due: 'Visits due' } as const;
+
+export const ON_TIME_RATE_NOTE =
+  'On-time rate = visits on time ÷ visits due. A visit is due unless its window is still open or yet to open at the cut-off ("not yet due"); missed visits count as due. Deviation = actual study day − target study day (negative = early), over the records that are the visits’ own (on time, early, late).';
+
+const col = (header: string, format: NumberFormat, width?: number): TableColumn => (width === undefined ? { header, format } : { header, format, width });
+const para = (text: string, style: 'normal' | 'caution' | 'heading' = 'normal'): Block => ({ kind: 'paragraph', text, style });
+const pct = (x: number | null): string => (x === null ? 'n/a' : `${(100 * x).toFixed(1)}%`);
+const plural = (n: number, one: string, many: string): string => `${n} ${n === 1 ? one : many}`;
+
+/** How the cut-off reads in a sentence, e.g. "As of 2024-06-30 (the latest visit date in the data)". */
+export function cutoffPhrase(summary: Pick<TimingSummary, 'cutoff' | 'cutoffRule' | 'dated'>): string {
+  const { cutoff, cutoffRule, dated } = summary;
+  if (cutoff === null) return dated ? 'With no usable dates in the data' : "As of each subject's last record (the data carry study days, not dates)";
+  if (!dated) return `As of study day ${cutoff} (the given cut-off)`;
+  return cutoffRule === 'given' ? `As of the cut-off ${isoDate(cutoff)}` : `As of ${isoDate(cutoff)} (the latest visit date in the data)`;
+}
+
+/** The one-paragraph plain summary of the counts and the cut-off heading the timing sheet. */
+export function timingSummaryText(summary: TimingSummary): string {
+  const c = summary.counts;
+  const due = c.onTime + c.early + c.late + c.missed;
+  return (
+    `${cutoffPhrase(summary)}, ${plural(summary.subjects, 'subject', 'subjects')} had ${plural(due, 'scheduled visit', 'scheduled visits')} due: ` +
+    `${c.onTime} on time (${pct(due > 0 ? c.onTime / due : null)}), ${c.early} early, ${c.late} late and ${c.missed} missed; ` +
+    `${plural(c.notYetDue, 'visit is', 'visits are')} not yet due. ` +
+    `Besides the scheduled visits there ${c.extra === 1 ? 'was' : 'were'} ${plural(c.extra, 'extra record', 'extra records')} (matching no scheduled visit) and ${plural(c.repeat, 'repeat record', 'repeat records')} (a second record of a visit already matched).`
+  );
+}
+
+function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[], withArm: boolean): Block {
+  const columns = [
+    ...(withArm ? [col('Arm', 'text', 14)] : []),
+    col('Visit', 'text', 14),
+    col('Target study day', 'integer'),
+    col('Expected', 'integer'),
+    col('On time', 'integer'),
+    col('Early', 'integer'),
+    col('Late', 'integer'),
+    col('Missed', 'integer'),
+    col('Not yet due', 'integer'),
+    col('Visits due', 'integer'),
+    col('On-time rate', 'percent1'),
+    col('Median deviation (days)', 'decimal1'),
+    col('Smallest deviation (days)', 'integer'),
+    col('Largest deviation (days)', 'integer'),
+  ];
+  const body = rows.map((r): SheetCell[] => [
+    ...(withArm ? [r.arm ?? ''] : []),
+    r.visit,
+    r.targetDay,
+    r.expected,
+    r.onTime,
+    r.early,
+    r.late,
+    r.missed,
+    r.notYetDue,
+    r.due,
+    r.onTimeRate,
+    r.medianDeviation,
+    r.minDeviation,
+    r.maxDeviation,
+  ]);
+  return { kind: 'table', id, caption, columns, rows: body };
+}
+
+/**
+ * The visit-timing report as three sheets: "Visit timing" (cautions, a plain summary, the tables by visit — and by arm
+ * and visit in unblinded mode, i.e. when summary.byArm is not null, with the unblinded caution — and by site, with a
+ * chart of deviations by visit and of on-time rate by site), "Visit deviations" (the listing) and "Visits due"
+ * (upcoming and overdue visits). Dates use the 'date' format for dated data and show study days otherwise.
+ * Cost O(listed lines).
+ */
+export function timingSheets(summary: TimingSummary): SheetSpec[] {
+  const unblinded = summary.byArm !== null;
+  const cautions = [...CAUTIONS.map((t) => para(t, 'caution')), ...(unblinded ? [para(UNBLINDED_CAUTION, 'caution')] : [])];
+  const plainCautions = CAUTIONS.map((t) => para(t, 'caution'));
+
+  const timing: Block[] = [...cautions, para(timingSummaryText(summary)), para(ON_TIME_RATE_NOTE), para('By visit', 'heading')];
+  timing.push(visitTable('ByVisit', 'Scheduled visits by visit', summary.byVisit, false));
+  timing.push({
+    kind: 'chart',
+    chart: {
+      kind: 'line',
+      id: 'DeviationByVisit',
+      title: 'Deviation from target day by visit (median, with smallest and largest)',
+      xLabel: 'Visit',
+      yLabel: 'Days from target (negative = early)',
+      series: [
+        {
+          name: 'Median deviation',
+          x: summary.byVisit.map((r) => r.visit),
+          y: summary.byVisit.map((r) => r.medianDeviation),
+          lower: summary.byVisit.map((r) => r.minDeviation),
+          upper: summary.byVisit.map((r) => r.maxDeviation),
+          style: 'points',
+        },
+      ],
+      sourceTable: 'ByVisit',
+    },
+  });
+  if (summary.byArm !== null) {
+    timing.push(para('By arm and visit', 'heading'), visitTable('ByArmVisit', 'Scheduled visits by arm and visit', summary.byArm, true));
+  }
+  timing.push(para('By site', 'heading'));
+  if (summary.bySite === null) {
+    timing.push(para('No site column was mapped, so there is no summary by site.'));
+  } else {
+    timing.push(
+      para('Sites are listed worst first: by the share of visits due that were out of window or missed, then by their number.'),
+      {
+        kind: 'table',
+        id: 'BySite',
+        caption: 'Scheduled visits by site',
+        columns: [
+          col('Site', 'text', 14),
+          col('Subjects', 'integer'),
+          col('Visits due', 'integer'),
+          col('On time', 'integer'),
+          col('Out of window', 'integer'),
+          col('Missed', 'integer'),
+          col('On-time rate', 'percent1'),
+          col('Out-of-window rate', 'percent1'),
+          col('Missed rate', 'percent1'),
+          col('Out of window or missed', 'percent1'),
+        ],
+        rows: summary.bySite.map((r) => [r.site, r.subjects, r.due, r.onTime, r.outOfWindow, r.missed, r.onTimeRate, r.outOfWindowRate, r.missedRate, r.combinedRate]),
+      },
+      {
+        kind: 'chart',
+        chart: {
+          kind: 'bar',
+          id: 'OnTimeRateBySite',
+          title: 'On-time rate by site',
+          xLabel: 'Site',
+          yLabel: 'On-time rate',
+          series: [{ name: 'On-time rate', x: summary.bySite.map((r) => r.site), y: summary.bySite.map((r) => r.onTimeRate) }],
+          sourceTable: 'BySite',
+        },
+      },
+    );
+  }
+
+  const dateFormat: NumberFormat = summary.dated ? 'date' : 'integer';
+  const when = summary.dated ? 'date' : 'study day';
+  const withSite = summary.bySite !== null;
+  const deviations: Block[] = [
+    ...plainCautions,
+    para(
+      `${cutoffPhrase(summary)}: every early, late or missed scheduled visit, and every extra or repeat record, for follow-up. ` +
+        `Days off = actual ${when} − target ${when} (negative = early). ` +
+        (summary.dated ? 'Target and window dates count from each subject’s reference date (day 1).' : 'The data carry study days, so study days are shown instead of dates.'),
+    ),
+    {
+      kind: 'table',
+      id: 'Deviations',
+      caption: 'Visits needing follow-up',
+      columns: [
+        col('Subject', 'text', 12),
+        ...(withSite ? [col('Site', 'text', 12)] : []),
+        col('Visit', 'text', 14),
+        col(`Target ${when}`, dateFormat, 12),
+        col('Window opens', dateFormat, 12),
+        col('Window closes', dateFormat, 12),
+        col(`Actual ${when}`, dateFormat, 12),
+        col('Days off', 'integer'),
+        col('Status', 'text', 10),
+        col('Data row', 'integer'),
+      ],
+      rows: summary.deviations.map((d) => [
+        d.subject,
+        ...(withSite ? [d.site] : []),
+        d.visit,
+        d.targetDate,
+        d.windowOpens,
+        d.windowCloses,
+        d.actualDate,
+        d.daysOff,
+        STATUS_WORDS[d.status],
+        d.sheetRow,
+      ]),
+    },
+  ];
+
+  const due: Block[] = [
+    ...plainCautions,
+    para(
+      `${cutoffPhrase(summary)}: each subject still in follow-up (no record yet of the final scheduled visit) with their next scheduled visit that has no record. ` +
+        'Days until target is negative when the target has passed. "Overdue": the window closed before the cut-off; "Window open now": the cut-off falls inside the window; "Coming up": the window opens later.',
+    ),
+    {
+      kind: 'table',
+      id: 'VisitsDue',
+      caption: 'Next visit of each subject in follow-up',
+      columns: [
+        col('Subject', 'text', 12),
+        ...(withSite ? [col('Site', 'text', 12)] : []),
+        col('Next visit', 'text', 14),
+        col('Window opens', dateFormat, 12),
+        col(`Target ${when}`, dateFormat, 12),
+        col('Window closes', dateFormat, 12),
+        col('Days until target', 'integer'),
+        col('Status', 'text', 16),
+      ],
+      rows: summary.upcoming.map((u) => [
+        u.subject,
+        ...(withSite ? [u.site] : []),
+        u.visit,
+        u.windowOpens,
+        u.targetDate,
+        u.windowCloses,
+        u.daysUntilTarget,
+        DUE_WORDS[u.status],
+      ]),
+    },
+  ];
+
+  return [
+    { name: TIMING_SHEET_NAMES.timing, title: 'Visit timing against the schedule', blocks: timing },
+    { name: TIMING_SHEET_NAMES.deviations, title: 'Visit deviations for follow-up', blocks: deviations },
+    { name: TIMING_SHEET_NAMES.due, title: 'Upcoming and overdue visits', blocks: due },
+  ];
+}

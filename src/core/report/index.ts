@@ -15,3 +15,5 @@ export { NO_ARM, NO_SITE, armGroups, siteGroups } from './groups';
 export { ON_TIME_RATE_NOTE, TIMING_SHEET_NAMES, cutoffPhrase, timingSheets, timingSummaryText } from './timingSheets';
 export { timingJson } from './timingJson';
 export type { JsonDay, VisitJson, VisitsJson } from './timingJson';
+export { analysisRecordSheet, mappingLines } from './record';
+export type { AnalysisRecordInput, MappingLine, RecordExclusion } from './record';

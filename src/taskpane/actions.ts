@@ -15,6 +15,9 @@ export interface DataSource {
   readonly topLeft: string;
   readonly dateSystem: DateSystem;
   readonly cells: readonly (readonly CellValue[])[];
+  /** How intake should treat numbers written as text: 'accept' for CSV files (every field is text), 'reject' (the
+   * default) for spreadsheet cells, where a number stored as text is a problem worth reporting. */
+  readonly numericText?: 'reject' | 'accept';
 }
 
 export interface ScheduleSource {

@@ -1,0 +1,77 @@
+/** The proposed column for each role, one dropdown per role with the reason it was proposed; covariates as check boxes. */
+import type { ReactNode } from 'react';
+import { Checkbox, Field, Select, makeStyles, tokens } from '@fluentui/react-components';
+import type { ColumnMapping, DetectedMapping } from '../core/intake/types';
+import { ROLES } from './roles';
+import { roleOfColumn, setRole, toggleCovariate } from './mapping';
+
+const useStyles = makeStyles({
+  list: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
+  fieldset: { border: `1px solid ${tokens.colorNeutralStroke2}`, borderRadius: tokens.borderRadiusMedium, padding: tokens.spacingHorizontalS, margin: 0 },
+  legend: { fontWeight: tokens.fontWeightSemibold, padding: '0 4px' },
+  none: { color: tokens.colorNeutralForeground3, margin: 0 },
+});
+
+export interface MappingEditorProps {
+  readonly headers: readonly string[];
+  readonly mapping: ColumnMapping;
+  readonly reasons: DetectedMapping['reasons'];
+  /** Blinded mode: the arm dropdown is shown but marked as not read. */
+  readonly blinded: boolean;
+  /** Columns detection suggests as covariates (e.g. a baseline value); marked, never ticked for the user. */
+  readonly suggestions: readonly number[];
+  readonly onChange: (mapping: ColumnMapping) => void;
+}
+
+export function MappingEditor({ headers, mapping, reasons, blinded, suggestions, onChange }: MappingEditorProps): ReactNode {
+  const styles = useStyles();
+  const free = headers.map((_, i) => i).filter((i) => {
+    const role = roleOfColumn(mapping, i);
+    return role === null || role === 'covariate';
+  });
+  return (
+    <div className={styles.list}>
+      {ROLES.map(({ role, label, help }) => {
+        const chosen = mapping[role];
+        const reason = reasons[role];
+        const hint =
+          chosen === undefined
+            ? `Not found. ${help}`
+            : reason !== undefined && headers[chosen] !== undefined
+              ? reason
+              : help;
+        return (
+          <Field key={role} label={role === 'arm' && blinded ? `${label} (not read while blinded)` : label} hint={hint} size="small">
+            <Select
+              value={chosen === undefined ? '' : String(chosen)}
+              onChange={(_, data) => onChange(setRole(mapping, role, data.value === '' ? null : Number(data.value)))}
+              data-role={role}
+            >
+              <option value="">(no column)</option>
+              {headers.map((h, i) => (
+                <option key={i} value={String(i)}>
+                  {h}
+                </option>
+              ))}
+            </Select>
+          </Field>
+        );
+      })}
+      <fieldset className={styles.fieldset}>
+        <legend className={styles.legend}>Adjust the model for (covariates)</legend>
+        {free.length === 0 ? (
+          <p className={styles.none}>Every column already has a role.</p>
+        ) : (
+          free.map((i) => (
+            <Checkbox
+              key={i}
+              label={suggestions.includes(i) ? `${headers[i] ?? ''} (suggested)` : (headers[i] ?? '')}
+              checked={mapping.covariates.includes(i)}
+              onChange={(_, data) => onChange(toggleCovariate(mapping, i, data.checked === true))}
+            />
+          ))
+        )}
+      </fieldset>
+    </div>
+  );
+}

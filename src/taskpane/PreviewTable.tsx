@@ -1,0 +1,50 @@
+/** The first rows of the loaded data, so the user sees that the right range came in. */
+import type { ReactNode } from 'react';
+import { makeStyles, tokens } from '@fluentui/react-components';
+import type { CellValue } from '../core/intake/types';
+import { cellText } from './cells';
+
+const useStyles = makeStyles({
+  wrap: { overflowX: 'auto', maxWidth: '100%', border: `1px solid ${tokens.colorNeutralStroke2}`, borderRadius: tokens.borderRadiusMedium },
+  table: { borderCollapse: 'collapse', fontSize: tokens.fontSizeBase200, whiteSpace: 'nowrap' },
+  th: { textAlign: 'left', padding: '2px 6px', backgroundColor: tokens.colorNeutralBackground3, fontWeight: tokens.fontWeightSemibold },
+  td: { padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
+});
+
+export interface PreviewTableProps {
+  readonly headers: readonly string[];
+  readonly cells: readonly (readonly CellValue[])[];
+  /** How many data rows to show (default 5). */
+  readonly rows?: number;
+}
+
+export function PreviewTable({ headers, cells, rows = 5 }: PreviewTableProps): ReactNode {
+  const styles = useStyles();
+  const body = cells.slice(1, 1 + rows);
+  return (
+    <div className={styles.wrap} tabIndex={0} role="region" aria-label="Preview of the first rows">
+      <table className={styles.table}>
+        <thead>
+          <tr>
+            {headers.map((h, i) => (
+              <th key={i} className={styles.th} scope="col">
+                {h}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {body.map((row, r) => (
+            <tr key={r}>
+              {headers.map((_, c) => (
+                <td key={c} className={styles.td}>
+                  {cellText(row[c])}
+                </td>
+              ))}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

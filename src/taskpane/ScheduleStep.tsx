@@ -1,0 +1,84 @@
+/** Step 2: choose where the visit schedule comes from (a sheet, a file, or a starter), and show it or its problem. */
+import type { ChangeEvent, ReactNode } from 'react';
+import { useId, useState } from 'react';
+import { Button, Field, Label, MessageBar, MessageBarBody, Select, Spinner, Text, makeStyles, tokens } from '@fluentui/react-components';
+import type { ScheduleLoad, ScheduleSource } from './actions';
+import { ScheduleTable } from './ScheduleTable';
+
+const useStyles = makeStyles({
+  col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
+  row: { display: 'flex', gap: tokens.spacingHorizontalS, alignItems: 'end', flexWrap: 'wrap' },
+  grow: { flexGrow: 1, minWidth: '140px' },
+  file: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalXS },
+});
+
+export interface ScheduleStepProps {
+  readonly sources: readonly ScheduleSource[];
+  /** The page offers a file picker; Excel offers sheets. */
+  readonly allowFile: boolean;
+  readonly busy: boolean;
+  /** The name of the schedule shown, if any. */
+  readonly current: string | null;
+  readonly result: ScheduleLoad | null;
+  readonly onLoad: (name: string) => void;
+  readonly onFile: (file: File) => void;
+  readonly onStarter: () => void;
+}
+
+export function ScheduleStep(props: ScheduleStepProps): ReactNode {
+  const styles = useStyles();
+  const fileId = useId();
+  const [picked, setPicked] = useState<string>('');
+  const choice = picked !== '' ? picked : (props.current ?? props.sources[0]?.name ?? '');
+  const onFile = (event: ChangeEvent<HTMLInputElement>): void => {
+    const file = event.target.files?.[0];
+    if (file) props.onFile(file);
+    event.target.value = '';
+  };
+  return (
+    <div className={styles.col}>
+      <Text>The schedule lists each planned visit, its planned study day and how many days early or late it may be held.</Text>
+      {props.sources.length > 0 && (
+        <div className={styles.row}>
+          <Field label={props.allowFile ? 'Schedule already loaded' : 'Schedule sheet'} className={styles.grow}>
+            <Select value={choice} onChange={(_, d) => setPicked(d.value)}>
+              {props.sources.map((s) => (
+                <option key={s.name} value={s.name}>
+                  {s.name}
+                </option>
+              ))}
+            </Select>
+          </Field>
+          <Button disabled={props.busy || choice === ''} onClick={() => props.onLoad(choice)}>
+            Use this schedule
+          </Button>
+        </div>
+      )}
+      {props.allowFile && (
+        <div className={styles.file}>
+          <Label htmlFor={fileId}>Schedule file (CSV)</Label>
+          <input id={fileId} type="file" accept=".csv,.txt" disabled={props.busy} onChange={onFile} data-testid="schedule-file" />
+        </div>
+      )}
+      <div>
+        <Button appearance="subtle" disabled={props.busy} onClick={props.onStarter}>
+          {props.allowFile ? 'Use a starter schedule to edit' : 'Write a starter schedule sheet'}
+        </Button>
+      </div>
+      {props.busy && <Spinner size="tiny" label="Reading the schedule…" />}
+      {props.result && !props.result.ok && (
+        <MessageBar intent="error">
+          <MessageBarBody>{props.result.message}</MessageBarBody>
+        </MessageBar>
+      )}
+      {props.result?.ok && (
+        <>
+          <Text>
+            Schedule <strong>{props.current}</strong>:
+          </Text>
+          <ScheduleTable visits={props.result.schedule} />
+        </>
+      )}
+    </div>
+  );
+}

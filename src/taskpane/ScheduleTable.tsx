@@ -1,0 +1,41 @@
+/** The parsed visit schedule: each visit's planned study day and the days allowed either side. */
+import type { ReactNode } from 'react';
+import { makeStyles, tokens } from '@fluentui/react-components';
+import type { ScheduleVisit } from '../core/schedule/types';
+
+const useStyles = makeStyles({
+  wrap: { maxHeight: '220px', overflowY: 'auto', border: `1px solid ${tokens.colorNeutralStroke2}`, borderRadius: tokens.borderRadiusMedium },
+  table: { borderCollapse: 'collapse', width: '100%', fontSize: tokens.fontSizeBase200 },
+  th: { textAlign: 'left', padding: '2px 6px', backgroundColor: tokens.colorNeutralBackground3, position: 'sticky', top: 0 },
+  num: { textAlign: 'right', padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
+  td: { padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
+});
+
+export function ScheduleTable({ visits }: { readonly visits: readonly ScheduleVisit[] }): ReactNode {
+  const styles = useStyles();
+  return (
+    <div className={styles.wrap} tabIndex={0} role="region" aria-label="Visit schedule">
+      <table className={styles.table}>
+        <caption style={{ textAlign: 'left', padding: '2px 6px' }}>{visits.length} planned visits</caption>
+        <thead>
+          <tr>
+            <th className={styles.th} scope="col">Visit</th>
+            <th className={styles.th} scope="col">Planned day</th>
+            <th className={styles.th} scope="col">Days early allowed</th>
+            <th className={styles.th} scope="col">Days late allowed</th>
+          </tr>
+        </thead>
+        <tbody>
+          {visits.map((v, i) => (
+            <tr key={i}>
+              <td className={styles.td}>{v.label}</td>
+              <td className={styles.num}>{v.targetDay}</td>
+              <td className={styles.num}>{v.before}</td>
+              <td className={styles.num}>{v.after}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

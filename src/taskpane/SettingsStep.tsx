@@ -1,0 +1,141 @@
+/** Step 3: cut-off date, blinded or unblinded, reference arm, time unit, degrees of freedom, method, confidence level. */
+import type { ReactNode } from 'react';
+import { useState } from 'react';
+import { Checkbox, Field, Input, Radio, RadioGroup, Select, Text, makeStyles, tokens } from '@fluentui/react-components';
+import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
+import { isIsoDate, isLevel, type PaneSettings } from './paneSettings';
+import { UnblindDialog } from './UnblindDialog';
+
+const useStyles = makeStyles({
+  col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
+  unblinded: { color: tokens.colorPaletteRedForeground1, fontWeight: tokens.fontWeightSemibold },
+});
+
+const TIME_UNITS: readonly { value: TimeUnit; label: string }[] = [
+  { value: 'month', label: 'Months (30.4375 days)' },
+  { value: 'week', label: 'Weeks' },
+  { value: 'day', label: 'Days' },
+];
+const DF_METHODS: readonly { value: DfMethod; label: string }[] = [
+  { value: 'kenward-roger', label: 'Kenward–Roger (recommended)' },
+  { value: 'satterthwaite', label: 'Satterthwaite' },
+  { value: 'residual', label: 'Residual' },
+];
+const FIT_METHODS: readonly { value: FitMethod; label: string }[] = [
+  { value: 'reml', label: 'REML (recommended)' },
+  { value: 'ml', label: 'Maximum likelihood (ML)' },
+];
+
+export interface SettingsStepProps {
+  readonly settings: PaneSettings;
+  /** The arms found in the mapped arm column (empty when none is mapped). */
+  readonly arms: readonly string[];
+  readonly onChange: (settings: PaneSettings) => void;
+}
+
+export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): ReactNode {
+  const styles = useStyles();
+  const [asking, setAsking] = useState(false);
+  const [levelText, setLevelText] = useState(String(Math.round(settings.level * 1000) / 10));
+  const set = (patch: Partial<PaneSettings>): void => onChange({ ...settings, ...patch });
+  const levelNumber = Number(levelText) / 100;
+  const cutoffOk = settings.cutoff === '' || isIsoDate(settings.cutoff);
+  return (
+    <div className={styles.col}>
+      <RadioGroup
+        aria-label="Who may see the results"
+        value={settings.mode}
+        onChange={(_, data) => {
+          if (data.value === 'unblinded') setAsking(true);
+          else set({ mode: 'blinded' });
+        }}
+      >
+        <Radio value="blinded" label="Blinded: pooled results, no arms (default)" />
+        <Radio value="unblinded" label="Unblinded: results by treatment arm" />
+      </RadioGroup>
+      {settings.mode === 'unblinded' && <Text className={styles.unblinded}>Unblinded mode is on. Results show treatment arms.</Text>}
+      <UnblindDialog
+        open={asking}
+        onConfirm={() => {
+          setAsking(false);
+          set({ mode: 'unblinded' });
+        }}
+        onCancel={() => setAsking(false)}
+      />
+      {settings.mode === 'unblinded' && (
+        <Field
+          label="Reference arm (compared against)"
+          {...(arms.length === 0 ? { hint: 'Choose the treatment-arm column in step 1 first.', validationState: 'error' as const } : {})}
+        >
+          <Select value={settings.referenceArm !== '' && arms.includes(settings.referenceArm) ? settings.referenceArm : (arms[0] ?? '')} onChange={(_, d) => set({ referenceArm: d.value })}>
+            {arms.map((a) => (
+              <option key={a} value={a}>
+                {a}
+              </option>
+            ))}
+          </Select>
+        </Field>
+      )}
+      <Field
+        label="Data cut-off date"
+        hint="Leave empty to use the latest visit date in the data."
+        {...(cutoffOk ? {} : { validationState: 'error' as const, validationMessage: 'Use a date like 2026-06-30.' })}
+      >
+        <Input type="date" value={settings.cutoff} onChange={(_, d) => set({ cutoff: d.value })} />
+      </Field>
+      <Field label="Time unit for slopes">
+        <Select value={settings.timeUnit} onChange={(_, d) => set({ timeUnit: d.value as TimeUnit })}>
+          {TIME_UNITS.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </Select>
+      </Field>
+      <Field label="Degrees of freedom">
+        <Select value={settings.dfMethod} onChange={(_, d) => set({ dfMethod: d.value as DfMethod })}>
+          {DF_METHODS.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </Select>
+      </Field>
+      <Field label="Estimation method">
+        <Select value={settings.method} onChange={(_, d) => set({ method: d.value as FitMethod })}>
+          {FIT_METHODS.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </Select>
+      </Field>
+      <Field
+        label="Confidence level (%)"
+        {...(isLevel(levelNumber) ? {} : { validationState: 'error' as const, validationMessage: 'Give a number between 50 and 100, e.g. 95.' })}
+      >
+        <Input
+          type="number"
+          min={50}
+          max={99.9}
+          step={0.5}
+          value={levelText}
+          onChange={(_, d) => {
+            setLevelText(d.value);
+            set({ level: d.value.trim() === '' ? Number.NaN : Number(d.value) / 100 });
+          }}
+        />
+      </Field>
+      <Checkbox
+        label="Use only records matched to a planned visit in the model"
+        checked={settings.scheduledOnly}
+        onChange={(_, d) => set({ scheduledOnly: d.checked === true })}
+      />
+      <Checkbox
+        label="Add a sheet with each patient's estimated intercept"
+        checked={settings.perSubject}
+        onChange={(_, d) => set({ perSubject: d.checked === true })}
+      />
+    </div>
+  );
+}

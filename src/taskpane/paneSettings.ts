@@ -1,0 +1,111 @@
+/** The settings the pane edits, their defaults, what is remembered, and the run settings they produce. */
+import type { ColumnMapping, Mode } from '../core/intake/types';
+import type { AnalysisSettings, DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
+import type { ScheduleVisit } from '../core/schedule/types';
+import type { DataSource, SavedSettings } from './actions';
+import { withoutArm } from './mapping';
+
+export interface PaneSettings {
+  readonly mode: Mode;
+  /** '' means the first arm in the data. */
+  readonly referenceArm: string;
+  /** ISO date; '' means the latest date in the data. */
+  readonly cutoff: string;
+  readonly timeUnit: TimeUnit;
+  readonly dfMethod: DfMethod;
+  readonly method: FitMethod;
+  readonly level: number;
+  readonly scheduledOnly: boolean;
+  readonly perSubject: boolean;
+}
+
+/** Blinded by default (SPEC §2); REML with Kenward–Roger and 95% intervals (SPEC §5). */
+export const DEFAULT_SETTINGS: PaneSettings = {
+  mode: 'blinded',
+  referenceArm: '',
+  cutoff: '',
+  timeUnit: 'month',
+  dfMethod: 'kenward-roger',
+  method: 'reml',
+  level: 0.95,
+  scheduledOnly: false,
+  perSubject: false,
+};
+
+const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
+
+/** True when `text` is a real calendar date written YYYY-MM-DD. */
+export function isIsoDate(text: string): boolean {
+  if (!ISO_DATE.test(text)) return false;
+  const d = new Date(`${text}T00:00:00Z`);
+  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === text;
+}
+
+/** True when `level` is a usable confidence level (strictly between 0.5 and 1). */
+export function isLevel(level: number): boolean {
+  return Number.isFinite(level) && level > 0.5 && level < 1;
+}
+
+/**
+ * Restores remembered settings over the defaults. The mode is never restored: every session starts blinded,
+ * so nobody sees arms because a colleague looked last time.
+ */
+export function fromSaved(saved: SavedSettings | null): PaneSettings {
+  const s = saved?.settings ?? {};
+  return {
+    ...DEFAULT_SETTINGS,
+    ...(s.referenceArm !== undefined ? { referenceArm: s.referenceArm } : {}),
+    ...(s.cutoff !== undefined && isIsoDate(s.cutoff) ? { cutoff: s.cutoff } : {}),
+    ...(s.timeUnit !== undefined ? { timeUnit: s.timeUnit } : {}),
+    ...(s.dfMethod !== undefined ? { dfMethod: s.dfMethod } : {}),
+    ...(s.method !== undefined ? { method: s.method } : {}),
+    ...(s.level !== undefined && isLevel(s.level) ? { level: s.level } : {}),
+  };
+}
+
+/** What the pane asks the host to remember after a run. */
+export function toSaved(settings: PaneSettings, mapping: ColumnMapping, scheduleSource: string | null): SavedSettings {
+  return {
+    mapping,
+    ...(scheduleSource !== null ? { scheduleSource } : {}),
+    settings: {
+      mode: settings.mode,
+      timeUnit: settings.timeUnit,
+      dfMethod: settings.dfMethod,
+      method: settings.method,
+      level: settings.level,
+      ...(settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
+      ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),
+    },
+  };
+}
+
+/** The full settings of one run. In blinded mode the arm column is dropped from the mapping. */
+export function toAnalysisSettings(
+  source: DataSource,
+  mapping: ColumnMapping,
+  schedule: readonly ScheduleVisit[],
+  settings: PaneSettings,
+  runAt: string,
+): AnalysisSettings {
+  const blinded = settings.mode === 'blinded';
+  return {
+    sheet: source.sheet,
+    topLeft: source.topLeft,
+    dateSystem: source.dateSystem,
+    mode: settings.mode,
+    mapping: blinded ? withoutArm(mapping) : mapping,
+    schedule,
+    timeUnit: settings.timeUnit,
+    dfMethod: settings.dfMethod,
+    method: settings.method,
+    level: settings.level,
+    scheduledOnly: settings.scheduledOnly,
+    perSubject: settings.perSubject,
+    inputLabel: source.label,
+    runAt,
+    ...(source.numericText !== undefined ? { numericText: source.numericText } : {}),
+    ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),
+    ...(!blinded && settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
+  };
+}

@@ -1,0 +1,248 @@
+// @vitest-environment jsdom
+import './jsdomSetup';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
+import { detectMapping } from '../../src/core/intake';
+import type { AnalysisSettings, RunHooks } from '../../src/core/pipeline/types';
+import { UNBLINDED_CAUTION } from '../../src/core/report/cautions';
+import { App } from '../../src/taskpane/App';
+import type { PaneEngine } from '../../src/taskpane/engine';
+import { fakeActions, okOutput } from './fakes';
+
+afterEach(cleanup);
+
+/** An engine with the real column detection and a run that returns `okOutput()` and records its settings. */
+function engineWith(run?: PaneEngine['runAnalysis']): { engine: PaneEngine; calls: AnalysisSettings[] } {
+  const calls: AnalysisSettings[] = [];
+  const runAnalysis: PaneEngine['runAnalysis'] =
+    run ??
+    (async (_cells, settings, hooks) => {
+      calls.push(settings);
+      hooks.onStage?.('reading');
+      hooks.onStage?.('windowing');
+      hooks.onStage?.('fitting');
+      return okOutput();
+    });
+  return { engine: { detectMapping, runAnalysis }, calls };
+}
+
+const results = (): HTMLElement => screen.getByRole('region', { name: /Results/ });
+const select = (label: RegExp | string): HTMLSelectElement => screen.getByLabelText(label, { selector: 'select' });
+
+async function loadAndConfirm(): Promise<void> {
+  fireEvent.click(screen.getByRole('button', { name: 'Use the selected cells' }));
+  await screen.findByText(/Which column is which/);
+  fireEvent.click(screen.getByRole('button', { name: 'Confirm columns' }));
+  fireEvent.click(await screen.findByRole('button', { name: 'Use this schedule' }));
+  await screen.findByRole('region', { name: 'Visit schedule' });
+}
+
+describe('data step', () => {
+  it('shows one dropdown per role set to the detected column, with the reason beside it', async () => {
+    const { actions } = fakeActions();
+    render(<App actions={actions} engine={engineWith().engine} />);
+    fireEvent.click(screen.getByRole('button', { name: 'Use the selected cells' }));
+    await screen.findByText(/Which column is which/);
+    const expected: Record<string, string> = {
+      Patient: 'USUBJID',
+      'Visit date': 'ADT',
+      'Start date': 'RANDDT',
+      'Visit name': 'AVISIT',
+      'Measured value': 'AVAL',
+      Site: 'SITEID',
+    };
+    for (const [label, header] of Object.entries(expected)) {
+      expect(select(new RegExp(`^${label}$`)).selectedOptions[0]?.textContent).toBe(header);
+    }
+    expect(select(/^Treatment arm/).selectedOptions[0]?.textContent).toBe('TRT01P');
+    expect(select(/^Study day$/).value).toBe('');
+    expect(screen.getByText(/Column "USUBJID"/)).toBeTruthy();
+  });
+
+  it('changing a dropdown asks for confirmation again, and the confirmed mapping is what the run uses', async () => {
+    const { actions } = fakeActions();
+    const { engine, calls } = engineWith();
+    render(<App actions={actions} engine={engine} />);
+    await loadAndConfirm();
+    expect(screen.queryByRole('button', { name: 'Confirm columns' })).toBeNull();
+    fireEvent.change(select(/^Site$/), { target: { value: '' } });
+    expect(screen.getByRole('button', { name: 'Confirm columns' })).toBeTruthy();
+    fireEvent.click(screen.getByRole('button', { name: 'Confirm columns' }));
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await screen.findByText(/Sheets written/);
+    expect(calls[0]?.mapping).toEqual({ subject: 0, date: 4, reference: 5, visit: 3, value: 6, covariates: [] });
+  });
+
+  it('a host that fails to read shows the reason instead of crashing', async () => {
+    const { actions, spies } = fakeActions();
+    spies.loadData.mockRejectedValueOnce(new Error('The selection is a single cell.'));
+    render(<App actions={actions} engine={engineWith().engine} />);
+    fireEvent.click(screen.getByRole('button', { name: 'Use the selected cells' }));
+    expect(await screen.findByText(/The selection is a single cell\./)).toBeTruthy();
+  });
+});
+
+describe('mode', () => {
+  it('unblinded mode takes effect only after the confirmation that states who may use it', async () => {
+    const { actions } = fakeActions();
+    const { engine, calls } = engineWith();
+    render(<App actions={actions} engine={engine} />);
+    await loadAndConfirm();
+    const unblinded = screen.getByRole('radio', { name: /Unblinded/ });
+    fireEvent.click(unblinded);
+    const dialog = await screen.findByRole('alertdialog');
+    expect(within(dialog).getByText(UNBLINDED_CAUTION)).toBeTruthy();
+    fireEvent.click(within(dialog).getByRole('button', { name: 'Stay blinded' }));
+    await waitFor(() => expect(screen.queryByRole('alertdialog')).toBeNull());
+    expect((screen.getByRole('radio', { name: /Blinded/ }) as HTMLInputElement).checked).toBe(true);
+    expect(screen.queryByLabelText(/Reference arm/)).toBeNull();
+
+    fireEvent.click(screen.getByRole('radio', { name: /Unblinded/ }));
+    fireEvent.click(within(await screen.findByRole('alertdialog')).getByRole('button', { name: /switch to unblinded/ }));
+    const reference = await screen.findByLabelText(/Reference arm/, { selector: 'select' });
+    expect([...(reference as HTMLSelectElement).options].map((o) => o.value)).toEqual(['Placebo', 'Active']);
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await screen.findByText(/Sheets written/);
+    expect(calls[0]?.mode).toBe('unblinded');
+    expect(calls[0]?.mapping?.arm).toBe(2);
+    expect(calls[0]?.referenceArm).toBe('Placebo');
+  });
+
+  it('a blinded run reads no arm column even though one was detected', async () => {
+    const { actions } = fakeActions();
+    const { engine, calls } = engineWith();
+    render(<App actions={actions} engine={engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await screen.findByText(/Sheets written/);
+    expect(calls[0]?.mode).toBe('blinded');
+    expect(calls[0]?.mapping?.arm).toBeUndefined();
+    expect(calls[0]?.referenceArm).toBeUndefined();
+  });
+
+  it('remembered settings come back, but every session starts blinded', async () => {
+    const { actions } = fakeActions({ settings: { mode: 'unblinded', level: 0.9, timeUnit: 'week' } });
+    const { engine, calls } = engineWith();
+    render(<App actions={actions} engine={engine} />);
+    await waitFor(() => expect(select(/Time unit/).value).toBe('week'));
+    expect((screen.getByRole('radio', { name: /Blinded/ }) as HTMLInputElement).checked).toBe(true);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await screen.findByText(/Sheets written/);
+    expect(calls[0]).toMatchObject({ mode: 'blinded', level: 0.9, timeUnit: 'week' });
+  });
+});
+
+describe('results', () => {
+  it('each problem is a link that selects its cell in the host, and each sheet a link that shows it', async () => {
+    const { actions, spies } = fakeActions();
+    render(<App actions={actions} engine={engineWith().engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    fireEvent.click(await screen.findByRole('button', { name: 'Go to cell Visits!G5' }));
+    expect(spies.selectCell).toHaveBeenCalledWith('Visits!G5');
+    fireEvent.click(screen.getByRole('button', { name: /^Model/ }));
+    expect(spies.showSheet).toHaveBeenCalledWith('Model');
+    expect(screen.getByText('eGFR fell by 0.4 per month on average.')).toBeTruthy();
+    expect(screen.getByText(/interim look, not a final analysis/)).toBeTruthy();
+    await waitFor(() => expect(spies.save).toHaveBeenCalledTimes(1));
+  });
+
+  it('errors that stop the run are listed with clickable cells and nothing is written', async () => {
+    const { actions, spies } = fakeActions();
+    const { engine } = engineWith(async () => ({
+      ok: false,
+      issues: [
+        {
+          code: 'subject-in-two-arms',
+          severity: 'error',
+          cell: 'Visits!C4',
+          row: 4,
+          role: 'arm',
+          value: 'Active',
+          use: null,
+          message: 'Subject K-002 appears in two arms.',
+        },
+      ],
+    }));
+    render(<App actions={actions} engine={engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    expect(await screen.findByText('Subject K-002 appears in two arms.')).toBeTruthy();
+    fireEvent.click(screen.getByRole('button', { name: 'Go to cell Visits!C4' }));
+    expect(spies.selectCell).toHaveBeenCalledWith('Visits!C4');
+    expect(spies.writeResults).not.toHaveBeenCalled();
+  });
+});
+
+describe('cancel', () => {
+  /** A run that waits at a gate between stages and honours the signal, as RunHooks describes. */
+  function gatedRun(): { run: PaneEngine['runAnalysis']; open: () => void; seen: RunHooks[] } {
+    let release: () => void = () => undefined;
+    const gate = new Promise<void>((resolve) => (release = resolve));
+    const seen: RunHooks[] = [];
+    const run: PaneEngine['runAnalysis'] = async (_cells, _settings, hooks) => {
+      seen.push(hooks);
+      hooks.onStage?.('reading');
+      await gate;
+      if (hooks.signal?.aborted) return { ok: false, issues: [], cancelled: true };
+      hooks.onStage?.('windowing');
+      return okOutput();
+    };
+    return { run, open: () => release(), seen };
+  }
+
+  it('Cancel stops a run: the signal is raised, nothing is written, and the pane says so', async () => {
+    const { actions, spies } = fakeActions();
+    const gated = gatedRun();
+    render(<App actions={actions} engine={engineWith(gated.run).engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    const stages = await screen.findByRole('list', { name: 'Run stages' });
+    expect(within(stages).getByText(/Reading and checking the data/)).toBeTruthy();
+    fireEvent.click(screen.getByRole('button', { name: 'Cancel' }));
+    expect(gated.seen[0]?.signal?.aborted).toBe(true);
+    gated.open();
+    expect(await within(results()).findByText('The run was stopped. Nothing was written.')).toBeTruthy();
+    expect(spies.writeResults).not.toHaveBeenCalled();
+    expect(screen.getByRole('button', { name: 'Run the analysis' })).toHaveProperty('disabled', false);
+  });
+
+  it('a result that arrives after Cancel is still not written (regression: a run that ignores the signal)', async () => {
+    const { actions, spies } = fakeActions();
+    let release: () => void = () => undefined;
+    const gate = new Promise<void>((resolve) => (release = resolve));
+    const stubborn: PaneEngine['runAnalysis'] = async () => {
+      await gate;
+      return okOutput();
+    };
+    render(<App actions={actions} engine={engineWith(stubborn).engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    fireEvent.click(await screen.findByRole('button', { name: 'Cancel' }));
+    release();
+    expect(await within(results()).findByText('The run was stopped. Nothing was written.')).toBeTruthy();
+    expect(spies.writeResults).not.toHaveBeenCalled();
+  });
+});
+
+describe('run step', () => {
+  it('the run button stays disabled and says why until data, columns and schedule are in place', () => {
+    const { actions } = fakeActions();
+    render(<App actions={actions} engine={engineWith().engine} />);
+    expect(screen.getByRole('button', { name: 'Run the analysis' })).toHaveProperty('disabled', true);
+    expect(screen.getByText('Read the visit data first (step 1).')).toBeTruthy();
+    expect(screen.getByText('Choose a visit schedule (step 2).')).toBeTruthy();
+  });
+
+  it('progress is announced in a live region', async () => {
+    const { actions } = fakeActions();
+    render(<App actions={actions} engine={engineWith().engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await screen.findByText(/Sheets written/);
+    expect(screen.getByRole('status').textContent).toBe('Finished: 2 result sheets written.');
+  });
+});
+
+vi.setConfig({ testTimeout: 30_000 });

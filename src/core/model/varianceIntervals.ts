@@ -1,15 +1,16 @@
 /**
  * Intervals for the variance components and the intraclass correlation.
- * - σ²_u and σ²: Wald intervals on the log scale from the inverse expected information W (Pinheiro & Bates 2000,
- *   Mixed-Effects Models in S and S-PLUS, §2.4.3): θ·exp(±z √W_rr / θ), z the normal quantile. At the boundary
- *   σ²_u = 0 the subject interval is [0, z √W_11] on the original scale (log scale undefined at zero).
+ * - σ²_u and σ²: Satterthwaite's scaled chi-square intervals (Satterthwaite 1946; Searle, Casella & McCulloch 1992,
+ *   §5.5): ν_r = 2θ_r²/W_rr with W the inverse expected information, interval [ν θ/χ²(1−α/2; ν), ν θ/χ²(α/2; ν)].
+ *   In balanced one-way data W_22 = 2σ⁴/(N − a) exactly, so the σ² interval is the exact chi-square interval
+ *   SSW/χ²(·; N − a). At the boundary σ²_u = 0 the subject interval is [0, z √W_11] (normal z, original scale).
  * - ICC = σ²_u/(σ²_u + σ²): in a balanced one-way layout (intercept only, equal cluster sizes) the exact F-based
  *   interval (Searle 1971, Linear Models, §9.8): F = MSB/MSW, F_L = F / F(1−α/2; a−1, a(n−1)),
  *   F_U = F / F(α/2; a−1, a(n−1)), ICC_L = (F_L − 1)/(F_L + n − 1), ICC_U = (F_U − 1)/(F_U + n − 1), clipped to [0, 1].
  *   Otherwise a Wald interval on the logit scale (logit ICC = log σ²_u − log σ², delta method with W).
  * Cost O(1) (plus O(K) for the balanced check).
  */
-import { fQuantile, normalQuantile } from './distributions';
+import { chiSquareQuantile, fQuantile, normalQuantile } from './distributions';
 import type { SufficientStats } from './sufficient';
 import type { VarianceResult } from './types';
 
@@ -24,18 +25,19 @@ export function varianceIntervals(
 ): VarianceResult {
   const z = normalQuantile(1 - (1 - level) / 2);
   const icc = s2u / (s2u + s2);
-  const seLogRes = Math.sqrt(W[3]!) / s2;
-  const residualLower = s2 * Math.exp(-z * seLogRes);
-  const residualUpper = s2 * Math.exp(z * seLogRes);
+  const alpha = 1 - level;
+  const scaledChi = (theta: number, w: number): [number, number] => {
+    const nu = (2 * theta * theta) / w;
+    return [(nu * theta) / chiSquareQuantile(1 - alpha / 2, nu), (nu * theta) / chiSquareQuantile(alpha / 2, nu)];
+  };
+  const [residualLower, residualUpper] = scaledChi(s2, W[3]!);
   let subjectLower: number;
   let subjectUpper: number;
   if (atBoundary) {
     subjectLower = 0;
     subjectUpper = z * Math.sqrt(Math.max(Wfull[0]!, 0));
   } else {
-    const seLogSub = Math.sqrt(W[0]!) / s2u;
-    subjectLower = s2u * Math.exp(-z * seLogSub);
-    subjectUpper = s2u * Math.exp(z * seLogSub);
+    [subjectLower, subjectUpper] = scaledChi(s2u, W[0]!);
   }
   const balanced = st.p === 1 && st.sizes.length === 1 && st.sizes[0]! > 1 && st.nSubjects > 1;
   let iccLower: number;
@@ -48,7 +50,6 @@ export function varianceIntervals(
     const ssb = st.q[0]! / n - (st.xty[0]! * st.xty[0]!) / N;
     const ssw = st.yty - st.q[0]! / n;
     const F = ssb / (a - 1) / (ssw / (a * (n - 1)));
-    const alpha = 1 - level;
     const fl = F / fQuantile(1 - alpha / 2, a - 1, a * (n - 1));
     const fu = F / fQuantile(alpha / 2, a - 1, a * (n - 1));
     const clip = (v: number): number => Math.min(1, Math.max(0, v));
@@ -78,6 +79,6 @@ export function varianceIntervals(
     residualUpper,
     iccLower,
     iccUpper,
-    intervalMethod: `Variances: Wald intervals on the log scale from the inverse expected information${atBoundary ? ' (between-patient: original scale, lower bound 0, at the zero boundary)' : ''}. ${iccMethod}.`,
+    intervalMethod: `Variances: scaled chi-square intervals with Satterthwaite degrees of freedom from the inverse expected information${atBoundary ? ' (between-patient: lower bound 0 and a normal-theory upper bound, at the zero boundary)' : ''}. ${iccMethod}.`,
   };
 }

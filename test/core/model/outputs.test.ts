@@ -1,0 +1,136 @@
+import { describe, expect, it } from 'vitest';
+import { chiSquareQuantile, fitRandomIntercept, tQuantile, type FitOptions, type ModelData } from '../../../src/core/model';
+import { DYESTUFF, normals, oneWay, RAILS, seeded } from './helpers';
+
+const oneWayOpts: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [], design: 'intercept-only' };
+
+function msbMsw(groups: readonly (readonly number[])[]): { msb: number; msw: number; a: number; n: number } {
+  const a = groups.length;
+  const n = groups[0]!.length;
+  const means = groups.map((g) => g.reduce((s, v) => s + v, 0) / n);
+  const grand = means.reduce((s, v) => s + v, 0) / a;
+  const ssb = n * means.reduce((s, m) => s + (m - grand) ** 2, 0);
+  const ssw = groups.reduce((s, g, i) => s + g.reduce((t, v) => t + (v - means[i]!) ** 2, 0), 0);
+  return { msb: ssb / (a - 1), msw: ssw / (a * (n - 1)), a, n };
+}
+
+describe('variance-component intervals', () => {
+  for (const [name, groups] of [['rails (Devore 2000)', RAILS], ['dyestuff (Davies 1947)', DYESTUFF]] as const) {
+    it(`${name}: the within-patient interval is the exact chi-square interval SSW/χ²(N − a) (Searle 1971, exact identity)`, () => {
+      const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
+      const { msw, a, n } = msbMsw(groups);
+      const nu = a * (n - 1);
+      // Relative 1e-9: in balanced data W_22 = 2σ⁴/(N − a) exactly, so only rounding separates the two.
+      expect(v.residualLower).toBeCloseTo((nu * msw) / chiSquareQuantile(0.975, nu), 6);
+      expect(v.residualUpper).toBeCloseTo((nu * msw) / chiSquareQuantile(0.025, nu), 6);
+    });
+    it(`${name}: the between-patient interval uses Satterthwaite's df for (MSB − MSW)/n (Satterthwaite 1946, exact identity)`, () => {
+      const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
+      const { msb, msw, a, n } = msbMsw(groups);
+      const s2u = (msb - msw) / n;
+      const nu = (msb - msw) ** 2 / (msb ** 2 / (a - 1) + msw ** 2 / (a * (n - 1)));
+      expect(v.subjectLower).toBeCloseTo((nu * s2u) / chiSquareQuantile(0.975, nu), 6);
+      expect(v.subjectUpper).toBeCloseTo((nu * s2u) / chiSquareQuantile(0.025, nu), 6);
+    });
+  }
+  it('rails (Devore 2000): the within-patient interval 8.313 to 44.05 would be 7.26 to 35.99 by a log-scale Wald interval', () => {
+    // Documents the choice: the Wald log-scale interval σ² exp(±1.96 √(2/12)) is 13% low at the bottom and 18% low
+    // at the top against the exact chi-square interval, which the scaled chi-square method reproduces.
+    const v = fitRandomIntercept(oneWay(RAILS), oneWayOpts).variance;
+    const wald = [v.residual * Math.exp(-1.959964 * Math.sqrt(2 / 12)), v.residual * Math.exp(1.959964 * Math.sqrt(2 / 12))];
+    expect(Math.abs(v.residualLower - 8.313)).toBeLessThan(5e-4); // 194/χ²(0.975; 12), rounded to 3 decimals
+    expect(wald[0]! / v.residualLower).toBeLessThan(0.9);
+    expect(wald[1]! / v.residualUpper).toBeLessThan(0.85);
+  });
+});
+
+/** Invented two-arm data, unbalanced visits, 40 patients (eGFR-like values). */
+function twoArm(): ModelData {
+  const u = seeded(3);
+  const z = normals(u);
+  const y: number[] = [], time: number[] = [], subject: number[] = [], arm: number[] = [];
+  for (let i = 0; i < 40; i++) {
+    const a = i % 2;
+    const ui = 8 * z();
+    const visits = 2 + Math.floor(u() * 4);
+    for (let j = 0; j < visits; j++) {
+      const t = j * 2.76 + 0.3 * z();
+      y.push(60 + ui - 0.4 * t + a * 0.25 * t + 3 * z());
+      time.push(t);
+      subject.push(i);
+      arm.push(a);
+    }
+  }
+  return { y: Float64Array.from(y), time: Float64Array.from(time), subject: Int32Array.from(subject), nSubjects: 40, armIndex: Int32Array.from(arm), arms: ['Placebo', 'Drug'], covariates: [] };
+}
+
+describe('contrasts, trajectories and fit statistics', () => {
+  const d = twoArm();
+  const opts: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.9, timeUnit: 'month', contrastDays: [{ label: 'Week 12', day: 85 }, { label: 'Week 48', day: 337 }] };
+  const fit = fitRandomIntercept(d, opts);
+
+  it('the treatment difference at a day is the arm term plus time × the arm-by-time term, time = (day − 1)/30.4375', () => {
+    const b = fit.fixedEffects;
+    for (const te of fit.treatmentEffects) {
+      expect(te.time).toBe((te.day - 1) / 30.4375);
+      expect(te.estimate).toBeCloseTo(b[1]!.estimate + te.time * b[3]!.estimate, 10); // exact identity
+      // The interval is estimate ± t(0.95; df)·SE at level 0.9.
+      expect(te.upper - te.estimate).toBeCloseTo(tQuantile(0.95, te.df) * te.se, 10);
+    }
+    expect(fit.slopeDifferences[0]!.estimate).toBe(b[3]!.estimate);
+    expect(fit.jointTest).toBeNull();
+  });
+
+  it('trajectories: the arm curves differ by the treatment effect at every grid time (exact identity)', () => {
+    const [ref, drug] = fit.trajectories;
+    expect(ref!.arm).toBe('Placebo');
+    expect(drug!.arm).toBe('Drug');
+    const b = fit.fixedEffects;
+    ref!.time.forEach((t, g) => {
+      expect(ref!.mean[g]).toBeCloseTo(b[0]!.estimate + t * b[2]!.estimate, 9);
+      expect(drug!.mean[g]! - ref!.mean[g]!).toBeCloseTo(b[1]!.estimate + t * b[3]!.estimate, 9);
+      expect(ref!.day[g]).toBeCloseTo(1 + t * 30.4375, 9);
+      expect(ref!.lower[g]!).toBeLessThan(ref!.mean[g]!);
+    });
+    expect(ref!.time.length).toBe(25);
+    // The grid runs from the earlier of 0 and the first observed time to the later of the last observed time and the last contrast time.
+    expect(ref!.time[0]).toBe(Math.min(0, Math.min(...d.time)));
+    expect(ref!.time[24]).toBe(Math.max(Math.max(...d.time), 336 / 30.4375));
+  });
+
+  it('AIC = −2ℓ + 2(p + 2) and BIC = −2ℓ + (p + 2) log(N − p) for REML; BIC uses N for ML', () => {
+    const p = fit.fixedEffects.length;
+    expect(fit.nParameters).toBe(p + 2);
+    expect(fit.bicN).toBe(d.y.length - p);
+    expect(fit.aic).toBeCloseTo(-2 * fit.logLik + 2 * (p + 2), 10);
+    expect(fit.bic).toBeCloseTo(-2 * fit.logLik + (p + 2) * Math.log(d.y.length - p), 10);
+    const ml = fitRandomIntercept(d, { ...opts, method: 'ml' });
+    expect(ml.bicN).toBe(d.y.length);
+  });
+
+  it('blinded data give intercept and time only, one pooled trajectory, and no treatment contrasts', () => {
+    const blind = fitRandomIntercept({ ...d, armIndex: null, arms: [] }, opts);
+    expect(blind.terms.map((t) => t.kind)).toEqual(['intercept', 'time']);
+    expect(blind.treatmentEffects).toEqual([]);
+    expect(blind.trajectories.length).toBe(1);
+    expect(blind.trajectories[0]!.arm).toBeNull();
+    expect(blind.variance.iccLower).toBeLessThan(blind.variance.icc);
+    expect(blind.variance.iccUpper).toBeGreaterThan(blind.variance.icc);
+  });
+
+  it('every subject gets a BLUP; BLUPs shrink subject mean residuals toward zero (exact identity |û_i| < |ē_i|)', () => {
+    expect(fit.subjects.length).toBe(40);
+    for (const s of fit.subjects) {
+      const raw = s.blup + s.meanResidual; // (t_i − s_i'β)/n_i
+      expect(Math.abs(s.blup)).toBeLessThanOrEqual(Math.abs(raw) + 1e-12);
+    }
+  });
+
+  it('a patient with one measurement only everywhere gives status "boundary" with a plain message', () => {
+    const single: ModelData = { y: Float64Array.of(1, 2, 4, 3, 5), time: Float64Array.of(0, 1, 2, 3, 4), subject: Int32Array.of(0, 1, 2, 3, 4), nSubjects: 5, armIndex: null, arms: [], covariates: [] };
+    const f = fitRandomIntercept(single, { ...opts, contrastDays: [] });
+    expect(f.status).toBe('boundary');
+    expect(f.message).toMatch(/more than one measurement/);
+    expect(f.variance.subject).toBe(0);
+  });
+});

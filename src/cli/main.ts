@@ -1,5 +1,164 @@
-/** The command line (placeholder until the analyze command lands). */
-export async function main(argv: readonly string[]): Promise<number> {
-  console.error(`longipane: not implemented yet (${argv.join(' ')})`);
-  return 2;
+/** The command line: `longipane analyze …` reads files, runs the same pipeline as the add-in and writes .xlsx/JSON. */
+import { detectMapping } from '../core/intake';
+import type { Issue } from '../core/intake/types';
+import { runAnalysis } from '../core/pipeline';
+import type { AnalysisSettings } from '../core/pipeline/types';
+import { UNBLINDED_CAUTION } from '../core/report/cautions';
+import { STATUS_WORDS } from '../core/schedule/types';
+import type { VisitStatus } from '../core/schedule/types';
+import { FileFormatError, writeWorkbook } from '../files';
+import pkg from '../../package.json';
+import { HELP_TEXT, parseAnalyzeArgs, UsageError } from './args';
+import type { AnalyzeArgs } from './args';
+import { writeFileAtomic } from './atomicWrite';
+import { buildMapping } from './mapping';
+import { readDataFile, readScheduleFile } from './readInputs';
+
+/** How many warnings are listed one by one before "… and N more". */
+const WARNINGS_SHOWN = 5;
+
+export const VERSION: string = pkg.version;
+
+/** Where output goes; tests pass their own to capture it. */
+export interface Console2 {
+  out(line: string): void;
+  err(line: string): void;
+}
+
+const processConsole: Console2 = {
+  out: (line) => process.stdout.write(`${line}\n`),
+  err: (line) => process.stderr.write(`${line}\n`),
+};
+
+/** An issue as one line, led by its cell address (intake's row-level messages already start with it). */
+const where = (i: { cell: string | null; message: string }): string =>
+  i.cell === null || i.message.startsWith(i.cell) ? i.message : `${i.cell}: ${i.message}`;
+
+function countsLine(counts: unknown): string | null {
+  if (counts === null || typeof counts !== 'object') return null;
+  const c = counts as Record<string, unknown>;
+  return (Object.keys(STATUS_WORDS) as VisitStatus[]).map((k) => `${STATUS_WORDS[k].toLowerCase()} ${String(c[k] ?? 0)}`).join(', ');
+}
+
+function printSummary(json: Record<string, unknown>, io: Console2): void {
+  const input = (json.input ?? {}) as Record<string, unknown>;
+  const visits = (json.visits ?? {}) as Record<string, unknown>;
+  const model = json.model as Record<string, unknown> | null | undefined;
+  io.out(
+    `Rows: ${String(input.rows)} (${String(input.usedForTiming)} used for visit timing, ${String(input.usedForModel)} for the model); subjects: ${String(input.subjects)}.`,
+  );
+  const settings = (json.settings ?? {}) as Record<string, unknown>;
+  if (typeof settings.cutoff === 'string') io.out(`Data cut-off: ${settings.cutoff}.`);
+  const line = countsLine(visits.counts);
+  if (line !== null) io.out(`Visits: ${line}.`);
+  if (model && typeof model.headline === 'string') io.out(`Model: ${model.headline}`);
+  else if (typeof json.modelNote === 'string') io.out(`Model: not fitted. ${json.modelNote}`);
+}
+
+async function analyze(args: AnalyzeArgs, io: Console2, now: () => Date): Promise<number> {
+  const data = await readDataFile(args.data, args.sheet);
+  const schedule = await readScheduleFile(args.schedule);
+  if (!schedule.ok) {
+    io.err(`The schedule "${args.schedule}" cannot be used:`);
+    for (const e of schedule.errors) io.err(`  ${e}`);
+    return 1;
+  }
+  for (const w of schedule.warnings) io.out(`Schedule note: ${w}`);
+  const headers = (data.cells[0] ?? []).map((h) => (h === null || h === undefined ? '' : String(h)));
+  const custom = args.map.length > 0 || args.covariates.length > 0;
+  const mode = args.unblinded ? 'unblinded' : 'blinded';
+  const settings: AnalysisSettings = {
+    sheet: data.sheet,
+    topLeft: data.topLeft,
+    dateSystem: data.dateSystem,
+    mode,
+    ...(custom ? { mapping: buildMapping(detectMapping(headers, mode).mapping, headers, args.map, args.covariates) } : {}),
+    schedule: schedule.schedule,
+    ...(args.cutoff === undefined ? {} : { cutoff: args.cutoff }),
+    ...(args.referenceArm === undefined ? {} : { referenceArm: args.referenceArm }),
+    timeUnit: args.timeUnit,
+    dfMethod: args.df,
+    method: args.method,
+    level: args.level,
+    scheduledOnly: args.scheduledOnly,
+    perSubject: args.perSubject,
+    inputLabel: data.label,
+    runAt: now().toISOString(),
+    numericText: data.numericText,
+    toolVersion: VERSION,
+  };
+  if (args.unblinded) io.out(UNBLINDED_CAUTION);
+  const output = await runAnalysis(data.cells, settings);
+  const errors = output.issues.filter((i: Issue) => i.severity === 'error');
+  const warnings = output.issues.filter((i: Issue) => i.severity === 'warning');
+  if (!output.ok) {
+    io.err(`The data "${args.data}" cannot be analysed:`);
+    for (const e of errors) io.err(`  ${where(e)}`);
+    if (errors.length === 0) io.err('  The run stopped without a reason given.');
+    return 1;
+  }
+  if (warnings.length > 0) {
+    // One line per cell: a row left out of both uses has two warnings that say the same thing.
+    const firstPerCell = warnings.filter((w, k) => w.cell === null || warnings.findIndex((o) => o.cell === w.cell) === k);
+    const rows = new Set(output.excluded.map((e) => e.row)).size;
+    io.out(
+      `${warnings.length} warning${warnings.length === 1 ? '' : 's'}; ${rows} row${rows === 1 ? '' : 's'} left out of visit timing or the model (all are listed in the outputs):`,
+    );
+    for (const w of firstPerCell.slice(0, WARNINGS_SHOWN)) io.out(`  ${where(w)}`);
+    if (firstPerCell.length > WARNINGS_SHOWN) io.out(`  … and ${firstPerCell.length - WARNINGS_SHOWN} more.`);
+  }
+  printSummary(output.json, io);
+  // Build every output in memory first, so a failure leaves no file half-written.
+  const xlsx = args.out === undefined ? null : await writeWorkbook(output.sheets);
+  const jsonText = args.json === undefined ? null : `${JSON.stringify(output.json, null, 2)}\n`;
+  if (xlsx !== null && args.out !== undefined) {
+    await writeFileAtomic(args.out, xlsx);
+    io.out(`Wrote ${args.out}`);
+  }
+  if (jsonText !== null && args.json !== undefined) {
+    await writeFileAtomic(args.json, jsonText);
+    io.out(`Wrote ${args.json}`);
+  }
+  if (args.out === undefined && args.json === undefined) io.out('Nothing written: give --out FILE.xlsx and/or --json FILE.json to save the results.');
+  return 0;
+}
+
+/**
+ * Runs the command line with the arguments after the program name and returns the exit code:
+ * 0 done, 1 the data or schedule could not be analysed, 2 wrong usage or an unreadable file.
+ */
+export async function main(argv: readonly string[], io: Console2 = processConsole, now: () => Date = () => new Date()): Promise<number> {
+  const [command, ...rest] = argv;
+  if (command === undefined || command === 'help' || command === '--help' || command === '-h') {
+    io.out(HELP_TEXT);
+    return command === undefined ? 2 : 0;
+  }
+  if (command === '--version' || command === 'version') {
+    io.out(VERSION);
+    return 0;
+  }
+  if (command !== 'analyze') {
+    io.err(`longipane: unknown command "${command}". Run \`longipane help\`.`);
+    return 2;
+  }
+  try {
+    return await analyze(parseAnalyzeArgs(rest), io, now);
+  } catch (e) {
+    if (e instanceof UsageError) {
+      io.err(`longipane: ${e.message}`);
+      io.err('Run `longipane help` for the options.');
+      return 2;
+    }
+    if (e instanceof FileFormatError) {
+      io.err(`longipane: ${e.message}`);
+      return 2;
+    }
+    const err = e as NodeJS.ErrnoException;
+    if (typeof err.code === 'string' && typeof err.path === 'string') {
+      io.err(`longipane: cannot write "${err.path}" (${err.code}): ${err.message}`);
+      return 2;
+    }
+    io.err(`longipane: unexpected failure: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
+    return 70;
+  }
 }

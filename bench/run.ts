@@ -1,0 +1,38 @@
+/**
+ * `npm run bench`: visit timing (intake + windowing) at 10k, 100k and 1,000,000 rows, plus the model engine's
+ * entries (bench/model-bench.ts), each beside its baseline measured in the same run. Writes bench/latest.json and
+ * prints a table. Sizes can be given as arguments: `npm run bench -- 10000 50000`.
+ */
+import { writeFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { runModelBench } from './model-bench';
+import { runTimingBench } from './timing-bench';
+import type { BenchEntry } from './types';
+
+const sizes = process.argv.slice(2).map(Number).filter((n) => Number.isInteger(n) && n > 0);
+const rowsList = sizes.length > 0 ? sizes : [10_000, 100_000, 1_000_000];
+
+const entries: BenchEntry[] = [];
+for (const rows of rowsList) {
+  entries.push(runTimingBench(rows));
+  entries.push(...(await runModelBench(rows)));
+}
+
+const out = join(dirname(fileURLToPath(import.meta.url)), 'latest.json');
+writeFileSync(out, `${JSON.stringify(entries, null, 2)}\n`);
+
+const pad = (s: string, n: number): string => s.padStart(n);
+const lines = [
+  `${'name'.padEnd(28)}${pad('rows', 10)}${pad('seconds', 10)}${pad('baseline s', 12)}${pad('ratio', 8)}${pad('rows/s', 12)}${pad('peak MB', 9)}`,
+  ...entries.map(
+    (e) =>
+      `${e.name.padEnd(28)}${pad(String(e.rows), 10)}${pad(e.seconds.toFixed(3), 10)}${pad(e.baselineSeconds.toFixed(3), 12)}${pad(e.ratio.toFixed(2), 8)}${pad(Math.round(e.rows / e.seconds).toLocaleString('en'), 12)}${pad(String(e.peakMB), 9)}`,
+  ),
+];
+process.stdout.write(`${lines.join('\n')}\n`);
+process.stdout.write(
+  'Baseline of timing-*: one plain pass reading the subject, date, reference date and value cells of every row.\n' +
+    'peak MB: the process high-water mark of resident memory (it includes the generated cells and earlier sizes).\n' +
+    `Wrote ${out}\n`,
+);

@@ -1,0 +1,7 @@
+/** The pipeline: one analysis run from cells to sheet specs and JSON, shared by the add-in, the page and the CLI. */
+export * from './types';
+export { runAnalysis } from './runAnalysis';
+export { excludedRows } from './excludedRows';
+export { buildModelData, contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
+export type { ObservedMean } from './modelData';
+export { resultsJson, mappingByHeader } from './resultsJson';

@@ -1,0 +1,41 @@
+import type { Issue, Role } from '../intake/types';
+import { renderMessage } from '../intake/messages';
+import type { ScheduleIssue } from '../schedule/types';
+
+const ROLE_OF: Readonly<Partial<Record<ScheduleIssue['code'], Role>>> = {
+  'no-reference-date': 'reference',
+  'no-baseline-record': 'date',
+  'after-cutoff': 'date',
+};
+
+/**
+ * The schedule layer's row issues as run issues. A row left out of visit timing has no study day, so it is left out
+ * of the model as well: each becomes two issues, one per use, as intake reports its own timing exclusions.
+ * Schedule-table issues (use null) are not row issues and are not passed on here.
+ */
+export function fromScheduleIssues(issues: readonly ScheduleIssue[]): Issue[] {
+  const out: Issue[] = [];
+  for (const i of issues) {
+    const role = ROLE_OF[i.code];
+    if (role === undefined || i.use === null) continue;
+    const code = i.code as Issue['code'];
+    for (const use of ['timing', 'model'] as const) {
+      out.push({ code, severity: i.severity, cell: i.cell, row: i.row, role, value: i.value, use, message: use === 'timing' ? i.message : renderMessage({ code, role, value: i.value, cell: i.cell, use }) });
+    }
+  }
+  return out;
+}
+
+/** The run-level issue saying the model was not fitted and why (the visit-timing results still stand). */
+export function modelNotFitted(reason: string): Issue {
+  return {
+    code: 'model-not-fitted',
+    severity: 'warning',
+    cell: null,
+    row: null,
+    role: null,
+    value: '',
+    use: null,
+    message: renderMessage({ code: 'model-not-fitted', role: null, value: '', cell: null, use: null, context: reason }),
+  };
+}

@@ -1,0 +1,79 @@
+import type { ColumnMapping, Issue, IntakeTable } from '../intake/types';
+import type { VisitsJson } from '../report/timingJson';
+import { isoDate } from '../schedule/dates';
+import type { CutoffRule } from '../schedule/types';
+import type { AnalysisSettings, ExcludedRow } from './types';
+import { DAYS_PER_UNIT } from './types';
+
+export interface ResultsJsonInput {
+  readonly settings: AnalysisSettings;
+  readonly table: IntakeTable;
+  readonly fingerprint: string;
+  readonly excluded: readonly ExcludedRow[];
+  readonly usedForTiming: number;
+  readonly usedForModel: number;
+  readonly visits: VisitsJson;
+  readonly model: Record<string, unknown> | null;
+  readonly modelNote: string | null;
+  readonly notes: readonly string[];
+  readonly issues: readonly Issue[];
+  readonly cutoff: number | null;
+  readonly cutoffRule: CutoffRule;
+}
+
+/** The mapping as role → header text (what a reader of the JSON recognises), covariates as a list of headers. */
+export function mappingByHeader(mapping: ColumnMapping, headers: readonly string[]): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  const roles = ['subject', 'date', 'studyDay', 'reference', 'visit', 'value', 'arm', 'site'] as const;
+  for (const r of roles) {
+    const c = mapping[r];
+    if (c !== undefined) out[r] = headers[c] ?? `column ${c + 1}`;
+  }
+  out.covariates = mapping.covariates.map((c) => headers[c] ?? `column ${c + 1}`);
+  return out;
+}
+
+/**
+ * The machine-readable results (schema: src/core/pipeline/RESULTS-JSON.md). Plain JSON values only: no NaN, no
+ * typed arrays. In blinded mode nothing here is by arm (the visit and model parts come from blinded inputs, and the
+ * settings carry no reference arm). O(excluded rows + issues).
+ */
+export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
+  const s = r.settings;
+  const unblinded = s.mode === 'unblinded';
+  return {
+    tool: { name: 'longipane', version: s.toolVersion ?? 'unknown' },
+    input: {
+      label: s.inputLabel,
+      sheet: s.sheet,
+      topLeft: s.topLeft,
+      rows: r.table.nRows,
+      subjects: r.table.subjectIds.length,
+      fingerprint: r.fingerprint,
+      excluded: r.excluded.map((e) => ({ row: e.row, cell: e.cell, use: e.use, reason: e.reason })),
+      usedForTiming: r.usedForTiming,
+      usedForModel: r.usedForModel,
+    },
+    settings: {
+      mode: s.mode,
+      mapping: mappingByHeader(r.table.mapping, r.table.headers),
+      schedule: s.schedule.map((v) => ({ label: v.label, targetDay: v.targetDay, before: v.before, after: v.after })),
+      cutoff: r.cutoff === null ? null : r.table.timeKind === 'date' ? isoDate(r.cutoff) : r.cutoff,
+      cutoffRule: r.cutoffRule,
+      referenceArm: unblinded ? (r.table.arms.includes(s.referenceArm ?? '') ? s.referenceArm! : (r.table.arms[0] ?? null)) : null,
+      timeUnit: s.timeUnit,
+      daysPerUnit: DAYS_PER_UNIT[s.timeUnit],
+      dfMethod: s.dfMethod,
+      method: s.method,
+      level: s.level,
+      scheduledOnly: s.scheduledOnly,
+      perSubject: s.perSubject,
+      runAt: s.runAt,
+    },
+    visits: r.visits,
+    model: r.model,
+    modelNote: r.modelNote,
+    notes: [...r.notes],
+    issues: r.issues.map((i) => ({ code: i.code, severity: i.severity, cell: i.cell, row: i.row, role: i.role, value: i.value, use: i.use, message: i.message })),
+  };
+}

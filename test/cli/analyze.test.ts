@@ -1,0 +1,232 @@
+import { mkdtemp, mkdir, readdir, readFile, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import ExcelJS from 'exceljs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { main } from '../../src/cli/main';
+import type { Console2 } from '../../src/cli/main';
+import { UNBLINDED_CAUTION } from '../../src/core/report/cautions';
+
+const DEMO_DATA = join(__dirname, '..', '..', 'demo', 'egfr-visits.csv');
+const DEMO_SCHEDULE = join(__dirname, '..', '..', 'demo', 'egfr-schedule.csv');
+const FIXED_NOW = (): Date => new Date('2026-04-01T09:00:00Z');
+
+let dir: string;
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'longipane-cli-'));
+});
+afterAll(async () => {
+  await rm(dir, { recursive: true, force: true });
+});
+
+interface Run {
+  code: number;
+  out: string[];
+  err: string[];
+}
+
+async function run(...argv: string[]): Promise<Run> {
+  const out: string[] = [];
+  const err: string[] = [];
+  const io: Console2 = { out: (l) => out.push(l), err: (l) => err.push(l) };
+  const code = await main(argv, io, FIXED_NOW);
+  return { code, out, err };
+}
+
+async function loadXlsx(path: string): Promise<ExcelJS.Workbook> {
+  const wb = new ExcelJS.Workbook();
+  await wb.xlsx.load((await readFile(path)) as unknown as Parameters<typeof wb.xlsx.load>[0]);
+  return wb;
+}
+
+/** The parts of the results JSON these tests read (schema: src/core/pipeline/RESULTS-JSON.md). */
+interface Results {
+  tool: { name: string; version: string };
+  input: { excluded: { row: number; cell: string; use: string; reason: string }[]; fingerprint: string };
+  settings: { mode: string; referenceArm: string | null; mapping: Record<string, unknown> } & Record<string, unknown>;
+  visits: { counts: Record<string, number>; byArm?: unknown };
+}
+
+const readJson = async (path: string): Promise<Results> => JSON.parse(await readFile(path, 'utf8')) as Results;
+
+const SCHEDULE = 'visit,target_day,days_before,days_after\nBaseline,1,0,0\nWeek 4,29,3,3\nWeek 8,57,3,3\n';
+
+/** A small invented data set: two arms, two sites; three bad rows (text value, blank subject, impossible date). */
+const SMALL = [
+  'USUBJID,SITEID,TRT01P,AVISIT,ADT,RANDDT,AVAL',
+  'P-01,Lindale,Placebo,Baseline,2025-01-06,2025-01-06,60.1',
+  'P-01,Lindale,Placebo,Week 4,2025-02-03,2025-01-06,59.0',
+  'P-01,Lindale,Placebo,Week 8,2025-03-10,2025-01-06,58.2',
+  'P-02,Lindale,Active,Baseline,2025-01-08,2025-01-08,52.4',
+  'P-02,Lindale,Active,Week 4,2025-02-05,2025-01-08,pending',
+  'P-02,Lindale,Active,Week 8,2025-03-05,2025-01-08,53.0',
+  '=1+1,Corvale,Placebo,Baseline,2025-01-10,2025-01-10,48.0',
+  '=1+1,Corvale,Placebo,Week 4,2025-02-20,2025-01-10,47.1',
+  ',Corvale,Active,Week 4,2025-02-09,2025-01-12,50.0',
+  'P-04,Corvale,Active,Baseline,2025-01-12,2025-01-12,50.9',
+  'P-04,Corvale,Active,Week 4,2025-02-30,2025-01-12,51.5',
+  'P-04,Corvale,Active,Week 8,2025-03-09,2025-01-12,51.8',
+  'P-05,Lindale,Placebo,Baseline,2025-01-13,2025-01-13,57.7',
+  'P-05,Lindale,Placebo,Week 4,2025-02-10,2025-01-13,56.0',
+  'P-06,Corvale,Active,Baseline,2025-01-14,2025-01-14,49.5',
+  'P-06,Corvale,Active,Week 4,2025-02-11,2025-01-14,50.2',
+  'P-06,Corvale,Active,Week 8,2025-03-11,2025-01-14,50.6',
+].join('\n');
+
+describe('longipane analyze on the invented demo trial', () => {
+  let result: Run;
+  let json: Results;
+  beforeAll(async () => {
+    result = await run(
+      'analyze', '--data', DEMO_DATA, '--schedule', DEMO_SCHEDULE,
+      '--out', join(dir, 'demo', 'report.xlsx'), '--json', join(dir, 'demo', 'results.json'),
+      '--unblinded', '--reference-arm', 'Placebo',
+    );
+    json = await readJson(join(dir, 'demo', 'results.json'));
+  });
+
+  it('succeeds, creates the output folder, writes both files and prints the unblinded caution once', async () => {
+    expect(result.err).toEqual([]);
+    expect(result.code).toBe(0);
+    expect(result.out.filter((l) => l === UNBLINDED_CAUTION)).toHaveLength(1);
+    expect(result.out.some((l) => l.startsWith('Rows: 920 '))).toBe(true);
+    expect((await readdir(join(dir, 'demo'))).sort()).toEqual(['report.xlsx', 'results.json']);
+  });
+
+  it('lists the four deliberately bad cells of the demo with their cell addresses', () => {
+    const cells = new Set(json.input.excluded.map((e) => e.cell));
+    // demo/README.md names the four cells (G42, A157, E304, G519), on the sheet named after the file (quoted, as A1 references quote a name with a hyphen).
+    for (const c of ["'egfr-visits'!G42", "'egfr-visits'!A157", "'egfr-visits'!E304", "'egfr-visits'!G519"]) expect(cells).toContain(c);
+  });
+
+  it('gives visit counts with exactly the seven status keys', () => {
+    expect(Object.keys(json.visits.counts).sort()).toEqual(['early', 'extra', 'late', 'missed', 'notYetDue', 'onTime', 'repeat']);
+  });
+
+  it('names the tool, its version, the input fingerprint and the settings in the JSON', () => {
+    expect(json.tool).toEqual({ name: 'longipane', version: expect.stringMatching(/^\d+\.\d+\.\d+/) });
+    expect(json.input.fingerprint).toMatch(/^[0-9a-f]{64}$/);
+    expect(json.settings).toMatchObject({ mode: 'unblinded', referenceArm: 'Placebo', timeUnit: 'month', dfMethod: 'kenward-roger', method: 'reml', level: 0.95, runAt: '2026-04-01T09:00:00.000Z' });
+    expect(json.settings.mapping).toMatchObject({ subject: 'USUBJID', date: 'ADT', reference: 'RANDDT', visit: 'AVISIT', value: 'AVAL', arm: 'TRT01P', site: 'SITEID' });
+  });
+});
+
+describe('longipane analyze on a small CSV with CDISC headers and no --map', () => {
+  let result: Run;
+  let json: Results;
+  const xlsx = (): string => join(dir, 'small', 'report.xlsx');
+  beforeAll(async () => {
+    await mkdir(join(dir, 'small'), { recursive: true });
+    await writeFile(join(dir, 'small', 'visits.csv'), SMALL);
+    await writeFile(join(dir, 'small', 'schedule.csv'), SCHEDULE);
+    result = await run(
+      'analyze', '--data', join(dir, 'small', 'visits.csv'), '--schedule', join(dir, 'small', 'schedule.csv'),
+      '--out', xlsx(), '--json', join(dir, 'small', 'results.json'), '--cutoff', '2025-04-30',
+    );
+    json = await readJson(join(dir, 'small', 'results.json'));
+  });
+
+  it('detects every column, runs, and summarises the warnings on stdout', () => {
+    expect(result.err).toEqual([]);
+    expect(result.code).toBe(0);
+    expect(result.out.some((l) => /^\d+ warnings?; 3 rows left out/.test(l))).toBe(true);
+  });
+
+  it('lists the excluded rows (text value, blank subject, impossible date) with cell addresses and uses', () => {
+    const byCell = (cell: string): string[] => json.input.excluded.filter((e) => e.cell === cell).map((e) => e.use).sort();
+    expect(byCell('visits!G6')).toEqual(['model']); // "pending" in AVAL: still a timing record
+    expect(byCell('visits!A10')).toEqual(['model', 'timing']); // blank subject
+    expect(byCell('visits!E12')).toEqual(['model', 'timing']); // 2025-02-30
+    expect(json.input.excluded.every((e) => e.cell.endsWith(String(e.row)))).toBe(true);
+  });
+
+  it('keeps the subject "=1+1" a string cell in the workbook, never a formula', async () => {
+    const wb = await loadXlsx(xlsx());
+    const found: ExcelJS.Cell[] = [];
+    wb.eachSheet((ws) => ws.eachRow((row) => row.eachCell((c) => {
+      if (c.value === '=1+1') found.push(c);
+      if (c.type === ExcelJS.ValueType.Formula) throw new Error(`formula cell at ${ws.name}!${c.address}`);
+    })));
+    expect(found.length).toBeGreaterThan(0);
+    for (const c of found) {
+      expect(c.type).toBe(ExcelJS.ValueType.String);
+      expect(c.formula).toBeUndefined();
+    }
+  });
+
+  it('writes the timing sheets first and the analysis record last, each result table a real Excel table', async () => {
+    const wb = await loadXlsx(xlsx());
+    const names = wb.worksheets.map((w) => w.name);
+    expect(names.slice(0, 3)).toEqual(['Visit timing', 'Visit deviations', 'Visits due']);
+    expect(names[names.length - 1]).toBe('Analysis record');
+    const timingTables = wb.getWorksheet('Visit timing')!.getTables().map((t) => (t as unknown as { table: { name: string } }).table.name);
+    expect(timingTables).toEqual(expect.arrayContaining(['ByVisit', 'BySite']));
+    expect(wb.getWorksheet('Visit deviations')!.getTables()).toHaveLength(1);
+  });
+
+  it('shows nothing by arm in blinded mode, in the JSON or the workbook', async () => {
+    expect(json.settings.mode).toBe('blinded');
+    expect(json.settings.referenceArm).toBeNull();
+    expect(json.visits.byArm).toBeUndefined();
+    expect(JSON.stringify(json)).not.toMatch(/Placebo|Active/);
+    const wb = await loadXlsx(xlsx());
+    wb.eachSheet((ws) => ws.eachRow((row) => row.eachCell((c) => expect(String(c.value)).not.toMatch(/Placebo|Active/))));
+  });
+});
+
+describe('longipane analyze when something is wrong', () => {
+  it('leaves an existing output file untouched and no temporary file behind when the data cannot be analysed', async () => {
+    const d = join(dir, 'fail');
+    await mkdir(d, { recursive: true });
+    await writeFile(join(d, 'bad.csv'), 'Colour,Weight\nred,3\n');
+    await writeFile(join(d, 'schedule.csv'), SCHEDULE);
+    await writeFile(join(d, 'report.xlsx'), 'a good earlier report');
+    const r = await run('analyze', '--data', join(d, 'bad.csv'), '--schedule', join(d, 'schedule.csv'), '--out', join(d, 'report.xlsx'));
+    expect(r.code).toBe(1);
+    expect(r.err.join('\n')).toMatch(/subject/);
+    expect(await readFile(join(d, 'report.xlsx'), 'utf8')).toBe('a good earlier report');
+    expect((await readdir(d)).sort()).toEqual(['bad.csv', 'report.xlsx', 'schedule.csv']);
+  });
+
+  it('removes its temporary file when the final rename fails, and says which file could not be written', async () => {
+    const d = join(dir, 'blocked');
+    await mkdir(join(d, 'results.json'), { recursive: true }); // a folder where the JSON file should go
+    await writeFile(join(d, 'visits.csv'), SMALL);
+    await writeFile(join(d, 'schedule.csv'), SCHEDULE);
+    const r = await run('analyze', '--data', join(d, 'visits.csv'), '--schedule', join(d, 'schedule.csv'), '--json', join(d, 'results.json'));
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/cannot write/);
+    expect((await readdir(d)).sort()).toEqual(['results.json', 'schedule.csv', 'visits.csv']);
+  });
+
+  it('reports a schedule problem with its cell address and exits with 1', async () => {
+    const d = join(dir, 'sched');
+    await mkdir(d, { recursive: true });
+    await writeFile(join(d, 'visits.csv'), SMALL);
+    await writeFile(join(d, 'schedule.csv'), 'visit,target_day,days_before,days_after\nBaseline,0,0,0\n');
+    const r = await run('analyze', '--data', join(d, 'visits.csv'), '--schedule', join(d, 'schedule.csv'));
+    expect(r.code).toBe(1);
+    expect(r.err.join('\n')).toMatch(/schedule!B2: There is no study day 0/);
+  });
+
+  it('exits with 2 and a clear message for a missing flag, an unknown flag, a bad date or a missing file', async () => {
+    const cases: [string[], RegExp][] = [
+      [['analyze', '--schedule', 's.csv'], /--data FILE is required/],
+      [['analyze', '--data', 'd.csv', '--schedule', 's.csv', '--colour', 'red'], /Unknown flag "--colour"/],
+      [['analyze', '--data', 'd.csv', '--schedule', 's.csv', '--cutoff', '2025-02-30'], /--cutoff must be a real date/],
+      [['analyze', '--data', join(dir, 'nope.csv'), '--schedule', 's.csv'], /Cannot read the data file .*no such file/],
+      [['frobnicate'], /unknown command "frobnicate"/],
+    ];
+    for (const [argv, message] of cases) {
+      const r = await run(...argv);
+      expect(r.code).toBe(2);
+      expect(r.err.join('\n')).toMatch(message);
+    }
+  });
+
+  it('prints the help text for `help` and exits with 0', async () => {
+    const r = await run('help');
+    expect(r.code).toBe(0);
+    expect(r.out.join('\n')).toMatch(/longipane analyze --data FILE --schedule FILE/);
+  });
+});

@@ -3,3 +3,4 @@ export { fitRandomIntercept, DAYS_PER_TIME_UNIT } from './fit';
 export { ModelInputError, RankDeficiencyError } from './errors';
 export { tQuantile, tTwoSided, fQuantile, fUpper, chiSquareQuantile, normalQuantile } from './distributions';
 export type * from './types';
+export { fitFromTable, modelDataFromTable } from './fromTable';

@@ -1,0 +1,86 @@
+import { describe, expect, it } from 'vitest';
+import type { IntakeTable } from '../../../src/core/intake/types';
+import { fitFromTable, fitRandomIntercept, modelDataFromTable, ModelInputError, type FitOptions } from '../../../src/core/model';
+
+/** An invented intake table: 6 patients (P01..P06) x 4 visits on days 1, 85, 169, 253; arms "Drug" first seen. */
+function table(): IntakeTable {
+  const subject: string[] = [], arm: string[] = [], value: number[] = [], day: number[] = [], site: string[] = [];
+  for (let i = 0; i < 6; i++) {
+    for (let j = 0; j < 4; j++) {
+      subject.push(`P0${i + 1}`);
+      arm.push(i % 2 === 0 ? 'Drug' : 'Placebo');
+      value.push(60 + i * 1.5 - j * (i % 2 === 0 ? 0.5 : 1.2) + ((i * 3 + j * 5) % 4));
+      day.push(1 + 84 * j + (i % 3));
+      site.push(i < 3 ? 'S1' : 'S2');
+    }
+  }
+  const n = subject.length;
+  const ids = [...new Set(subject)];
+  const usableModel = new Uint8Array(n).fill(1);
+  usableModel[5] = 0; // a row with a blank value, say
+  return {
+    nRows: n,
+    headers: ['USUBJID', 'ARM', 'ADY', 'AVAL', 'SITE'],
+    mapping: { subject: 0, arm: 1, studyDay: 2, value: 3, site: 4, covariates: [] },
+    mode: 'unblinded',
+    sheetRows: Int32Array.from({ length: n }, (_, i) => i + 2),
+    subject,
+    subjectIndex: Int32Array.from(subject, (s) => ids.indexOf(s)),
+    subjectIds: ids,
+    timeKind: 'studyDay',
+    date: new Float64Array(n).fill(NaN),
+    studyDay: Float64Array.from(day),
+    reference: new Float64Array(n).fill(NaN),
+    visit: null,
+    value: Float64Array.from(value),
+    arm,
+    arms: ['Drug', 'Placebo'],
+    site,
+    covariates: [{ name: 'Region', kind: 'categorical', values: site.map((s) => (s === 'S1' ? 'North' : 'South')), levels: ['East', 'North', 'South'] }],
+    usableTiming: new Uint8Array(n).fill(1),
+    usableModel,
+  };
+}
+
+const opts: FitOptions & { referenceArm?: string } = { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'week', contrastDays: [{ label: 'Week 36', day: 253 }], referenceArm: 'Placebo' };
+
+describe('fitFromTable builds the model columns from the intake table', () => {
+  const t = table();
+  const include = new Uint8Array(t.nRows).fill(1);
+  include[0] = 0;
+  const days = Float64Array.from(t.studyDay);
+  days[10] = NaN;
+
+  it('uses only rows that are included, usable for the model and have a finite study day; time = (day − 1)/7 in weeks', () => {
+    const d = modelDataFromTable(t, days, include, 'week', 'Placebo');
+    expect(d.y.length).toBe(24 - 3);
+    expect(Array.from(d.time.slice(0, 3))).toEqual([84 / 7, 168 / 7, 252 / 7]); // first row excluded; P01 days 85, 169, 253
+    expect(d.subjectIds).toEqual(['P01', 'P02', 'P03', 'P04', 'P05', 'P06']);
+  });
+  it('puts the chosen reference arm first and codes the arm index against it', () => {
+    const d = modelDataFromTable(t, days, include, 'week', 'Placebo');
+    expect(d.arms).toEqual(['Placebo', 'Drug']);
+    expect(d.armIndex![0]).toBe(1); // P01 is on Drug
+    const byDefault = modelDataFromTable(t, days, include, 'week');
+    expect(byDefault.arms).toEqual(['Drug', 'Placebo']);
+  });
+  it('keeps only the categorical levels present among the rows (so no empty indicator column)', () => {
+    const d = modelDataFromTable(t, days, include, 'week');
+    const c = d.covariates[0]!;
+    expect(c.kind === 'categorical' ? c.levels : []).toEqual(['North', 'South']);
+  });
+  it('gives the same fit as fitRandomIntercept on the same columns, with the table subject ids', () => {
+    const a = fitFromTable(t, days, include, opts);
+    const b = fitRandomIntercept(modelDataFromTable(t, days, include, 'week', 'Placebo'), opts);
+    expect(a.fixedEffects).toEqual(b.fixedEffects);
+    expect(a.subjects.map((s) => s.id)).toEqual(['P01', 'P02', 'P03', 'P04', 'P05', 'P06']);
+    expect(a.treatmentEffects[0]!.arm).toBe('Drug');
+    expect(a.treatmentEffects[0]!.time).toBe(252 / 7);
+  });
+  it('blinded tables give no arm terms; an unknown reference arm or no usable rows throws ModelInputError', () => {
+    const blind = fitFromTable({ ...t, mode: 'blinded', arm: null, arms: [] }, days, include, opts);
+    expect(blind.terms.some((x) => x.kind === 'arm')).toBe(false);
+    expect(() => fitFromTable(t, days, include, { ...opts, referenceArm: 'Sham' })).toThrow(/Sham/);
+    expect(() => fitFromTable(t, days, new Uint8Array(t.nRows), opts)).toThrow(ModelInputError);
+  });
+});

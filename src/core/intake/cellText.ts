@@ -58,3 +58,14 @@ export function parsePlainDecimal(text: string): number {
   const t = text.trim();
   return PLAIN_DECIMAL.test(t) ? Number(t) : NaN;
 }
+
+/**
+ * A cell of a text role read in one step: its text (trimmed; numbers and booleans as in cellText; "" when blank), or
+ * null when it holds a spreadsheet error value. Trims once, so the row pass does not classify a cell three times.
+ * @example readTextCell(" K-1 ") // "K-1"; readTextCell(null) // ""; readTextCell("#N/A") // null
+ */
+export function readTextCell(cell: CellValue): string | null {
+  if (typeof cell !== 'string') return cellText(cell);
+  const t = cell.trim();
+  return t.charCodeAt(0) === 35 /* # */ && ERROR_LITERALS.has(t.toUpperCase()) ? null : t;
+}

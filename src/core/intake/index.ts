@@ -25,5 +25,5 @@ export {
   LAST_DAY,
   type IsoDateResult,
 } from './dates';
-export { ERROR_LITERALS, isBlankCell, isErrorCell, cellText, parsePlainDecimal } from './cellText';
+export { ERROR_LITERALS, isBlankCell, isErrorCell, cellText, readTextCell, parsePlainDecimal } from './cellText';
 export { IntakeUsageError } from './errors';

@@ -3,7 +3,7 @@
  * as an issue with its cell address (SPEC §3).
  */
 import { columnLetters, MAX_COLUMN_INDEX, MAX_ROW, parseCell } from './cellAddress';
-import { cellText, isBlankCell, isErrorCell } from './cellText';
+import { cellText, isBlankCell, readTextCell } from './cellText';
 import { checkMapping, effectiveMapping } from './checkMapping';
 import { planCovariate, type CovariatePlan } from './covariatePlan';
 import { detectMapping } from './detect';
@@ -106,10 +106,10 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
     let modelOk = true;
 
     const sCell = row[sc];
-    if (isErrorCell(sCell)) timingOk = excludeBoth(issues, 'error-value', i, sc, 'subject', sCell);
-    else if (isBlankCell(sCell)) timingOk = excludeBoth(issues, 'blank-subject', i, sc, 'subject', sCell);
+    const id = readTextCell(sCell);
+    if (id === null) timingOk = excludeBoth(issues, 'error-value', i, sc, 'subject', sCell);
+    else if (id === '') timingOk = excludeBoth(issues, 'blank-subject', i, sc, 'subject', sCell);
     else {
-      const id = cellText(sCell);
       let k = subjectMap.get(id);
       if (k === undefined) {
         k = subjectIds.length;
@@ -151,10 +151,10 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
 
     if (arm !== null) {
       const ac = mapping.arm!;
-      const aCell = row[ac];
-      if (isErrorCell(aCell)) modelOk = excludeModel(issues, 'error-value', i, ac, 'arm', aCell);
-      else if (isBlankCell(aCell)) modelOk = excludeModel(issues, 'blank-arm', i, ac, 'arm', aCell);
-      else arm[i] = cellText(aCell);
+      const a = readTextCell(row[ac]);
+      if (a === null) modelOk = excludeModel(issues, 'error-value', i, ac, 'arm', row[ac]);
+      else if (a === '') modelOk = excludeModel(issues, 'blank-arm', i, ac, 'arm', row[ac]);
+      else arm[i] = a;
     }
 
     for (let c = 0; c < plans.length; c++) {
@@ -166,9 +166,12 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
         // In a numeric column, text can only be numeric text, so 'text-in-numeric' cannot occur here.
         if (typeof v === 'number') out[i] = v;
         else modelOk = excludeModel(issues, v, i, plan.col, 'covariate', cell, plan.name);
-      } else if (isErrorCell(cell)) modelOk = excludeModel(issues, 'error-value', i, plan.col, 'covariate', cell, plan.name);
-      else if (isBlankCell(cell)) modelOk = excludeModel(issues, 'blank-value', i, plan.col, 'covariate', cell, plan.name);
-      else out[i] = cellText(cell);
+      } else {
+        const text = readTextCell(cell);
+        if (text === null) modelOk = excludeModel(issues, 'error-value', i, plan.col, 'covariate', cell, plan.name);
+        else if (text === '') modelOk = excludeModel(issues, 'blank-value', i, plan.col, 'covariate', cell, plan.name);
+        else out[i] = text;
+      }
     }
 
     usableTiming[i] = timingOk ? 1 : 0;
@@ -235,10 +238,8 @@ function isBlankRow(row: readonly CellValue[], width: number): boolean {
 
 /** Text of an optional text role (visit label, site); an error value becomes "" with a warning (use null). */
 function optionalText(row: readonly CellValue[], col: number, role: Role, i: number, issues: IssueList): string {
-  const cell = row[col];
-  if (isErrorCell(cell)) {
-    issues.at('error-value', 'warning', i, col, role, cellText(cell), null);
-    return '';
-  }
-  return cellText(cell);
+  const text = readTextCell(row[col]);
+  if (text !== null) return text;
+  issues.at('error-value', 'warning', i, col, role, cellText(row[col]), null);
+  return '';
 }

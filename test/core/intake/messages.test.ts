@@ -1,0 +1,63 @@
+import { describe, expect, it } from 'vitest';
+import { renderMessage, type IssueCode } from '../../../src/core/intake';
+
+// Every code of the IssueCode union; the record type makes the compiler fail when a code is added and not listed here.
+const ALL: Record<IssueCode, true> = {
+  'no-rows': true,
+  'no-subject-column': true,
+  'no-time-column': true,
+  'no-value-column': true,
+  'no-arm-column': true,
+  'duplicate-role': true,
+  'subject-in-two-arms': true,
+  'too-few-subjects-per-arm': true,
+  'no-usable-rows': true,
+  'blank-subject': true,
+  'blank-time': true,
+  'bad-date': true,
+  'bad-study-day': true,
+  'bad-reference-date': true,
+  'blank-value': true,
+  'text-in-numeric': true,
+  'error-value': true,
+  'blank-arm': true,
+  'bad-covariate': true,
+  'blank-row': true,
+  'empty-header': true,
+  'column-outside-range': true,
+  'partial-date': true,
+  'not-finite': true,
+  'too-few-arms': true,
+};
+
+describe('renderMessage', () => {
+  it('renderMessage gives every issue code a plain sentence that ends with a full stop', () => {
+    for (const code of Object.keys(ALL) as IssueCode[]) {
+      const m = renderMessage({ code, role: 'value', value: 'x', cell: 'Visits!C17', use: 'model' });
+      expect(m, code).toMatch(/^[A-Z'"].*\.$/);
+      expect(m, code).not.toMatch(/undefined|null|NaN/);
+    }
+  });
+
+  it('renderMessage starts a row-level sentence with the cell address and says which use the row leaves', () => {
+    expect(renderMessage({ code: 'blank-value', role: 'value', value: '', cell: "'My Sheet'!F7", use: 'model' })).toBe(
+      "'My Sheet'!F7: the value is blank, so the row is left out of the model.",
+    );
+    expect(renderMessage({ code: 'blank-time', role: 'date', value: '', cell: 'Visits!B3', use: 'timing' })).toBe(
+      'Visits!B3: the visit date is blank, so the row is left out of the visit-timing checks.',
+    );
+  });
+
+  it('renderMessage says that study day 0 does not exist by the CDISC convention, for 0 written in any plain way', () => {
+    for (const v of ['0', '-0', '+0', '0.0']) {
+      expect(renderMessage({ code: 'bad-study-day', role: 'studyDay', value: v, cell: 'Visits!B3', use: 'timing' })).toMatch(/study day 0 does not exist/);
+    }
+    expect(renderMessage({ code: 'bad-study-day', role: 'studyDay', value: '2.5', cell: 'Visits!B3', use: 'timing' })).toMatch(/whole number other than 0/);
+  });
+
+  it('renderMessage names a covariate by its column name', () => {
+    expect(renderMessage({ code: 'blank-value', role: 'covariate', value: '', cell: 'V!D4', use: 'model', context: 'Baseline eGFR' })).toBe(
+      'V!D4: the covariate "Baseline eGFR" is blank, so the row is left out of the model.',
+    );
+  });
+});

@@ -28,6 +28,10 @@ const ALL: Record<IssueCode, true> = {
   'partial-date': true,
   'not-finite': true,
   'too-few-arms': true,
+  'no-reference-date': true,
+  'no-baseline-record': true,
+  'after-cutoff': true,
+  'model-not-fitted': true,
 };
 
 describe('renderMessage', () => {

@@ -32,7 +32,7 @@ const lines = [
 ];
 process.stdout.write(`${lines.join('\n')}\n`);
 process.stdout.write(
-  'Baseline of timing-*: one plain pass reading the subject, date, reference date and value cells of every row.\n' +
+  'Baseline of timing-*: one plain pass copying the subject, date, reference date and value cells into typed columns.\n' +
     'peak MB: the process high-water mark of resident memory (it includes the generated cells and earlier sizes).\n' +
     `Wrote ${out}\n`,
 );

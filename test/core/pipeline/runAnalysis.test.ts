@@ -1,0 +1,119 @@
+import { describe, expect, it } from 'vitest';
+import { runAnalysis } from '../../../src/core/pipeline';
+import type { AnalysisSettings, Stage } from '../../../src/core/pipeline';
+import type { CellValue } from '../../../src/core/intake/types';
+
+/** Invented: four subjects on two sites, visits at study days 1, 29 and 57 (dates as 1900-system serials). */
+const CELLS: CellValue[][] = [
+  ['Patient', 'Centre', 'Group', 'Visit', 'Visit date', 'Result'],
+  ['A', 'North', 'X', 'Day 1', 45663, 60],
+  ['A', 'North', 'X', 'Day 29', 45691, 59],
+  ['A', 'North', 'X', 'Day 57', 45719, 58],
+  ['B', 'North', 'Y', 'Day 1', 45664, 52],
+  ['B', 'North', 'Y', 'Day 29', 45700, 'pending'],
+  ['B', 'North', 'Y', 'Day 57', 45722, 53],
+  ['C', 'South', 'X', 'Day 1', 45665, 48],
+  ['C', 'South', 'X', 'Day 29', 45693, 47],
+  ['D', 'South', 'Y', 'Day 1', 45666, 51],
+  ['D', 'South', 'Y', 'Day 29', 45694, 51.5],
+  ['D', 'South', 'Y', 'Day 57', 45722, 52],
+];
+
+const SETTINGS: AnalysisSettings = {
+  sheet: 'Visits',
+  topLeft: 'A1',
+  dateSystem: 1900,
+  mode: 'blinded',
+  schedule: [
+    { label: 'Day 1', targetDay: 1, before: 0, after: 0 },
+    { label: 'Day 29', targetDay: 29, before: 3, after: 3 },
+    { label: 'Day 57', targetDay: 57, before: 3, after: 3 },
+  ],
+  cutoff: '2025-03-31',
+  timeUnit: 'week',
+  dfMethod: 'kenward-roger',
+  method: 'reml',
+  level: 0.95,
+  scheduledOnly: false,
+  perSubject: false,
+  inputLabel: 'invented test data',
+  runAt: '2026-01-01T00:00:00.000Z',
+};
+
+describe('runAnalysis', () => {
+  it('reports the four stages in order and yields to the front end before each', async () => {
+    const events: string[] = [];
+    const out = await runAnalysis(CELLS, SETTINGS, {
+      onStage: (s: Stage) => events.push(s),
+      yieldControl: async () => {
+        events.push('yield');
+      },
+    });
+    expect(out.ok).toBe(true);
+    expect(events).toEqual(['reading', 'yield', 'windowing', 'yield', 'fitting', 'yield', 'writing', 'yield']);
+  });
+
+  it('stops with cancelled: true and no issues when the signal is aborted between stages', async () => {
+    const signal = { aborted: false };
+    const seen: Stage[] = [];
+    const out = await runAnalysis(CELLS, SETTINGS, {
+      signal,
+      onStage: (s) => {
+        seen.push(s);
+        if (s === 'windowing') signal.aborted = true;
+      },
+    });
+    expect(out).toEqual({ ok: false, issues: [], cancelled: true });
+    expect(seen).toEqual(['reading', 'windowing']);
+  });
+
+  it('returns the blocking issues when the data cannot be read, and never modifies the cells', async () => {
+    const cells = CELLS.map((r) => [...r]);
+    const before = JSON.stringify(cells);
+    const out = await runAnalysis(cells, { ...SETTINGS, mapping: { date: 4, value: 5, covariates: [] } });
+    expect(out.ok).toBe(false);
+    expect(out.issues.map((i) => i.code)).toContain('no-subject-column');
+    expect(JSON.stringify(cells)).toBe(before);
+  });
+
+  it('lists each excluded row once per use with its cell address, and counts rows used for timing and the model', async () => {
+    const out = await runAnalysis(CELLS, SETTINGS);
+    if (!out.ok) throw new Error('run failed');
+    expect(out.excluded).toEqual([{ row: 6, cell: 'Visits!F6', use: 'model', reason: expect.stringMatching(/"pending" is not a number/) }]);
+    const input = out.json.input as Record<string, unknown>;
+    expect(input).toMatchObject({ rows: 11, subjects: 4, usedForTiming: 11, usedForModel: 10 });
+  });
+
+  it('keeps the visit-timing results when the model cannot be fitted (no value column): model null and a reason', async () => {
+    const cells = CELLS.map((r) => r.slice(0, 5));
+    const out = await runAnalysis(cells, SETTINGS);
+    if (!out.ok) throw new Error('run failed');
+    expect(out.json.model).toBeNull();
+    expect(out.json.modelNote).toMatch(/value/);
+    expect(out.issues.map((i) => i.code)).toContain('no-value-column');
+    expect((out.json.visits as { counts: Record<string, number> }).counts.onTime).toBeGreaterThan(0);
+  });
+
+  it('gives JSON visit counts with exactly the seven status keys, matching a count by hand', async () => {
+    const out = await runAnalysis(CELLS, SETTINGS);
+    if (!out.ok) throw new Error('run failed');
+    // By hand: B's Day 29 is study day 37 (late, window 26–32); C's Day 57 has no record and its window closed on
+    // day 60 = 2025-03-08, before the cut-off 2025-03-31, so it is missed; the other ten records are on time.
+    expect((out.json.visits as { counts: unknown }).counts).toEqual({ onTime: 10, early: 0, late: 1, missed: 1, notYetDue: 0, extra: 0, repeat: 0 });
+  });
+
+  it('names no arm anywhere in blinded mode and reads the arms in unblinded mode with the chosen reference first', async () => {
+    const blinded = await runAnalysis(CELLS, { ...SETTINGS, mapping: { subject: 0, site: 1, arm: 2, visit: 3, date: 4, value: 5, covariates: [] } });
+    if (!blinded.ok) throw new Error('run failed');
+    const text = JSON.stringify(blinded.json) + JSON.stringify(blinded.sheets);
+    expect(text).not.toMatch(/"X"|"Y"|Group/);
+    const unblinded = await runAnalysis(CELLS, {
+      ...SETTINGS,
+      mode: 'unblinded',
+      referenceArm: 'Y',
+      mapping: { subject: 0, site: 1, arm: 2, visit: 3, date: 4, value: 5, covariates: [] },
+    });
+    if (!unblinded.ok) throw new Error('run failed');
+    expect((unblinded.json.settings as { referenceArm: unknown }).referenceArm).toBe('Y');
+  });
+});

@@ -5,7 +5,7 @@
  */
 
 /** Round constants: the first 32 bits of the fractional parts of the cube roots of the first 64 primes (FIPS 180-4 §4.2.2). */
-const K = new Uint32Array([
+const K = new Int32Array([
   0x428a2f98, 0x71374491, 0xb5c0fbcf, 0xe9b5dba5, 0x3956c25b, 0x59f111f1, 0x923f82a4, 0xab1c5ed5, 0xd807aa98, 0x12835b01,
   0x243185be, 0x550c7dc3, 0x72be5d74, 0x80deb1fe, 0x9bdc06a7, 0xc19bf174, 0xe49b69c1, 0xefbe4786, 0x0fc19dc6, 0x240ca1cc,
   0x2de92c6f, 0x4a7484aa, 0x5cb0a9dc, 0x76f988da, 0x983e5152, 0xa831c66d, 0xb00327c8, 0xbf597fc7, 0xc6e00bf3, 0xd5a79147,
@@ -19,9 +19,9 @@ const K = new Uint32Array([
 const H0 = [0x6a09e667, 0xbb67ae85, 0x3c6ef372, 0xa54ff53a, 0x510e527f, 0x9b05688c, 0x1f83d9ab, 0x5be0cd19];
 
 export class Sha256 {
-  private readonly h = new Uint32Array(H0);
+  private readonly h = new Int32Array(H0); // Int32 lanes keep the arithmetic in small integers
   private readonly block = new Uint8Array(64);
-  private readonly w = new Uint32Array(64);
+  private readonly w = new Int32Array(64);
   private filled = 0;
   private bytes = 0; // total message length in bytes (exact up to 2^53)
   private done = false;
@@ -34,8 +34,19 @@ export class Sha256 {
 
   /** Adds the UTF-8 encoding of a string (lone surrogates become U+FFFD, as the WHATWG encoder does). */
   updateText(text: string): this {
+    const block = this.block;
     for (let i = 0; i < text.length; i++) {
       let c = text.charCodeAt(i);
+      if (c < 0x80) {
+        // ASCII fast path: straight into the block
+        block[this.filled++] = c;
+        this.bytes++;
+        if (this.filled === 64) {
+          this.compress();
+          this.filled = 0;
+        }
+        continue;
+      }
       if (c >= 0xd800 && c <= 0xdbff && i + 1 < text.length) {
         const d = text.charCodeAt(i + 1);
         if (d >= 0xdc00 && d <= 0xdfff) {
@@ -72,7 +83,7 @@ export class Sha256 {
     const lo = bits >>> 0;
     for (const word of [hi, lo]) for (let s = 24; s >= 0; s -= 8) this.byte((word >>> s) & 255);
     this.done = true;
-    return Array.from(this.h, (x) => x.toString(16).padStart(8, '0')).join('');
+    return Array.from(this.h, (x) => (x >>> 0).toString(16).padStart(8, '0')).join('');
   }
 
   private byte(b: number): void {
@@ -114,14 +125,14 @@ export class Sha256 {
       b = a;
       a = (t1 + t2) | 0;
     }
-    h[0] = h[0]! + a;
-    h[1] = h[1]! + b;
-    h[2] = h[2]! + c;
-    h[3] = h[3]! + d;
-    h[4] = h[4]! + e;
-    h[5] = h[5]! + f;
-    h[6] = h[6]! + g;
-    h[7] = h[7]! + k;
+    h[0] = (h[0]! + a) | 0;
+    h[1] = (h[1]! + b) | 0;
+    h[2] = (h[2]! + c) | 0;
+    h[3] = (h[3]! + d) | 0;
+    h[4] = (h[4]! + e) | 0;
+    h[5] = (h[5]! + f) | 0;
+    h[6] = (h[6]! + g) | 0;
+    h[7] = (h[7]! + k) | 0;
   }
 }
 

@@ -82,6 +82,15 @@ export function classifyVisits(
   schedule.forEach((v, k) => {
     if (!labelIndex.has(labelKey(v.label))) labelIndex.set(labelKey(v.label), k);
   });
+  const rawLabelIndex = new Map<string, number>(); // raw label text → visit index, so each distinct text is keyed once
+  const visitOfLabel = (raw: string): number => {
+    let k = rawLabelIndex.get(raw);
+    if (k === undefined) {
+      k = labelIndex.get(labelKey(raw)) ?? -1;
+      rawLabelIndex.set(raw, k);
+    }
+    return k;
+  };
 
   // Cut-off.
   let cutoff: number | null = options.cutoff ?? null;
@@ -99,6 +108,7 @@ export function classifyVisits(
   const rowStatus = new Uint8Array(n).fill(NO_STATUS);
   const rowVisit = new Int32Array(n).fill(-1);
   const rowDeviation = new Float64Array(n).fill(NaN);
+  const take = new Uint8Array(n);
   const start = new Int32Array(S + 1);
   for (let i = 0; i < n; i++) {
     const s = subjectOf[i]!;
@@ -107,16 +117,13 @@ export function classifyVisits(
       issues.push(afterCutoffIssue(table, i, cutoff!, dated, options.place));
       continue;
     }
+    take[i] = 1;
     start[s + 1]!++;
   }
   for (let s = 0; s < S; s++) start[s + 1]! += start[s]!;
   const fill = start.slice(0, S);
   const idx = new Int32Array(start[S]!);
-  for (let i = 0; i < n; i++) {
-    const s = subjectOf[i]!;
-    if (s < 0 || !Number.isFinite(sd[i]!) || afterCutoff(i)) continue;
-    idx[fill[s]!++] = i;
-  }
+  for (let i = 0; i < n; i++) if (take[i] === 1) idx[fill[subjectOf[i]!]!++] = i;
   const byDay = (a: number, b: number): number => sd[a]! - sd[b]! || a - b;
   for (let s = 0; s < S; s++) sortSegment(idx, start[s]!, start[s + 1]!, byDay);
 
@@ -141,7 +148,7 @@ export function classifyVisits(
     for (let j = a; j < b; j++) {
       const i = idx[j]!;
       const d = sd[i]!;
-      const v = byLabel ? (labelIndex.get(labelKey(table.visit![i]!)) ?? -1) : order[nearest(sortedTargets, d)]!;
+      const v = byLabel ? visitOfLabel(table.visit![i]!) : order[nearest(sortedTargets, d)]!;
       rowVisit[i] = v;
       if (v < 0) continue;
       const best = slotRow[base + v]!;
@@ -207,6 +214,9 @@ function nearest(targets: Float64Array, d: number): number {
 
 /** Sorts idx[a..b) in place: insertion sort for short runs (the usual handful of visits), else the built-in sort. */
 function sortSegment(idx: Int32Array, a: number, b: number, cmp: (x: number, y: number) => number): void {
+  let sorted = true;
+  for (let j = a + 1; j < b && sorted; j++) sorted = cmp(idx[j - 1]!, idx[j]!) < 0;
+  if (sorted) return;
   if (b - a > 24) {
     idx.subarray(a, b).sort(cmp);
     return;

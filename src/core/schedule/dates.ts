@@ -1,14 +1,16 @@
+import { dayNumberToIso } from '../intake/dates';
+
 /** Day numbers count whole days so that 1899-12-30 is 0 (the 1900-system serial for dates from 1900-03-01 on). */
 const EPOCH_MS = Date.UTC(1899, 11, 30);
 const DAY_MS = 86_400_000;
 
 /**
- * ISO 8601 calendar date (YYYY-MM-DD) of a day number; "" for NaN or infinities. O(1).
+ * ISO 8601 calendar date (YYYY-MM-DD) of a day number; "" for NaN or infinities (the intake's civil-date arithmetic,
+ * no Date objects). O(1).
  * Example: isoDate(45000) → "2023-03-15"; isoDate(0) → "1899-12-30".
  */
 export function isoDate(dayNumber: number): string {
-  if (!Number.isFinite(dayNumber)) return '';
-  return new Date(EPOCH_MS + Math.floor(dayNumber) * DAY_MS).toISOString().slice(0, 10);
+  return Number.isFinite(dayNumber) ? dayNumberToIso(Math.floor(dayNumber)) : '';
 }
 
 /**

@@ -1,6 +1,6 @@
 /** The visit schedule, study days and window statuses (SPEC §4). */
 export * from './types';
-export { AddressError, cellAddress, columnLetters, parseCell, sheetPrefix } from './address';
+export { cellAddress, columnLetters, parseCell } from './address';
 export { labelKey } from './labels';
 export { dayNumberFromIso, isoDate } from './dates';
 export { StudyDayError, dateForStudyDay, studyDay, windowDates } from './studyDay';

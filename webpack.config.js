@@ -1,0 +1,84 @@
+// Builds the Excel task pane (dist/taskpane.html) and the browser page (dist/index.html) from src/, and copies the
+// manifest and icons. `npm start` serves dist over https://localhost:3000 with the Office development certificates.
+import { fileURLToPath } from 'node:url';
+import { dirname, resolve } from 'node:path';
+import HtmlWebpackPlugin from 'html-webpack-plugin';
+import CopyWebpackPlugin from 'copy-webpack-plugin';
+
+const root = dirname(fileURLToPath(import.meta.url));
+const PORT = 3000;
+
+/** HTTPS options from the Office development certificates; on failure, says how to fix it and stops. */
+async function httpsOptions() {
+  try {
+    const devCerts = await import('office-addin-dev-certs');
+    const getOptions = devCerts.getHttpsServerOptions ?? devCerts.default?.getHttpsServerOptions;
+    return await getOptions();
+  } catch (error) {
+    const reason = error instanceof Error ? error.message : String(error);
+    throw new Error(
+      `Could not get the localhost development certificates (${reason}).\n` +
+        'Install them once with: npx office-addin-dev-certs install\n' +
+        '(on Linux, trust the created CA certificate in your browser yourself), then run npm start again.',
+    );
+  }
+}
+
+export default async (env, argv) => {
+  const dev = argv.mode !== 'production';
+  const serving = env?.WEBPACK_SERVE === true || process.env.WEBPACK_SERVE === 'true';
+  return {
+    context: root,
+    entry: {
+      taskpane: './src/excel/main.tsx',
+      web: './src/web/main.tsx',
+    },
+    output: {
+      path: resolve(root, 'dist'),
+      filename: '[name].[contenthash:8].js',
+      clean: true,
+    },
+    // Source maps only in development and inline (nothing points to another address); none in production.
+    devtool: dev ? 'inline-source-map' : false,
+    resolve: {
+      extensions: ['.ts', '.tsx', '.js', '.mjs'],
+    },
+    module: {
+      rules: [
+        {
+          test: /\.tsx?$/,
+          exclude: /node_modules/,
+          use: { loader: 'ts-loader', options: { transpileOnly: true, configFile: resolve(root, 'tsconfig.json') } },
+        },
+      ],
+    },
+    performance: { hints: false },
+    plugins: [
+      new HtmlWebpackPlugin({
+        filename: 'taskpane.html',
+        template: './src/excel/taskpane.html',
+        chunks: ['taskpane'],
+      }),
+      new HtmlWebpackPlugin({
+        filename: 'index.html',
+        template: './src/web/index.html',
+        chunks: ['web'],
+      }),
+      new CopyWebpackPlugin({
+        patterns: [
+          { from: 'manifest.xml', to: 'manifest.xml' },
+          { from: 'assets', to: 'assets' },
+        ],
+      }),
+    ],
+    devServer: serving
+      ? {
+          port: PORT,
+          static: false,
+          headers: { 'Access-Control-Allow-Origin': '*' },
+          server: { type: 'https', options: await httpsOptions() },
+          client: { overlay: { errors: true, warnings: false } },
+        }
+      : undefined,
+  };
+};

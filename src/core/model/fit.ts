@@ -48,6 +48,7 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     nSubjects: st.nSubjects,
     nObservations: N,
     terms: design.terms,
+    arms: design.armCol >= 0 ? [...data.arms] : [],
     iterations: est.iterations,
   };
   if (est.point === null) return failedFit(base, est.message, design);
@@ -159,7 +160,7 @@ function blupArray(st: SufficientStats, subjects: readonly { blup: number }[]): 
 }
 
 function failedFit(
-  base: Pick<ModelFit, 'method' | 'dfMethod' | 'level' | 'timeUnit' | 'nSubjects' | 'nObservations' | 'terms' | 'iterations'>,
+  base: Pick<ModelFit, 'method' | 'dfMethod' | 'level' | 'timeUnit' | 'nSubjects' | 'nObservations' | 'terms' | 'arms' | 'iterations'>,
   message: string,
   design: Design,
 ): ModelFit {

@@ -132,6 +132,8 @@ export interface ModelFit {
   readonly nSubjects: number;
   readonly nObservations: number;
   readonly terms: readonly Term[];
+  /** Arms in the design, reference first; empty when blinded or intercept-only. */
+  readonly arms: readonly string[];
   readonly fixedEffects: readonly FixedEffect[];
   readonly variance: VarianceResult;
   readonly logLik: number;

@@ -1,0 +1,197 @@
+/**
+ * The model's sheets (SPEC §5, §6): "Model results" opens with a plain-language paragraph and the cautions, then
+ * tables of fixed effects, treatment differences by visit, slope differences, variance components and ICC, fit
+ * statistics with the convergence verdict, predicted trajectories beside observed means (with a chart spec); and, on
+ * request, "Per patient" with each patient's random intercept.
+ */
+import type { Mode } from '../intake/types';
+import type { ContrastResult, ModelFit } from '../model/types';
+import { CAUTIONS, UNBLINDED_CAUTION } from './cautions';
+import { FIT_STATUS_WORDS, modelSummaryText } from './modelText';
+import type { Block, ChartSeries, NumberFormat, SheetCell, SheetSpec, TableColumn } from './types';
+
+export interface ObservedVisitMean {
+  readonly label: string;
+  readonly day: number;
+  readonly arm: string | null;
+  readonly mean: number;
+  readonly n: number;
+}
+
+export interface ModelSheetContext {
+  readonly observed: readonly ObservedVisitMean[];
+  readonly mode: Mode;
+  readonly perSubject: boolean;
+  /** Subject ids by model subject index (the fit's subjects already carry their ids; kept for front ends). */
+  readonly subjectIds: readonly string[];
+}
+
+/** Sheet names of the model output (front ends make them unique in the workbook). */
+export const MODEL_SHEET_NAMES = { results: 'Model results', perPatient: 'Per patient' } as const;
+
+const col = (header: string, format: NumberFormat, width?: number): TableColumn => (width === undefined ? { header, format } : { header, format, width });
+const para = (text: string, style: 'normal' | 'caution' | 'heading' = 'normal'): Block => ({ kind: 'paragraph', text, style });
+/** Non-finite numbers become empty cells. */
+const cell = (x: number): SheetCell => (Number.isFinite(x) ? x : null);
+const UNIT = { month: 'month', week: 'week', day: 'day' } as const;
+
+function cautionBlocks(mode: Mode): Block[] {
+  return [...CAUTIONS.map((c) => para(c, 'caution')), ...(mode === 'unblinded' ? [para(UNBLINDED_CAUTION, 'caution')] : [])];
+}
+
+function inferenceColumns(level: number): TableColumn[] {
+  const pct = `${Math.round(level * 1000) / 10}%`;
+  return [
+    col('Estimate', 'decimal4'),
+    col('Standard error', 'decimal4'),
+    col('Degrees of freedom', 'decimal1'),
+    col('t', 'decimal2'),
+    col('p-value', 'pvalue'),
+    col(`Lower ${pct} limit`, 'decimal4'),
+    col(`Upper ${pct} limit`, 'decimal4'),
+  ];
+}
+const inferenceCells = (r: ContrastResult): SheetCell[] => [cell(r.estimate), cell(r.se), cell(r.df), cell(r.t), cell(r.p), cell(r.lower), cell(r.upper)];
+
+/**
+ * Builds the model sheets. Example: a blinded fit with perSubject false -> one sheet "Model results" whose first block
+ * is the summary paragraph, followed by the caution paragraphs and the tables.
+ */
+export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpec[] {
+  const unit = UNIT[fit.timeUnit];
+  const unblinded = context.mode === 'unblinded' && fit.arms.length > 1;
+  const blocks: Block[] = [para(modelSummaryText(fit, context.mode)), ...cautionBlocks(context.mode)];
+
+  blocks.push({
+    kind: 'table',
+    id: 'FixedEffects',
+    caption: `Fixed effects (time in ${unit}s; arm terms compare each arm with ${fit.arms[0] ?? 'the reference arm'})`,
+    columns: [col('Term', 'text', 28), ...inferenceColumns(fit.level)],
+    rows: fit.fixedEffects.map((f) => [f.term, ...inferenceCells(f)]),
+  });
+
+  if (unblinded) {
+    blocks.push({
+      kind: 'table',
+      id: 'DifferenceByVisit',
+      caption: `Difference in mean from ${fit.arms[0]!} at each scheduled visit (model-based, at the visit's target day)`,
+      columns: [col('Arm', 'text', 16), col('Visit', 'text', 14), col('Study day', 'integer'), col(`Time (${unit}s)`, 'decimal2'), ...inferenceColumns(fit.level)],
+      rows: fit.treatmentEffects.map((t) => [t.arm, t.label, t.day, cell(t.time), ...inferenceCells(t)]),
+    });
+    blocks.push({
+      kind: 'table',
+      id: 'SlopeDifference',
+      caption: `Difference in change per ${unit} from ${fit.arms[0]!}`,
+      columns: [col('Arm', 'text', 16), ...inferenceColumns(fit.level)],
+      rows: fit.slopeDifferences.map((s) => [s.arm, ...inferenceCells(s)]),
+    });
+    if (fit.jointTest !== null) {
+      const j = fit.jointTest;
+      blocks.push({
+        kind: 'table',
+        id: 'SlopeJointTest',
+        caption: 'Joint test that all arms change at the same rate',
+        columns: [col('Numerator df', 'integer'), col('Denominator df', 'decimal1'), col('F', 'decimal3'), col('p-value', 'pvalue')],
+        rows: [[j.numDf, cell(j.denDf), cell(j.F), cell(j.p)]],
+      });
+    }
+  }
+
+  const v = fit.variance;
+  const pct = `${Math.round(fit.level * 1000) / 10}%`;
+  blocks.push({
+    kind: 'table',
+    id: 'VarianceICC',
+    caption: 'Variation between and within patients',
+    columns: [col('Component', 'text', 30), col('Estimate', 'decimal4'), col('Standard deviation', 'decimal4'), col(`Lower ${pct} limit`, 'decimal4'), col(`Upper ${pct} limit`, 'decimal4')],
+    rows: [
+      ['Between-patient variance', cell(v.subject), cell(Math.sqrt(v.subject)), cell(v.subjectLower), cell(v.subjectUpper)],
+      ['Within-patient variance', cell(v.residual), cell(Math.sqrt(v.residual)), cell(v.residualLower), cell(v.residualUpper)],
+      ['Intraclass correlation', cell(v.icc), null, cell(v.iccLower), cell(v.iccUpper)],
+    ],
+  });
+  blocks.push(para(`How the intervals were computed: ${v.intervalMethod}`));
+
+  blocks.push({
+    kind: 'table',
+    id: 'FitStatistics',
+    caption: 'Fit statistics',
+    columns: [col('Item', 'text', 30), col('Value', 'decimal4'), col('Note', 'text', 60)],
+    rows: [
+      ['Estimation', null, fit.method === 'reml' ? 'Restricted maximum likelihood (REML)' : 'Maximum likelihood'],
+      ['Degrees of freedom', null, fit.dfMethod === 'kenward-roger' ? 'Kenward–Roger, with its adjusted covariance' : fit.dfMethod === 'satterthwaite' ? 'Satterthwaite' : 'Residual (measurements − fixed effects)'],
+      ['Patients', fit.nSubjects, ''],
+      ['Measurements', fit.nObservations, ''],
+      ['Log-likelihood', cell(fit.logLik), fit.method === 'reml' ? 'restricted log-likelihood, constants included' : 'constants included'],
+      ['AIC', cell(fit.aic), `−2 × log-likelihood + 2k, k = ${fit.nParameters} (fixed effects + 2 variances)`],
+      ['BIC', cell(fit.bic), `−2 × log-likelihood + k × log(N), N = ${fit.bicN}${fit.method === 'reml' ? ' (measurements − fixed effects)' : ' (measurements)'}`],
+      ['Likelihood evaluations', fit.iterations, ''],
+      ['Verdict', null, `${FIT_STATUS_WORDS[fit.status]}. ${fit.message}`],
+    ],
+  });
+
+  blocks.push(...trajectoryBlocks(fit, context, unit, pct));
+
+  const sheets: SheetSpec[] = [{ name: MODEL_SHEET_NAMES.results, title: 'Random-intercept model', blocks }];
+  if (context.perSubject) sheets.push(perPatientSheet(fit, context.mode));
+  return sheets;
+}
+
+function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: string, pct: string): Block[] {
+  if (fit.trajectories.length === 0) return [];
+  const label = (arm: string | null): string => (arm === null ? 'All patients' : arm);
+  const rows: SheetCell[][] = [];
+  for (const tr of fit.trajectories) {
+    tr.day.forEach((d, g) => rows.push([label(tr.arm), Math.round(d * 10) / 10, cell(tr.time[g]!), cell(tr.mean[g]!), cell(tr.lower[g]!), cell(tr.upper[g]!)]));
+  }
+  const observed = context.observed.filter((o) => (context.mode === 'unblinded' ? true : o.arm === null));
+  const series: ChartSeries[] = [];
+  for (const tr of fit.trajectories) {
+    series.push({ name: `${label(tr.arm)}: model`, x: tr.day, y: tr.mean.map(cell) as (number | null)[], lower: tr.lower.map(cell) as (number | null)[], upper: tr.upper.map(cell) as (number | null)[], style: 'line' });
+  }
+  const groups = [...new Set(observed.map((o) => o.arm))];
+  for (const g of groups) {
+    const pts = observed.filter((o) => o.arm === g);
+    series.push({ name: `${label(g)}: observed mean`, x: pts.map((o) => o.day), y: pts.map((o) => cell(o.mean) as number | null), style: 'points' });
+  }
+  return [
+    {
+      kind: 'table',
+      id: 'Trajectories',
+      caption: `Predicted mean over time with ${pct} pointwise intervals (covariates at their averages)`,
+      columns: [col('Arm', 'text', 16), col('Study day', 'decimal1'), col(`Time (${unit}s)`, 'decimal2'), col('Predicted mean', 'decimal3'), col(`Lower ${pct} limit`, 'decimal3'), col(`Upper ${pct} limit`, 'decimal3')],
+      rows,
+    },
+    {
+      kind: 'table',
+      id: 'ObservedMeans',
+      caption: 'Observed mean at each scheduled visit',
+      columns: [col('Arm', 'text', 16), col('Visit', 'text', 14), col('Study day', 'integer'), col('Observed mean', 'decimal3'), col('Patients', 'integer')],
+      rows: observed.map((o) => [label(o.arm), o.label, o.day, cell(o.mean), o.n]),
+    },
+    {
+      kind: 'chart',
+      chart: { kind: 'scatter', id: 'TrajectoryChart', title: 'Predicted and observed means over time', xLabel: 'Study day', yLabel: 'Mean value', series, sourceTable: 'Trajectories' },
+    },
+  ];
+}
+
+function perPatientSheet(fit: ModelFit, mode: Mode): SheetSpec {
+  return {
+    name: MODEL_SHEET_NAMES.perPatient,
+    title: 'Per-patient random intercepts',
+    blocks: [
+      para(
+        `Each patient's random intercept is the model's best prediction of how far that patient's level lies above (positive) or below (negative) the average for their arm and visit times, shrunk toward zero when the patient has few measurements. ${fit.subjects.length} patients.`,
+      ),
+      ...cautionBlocks(mode),
+      {
+        kind: 'table',
+        id: 'PatientIntercepts',
+        caption: 'Random intercept and mean residual per patient',
+        columns: [col('Patient', 'text', 16), col('Measurements', 'integer'), col('Random intercept', 'decimal3'), col('Mean residual', 'decimal3')],
+        rows: fit.subjects.map((s) => [s.id, s.n, cell(s.blup), cell(s.meanResidual)]),
+      },
+    ],
+  };
+}

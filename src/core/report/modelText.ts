@@ -1,0 +1,80 @@
+/** Plain-language pieces of the model report: number phrasing, status words and the opening summary paragraph. */
+import type { ModelFit, FitStatus } from '../model/types';
+import type { Mode } from '../intake/types';
+
+/** Status words shown in the sheets (JSON keeps the status keys). */
+export const FIT_STATUS_WORDS: Readonly<Record<FitStatus, string>> = {
+  converged: 'Converged',
+  boundary: 'Converged at the zero boundary (no between-patient variation detected)',
+  failed: 'Did not converge — do not use these estimates',
+};
+
+const UNIT_WORDS = { month: 'month', week: 'week', day: 'day' } as const;
+
+/** A number for a sentence: 1 decimal from 100 up, 2 from 1 up, else 3 significant digits; "n/a" when not finite. */
+export function num(x: number): string {
+  if (!Number.isFinite(x)) return 'n/a';
+  const a = Math.abs(x);
+  if (a >= 100) return x.toFixed(1);
+  if (a >= 1) return x.toFixed(2);
+  if (a === 0) return '0';
+  return x.toPrecision(3);
+}
+
+/** A p-value for a sentence: "p < 0.0001" or "p = 0.0123". */
+export function pPhrase(p: number): string {
+  if (!Number.isFinite(p)) return 'p not available';
+  return p < 0.0001 ? 'p < 0.0001' : `p = ${p.toFixed(4)}`;
+}
+
+const methodWords = (fit: ModelFit): string =>
+  `fitted by ${fit.method === 'reml' ? 'restricted maximum likelihood (REML)' : 'maximum likelihood'} with ${
+    fit.dfMethod === 'kenward-roger' ? 'Kenward–Roger' : fit.dfMethod === 'satterthwaite' ? 'Satterthwaite' : 'residual'
+  } degrees of freedom`;
+
+/**
+ * The paragraph that opens the model sheet: what was fitted, on how many patients and measurements, then the treatment
+ * difference at the last scheduled visit (unblinded) or the ICC and the two sources of variation (blinded), and the
+ * fit verdict. Example (blinded): "A random-intercept linear mixed model ... intraclass correlation 0.62 ...".
+ */
+export function modelSummaryText(fit: ModelFit, mode: Mode): string {
+  const unit = UNIT_WORDS[fit.timeUnit];
+  const pct = Math.round(fit.level * 100);
+  const armed = mode === 'unblinded' && fit.terms.some((t) => t.kind === 'arm');
+  const what = armed
+    ? `the outcome on arm, time (in ${unit}s from the actual visit day) and arm × time`
+    : 'the outcome on time (in ' + unit + 's from the actual visit day), pooled over arms';
+  const covs = fit.terms.filter((t) => t.kind === 'covariate').length;
+  let text =
+    `A random-intercept linear mixed model, ${methodWords(fit)}, regressed ${what}${covs > 0 ? ', adjusted for the chosen covariates' : ''}, ` +
+    `with each patient's own level as a random intercept. It used ${fit.nObservations} measurements from ${fit.nSubjects} patients. `;
+  if (fit.status === 'failed') return text + `The fit did not converge: ${fit.message}`;
+  if (armed) {
+    const last = lastVisitEffects(fit);
+    for (const te of last) {
+      text +=
+        `At ${te.label} (study day ${te.day}) the mean of ${te.arm} differed from ${fit.arms[0] ?? 'the reference arm'} by ${num(te.estimate)} ` +
+        `(${pct}% confidence interval ${num(te.lower)} to ${num(te.upper)}; ${pPhrase(te.p)}). `;
+    }
+    for (const sd of fit.slopeDifferences) {
+      text += `The change per ${unit} in ${sd.arm} differed by ${num(sd.estimate)} (${num(sd.lower)} to ${num(sd.upper)}). `;
+    }
+  } else {
+    const slope = fit.fixedEffects.find((f) => f.kind === 'time');
+    if (slope) text += `On average the outcome changed by ${num(slope.estimate)} per ${unit} (${pct}% confidence interval ${num(slope.lower)} to ${num(slope.upper)}). `;
+  }
+  const v = fit.variance;
+  text +=
+    `Patients differ from one another with a standard deviation of ${num(Math.sqrt(v.subject))} and measurements within a patient vary with a standard deviation of ${num(Math.sqrt(v.residual))}; ` +
+    `the intraclass correlation is ${num(v.icc)} (${pct}% confidence interval ${num(v.iccLower)} to ${num(v.iccUpper)}), ` +
+    `the share of the total variation that lies between patients. `;
+  text += `Fit: ${FIT_STATUS_WORDS[fit.status].toLowerCase()}.`;
+  return text;
+}
+
+/** Treatment differences at the latest contrast day, one per non-reference arm. */
+export function lastVisitEffects(fit: ModelFit): ModelFit['treatmentEffects'] {
+  if (fit.treatmentEffects.length === 0) return [];
+  const lastDay = Math.max(...fit.treatmentEffects.map((t) => t.day));
+  return fit.treatmentEffects.filter((t) => t.day === lastDay);
+}

@@ -1,0 +1,128 @@
+import { describe, expect, it } from 'vitest';
+import { fitRandomIntercept, type FitOptions, type ModelData, type ModelFit } from '../../../src/core/model';
+import { CAUTIONS, UNBLINDED_CAUTION } from '../../../src/core/report/cautions';
+import { modelJson } from '../../../src/core/report/modelJson';
+import { modelSheets, type ModelSheetContext } from '../../../src/core/report/modelSheet';
+import { num, pPhrase } from '../../../src/core/report/modelText';
+import type { TableBlock } from '../../../src/core/report/types';
+import { normals, seeded } from '../model/helpers';
+
+/** Invented kidney-function scenario: eGFR every 12 weeks in 30 patients, two arms (invented data). */
+function egfr(): ModelData {
+  const u = seeded(42);
+  const z = normals(u);
+  const y: number[] = [], time: number[] = [], subject: number[] = [], arm: number[] = [];
+  for (let i = 0; i < 30; i++) {
+    const a = i % 2;
+    const ui = 9 * z();
+    for (let v = 0; v < 5; v++) {
+      const day = 1 + 84 * v + Math.round(4 * z());
+      const t = (day - 1) / 30.4375;
+      y.push(55 + ui - 0.5 * t + a * 0.3 * t + 3 * z());
+      time.push(t);
+      subject.push(i);
+      arm.push(a);
+    }
+  }
+  return { y: Float64Array.from(y), time: Float64Array.from(time), subject: Int32Array.from(subject), nSubjects: 30, armIndex: Int32Array.from(arm), arms: ['Placebo', 'Drug'], covariates: [], subjectIds: Array.from({ length: 30 }, (_, i) => `K-${100 + i}`) };
+}
+
+const visits = [{ label: 'Week 12', day: 85 }, { label: 'Week 24', day: 169 }, { label: 'Week 36', day: 253 }, { label: 'Week 48', day: 337 }];
+const opts: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: visits };
+const observed = visits.flatMap((v) => ['Placebo', 'Drug'].map((arm) => ({ label: v.label, day: v.day, arm, mean: 55, n: 15 })));
+const ctx = (mode: 'blinded' | 'unblinded', perSubject: boolean): ModelSheetContext => ({ observed, mode, perSubject, subjectIds: [] });
+
+function tables(fitSheets: ReturnType<typeof modelSheets>): TableBlock[] {
+  return fitSheets.flatMap((s) => s.blocks.filter((b): b is TableBlock => b.kind === 'table'));
+}
+
+describe('modelSheets', () => {
+  const fit: ModelFit = fitRandomIntercept(egfr(), opts);
+
+  it('opens with a plain paragraph naming patients, measurements and the last-visit difference with its interval', () => {
+    const [sheet] = modelSheets(fit, ctx('unblinded', false));
+    expect(sheet!.name).toBe('Model results');
+    const first = sheet!.blocks[0]!;
+    expect(first.kind).toBe('paragraph');
+    const text = first.kind === 'paragraph' ? first.text : '';
+    expect(text).toContain('150 measurements from 30 patients');
+    const last = fit.treatmentEffects.find((t) => t.label === 'Week 48')!;
+    expect(text).toContain('At Week 48 (study day 337) the mean of Drug differed from Placebo');
+    expect(text).toContain(`by ${num(last.estimate)} (95% confidence interval ${num(last.lower)} to ${num(last.upper)}; ${pPhrase(last.p)})`);
+  });
+
+  it('carries every caution, and the unblinded caution in unblinded mode only', () => {
+    const texts = (mode: 'blinded' | 'unblinded'): string[] => modelSheets(fit, ctx(mode, false))[0]!.blocks.flatMap((b) => (b.kind === 'paragraph' && b.style === 'caution' ? [b.text] : []));
+    expect(texts('unblinded')).toEqual([...CAUTIONS, UNBLINDED_CAUTION]);
+    expect(texts('blinded')).toEqual([...CAUTIONS]);
+  });
+
+  it('has the fixed-effects, by-visit, slope, variance, fit-statistics, trajectory and observed tables with consistent shapes', () => {
+    const ts = tables(modelSheets(fit, ctx('unblinded', false)));
+    expect(ts.map((t) => t.id)).toEqual(['FixedEffects', 'DifferenceByVisit', 'SlopeDifference', 'VarianceICC', 'FitStatistics', 'Trajectories', 'ObservedMeans']);
+    for (const t of ts) {
+      expect(t.id).toMatch(/^[A-Za-z0-9]+$/);
+      for (const r of t.rows) expect(r.length).toBe(t.columns.length);
+    }
+    const byVisit = ts[1]!;
+    expect(byVisit.rows.length).toBe(4);
+    expect(byVisit.rows[3]![4]).toBe(fit.treatmentEffects[3]!.estimate);
+  });
+
+  it('adds a trajectory chart with a model line per arm and observed means as points', () => {
+    const chart = modelSheets(fit, ctx('unblinded', false))[0]!.blocks.find((b) => b.kind === 'chart');
+    expect(chart?.kind).toBe('chart');
+    const series = chart?.kind === 'chart' ? chart.chart.series : [];
+    expect(series.map((s) => s.name)).toEqual(['Placebo: model', 'Drug: model', 'Placebo: observed mean', 'Drug: observed mean']);
+    expect(series[0]!.lower!.length).toBe(series[0]!.y.length);
+  });
+
+  it('adds a "Per patient" sheet with each random intercept only when asked', () => {
+    expect(modelSheets(fit, ctx('unblinded', false)).length).toBe(1);
+    const sheets = modelSheets(fit, ctx('unblinded', true));
+    expect(sheets.map((s) => s.name)).toEqual(['Model results', 'Per patient']);
+    const t = tables([sheets[1]!])[0]!;
+    expect(t.rows.length).toBe(30);
+    expect(t.rows[0]![0]).toBe('K-100');
+    expect(t.rows[0]![2]).toBe(fit.subjects[0]!.blup);
+  });
+
+  it('in blinded mode describes the ICC and variation and shows no arm names', () => {
+    const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
+    const sheets = modelSheets(blind, { observed: visits.map((v) => ({ ...v, arm: null, mean: 55, n: 30 })), mode: 'blinded', perSubject: false, subjectIds: [] });
+    const all = JSON.stringify(sheets);
+    expect(all).not.toContain('Drug');
+    expect(all).not.toContain('Placebo');
+    const first = sheets[0]!.blocks[0]!;
+    expect(first.kind === 'paragraph' ? first.text : '').toMatch(/intraclass correlation is 0\.\d+/);
+    expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'FitStatistics', 'Trajectories', 'ObservedMeans']);
+  });
+
+  it('number phrasing: 1 decimal from 100, 2 from 1, 3 significant below; p below 0.0001 as "< 0.0001"', () => {
+    expect([num(123.456), num(-2.345), num(0.012345), num(NaN)]).toEqual(['123.5', '-2.35', '0.0123', 'n/a']);
+    expect([pPhrase(0.00001), pPhrase(0.01234)]).toEqual(['p < 0.0001', 'p = 0.0123']);
+  });
+
+  it('sheet names are at most 24 characters', () => {
+    for (const s of modelSheets(fit, ctx('unblinded', true))) expect(s.name.length).toBeLessThanOrEqual(24);
+  });
+});
+
+describe('modelJson', () => {
+  it('holds the fit numbers with the documented keys and survives a JSON round trip unchanged', () => {
+    const fit = fitRandomIntercept(egfr(), opts);
+    const j = modelJson(fit);
+    expect(Object.keys(j)).toEqual(expect.arrayContaining(['method', 'dfMethod', 'nSubjects', 'nObservations', 'logLik', 'aic', 'bic', 'converged', 'status', 'fixedEffects', 'variance', 'treatmentEffects', 'slopeDifferences']));
+    expect(JSON.parse(JSON.stringify(j))).toEqual(j);
+    const fe = (j.fixedEffects as Record<string, unknown>[])[0]!;
+    expect(Object.keys(fe)).toEqual(['term', 'kind', 'arm', 'estimate', 'se', 'df', 't', 'p', 'lower', 'upper']);
+    expect(fe.estimate).toBe(fit.fixedEffects[0]!.estimate);
+  });
+  it('writes non-finite numbers (a failed or boundary fit) as null, never NaN', () => {
+    const single: ModelData = { y: Float64Array.of(1, 2, 4, 3, 5), time: Float64Array.of(0, 1, 2, 3, 4), subject: Int32Array.of(0, 1, 2, 3, 4), nSubjects: 5, armIndex: null, arms: [], covariates: [] };
+    const fit = fitRandomIntercept(single, { ...opts, contrastDays: [] });
+    const text = JSON.stringify(modelJson(fit));
+    expect(text).not.toContain('NaN');
+    expect(modelJson({ ...fit, logLik: NaN }).logLik).toBeNull();
+  });
+});

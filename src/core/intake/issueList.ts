@@ -34,9 +34,10 @@ export class IssueList {
     value: string,
     use: Use | null,
     context?: string,
+    other?: string,
   ): void {
     const row = this.top.row + 1 + dataRow;
-    this.push(code, severity, formatAddress(this.sheet, row, this.top.col + col), row, role, value, use, context);
+    this.push(code, severity, formatAddress(this.sheet, row, this.top.col + col), row, role, value, use, context, other);
   }
 
   get hasErrors(): boolean {
@@ -52,9 +53,17 @@ export class IssueList {
     value: string,
     use: Use | null,
     context: string | undefined,
+    other?: string,
   ): void {
-    const base = { code, role, value, cell, use };
-    const message = renderMessage(context === undefined ? base : { ...base, context });
+    const message = renderMessage({
+      code,
+      role,
+      value,
+      cell,
+      use,
+      ...(context === undefined ? {} : { context }),
+      ...(other === undefined ? {} : { other }),
+    });
     this.items.push({ code, severity, cell, row, role, value, use, message });
   }
 }

@@ -14,6 +14,8 @@ export interface MessageInput {
   readonly use: Use | null;
   /** Extra words some codes need: the column name of a covariate, the subject of an arm conflict, a count. */
   readonly context?: string;
+  /** A second value some sentences compare with, e.g. the reference date first given for the subject. */
+  readonly other?: string;
 }
 
 const ROLE_WORDS: Readonly<Record<Role, string>> = {
@@ -107,6 +109,8 @@ export function renderMessage(m: MessageInput): string {
       return m.use === null
         ? `${at}the spreadsheet error value ${m.value} in the ${role} column is treated as blank; the row is kept.`
         : `${at}the ${role} holds the spreadsheet error value ${m.value}, so the row is ${left}.`;
+    case 'reference-date-differs':
+      return `${at}the reference date ${m.value} differs from ${m.other ?? 'the one'} given earlier for subject ${quoted(m.context ?? '')}; a subject has one reference date. The row is kept with its own reference date.`;
     case 'blank-arm':
       return `${at}the arm is blank, so the row is ${left}.`;
     case 'no-reference-date':

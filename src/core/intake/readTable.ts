@@ -3,18 +3,18 @@
  * as an issue with its cell address (SPEC §3).
  */
 import { columnLetters, MAX_COLUMN_INDEX, MAX_ROW, parseCell } from './cellAddress';
-import { cellText, isBlankCell, readTextCell } from './cellText';
+import { cellText } from './cellText';
 import { checkMapping, effectiveMapping } from './checkMapping';
 import { planCovariate, type CovariatePlan } from './covariatePlan';
 import { detectMapping } from './detect';
 import { IntakeUsageError } from './errors';
 import { IssueList } from './issueList';
-import { readDate, readNumeric, readStudyDay } from './readCell';
-import type { CellValue, CovariateColumn, IntakeOptions, IntakeResult, IssueCode, Role, Use } from './types';
+import { readRows } from './readRows';
+import { checkReference } from './checkReference';
+import type { CellValue, CovariateColumn, IntakeOptions, IntakeResult } from './types';
 import { checkArms } from './checkArms';
 
 const EMPTY_ROW: readonly CellValue[] = [];
-const USES: readonly Use[] = ['timing', 'model'];
 
 /**
  * Turns a grid of cells into the IntakeTable: cells[0] is the header row, each later row one assessment. One linear
@@ -33,7 +33,8 @@ const USES: readonly Use[] = ['timing', 'model'];
  * `numericText: 'accept'`; dates are serials in `dateSystem` or ISO 8601 text; a study day is a non-zero integer.
  * When both a date and a study-day column are mapped, the date is read and the study-day column is not. Visit label,
  * site and reference date are never required: a blank or unusable one is kept as missing ("" or NaN), with a warning
- * (use null) when the cell held an error value or an invalid reference date.
+ * (use null) when the cell held an error value or an invalid reference date. A subject's second, different
+ * reference date is a warning too ('reference-date-differs'). The row pass itself is in readRows.ts.
  *
  * Misuse throws IntakeUsageError: a malformed `topLeft`, or a grid that does not fit on a worksheet from `topLeft`.
  * @example readTable([["USUBJID", "ADY", "AVAL"], ["S1", 1, 60.5]], { sheet: "Visits", topLeft: "A1", dateSystem: 1900, mode: "blinded" })
@@ -72,174 +73,19 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
     return plan;
   });
 
-  const timeKind = mapping.date !== undefined ? 'date' : 'studyDay';
-  const sc = mapping.subject!;
-  const tc = timeKind === 'date' ? mapping.date! : mapping.studyDay!;
-  const unblinded = mode === 'unblinded';
-
-  const sheetRows = new Int32Array(nRows);
-  const subject = new Array<string>(nRows);
-  const subjectIndex = new Int32Array(nRows);
-  const subjectIds: string[] = [];
-  const subjectMap = new Map<string, number>();
-  const date = new Float64Array(nRows).fill(NaN);
-  const studyDay = new Float64Array(nRows).fill(NaN);
-  const reference = new Float64Array(nRows).fill(NaN);
-  const value = new Float64Array(nRows).fill(NaN);
-  const visit = mapping.visit === undefined ? null : new Array<string>(nRows).fill('');
-  const site = mapping.site === undefined ? null : new Array<string>(nRows).fill('');
-  const arm = unblinded ? new Array<string>(nRows).fill('') : null;
-  const covValues = plans.map((p) => (p.numeric ? new Float64Array(nRows).fill(NaN) : new Array<string>(nRows).fill('')));
-  const usableTiming = new Uint8Array(nRows);
-  const usableModel = new Uint8Array(nRows);
-
-  for (let i = 0; i < nRows; i++) {
-    const row = cells[i + 1] ?? EMPTY_ROW;
-    sheetRows[i] = top.row + 1 + i;
-    subject[i] = '';
-    subjectIndex[i] = -1;
-    if (isBlankRow(row, width)) {
-      for (const use of USES) issues.at('blank-row', 'warning', i, 0, null, '', use);
-      continue;
-    }
-    let timingOk = true;
-    let modelOk = true;
-
-    const sCell = row[sc];
-    const id = readTextCell(sCell);
-    if (id === null) timingOk = excludeBoth(issues, 'error-value', i, sc, 'subject', sCell);
-    else if (id === '') timingOk = excludeBoth(issues, 'blank-subject', i, sc, 'subject', sCell);
-    else {
-      let k = subjectMap.get(id);
-      if (k === undefined) {
-        k = subjectIds.length;
-        subjectMap.set(id, k);
-        subjectIds.push(id);
-      }
-      subject[i] = id;
-      subjectIndex[i] = k;
-    }
-
-    const tCell = row[tc];
-    if (timeKind === 'date') {
-      const d = readDate(tCell, options.dateSystem);
-      if (typeof d === 'number') date[i] = d;
-      else timingOk = excludeBoth(issues, d, i, tc, 'date', tCell, typeof tCell === 'number' ? 'serial' : undefined);
-    } else {
-      const d = readStudyDay(tCell, accept);
-      if (typeof d === 'number') studyDay[i] = d;
-      else timingOk = excludeBoth(issues, d, i, tc, 'studyDay', tCell);
-    }
-
-    if (mapping.reference !== undefined) {
-      const rc = mapping.reference;
-      const d = readDate(row[rc], options.dateSystem);
-      if (typeof d === 'number') reference[i] = d;
-      else if (d === 'error-value') issues.at('error-value', 'warning', i, rc, 'reference', cellText(row[rc]), null);
-      else if (d !== 'blank-time') issues.at('bad-reference-date', 'warning', i, rc, 'reference', cellText(row[rc]), null);
-    }
-    if (visit !== null) visit[i] = optionalText(row, mapping.visit!, 'visit', i, issues);
-    if (site !== null) site[i] = optionalText(row, mapping.site!, 'site', i, issues);
-
-    if (mapping.value === undefined) modelOk = false;
-    else {
-      const vc = mapping.value;
-      const v = readNumeric(row[vc], accept);
-      if (typeof v === 'number') value[i] = v;
-      else modelOk = excludeModel(issues, v, i, vc, 'value', row[vc]);
-    }
-
-    if (arm !== null) {
-      const ac = mapping.arm!;
-      const a = readTextCell(row[ac]);
-      if (a === null) modelOk = excludeModel(issues, 'error-value', i, ac, 'arm', row[ac]);
-      else if (a === '') modelOk = excludeModel(issues, 'blank-arm', i, ac, 'arm', row[ac]);
-      else arm[i] = a;
-    }
-
-    for (let c = 0; c < plans.length; c++) {
-      const plan = plans[c]!;
-      const cell = row[plan.col];
-      const out = covValues[c]!;
-      if (out instanceof Float64Array) {
-        const v = readNumeric(cell, accept);
-        // In a numeric column, text can only be numeric text, so 'text-in-numeric' cannot occur here.
-        if (typeof v === 'number') out[i] = v;
-        else modelOk = excludeModel(issues, v, i, plan.col, 'covariate', cell, plan.name);
-      } else {
-        const text = readTextCell(cell);
-        if (text === null) modelOk = excludeModel(issues, 'error-value', i, plan.col, 'covariate', cell, plan.name);
-        else if (text === '') modelOk = excludeModel(issues, 'blank-value', i, plan.col, 'covariate', cell, plan.name);
-        else out[i] = text;
-      }
-    }
-
-    usableTiming[i] = timingOk ? 1 : 0;
-    usableModel[i] = timingOk && modelOk ? 1 : 0;
-  }
-
-  const arms = arm === null ? [] : checkArms(arm, subjectIndex, subjectIds, usableTiming, mapping.arm!, issues);
-  if (!usableTiming.includes(1)) issues.range('no-usable-rows', 'error', null, '', null);
-  else if (mapping.value !== undefined && !usableModel.includes(1)) issues.range('no-usable-rows', 'warning', null, '', 'model');
+  const cols = readRows(cells, { mapping, plans, width, top, dateSystem: options.dateSystem, acceptText: accept, unblinded: mode === 'unblinded' }, issues);
+  const arms = cols.arm === null ? [] : checkArms(cols.arm, cols.subjectIndex, cols.subjectIds, cols.usableTiming, mapping.arm!, issues);
+  if (mapping.reference !== undefined) checkReference(cols.reference, cols.subjectIndex, cols.subjectIds, mapping.reference, issues);
+  if (!cols.usableTiming.includes(1)) issues.range('no-usable-rows', 'error', null, '', null);
+  else if (mapping.value !== undefined && !cols.usableModel.includes(1)) issues.range('no-usable-rows', 'warning', null, '', 'model');
   if (issues.hasErrors) return { ok: false, issues: issues.items };
 
   const covariates: CovariateColumn[] = plans.map((p, c) => {
-    const values = covValues[c]!;
+    const values = cols.covariates[c]!;
     if (values instanceof Float64Array) return { name: p.name, kind: 'numeric', values };
     const levels = [...new Set(values.filter((v) => v !== ''))].sort();
     return { name: p.name, kind: 'categorical', values, levels };
   });
-
-  return {
-    ok: true,
-    issues: issues.items,
-    table: {
-      nRows,
-      headers,
-      mapping,
-      mode,
-      sheetRows,
-      subject,
-      subjectIndex,
-      subjectIds,
-      timeKind,
-      date,
-      studyDay,
-      reference,
-      visit,
-      value,
-      arm,
-      arms,
-      site,
-      covariates,
-      usableTiming,
-      usableModel,
-    },
-  };
-}
-
-/** Adds a warning for each use (timing and model) and returns false, the row's new timing usability. */
-function excludeBoth(issues: IssueList, code: IssueCode, i: number, col: number, role: Role, cell: CellValue, context?: string): false {
-  for (const use of USES) issues.at(code, 'warning', i, col, role, cellText(cell), use, context);
-  return false;
-}
-
-/** Adds a warning for the model and returns false, the row's new model usability. */
-function excludeModel(issues: IssueList, code: IssueCode, i: number, col: number, role: Role, cell: CellValue, context?: string): false {
-  issues.at(code, 'warning', i, col, role, cellText(cell), 'model', context);
-  return false;
-}
-
-/** True when every cell of the row within the range's width is blank. Stops at the first non-blank cell. */
-function isBlankRow(row: readonly CellValue[], width: number): boolean {
-  for (let c = 0; c < width; c++) if (!isBlankCell(row[c])) return false;
-  return true;
-}
-
-/** Text of an optional text role (visit label, site); an error value becomes "" with a warning (use null). */
-function optionalText(row: readonly CellValue[], col: number, role: Role, i: number, issues: IssueList): string {
-  const text = readTextCell(row[col]);
-  if (text !== null) return text;
-  issues.at('error-value', 'warning', i, col, role, cellText(row[col]), null);
-  return '';
+  const { covariates: _raw, ...columns } = cols;
+  return { ok: true, issues: issues.items, table: { nRows, headers, mapping, mode, ...columns, arms, covariates } };
 }

@@ -65,7 +65,7 @@ export type IssueCode =
   | 'no-time-column' // neither a date nor a study-day column
   | 'no-value-column'
   | 'no-arm-column' // unblinded mode without an arm column
-  | 'duplicate-role' // one column mapped twice, or a mapping outside the range
+  | 'duplicate-role' // one column mapped to two roles (a mapping outside the range is 'column-outside-range')
   | 'subject-in-two-arms'
   | 'too-few-subjects-per-arm'
   | 'no-usable-rows'
@@ -85,6 +85,7 @@ export type IssueCode =
   | 'partial-date' // an ISO 8601 date with only a year or a year and month, e.g. "2025-03"
   | 'not-finite' // a number that is not finite (NaN or infinite) in a numeric role
   | 'too-few-arms' // unblinded mode with fewer than two arms among usable rows
+  | 'reference-date-differs' // a row's reference date differs from the one first given for its subject
   // Raised by later layers and passed on in the run's one issue list (src/core/pipeline):
   | 'no-reference-date' // schedule: a dated row whose subject has no reference date
   | 'no-baseline-record' // schedule: a dated row whose subject has no record of the first scheduled visit

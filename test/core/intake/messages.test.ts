@@ -28,6 +28,7 @@ const ALL: Record<IssueCode, true> = {
   'partial-date': true,
   'not-finite': true,
   'too-few-arms': true,
+  'reference-date-differs': true,
   'no-reference-date': true,
   'no-baseline-record': true,
   'after-cutoff': true,

@@ -176,6 +176,20 @@ describe('readTable dates', () => {
     expect(r.issues.map((i) => [i.code, i.cell, i.use])).toEqual([['bad-reference-date', 'Visits!D3', null]]);
   });
 
+  it('readTable warns, keeping the row, when a subject has a second reference date', () => {
+    const r = readTable(
+      [['Subject', 'Visit date', 'Result', 'RANDDT'], ['K-1', 45720, 60, '2025-01-06'], ['K-1', 45800, 61, '2025-01-06'], ['K-1', 45801, 61, '2025-01-13'], ['K-2', 45801, 61, '2025-01-13']],
+      BLINDED,
+    );
+    const t = table(r);
+    expect(Array.from(t.usableModel)).toEqual([1, 1, 1, 1]);
+    expect(t.reference[2]).toBe(45670); // kept as given: 2025-01-13 = 2025-01-06 + 7 days (exact identity)
+    expect(r.issues).toMatchObject([{ code: 'reference-date-differs', cell: 'Visits!D4', value: '2025-01-13', use: null }]);
+    expect(r.issues[0]!.message).toBe(
+      'Visits!D4: the reference date 2025-01-13 differs from 2025-01-06 given earlier for subject "K-1"; a subject has one reference date. The row is kept with its own reference date.',
+    );
+  });
+
   it('readTable reads the date and ignores the study day when both columns are mapped', () => {
     const t = table(readTable([['USUBJID', 'ADT', 'ADY', 'AVAL'], ['K-1', 45720, 0, 60]], BLINDED));
     expect(t.timeKind).toBe('date');

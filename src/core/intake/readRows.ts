@@ -1,0 +1,205 @@
+/**
+ * The row pass of readTable: one linear pass over the data rows into typed columns, adding a warning for every cell
+ * that keeps a row from a use (see readTable for the rules). O(rows · mapped columns); no per-row objects beyond
+ * the strings the text columns hold.
+ */
+import type { CellRef } from './cellAddress';
+import { cellText, isBlankCell, readTextCell } from './cellText';
+import type { CovariatePlan } from './covariatePlan';
+import type { IssueList } from './issueList';
+import { readDate, readNumeric, readStudyDay } from './readCell';
+import type { CellValue, ColumnMapping, DateSystem, IssueCode, Role, Use } from './types';
+
+const EMPTY_ROW: readonly CellValue[] = [];
+const USES: readonly Use[] = ['timing', 'model'];
+
+/** What the row pass needs besides the cells. `mapping` is the checked, effective mapping (subject and a time column present). */
+export interface RowPassSetup {
+  readonly mapping: ColumnMapping;
+  readonly plans: readonly CovariatePlan[];
+  /** Width of the range (the header row's length). */
+  readonly width: number;
+  readonly top: CellRef;
+  readonly dateSystem: DateSystem;
+  readonly acceptText: boolean;
+  readonly unblinded: boolean;
+}
+
+/** The columns the row pass fills, one entry per data row. */
+export interface RowColumns {
+  readonly timeKind: 'date' | 'studyDay';
+  readonly sheetRows: Int32Array;
+  readonly subject: string[];
+  readonly subjectIndex: Int32Array;
+  readonly subjectIds: string[];
+  readonly date: Float64Array;
+  readonly studyDay: Float64Array;
+  readonly reference: Float64Array;
+  readonly value: Float64Array;
+  readonly visit: string[] | null;
+  readonly site: string[] | null;
+  readonly arm: string[] | null;
+  readonly covariates: (Float64Array | string[])[];
+  readonly usableTiming: Uint8Array;
+  readonly usableModel: Uint8Array;
+}
+
+/**
+ * Reads data rows 1..cells.length-1 into columns and adds row warnings to `issues`.
+ * @example readRows([["Subject", "Study day", "Result"], ["K-1", 0, 60]], setup, issues).usableTiming // Uint8Array [0]
+ * // with two 'bad-study-day' warnings (timing and model) at B2
+ */
+export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPassSetup, issues: IssueList): RowColumns {
+  const { mapping, plans, width, top, unblinded } = setup;
+  const nRows = Math.max(0, cells.length - 1);
+  const accept = setup.acceptText;
+  const timeKind = mapping.date !== undefined ? 'date' : 'studyDay';
+  const sc = mapping.subject!;
+  const tc = timeKind === 'date' ? mapping.date! : mapping.studyDay!;
+
+  const sheetRows = new Int32Array(nRows);
+  const subject = new Array<string>(nRows);
+  const subjectIndex = new Int32Array(nRows);
+  const subjectIds: string[] = [];
+  const subjectMap = new Map<string, number>();
+  const date = new Float64Array(nRows).fill(NaN);
+  const studyDay = new Float64Array(nRows).fill(NaN);
+  const reference = new Float64Array(nRows).fill(NaN);
+  const value = new Float64Array(nRows).fill(NaN);
+  const visit = mapping.visit === undefined ? null : new Array<string>(nRows).fill('');
+  const site = mapping.site === undefined ? null : new Array<string>(nRows).fill('');
+  const arm = unblinded ? new Array<string>(nRows).fill('') : null;
+  const covValues = plans.map((p) => (p.numeric ? new Float64Array(nRows).fill(NaN) : new Array<string>(nRows).fill('')));
+  const usableTiming = new Uint8Array(nRows);
+  const usableModel = new Uint8Array(nRows);
+
+  for (let i = 0; i < nRows; i++) {
+    const row = cells[i + 1] ?? EMPTY_ROW;
+    sheetRows[i] = top.row + 1 + i;
+    subject[i] = '';
+    subjectIndex[i] = -1;
+    if (isBlankRow(row, width)) {
+      for (const use of USES) issues.at('blank-row', 'warning', i, 0, null, '', use);
+      continue;
+    }
+    let timingOk = true;
+    let modelOk = true;
+
+    const sCell = row[sc];
+    const id = readTextCell(sCell);
+    if (id === null) timingOk = excludeBoth(issues, 'error-value', i, sc, 'subject', sCell);
+    else if (id === '') timingOk = excludeBoth(issues, 'blank-subject', i, sc, 'subject', sCell);
+    else {
+      let k = subjectMap.get(id);
+      if (k === undefined) {
+        k = subjectIds.length;
+        subjectMap.set(id, k);
+        subjectIds.push(id);
+      }
+      subject[i] = id;
+      subjectIndex[i] = k;
+    }
+
+    const tCell = row[tc];
+    if (timeKind === 'date') {
+      const d = readDate(tCell, setup.dateSystem);
+      if (typeof d === 'number') date[i] = d;
+      else timingOk = excludeBoth(issues, d, i, tc, 'date', tCell, typeof tCell === 'number' ? 'serial' : undefined);
+    } else {
+      const d = readStudyDay(tCell, accept);
+      if (typeof d === 'number') studyDay[i] = d;
+      else timingOk = excludeBoth(issues, d, i, tc, 'studyDay', tCell);
+    }
+
+    if (mapping.reference !== undefined) {
+      const rc = mapping.reference;
+      const d = readDate(row[rc], setup.dateSystem);
+      if (typeof d === 'number') reference[i] = d;
+      else if (d === 'error-value') issues.at('error-value', 'warning', i, rc, 'reference', cellText(row[rc]), null);
+      else if (d !== 'blank-time') issues.at('bad-reference-date', 'warning', i, rc, 'reference', cellText(row[rc]), null);
+    }
+    if (visit !== null) visit[i] = optionalText(row, mapping.visit!, 'visit', i, issues);
+    if (site !== null) site[i] = optionalText(row, mapping.site!, 'site', i, issues);
+
+    if (mapping.value === undefined) modelOk = false;
+    else {
+      const vc = mapping.value;
+      const v = readNumeric(row[vc], accept);
+      if (typeof v === 'number') value[i] = v;
+      else modelOk = excludeModel(issues, v, i, vc, 'value', row[vc]);
+    }
+
+    if (arm !== null) {
+      const ac = mapping.arm!;
+      const a = readTextCell(row[ac]);
+      if (a === null) modelOk = excludeModel(issues, 'error-value', i, ac, 'arm', row[ac]);
+      else if (a === '') modelOk = excludeModel(issues, 'blank-arm', i, ac, 'arm', row[ac]);
+      else arm[i] = a;
+    }
+
+    for (let c = 0; c < plans.length; c++) {
+      const plan = plans[c]!;
+      const cell = row[plan.col];
+      const out = covValues[c]!;
+      if (out instanceof Float64Array) {
+        const v = readNumeric(cell, accept);
+        // In a numeric column, text can only be numeric text, so 'text-in-numeric' cannot occur here.
+        if (typeof v === 'number') out[i] = v;
+        else modelOk = excludeModel(issues, v, i, plan.col, 'covariate', cell, plan.name);
+      } else {
+        const text = readTextCell(cell);
+        if (text === null) modelOk = excludeModel(issues, 'error-value', i, plan.col, 'covariate', cell, plan.name);
+        else if (text === '') modelOk = excludeModel(issues, 'blank-value', i, plan.col, 'covariate', cell, plan.name);
+        else out[i] = text;
+      }
+    }
+
+    usableTiming[i] = timingOk ? 1 : 0;
+    usableModel[i] = timingOk && modelOk ? 1 : 0;
+  }
+
+
+  return {
+    timeKind,
+    sheetRows,
+    subject,
+    subjectIndex,
+    subjectIds,
+    date,
+    studyDay,
+    reference,
+    value,
+    visit,
+    site,
+    arm,
+    covariates: covValues,
+    usableTiming,
+    usableModel,
+  };
+}
+
+/** Adds a warning for each use (timing and model) and returns false, the row's new timing usability. */
+function excludeBoth(issues: IssueList, code: IssueCode, i: number, col: number, role: Role, cell: CellValue, context?: string): false {
+  for (const use of USES) issues.at(code, 'warning', i, col, role, cellText(cell), use, context);
+  return false;
+}
+
+/** Adds a warning for the model and returns false, the row's new model usability. */
+function excludeModel(issues: IssueList, code: IssueCode, i: number, col: number, role: Role, cell: CellValue, context?: string): false {
+  issues.at(code, 'warning', i, col, role, cellText(cell), 'model', context);
+  return false;
+}
+
+/** True when every cell of the row within the range's width is blank. Stops at the first non-blank cell. */
+function isBlankRow(row: readonly CellValue[], width: number): boolean {
+  for (let c = 0; c < width; c++) if (!isBlankCell(row[c])) return false;
+  return true;
+}
+
+/** Text of an optional text role (visit label, site); an error value becomes "" with a warning (use null). */
+function optionalText(row: readonly CellValue[], col: number, role: Role, i: number, issues: IssueList): string {
+  const text = readTextCell(row[col]);
+  if (text !== null) return text;
+  issues.at('error-value', 'warning', i, col, role, cellText(row[col]), null);
+  return '';
+}

@@ -19,7 +19,8 @@ export interface DataPlace {
  *   first reference date found on another row.
  * - Dated data without one: the subject's baseline-visit date, i.e. the date of the subject's record of the schedule's
  *   first visit (the smallest target day) — found by label when a visit column is mapped (the earliest such record),
- *   else the subject's earliest dated record.
+ *   else the subject's earliest dated record. That record is taken to fall on the first visit's target day, so when
+ *   the first visit is not on day 1 (e.g. a screening visit on day −14) day 1 is that many days after it.
  * A row whose study day cannot be computed gets NaN and an issue (the date cell's address and a plain reason); it is
  * left out of visit timing and of the model's time axis. Cost O(rows + subjects).
  * Example: a subject dated 45000, 45084, 45168 with no reference column → study days 1, 85, 169.
@@ -59,6 +60,9 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
       const d = table.date[i]!;
       if (Number.isNaN(refDay[s]!) || d < refDay[s]!) refDay[s] = d;
     }
+    // The baseline record sits on the first visit's target day: shift to day 1 when that target is not 1.
+    const shift = first === null ? 0 : first.targetDay > 0 ? first.targetDay - 1 : first.targetDay;
+    if (shift !== 0) for (let s = 0; s < nSubjects; s++) refDay[s] = refDay[s]! - shift;
   }
 
   const dateColumn = table.mapping.date ?? 0;

@@ -116,3 +116,17 @@ describe('computeStudyDays', () => {
     expect(Array.from(t.date)).toEqual(before);
   });
 });
+
+describe('computeStudyDays with a first visit before day 1', () => {
+  it('places the first visit record on its own target day (screening on day −14: day 1 is 14 days later)', () => {
+    const schedule = [
+      { label: 'Screening', targetDay: -14, before: 7, after: 0 },
+      { label: 'Week 12', targetDay: 85, before: 7, after: 7 },
+    ];
+    const t = makeTable([{ subject: 'S1', time: REF }, { subject: 'S1', time: REF + 14 + 84 }]);
+    const r = computeStudyDays(t, schedule, { sheet: 'Visits', topLeft: 'A1' });
+    // CDISC rule: the reference date REF + 14 is day 1, so REF is day −14 and REF + 98 is day 85.
+    expect(Array.from(r.studyDays)).toEqual([-14, 85]);
+    expect(r.referenceDay[0]).toBe(REF + 14);
+  });
+});

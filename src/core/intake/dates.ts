@@ -60,10 +60,12 @@ export function daysInMonth(year: number, month: number): number {
 export function serialToDayNumber(serial: number, system: DateSystem): number {
   if (!Number.isFinite(serial)) return NaN;
   const whole = Math.floor(serial);
-  const day = system === 1904 ? whole + OFFSET_1904 : whole === 60 ? NaN : whole < 60 ? whole + 1 : whole;
-  if (system === 1900 && whole < 1) return NaN;
-  if (system === 1904 && whole < 0) return NaN;
-  return day >= FIRST_DAY && day <= LAST_DAY ? day : NaN;
+  let day: number;
+  if (system === 1904) day = whole >= 0 ? whole + OFFSET_1904 : NaN;
+  else if (whole >= 61) day = whole;
+  else if (whole >= 1 && whole <= 59) day = whole + 1;
+  else day = NaN; // 0 ("1900-01-00"), 60 (the phantom 1900-02-29) and negative serials
+  return day <= LAST_DAY ? day : NaN;
 }
 
 /**

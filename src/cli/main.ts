@@ -51,8 +51,8 @@ function printSummary(json: Record<string, unknown>, io: Console2): void {
   if (typeof settings.cutoff === 'string') io.out(`Data cut-off: ${settings.cutoff}.`);
   const line = countsLine(visits.counts);
   if (line !== null) io.out(`Visits: ${line}.`);
-  if (model && typeof model.headline === 'string') io.out(`Model: ${model.headline}`);
-  else if (typeof json.modelNote === 'string') io.out(`Model: not fitted. ${json.modelNote}`);
+  if (model && typeof model.summary === 'string') io.out(`Model: ${model.summary}`);
+  else if (typeof json.modelNote === 'string') io.out(`Model: not fitted (${json.modelNote}).`);
 }
 
 async function analyze(args: AnalyzeArgs, io: Console2, now: () => Date): Promise<number> {

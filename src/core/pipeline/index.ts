@@ -2,6 +2,6 @@
 export * from './types';
 export { runAnalysis } from './runAnalysis';
 export { excludedRows } from './excludedRows';
-export { buildModelData, contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
+export { contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
 export type { ObservedMean } from './modelData';
 export { resultsJson, mappingByHeader } from './resultsJson';

@@ -1,9 +1,7 @@
 import type { IntakeTable } from '../intake/types';
-import type { ContrastDay, ModelData } from '../model/types';
+import type { ContrastDay } from '../model/types';
 import { NO_STATUS, STATUS_CODE } from '../schedule/types';
-import type { ScheduleVisit, StudyDays, VisitTiming } from '../schedule/types';
-import { DAYS_PER_UNIT } from './types';
-import type { TimeUnit } from './types';
+import type { ScheduleVisit, VisitTiming } from '../schedule/types';
 
 /** Which rows enter the model: rows that took part in visit timing (so a study day is known) and are usable for the
  * model; with scheduledOnly, only the record matched to each scheduled visit (on time, early or late). */
@@ -23,56 +21,6 @@ export function modelRows(table: IntakeTable, timing: VisitTiming, scheduledOnly
 export function orderedArms(arms: readonly string[], referenceArm: string | undefined): string[] {
   if (referenceArm === undefined || !arms.includes(referenceArm)) return [...arms];
   return [referenceArm, ...arms.filter((a) => a !== referenceArm)];
-}
-
-/**
- * The model's columns for the included rows: value, time = (study day − 1) / days per unit (SPEC §3), subjects
- * renumbered 0..S−1 in order of first appearance, arm index (0 = reference) in unblinded mode, covariates subset.
- * Cost O(rows).
- * Example: study days 1 and 85 with unit 'week' → time 0 and 12.
- */
-export function buildModelData(
-  table: IntakeTable,
-  days: StudyDays,
-  include: Uint8Array,
-  arms: readonly string[],
-  timeUnit: TimeUnit,
-): ModelData {
-  let n = 0;
-  for (let i = 0; i < include.length; i++) n += include[i]!;
-  const y = new Float64Array(n);
-  const time = new Float64Array(n);
-  const subject = new Int32Array(n);
-  const unblinded = table.mode === 'unblinded' && table.arm !== null && arms.length > 0;
-  const armIndex = unblinded ? new Int32Array(n) : null;
-  const armOf = new Map(arms.map((a, k) => [a, k]));
-  const renumber = new Map<number, number>();
-  const ids: string[] = [];
-  const picked: number[] = [];
-  const unit = DAYS_PER_UNIT[timeUnit];
-  let j = 0;
-  for (let i = 0; i < include.length; i++) {
-    if (include[i] !== 1) continue;
-    const s = table.subjectIndex[i]!;
-    let k = renumber.get(s);
-    if (k === undefined) {
-      k = renumber.size;
-      renumber.set(s, k);
-      ids.push(table.subjectIds[s]!);
-    }
-    y[j] = table.value[i]!;
-    time[j] = (days.studyDays[i]! - 1) / unit;
-    subject[j] = k;
-    if (armIndex) armIndex[j] = armOf.get(table.arm![i]!) ?? 0;
-    picked.push(i);
-    j++;
-  }
-  const covariates = table.covariates.map((c) =>
-    c.kind === 'numeric'
-      ? { name: c.name, kind: 'numeric' as const, values: Float64Array.from(picked, (i) => c.values[i]!) }
-      : { name: c.name, kind: 'categorical' as const, values: picked.map((i) => c.values[i]!), levels: c.levels },
-  );
-  return { y, time, subject, nSubjects: renumber.size, armIndex, arms: unblinded ? [...arms] : [], covariates, subjectIds: ids };
 }
 
 /** Contrast days: each scheduled visit's target day except the first (baseline) visit, in order of target day. */

@@ -1,41 +1,77 @@
-/** Glue between the run and the report layer's model and record builders. */
-import type { IntakeTable, Issue } from '../intake/types';
+/** The run's writing stage: the report layer's model sheets, model JSON and analysis record, fed from the run. */
+import type { IntakeTable } from '../intake/types';
 import type { ModelFit } from '../model/types';
-import { timingJson } from '../report/timingJson';
+import { analysisRecordSheet, mappingLines } from '../report/record';
+import { modelJson } from '../report/modelJson';
+import { modelSheets } from '../report/modelSheet';
+import { modelSummaryText } from '../report/modelText';
+import { cutoffPhrase } from '../report/timingSheets';
 import type { TimingSummary } from '../report/timingTypes';
 import type { SheetSpec } from '../report/types';
 import type { ObservedMean } from './modelData';
 import type { AnalysisSettings, ExcludedRow } from './types';
 
-export { timingJson };
-
 export interface ModelPartsInput {
   readonly fit: ModelFit | null;
   readonly means: readonly ObservedMean[];
   readonly settings: AnalysisSettings;
-  readonly table: IntakeTable;
-  readonly nRows: number;
-  readonly modelNote: string | null;
 }
 
-// TODO(pipeline): replace with the report layer's modelSheets/modelJson when they land.
-export function modelOutputs(_input: ModelPartsInput): { sheets: SheetSpec[]; json: Record<string, unknown> | null } {
-  return { sheets: [], json: null };
+/** The model sheets and the JSON `model` section (the report's modelJson plus its plain-language `summary`); no
+ * sheets and null when the model was not fitted. */
+export function modelOutputs({ fit, means, settings }: ModelPartsInput): { sheets: SheetSpec[]; json: Record<string, unknown> | null } {
+  if (fit === null) return { sheets: [], json: null };
+  const sheets = modelSheets(fit, {
+    observed: means.map((m) => ({ label: m.visit, day: m.targetDay, arm: m.arm, mean: m.mean, n: m.n })),
+    mode: settings.mode,
+    perSubject: settings.perSubject,
+    subjectIds: fit.subjects.map((s) => s.id),
+  });
+  return { sheets, json: { summary: modelSummaryText(fit, settings.mode), ...modelJson(fit) } };
 }
 
 export interface RecordInput {
   readonly settings: AnalysisSettings;
   readonly table: IntakeTable;
-  readonly issues: readonly Issue[];
   readonly excluded: readonly ExcludedRow[];
   readonly fingerprint: string;
   readonly summary: TimingSummary;
-  readonly fit: ModelFit | null;
-  readonly modelNote: string | null;
+  readonly rowsTiming: number;
+  readonly rowsModel: number;
+  readonly referenceArm: string | null;
   readonly notes: readonly string[];
 }
 
-// TODO(pipeline): replace with the report layer's analysis record sheet when it lands.
-export function recordSheet(input: RecordInput): SheetSpec {
-  return { name: 'Analysis record', title: 'Analysis record', blocks: [{ kind: 'paragraph', text: `Input: ${input.settings.inputLabel}` }] };
+const UNIT_WORDS = { month: 'month (30.4375 days)', week: 'week (7 days)', day: 'day' } as const;
+const DF_WORDS = { 'kenward-roger': 'Kenward–Roger', satterthwaite: 'Satterthwaite', residual: 'Residual' } as const;
+
+/** The analysis record sheet (always the last sheet) for this run. */
+export function recordSheet(r: RecordInput): SheetSpec {
+  const s = r.settings;
+  const settingLines = [
+    { name: 'Estimation', value: s.method === 'reml' ? 'REML' : 'Maximum likelihood (ML)' },
+    { name: 'Degrees of freedom', value: DF_WORDS[s.dfMethod] },
+    { name: 'Confidence level', value: `${Math.round(s.level * 1000) / 10}%` },
+    { name: 'Time unit', value: UNIT_WORDS[s.timeUnit] },
+    { name: 'Rows in the model', value: s.scheduledOnly ? 'Only records matched to scheduled visits' : 'All valid rows (scheduled, early, late, extra and repeat)' },
+    { name: 'Per-patient sheet', value: s.perSubject ? 'Yes' : 'No' },
+    ...(r.referenceArm === null ? [] : [{ name: 'Reference arm', value: r.referenceArm }]),
+    ...(s.numericText === 'accept' ? [{ name: 'Numbers written as text', value: 'Accepted (text input such as CSV)' }] : []),
+  ];
+  return analysisRecordSheet({
+    inputLabel: s.inputLabel,
+    fingerprint: r.fingerprint,
+    rowsRead: r.table.nRows,
+    rowsTiming: r.rowsTiming,
+    rowsModel: r.rowsModel,
+    excluded: r.excluded,
+    mapping: mappingLines(r.table.mapping, r.table.headers),
+    schedule: s.schedule,
+    settings: settingLines,
+    cutoff: cutoffPhrase(r.summary),
+    mode: s.mode,
+    version: s.toolVersion ?? 'unknown',
+    runAt: s.runAt,
+    notes: r.notes,
+  });
 }

@@ -19,6 +19,8 @@ export interface ResultsJsonInput {
   readonly issues: readonly Issue[];
   readonly cutoff: number | null;
   readonly cutoffRule: CutoffRule;
+  /** The reference arm actually used (unblinded mode), else null. */
+  readonly referenceArm: string | null;
 }
 
 /** The mapping as role → header text (what a reader of the JSON recognises), covariates as a list of headers. */
@@ -60,7 +62,7 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
       schedule: s.schedule.map((v) => ({ label: v.label, targetDay: v.targetDay, before: v.before, after: v.after })),
       cutoff: r.cutoff === null ? null : r.table.timeKind === 'date' ? isoDate(r.cutoff) : r.cutoff,
       cutoffRule: r.cutoffRule,
-      referenceArm: unblinded ? (r.table.arms.includes(s.referenceArm ?? '') ? s.referenceArm! : (r.table.arms[0] ?? null)) : null,
+      referenceArm: unblinded ? r.referenceArm : null,
       timeUnit: s.timeUnit,
       daysPerUnit: DAYS_PER_UNIT[s.timeUnit],
       dfMethod: s.dfMethod,

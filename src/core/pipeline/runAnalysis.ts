@@ -1,6 +1,6 @@
 import { readTable } from '../intake/readTable';
 import type { Issue } from '../intake/types';
-import { fitRandomIntercept } from '../model';
+import { fitFromTable, ModelInputError, RankDeficiencyError } from '../model';
 import type { ModelFit } from '../model/types';
 import { fingerprintCells } from '../report/fingerprint';
 import { summarizeTiming } from '../report/summarizeTiming';
@@ -10,28 +10,19 @@ import { classifyVisits, computeStudyDays, dayNumberFromIso, NO_STATUS } from '.
 import type { CellValue } from '../intake/types';
 import { excludedRows } from './excludedRows';
 import { fromScheduleIssues, modelNotFitted } from './issues';
-import { buildModelData, contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
-import type { ObservedMean } from './modelData';
+import { contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
 import { resultsJson } from './resultsJson';
-import { modelOutputs, recordSheet, timingJson } from './reportParts';
+import { modelOutputs, recordSheet } from './reportParts';
+import { timingJson } from '../report/timingJson';
 import type { AnalysisOutput, AnalysisSettings, RunHooks, Stage } from './types';
 
 /** Raised inside a run when the hooks' signal is aborted between stages. */
 const CANCELLED: AnalysisOutput = { ok: false, issues: [], cancelled: true };
 
-/** The least a model needs: two subjects and more observations than subjects, else the fit is not tried. */
-function modelBlocker(nSubjects: number, nObs: number, valueMapped: boolean): string | null {
-  if (!valueMapped) return 'no column is mapped to the value';
-  if (nObs === 0) return 'no row has everything the model needs';
-  if (nSubjects < 2) return 'the model needs at least two subjects with usable rows';
-  if (nObs <= nSubjects) return 'the model needs more measurements than subjects (some subjects measured more than once)';
-  return null;
-}
-
 /**
  * Runs one analysis from cells to sheet specs and JSON (SPEC §3–§7), in four stages:
  * reading (readTable with the mapping, mode and date system), windowing (computeStudyDays, classifyVisits with the
- * cut-off), fitting (fitRandomIntercept on every row usable for the model — or only rows matched to scheduled visits
+ * cut-off), fitting (fitFromTable on every row usable for the model — or only rows matched to scheduled visits
  * when settings.scheduledOnly — with contrasts at each scheduled visit's target day after the first, and observed means
  * per scheduled visit, by arm when unblinded) and writing (timing sheets, model sheets, the analysis record last; JSON).
  * Between stages it reports progress, yields to the front end and stops with { ok: false, cancelled: true } when
@@ -87,43 +78,49 @@ export async function runAnalysis(
 
   if (!(await enter('fitting'))) return CANCELLED;
   const include = modelRows(table, timing, settings.scheduledOnly);
-  const arms = settings.mode === 'unblinded' ? orderedArms(table.arms, settings.referenceArm) : [];
-  const data = buildModelData(table, days, include, arms, settings.timeUnit);
-  const means: ObservedMean[] = observedMeans(table, timing, settings.schedule, include, arms);
   let fit: ModelFit | null = null;
-  let modelNote: string | null = modelBlocker(data.nSubjects, data.y.length, table.mapping.value !== undefined);
+  let modelNote: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
   if (modelNote === null) {
     try {
-      fit = fitRandomIntercept(data, {
+      fit = fitFromTable(table, days.studyDays, include, {
         method: settings.method,
         dfMethod: settings.dfMethod,
         level: settings.level,
         timeUnit: settings.timeUnit,
         contrastDays: contrastDays(settings.schedule),
         residuals: settings.perSubject,
+        ...(settings.referenceArm === undefined ? {} : { referenceArm: settings.referenceArm }),
       });
     } catch (e) {
-      // The engine throws on a design it cannot estimate (e.g. a covariate constant within the data); that is a
-      // property of these data, reported as such, not a crash of the run.
-      modelNote = e instanceof Error ? e.message : String(e);
+      // The engine refuses data it cannot estimate from (no usable rows, one subject, a design without full rank):
+      // a property of these data, reported as such; the visit-timing results still stand.
+      if (!(e instanceof ModelInputError || e instanceof RankDeficiencyError)) throw e;
+      modelNote = e.message;
     }
   }
   if (modelNote !== null && table.mapping.value !== undefined) issues.push(modelNotFitted(modelNote));
+  const arms = settings.mode === 'unblinded' ? (fit?.arms ?? orderedArms(table.arms, settings.referenceArm)) : [];
+  const means = observedMeans(table, timing, settings.schedule, include, arms);
+  const usedForModel = fit?.nObservations ?? 0;
+  const referenceArm = settings.mode === 'unblinded' ? (arms[0] ?? null) : null;
 
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);
   const fingerprint = fingerprintCells(cells);
-  const sheets: SheetSpec[] = [...timingSheets(summary)];
-  const model = modelOutputs({ fit, means, settings, table, nRows: data.y.length, modelNote });
-  sheets.push(...model.sheets);
-  sheets.push(recordSheet({ settings, table, issues, excluded, fingerprint, summary, fit, modelNote, notes }));
+  const usedForTiming = countTiming(timing.rowStatus);
+  const model = modelOutputs({ fit, means, settings });
+  const sheets: SheetSpec[] = [
+    ...timingSheets(summary),
+    ...model.sheets,
+    recordSheet({ settings, table, excluded, fingerprint, summary, rowsTiming: usedForTiming, rowsModel: usedForModel, referenceArm, notes: modelNote === null ? notes : [...notes, `The model was not fitted: ${modelNote}.`] }),
+  ];
   const json = resultsJson({
     settings,
     table,
     fingerprint,
     excluded,
-    usedForTiming: countOnes(table.usableTiming, (i) => Number.isFinite(days.studyDays[i]!) && timing.rowStatus[i] !== NO_STATUS),
-    usedForModel: data.y.length,
+    usedForTiming,
+    usedForModel,
     visits: timingJson(summary),
     model: model.json,
     modelNote,
@@ -131,12 +128,14 @@ export async function runAnalysis(
     issues,
     cutoff: summary.cutoff,
     cutoffRule: summary.cutoffRule,
+    referenceArm,
   });
   return { ok: true, issues, excluded, sheets, json };
 }
 
-function countOnes(flags: Uint8Array, also: (i: number) => boolean): number {
+/** Rows that took part in visit timing (every row with a status). */
+function countTiming(rowStatus: Uint8Array): number {
   let n = 0;
-  for (let i = 0; i < flags.length; i++) if (flags[i] === 1 && also(i)) n++;
+  for (let i = 0; i < rowStatus.length; i++) if (rowStatus[i] !== NO_STATUS) n++;
   return n;
 }

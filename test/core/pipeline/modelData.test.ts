@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { readTable } from '../../../src/core/intake';
 import { classifyVisits, computeStudyDays } from '../../../src/core/schedule';
-import { buildModelData, contrastDays, excludedRows, modelRows, observedMeans, orderedArms } from '../../../src/core/pipeline';
+import { contrastDays, excludedRows, modelRows, observedMeans, orderedArms } from '../../../src/core/pipeline';
 import type { CellValue, Issue } from '../../../src/core/intake/types';
 
 const SCHEDULE = [
@@ -30,31 +30,17 @@ function setup(mode: 'blinded' | 'unblinded') {
   return { table: read.table, days, timing };
 }
 
-describe('model columns', () => {
-  it('buildModelData measures time as (study day − 1) / days per unit (SPEC §3) and renumbers subjects', () => {
-    const { table, days, timing } = setup('blinded');
-    const include = modelRows(table, timing, false);
-    const data = buildModelData(table, days, include, [], 'week');
-    // Exact identity: (29 − 1) / 7 = 4 weeks; (31 − 1) / 7 = 30/7; (30 − 1) / 7 = 29/7.
-    expect(Array.from(data.time)).toEqual([0, 4, 30 / 7, 0, 29 / 7, 0, 0]);
-    expect(Array.from(data.subject)).toEqual([0, 0, 0, 1, 1, 2, 3]);
-    expect(data.armIndex).toBeNull();
-    expect(data.arms).toEqual([]);
-  });
-
+describe('model rows, contrasts and observed means', () => {
   it('modelRows with scheduledOnly keeps each visit record and drops the repeat', () => {
     const { table, timing } = setup('blinded');
     expect(Array.from(modelRows(table, timing, true))).toEqual([1, 1, 0, 1, 1, 1, 1]);
     expect(Array.from(modelRows(table, timing, false))).toEqual([1, 1, 1, 1, 1, 1, 1]);
   });
 
-  it('orderedArms puts the chosen reference arm first and buildModelData indexes arms from it', () => {
-    const { table, days, timing } = setup('unblinded');
-    const arms = orderedArms(table.arms, 'A');
-    expect(arms).toEqual(['A', 'B']);
-    const data = buildModelData(table, days, modelRows(table, timing, false), arms, 'day');
-    expect(Array.from(data.armIndex!)).toEqual([1, 1, 1, 0, 0, 1, 0]);
+  it('orderedArms puts the chosen reference arm first and keeps the order of appearance otherwise', () => {
+    expect(orderedArms(['B', 'A', 'C'], 'A')).toEqual(['A', 'B', 'C']);
     expect(orderedArms(['B', 'A'], undefined)).toEqual(['B', 'A']);
+    expect(orderedArms(['B', 'A'], 'Z')).toEqual(['B', 'A']);
   });
 
   it('contrastDays are the target days of every scheduled visit after the first, in order of target day', () => {

@@ -87,11 +87,13 @@ function plain(words: readonly string[], header: string): Candidate | null {
     const visitish = has(words, 'visit', 'assessment', 'collection', 'sample', 'measurement', 'exam') !== undefined;
     return { role: 'date', score: visitish ? 75 : 70, reason: `${q} contains the word "${date}"` };
   }
-  if (isRand) return { role: 'reference', score: 60, reason: `${q} names the randomisation (read as its date)` };
-  const day = has(words, 'day');
-  if (day !== undefined) {
+  if (has(words, 'day') !== undefined) {
     return { role: 'studyDay', score: has(words, 'study') !== undefined ? 80 : 70, reason: `${q} contains the word "day"` };
   }
+  // "Days since randomisation" counts days but may have a day 0, unlike a study day: the user maps it.
+  if (has(words, 'days') !== undefined) return null;
+  const armWord = has(words, 'arm', 'treatment', 'group', 'trt', 'cohort');
+  if (isRand && armWord === undefined) return { role: 'reference', score: 60, reason: `${q} names the randomisation (read as its date)` };
   const subject = has(words, 'subject', 'patient', 'participant', 'usubjid', 'subjid');
   if (subject !== undefined) return { role: 'subject', score: 75, reason: `${q} contains the word "${subject}"` };
   if (words.length === 1 && has(words, 'id', 'ptid', 'pid') !== undefined) {
@@ -99,8 +101,7 @@ function plain(words: readonly string[], header: string): Candidate | null {
   }
   const site = has(words, 'site', 'centre', 'center', 'siteid');
   if (site !== undefined) return { role: 'site', score: 75, reason: `${q} contains the word "${site}"` };
-  const arm = has(words, 'arm', 'treatment', 'group', 'trt', 'cohort');
-  if (arm !== undefined) return { role: 'arm', score: 75, reason: `${q} contains the word "${arm}"` };
+  if (armWord !== undefined) return { role: 'arm', score: 75, reason: `${q} contains the word "${armWord}"` };
   const visit = has(words, 'visit', 'timepoint');
   if (visit !== undefined) {
     const numbered = has(words, 'number', 'num', 'no', 'nr', 'n') !== undefined;

@@ -79,6 +79,15 @@ describe('detectMapping on plain words', () => {
     expect(d.mapping.value).toBe(2);
   });
 
+  it('detectMapping reads "Randomised arm" as the arm and leaves "Days since randomisation" unmapped (it may have a day 0)', () => {
+    expect(detectMapping(['Subject', 'Randomised arm', 'Days since randomisation', 'Result'], 'unblinded').mapping).toEqual({
+      subject: 0,
+      arm: 1,
+      value: 3,
+      covariates: [],
+    });
+  });
+
   it('detectMapping does not take a birth date as the visit date', () => {
     expect(detectMapping(['Subject', 'Date of birth', 'Result'], 'blinded').mapping.date).toBeUndefined();
   });

@@ -2,7 +2,7 @@
 export * from './types';
 export { CAUTIONS, INVENTED_DATA_NOTE, UNBLINDED_CAUTION } from './cautions';
 export { EXCEL_FORMAT_CODES, formatCell } from './formats';
-export { Sha256, sha256Hex } from './sha256';
+export { HashUsageError, Sha256, sha256Hex } from './sha256';
 export { CellFingerprint, fingerprintCells, serialiseCell } from './fingerprint';
 export type { FingerprintCell } from './fingerprint';
 export * from './timingTypes';

@@ -18,6 +18,14 @@ const K = new Int32Array([
 /** Initial hash value: the first 32 bits of the fractional parts of the square roots of the first 8 primes (§5.3.3). */
 const H0 = [0x6a09e667, 0xbb67ae85, 0x3c6ef372, 0xa54ff53a, 0x510e527f, 0x9b05688c, 0x1f83d9ab, 0x5be0cd19];
 
+/** Thrown when a finished hash is used again (its digest can be taken once). */
+export class HashUsageError extends Error {
+  constructor() {
+    super('This SHA-256 hash is finished: its digest was already taken; start a new Sha256 for another message.');
+    this.name = 'HashUsageError';
+  }
+}
+
 export class Sha256 {
   private readonly h = new Int32Array(H0); // Int32 lanes keep the arithmetic in small integers
   private readonly block = new Uint8Array(64);
@@ -26,14 +34,16 @@ export class Sha256 {
   private bytes = 0; // total message length in bytes (exact up to 2^53)
   private done = false;
 
-  /** Adds bytes to the message. */
+  /** Adds bytes to the message. Throws HashUsageError after hex(). */
   update(data: Uint8Array): this {
+    if (this.done) throw new HashUsageError();
     for (let i = 0; i < data.length; i++) this.byte(data[i]!);
     return this;
   }
 
   /** Adds the UTF-8 encoding of a string (lone surrogates become U+FFFD, as the WHATWG encoder does). */
   updateText(text: string): this {
+    if (this.done) throw new HashUsageError();
     const block = this.block;
     for (let i = 0; i < text.length; i++) {
       let c = text.charCodeAt(i);
@@ -75,7 +85,7 @@ export class Sha256 {
 
   /** Pads the message (§5.1.1) and returns the 256-bit digest as 64 lower-case hex digits. Call once. */
   hex(): string {
-    if (this.done) throw new Error('Sha256.hex() was already called on this hash.');
+    if (this.done) throw new HashUsageError();
     const bits = this.bytes * 8;
     this.byte(0x80);
     while (this.filled !== 56) this.byte(0);

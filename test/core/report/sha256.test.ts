@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { Sha256, sha256Hex } from '../../../src/core/report/sha256';
+import { HashUsageError, Sha256, sha256Hex } from '../../../src/core/report/sha256';
 import { CellFingerprint, fingerprintCells, serialiseCell } from '../../../src/core/report/fingerprint';
 
 describe('sha256 (NIST FIPS 180-4 example vectors)', () => {
@@ -42,6 +42,15 @@ describe('sha256 (NIST FIPS 180-4 example vectors)', () => {
       const bytes = new Uint8Array(Buffer.from(s, 'utf8'));
       expect(new Sha256().update(bytes).hex()).toBe(createHash('sha256').update(s).digest('hex'));
     }
+  });
+});
+
+describe('Sha256 misuse', () => {
+  it('refuses to add to or digest a finished hash, with a typed error', () => {
+    const h = new Sha256().updateText('abc');
+    h.hex();
+    expect(() => h.hex()).toThrow(HashUsageError);
+    expect(() => h.updateText('d')).toThrow(HashUsageError);
   });
 });
 

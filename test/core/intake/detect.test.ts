@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { detectMapping } from '../../../src/core/intake';
 
 // Variable names and meanings: CDISC SDTM Implementation Guide and ADaM Implementation Guide (open standards).
@@ -106,5 +107,32 @@ describe('detectMapping in blinded mode', () => {
     }
     const d = detectMapping(split('USUBJID,SITEID,TRT01P,AVISIT,ADT,RANDDT,AVAL'), 'blinded');
     expect(d.mapping).toEqual({ subject: 0, site: 1, visit: 3, date: 4, reference: 5, value: 6, covariates: [] });
+  });
+});
+
+describe('detectMapping properties', () => {
+  const header = fc.oneof(
+    fc.string({ maxLength: 12 }),
+    fc.constantFrom('USUBJID', 'SUBJID', 'TRT01P', 'TRTA', 'AVISIT', 'AVISITN', 'ADT', 'ADY', 'AVAL', 'BASE', 'CHG', 'ABLFL', 'Visit date', 'Result', 'Arm', 'Site'),
+  );
+
+  it('detectMapping maps each column to one role at most, never BASE or CHG, never an arm in blinded mode, and adds no covariates', () => {
+    fc.assert(
+      fc.property(fc.array(header, { maxLength: 12 }), fc.constantFrom('blinded' as const, 'unblinded' as const), (headers, mode) => {
+        const d = detectMapping(headers, mode);
+        const { covariates, ...roles } = d.mapping;
+        const cols = Object.values(roles);
+        expect(new Set(cols).size).toBe(cols.length);
+        for (const c of cols) {
+          expect(c).toBeGreaterThanOrEqual(0);
+          expect(c).toBeLessThan(headers.length);
+          expect(['BASE', 'CHG']).not.toContain(headers[c]);
+        }
+        expect(covariates).toEqual([]);
+        if (mode === 'blinded') expect(d.mapping.arm).toBeUndefined();
+        expect(Object.keys(d.reasons).sort()).toEqual(Object.keys(roles).sort());
+      }),
+      { numRuns: 500 },
+    );
   });
 });

@@ -1,40 +1,15 @@
-import { isoDate } from '../schedule/dates';
 import { STATUS_WORDS } from '../schedule/types';
 import { CAUTIONS, UNBLINDED_CAUTION } from './cautions';
 import { DUE_WORDS } from './timingTypes';
+import { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWords';
 import type { TimingSummary, VisitSummaryRow } from './timingTypes';
 import type { Block, NumberFormat, SheetCell, SheetSpec, TableColumn } from './types';
 
 /** Sheet names of the visit-timing reports (front ends make them unique in the workbook). */
 export const TIMING_SHEET_NAMES = { timing: 'Visit timing', deviations: 'Visit deviations', due: 'Visits due' } as const;
 
-export const ON_TIME_RATE_NOTE =
-  'On-time rate = visits on time ÷ visits due. A visit is due unless its window is still open or yet to open at the cut-off ("not yet due"); missed visits count as due. Deviation = actual study day − target study day (negative = early), over the records that are the visits’ own (on time, early, late).';
-
 const col = (header: string, format: NumberFormat, width?: number): TableColumn => (width === undefined ? { header, format } : { header, format, width });
 const para = (text: string, style: 'normal' | 'caution' | 'heading' = 'normal'): Block => ({ kind: 'paragraph', text, style });
-const pct = (x: number | null): string => (x === null ? 'n/a' : `${(100 * x).toFixed(1)}%`);
-const plural = (n: number, one: string, many: string): string => `${n} ${n === 1 ? one : many}`;
-
-/** How the cut-off reads in a sentence, e.g. "As of 2024-06-30 (the latest visit date in the data)". */
-export function cutoffPhrase(summary: Pick<TimingSummary, 'cutoff' | 'cutoffRule' | 'dated'>): string {
-  const { cutoff, cutoffRule, dated } = summary;
-  if (cutoff === null) return dated ? 'With no usable dates in the data' : "As of each subject's last record (the data carry study days, not dates)";
-  if (!dated) return `As of study day ${cutoff} (the given cut-off)`;
-  return cutoffRule === 'given' ? `As of the cut-off ${isoDate(cutoff)}` : `As of ${isoDate(cutoff)} (the latest visit date in the data)`;
-}
-
-/** The one-paragraph plain summary of the counts and the cut-off heading the timing sheet. */
-export function timingSummaryText(summary: TimingSummary): string {
-  const c = summary.counts;
-  const due = c.onTime + c.early + c.late + c.missed;
-  return (
-    `${cutoffPhrase(summary)}, ${plural(summary.subjects, 'subject', 'subjects')} had ${plural(due, 'scheduled visit', 'scheduled visits')} due: ` +
-    `${c.onTime} on time (${pct(due > 0 ? c.onTime / due : null)}), ${c.early} early, ${c.late} late and ${c.missed} missed; ` +
-    `${plural(c.notYetDue, 'visit is', 'visits are')} not yet due. ` +
-    `Besides the scheduled visits there ${c.extra === 1 ? 'was' : 'were'} ${plural(c.extra, 'extra record', 'extra records')} (matching no scheduled visit) and ${plural(c.repeat, 'repeat record', 'repeat records')} (a second record of a visit already matched).`
-  );
-}
 
 function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[], withArm: boolean): Block {
   const columns = [

@@ -73,19 +73,32 @@ function uniqueHeaders(headers: readonly string[]): string[] {
 
 interface SheetState {
   readonly ws: ExcelJS.Worksheet;
+  /** The next free row. */
   row: number;
+  /** True when the row above `row` is blank (so a table or heading needs no extra spacing). */
+  spaced: boolean;
   readonly widths: number[];
 }
 
-function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font> | null): void {
+/** A blank row before a heading or table that follows text, so blocks stand apart. */
+function space(st: SheetState): void {
+  if (!st.spaced) st.row += 1;
+  st.spaced = true;
+}
+
+/** Consecutive paragraphs sit on consecutive rows; a heading gets a blank row before it. */
+function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font> | null, heading = false): void {
+  if (heading) space(st);
   const cell = st.ws.getCell(st.row, 1);
   cell.value = text;
   if (font) cell.font = font;
-  st.row += 2;
+  st.row += 1;
+  st.spaced = false;
 }
 
 /** Writes one table (caption row, then a real Excel table) and returns the header's row number. */
 function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): number {
+  space(st);
   if (t.caption) {
     st.ws.getCell(st.row, 1).value = t.caption;
     st.ws.getCell(st.row, 1).font = CAPTION_FONT;
@@ -113,12 +126,13 @@ function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): num
     st.widths[j] = Math.max(st.widths[j] ?? 0, wanted);
   });
   st.row = headerRow + rows.length + 2;
+  st.spaced = true;
   return headerRow;
 }
 
 /**
  * Renders sheet specs into an .xlsx workbook (ECMA-376) and returns its bytes. Per sheet: a title row, then each
- * block in order — paragraphs (cautions in bold italic), tables as real Excel tables with header row, filter
+ * block in order — paragraphs on consecutive rows (cautions in bold italic), headings and tables set apart by a blank row, tables as real Excel tables with header row, filter
  * buttons, number formats from EXCEL_FORMAT_CODES and column widths, and for each chart a note plus the chart's data
  * table (exceljs cannot draw native charts). A sheet that is one big table gets its header frozen. Text is always
  * stored as a string cell, never as a formula: a subject id "=1+1" stays the text "=1+1". Sheet names are made
@@ -133,23 +147,21 @@ export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8
   const tableNames = new Set<string>();
   sheets.forEach((spec, k) => {
     const ws = wb.addWorksheet(names[k]!);
-    const st: SheetState = { ws, row: 1, widths: [] };
+    const st: SheetState = { ws, row: 3, spaced: true, widths: [] };
     ws.getCell(1, 1).value = spec.title;
     ws.getCell(1, 1).font = TITLE_FONT;
-    st.row = 3;
     const tables = spec.blocks.filter((b) => b.kind === 'table').length;
     const charts = spec.blocks.filter((b) => b.kind === 'chart').length;
     let frozenAt = 0;
     for (const b of spec.blocks) {
       if (b.kind === 'paragraph') {
         const font = b.style === 'caution' ? CAUTION_FONT : b.style === 'heading' ? HEADING_FONT : null;
-        writeParagraph(st, b.text, font);
+        writeParagraph(st, b.text, font, b.style === 'heading');
       } else if (b.kind === 'table') {
         const header = writeTable(st, b, tableNames);
         if (tables === 1 && charts === 0) frozenAt = header;
       } else {
-        writeParagraph(st, b.chart.title, HEADING_FONT);
-        st.row -= 1;
+        writeParagraph(st, b.chart.title, HEADING_FONT, true);
         if (b.chart.sourceTable !== undefined) {
           writeParagraph(st, CHART_NOTE_SOURCE(b.chart.sourceTable), null);
         } else {

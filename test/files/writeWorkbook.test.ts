@@ -47,13 +47,13 @@ describe('writeWorkbook', () => {
   it('writes user text as string cells, never formulas: a subject id "=1+1" stays the text "=1+1"', async () => {
     const wb = await load(await writeWorkbook([listing]));
     const ws = wb.getWorksheet('Deviations')!;
-    const subject = ws.getCell('A9');
+    const subject = ws.getCell('A8');
     expect(subject.value).toBe('=1+1');
     expect(subject.type).toBe(ExcelJS.ValueType.String);
     expect(subject.formula).toBeUndefined();
-    expect(ws.getCell('A11').type).toBe(ExcelJS.ValueType.String);
+    expect(ws.getCell('A10').type).toBe(ExcelJS.ValueType.String);
     // A number in a text column is written as its text.
-    expect(ws.getCell('A10').value).toBe('1001');
+    expect(ws.getCell('A9').value).toBe('1001');
   });
 
   it('puts the title in A1, emphasises cautions and writes each table as a real Excel table with its header row', async () => {
@@ -63,30 +63,31 @@ describe('writeWorkbook', () => {
     expect(ws.getCell('A1').font?.bold).toBe(true);
     expect(ws.getCell('A3').value).toBe(CAUTIONS[0]);
     expect(ws.getCell('A3').font?.bold).toBe(true);
-    expect(ws.getCell('A5').value).toBe('Listing of early, late and missed visits.');
-    expect(ws.getCell('A5').font?.bold).toBeFalsy();
-    expect(ws.getCell('A7').value).toBe('Deviation listing');
-    expect(ws.getCell('A8').value).toBe('Subject');
-    expect(tablesOf(ws)).toEqual([{ name: 'Listing', ref: 'A8:D11', headers: ['Subject', 'Visit date', 'Days off', 'p'] }]);
+    expect(ws.getCell('A4').value).toBe('Listing of early, late and missed visits.');
+    expect(ws.getCell('A4').font?.bold).toBeFalsy();
+    expect(ws.getCell('A5').value).toBeNull();
+    expect(ws.getCell('A6').value).toBe('Deviation listing');
+    expect(ws.getCell('A7').value).toBe('Subject');
+    expect(tablesOf(ws)).toEqual([{ name: 'Listing', ref: 'A7:D10', headers: ['Subject', 'Visit date', 'Days off', 'p'] }]);
   });
 
   it('applies the number-format codes of report/formats.ts and leaves non-finite numbers blank', async () => {
     const wb = await load(await writeWorkbook([listing]));
     const ws = wb.getWorksheet('Deviations')!;
-    expect(ws.getCell('A9').numFmt).toBe('@');
-    expect(ws.getCell('B9').numFmt).toBe('yyyy-mm-dd');
+    expect(ws.getCell('A8').numFmt).toBe('@');
+    expect(ws.getCell('B8').numFmt).toBe('yyyy-mm-dd');
     // exceljs reads a date-formatted serial back as a Date: 45663 is 2025-01-06 (exact identity, ECMA-376 §18.17.4.1:
     // serial = days since 1899-12-30).
-    expect(ws.getCell('B9').value).toEqual(new Date(Date.UTC(2025, 0, 6)));
-    expect(ws.getCell('C9').numFmt).toBe('0');
-    expect(ws.getCell('D9').numFmt).toBe('[<0.0001]"<0.0001";0.0000');
-    expect(ws.getCell('D10').value).toBeNull();
+    expect(ws.getCell('B8').value).toEqual(new Date(Date.UTC(2025, 0, 6)));
+    expect(ws.getCell('C8').numFmt).toBe('0');
+    expect(ws.getCell('D8').numFmt).toBe('[<0.0001]"<0.0001";0.0000');
+    expect(ws.getCell('D9').value).toBeNull();
   });
 
   it('freezes the header of a sheet that is one big table and sets column widths', async () => {
     const wb = await load(await writeWorkbook([listing]));
     const ws = wb.getWorksheet('Deviations')!;
-    expect(ws.views[0]).toMatchObject({ state: 'frozen', ySplit: 8 });
+    expect(ws.views[0]).toMatchObject({ state: 'frozen', ySplit: 7 });
     expect(ws.getColumn(1).width).toBe(14);
   });
 

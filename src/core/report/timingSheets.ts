@@ -2,6 +2,9 @@ import { STATUS_WORDS } from '../schedule/types';
 import { CAUTIONS, UNBLINDED_CAUTION } from './cautions';
 import { DUE_WORDS } from './timingTypes';
 import { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWords';
+
+/** The sentences live in timingWords.ts; re-exported here for callers that import them with the sheets. */
+export { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText };
 import type { TimingSummary, VisitSummaryRow } from './timingTypes';
 import type { Block, NumberFormat, SheetCell, SheetSpec, TableColumn } from './types';
 

@@ -18,6 +18,11 @@ export interface CovariatePlan {
   readonly hasNumbers: boolean;
 }
 
+/**
+ * Plans how one covariate column is read, from all its data cells (cells[1..]). O(rows).
+ * @example planCovariate([["Age"], [63], [""], ["#N/A"], [58]], 0, "Age", false).numeric // true
+ * @example planCovariate([["Sex"], ["F"], [2]], 0, "Sex", false) // numeric false, hasNumbers true, firstNonNumericRow 0
+ */
 export function planCovariate(
   cells: readonly (readonly CellValue[])[],
   col: number,

@@ -199,6 +199,41 @@ describe('longipane analyze on a small CSV with CDISC headers and no --map', () 
   });
 });
 
+describe('longipane analyze on an .xlsx workbook', () => {
+  it('reads the named sheet, with real date cells and a 1904 date system, and addresses problems on that sheet', async () => {
+    const d = join(dir, 'xlsx');
+    await mkdir(d, { recursive: true });
+    const wb = new ExcelJS.Workbook();
+    wb.properties.date1904 = true;
+    wb.addWorksheet('Notes').getCell('A1').value = 'not the data';
+    const ws = wb.addWorksheet('Visits');
+    const lines = SMALL.split('\n').map((l) => l.split(','));
+    lines.forEach((cells, r) => {
+      ws.addRow(
+        cells.map((c, k) => {
+          if (r === 0) return c;
+          if ((k === 4 || k === 5) && /^\d{4}-\d{2}-\d{2}$/.test(c) && c !== '2025-02-30') return new Date(`${c}T00:00:00Z`);
+          if (k === 6 && /^[\d.]+$/.test(c)) return Number(c);
+          return c === '' ? null : c;
+        }),
+      );
+    });
+    await writeFile(join(d, 'visits.xlsx'), new Uint8Array(await wb.xlsx.writeBuffer()));
+    await writeFile(join(d, 'schedule.csv'), SCHEDULE);
+    const r = await run('analyze', '--data', join(d, 'visits.xlsx'), '--sheet', 'Visits', '--schedule', join(d, 'schedule.csv'), '--cutoff', '2025-04-30', '--json', join(d, 'r.json'));
+    expect(r.err).toEqual([]);
+    expect(r.code).toBe(0);
+    const json = await readJson(join(d, 'r.json'));
+    const cells = json.input.excluded.map((e) => e.cell);
+    expect(cells).toEqual(expect.arrayContaining(['Visits!G6', 'Visits!A10', 'Visits!E12']));
+    // Same data as the CSV run: on time / late / missed counts agree whichever file type carried them.
+    await writeFile(join(d, 'visits.csv'), SMALL);
+    await run('analyze', '--data', join(d, 'visits.csv'), '--schedule', join(d, 'schedule.csv'), '--cutoff', '2025-04-30', '--json', join(d, 'c.json'));
+    const csv = await readJson(join(d, 'c.json'));
+    expect(json.visits.counts).toEqual(csv.visits.counts);
+  });
+});
+
 describe('longipane analyze when something is wrong', () => {
   it('leaves an existing output file untouched and no temporary file behind when the data cannot be analysed', async () => {
     const d = join(dir, 'fail');

@@ -2,7 +2,7 @@ import { isoDate } from '../schedule/dates';
 import type { NumberFormat, SheetCell } from './types';
 
 /**
- * Spreadsheet number-format codes for each NumberFormat (ECMA-376 Part 1, §18.8.31 numFmt): "@" is text, "0.0%" a
+ * Spreadsheet number-format codes for each NumberFormat (ECMA-376 Part 1, §18.8.30–31 numFmt/numFmts, section numbers from memory): "@" is text, "0.0%" a
  * percentage with one decimal, and the p-value code uses a condition section so values below 0.0001 show "<0.0001".
  */
 export const EXCEL_FORMAT_CODES: Readonly<Record<NumberFormat, string>> = {

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { EXCEL_FORMAT_CODES, formatCell } from '../../../src/core/report/formats';
 
 describe('formats', () => {
-  it('maps every number format to a spreadsheet format code (ECMA-376 Part 1 §18.8.31 numFmt syntax)', () => {
+  it('maps every number format to a spreadsheet format code (ECMA-376 Part 1 numFmt syntax, §18.8.30–31 from memory)', () => {
     expect(EXCEL_FORMAT_CODES).toEqual({
       text: '@',
       integer: '0',

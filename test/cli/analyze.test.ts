@@ -39,7 +39,7 @@ async function loadXlsx(path: string): Promise<ExcelJS.Workbook> {
   return wb;
 }
 
-/** The parts of the results JSON these tests read (schema: src/core/pipeline/RESULTS-JSON.md). */
+/** The parts of the results JSON these tests read (schema: README.md, "Results JSON"). */
 interface Results {
   tool: { name: string; version: string };
   input: { excluded: { row: number; cell: string; use: string; reason: string }[]; fingerprint: string };

@@ -36,7 +36,7 @@ export function mappingByHeader(mapping: ColumnMapping, headers: readonly string
 }
 
 /**
- * The machine-readable results (schema: src/core/pipeline/RESULTS-JSON.md). Plain JSON values only: no NaN, no
+ * The machine-readable results (schema: README.md, "Results JSON"). Plain JSON values only: no NaN, no
  * typed arrays. In blinded mode nothing here is by arm (the visit and model parts come from blinded inputs, and the
  * settings carry no reference arm). O(excluded rows + issues).
  */

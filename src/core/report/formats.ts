@@ -2,8 +2,9 @@ import { isoDate } from '../schedule/dates';
 import type { NumberFormat, SheetCell } from './types';
 
 /**
- * Spreadsheet number-format codes for each NumberFormat (ECMA-376 Part 1, §18.8.30–31 numFmt/numFmts, section numbers from memory): "@" is text, "0.0%" a
- * percentage with one decimal, and the p-value code uses a condition section so values below 0.0001 show "<0.0001".
+ * Spreadsheet number-format codes for each NumberFormat (ECMA-376 Part 1, numFmt, §18.8.30–31 — section numbers from
+ * memory): "@" is text, "0.0%" a percentage with one decimal, and the p-value code uses a condition section so values
+ * below 0.0001 show "<0.0001".
  */
 export const EXCEL_FORMAT_CODES: Readonly<Record<NumberFormat, string>> = {
   text: '@',

@@ -234,6 +234,44 @@ describe('longipane analyze on an .xlsx workbook', () => {
   });
 });
 
+describe('longipane analyze with --map, --covariate and model options', () => {
+  /** Invented: headers no detector could read as roles; a baseline covariate column. */
+  const ODD = [
+    'Pt,When,Score,Start,Base',
+    ...['a', 'b', 'c', 'd', 'e', 'f'].flatMap((p, k) => [
+      `${p},2025-01-${String(6 + k).padStart(2, '0')},${50 + k},2025-01-${String(6 + k).padStart(2, '0')},${50 + k}`,
+      `${p},2025-02-${String(3 + k).padStart(2, '0')},${49 + k + (k % 2) / 2},2025-01-${String(6 + k).padStart(2, '0')},${50 + k}`,
+      `${p},2025-03-${String(3 + k).padStart(2, '0')},${48.5 + k - (k % 3) / 4},2025-01-${String(6 + k).padStart(2, '0')},${50 + k}`,
+    ]),
+  ].join('\n');
+
+  it('uses the roles given with --map and the covariate given with --covariate, and records them in the JSON', async () => {
+    const d = join(dir, 'map');
+    await mkdir(d, { recursive: true });
+    await writeFile(join(d, 'odd.csv'), ODD);
+    await writeFile(join(d, 'schedule.csv'), SCHEDULE);
+    const r = await run(
+      'analyze', '--data', join(d, 'odd.csv'), '--schedule', join(d, 'schedule.csv'), '--json', join(d, 'r.json'), '--out', join(d, 'r.xlsx'),
+      '--map', 'subject=Pt', '--map', 'date=When', '--map', 'value=Score', '--map', 'reference=Start', '--covariate', 'Base',
+      '--time-unit', 'week', '--df', 'satterthwaite', '--method', 'ml', '--level', '0.9', '--scheduled-only', '--per-subject',
+    );
+    expect(r.err).toEqual([]);
+    expect(r.code).toBe(0);
+    const json = await readJson(join(d, 'r.json'));
+    expect(json.settings.mapping).toEqual({ subject: 'Pt', date: 'When', reference: 'Start', value: 'Score', covariates: ['Base'] });
+    expect(json.settings).toMatchObject({ timeUnit: 'week', daysPerUnit: 7, dfMethod: 'satterthwaite', method: 'ml', level: 0.9, scheduledOnly: true, perSubject: true });
+    const wb = await loadXlsx(join(d, 'r.xlsx'));
+    expect(wb.worksheets.map((w) => w.name)).toEqual(['Visit timing', 'Visit deviations', 'Visits due', 'Model results', 'Per patient', 'Analysis record']);
+  });
+
+  it('exits with 2 and lists the headers when --map names a column the data do not have', async () => {
+    const d = join(dir, 'map');
+    const r = await run('analyze', '--data', join(d, 'odd.csv'), '--schedule', join(d, 'schedule.csv'), '--map', 'value=eGFR');
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/no column headed "eGFR". Headers: "Pt", "When", "Score", "Start", "Base"/);
+  });
+});
+
 describe('longipane analyze when something is wrong', () => {
   it('leaves an existing output file untouched and no temporary file behind when the data cannot be analysed', async () => {
     const d = join(dir, 'fail');

@@ -26,6 +26,7 @@ export function checkArms(
   const subjectArm = new Int32Array(subjectIds.length).fill(-1);
   const firstRow = new Int32Array(subjectIds.length).fill(-1);
   const conflicted = new Uint8Array(subjectIds.length);
+  const otherArm = new Int32Array(subjectIds.length).fill(-1); // the first arm that differs from the subject's first
   let anyConflict = false;
   for (let i = 0; i < n; i++) {
     const s = subjectIndex[i]!;
@@ -42,15 +43,18 @@ export function checkArms(
       firstRow[s] = i;
     } else if (subjectArm[s] !== code) {
       conflicted[s] = 1;
+      if (otherArm[s] === -1) otherArm[s] = code;
       anyConflict = true;
     }
   }
   if (anyConflict) {
+    const armNames = [...armCode.keys()]; // codes were given in insertion order
     for (let i = 0; i < n; i++) {
       const s = subjectIndex[i]!;
       if (s < 0 || conflicted[s] !== 1 || armOfRow[i]! < 0) continue;
       if (i === firstRow[s] || armOfRow[i] !== subjectArm[s]) {
-        issues.at('subject-in-two-arms', 'error', i, armCol, 'arm', arm[i]!, null, subjectIds[s]!);
+        const other = armOfRow[i] === subjectArm[s] ? otherArm[s]! : subjectArm[s]!;
+        issues.at('subject-in-two-arms', 'error', i, armCol, 'arm', arm[i]!, null, subjectIds[s]!, armNames[other]!);
       }
     }
   }

@@ -72,7 +72,7 @@ export function renderMessage(m: MessageInput): string {
     case 'column-outside-range':
       return `The ${role} is mapped to column ${m.value}, which is outside the range.`;
     case 'subject-in-two-arms':
-      return `${at}subject ${quoted(m.context ?? '')} is in arm ${quoted(m.value)} here but in another arm elsewhere; a subject must stay in one arm.`;
+      return `${at}subject ${quoted(m.context ?? '')} is in arm ${quoted(m.value)} here but in ${m.other === undefined ? 'another arm' : `arm ${quoted(m.other)}`} elsewhere; a subject must stay in one arm.`;
     case 'too-few-subjects-per-arm':
       return `Arm ${quoted(m.value)} has ${m.context ?? 'fewer than two'} subject(s) with usable rows; unblinded mode needs at least two subjects in every arm.`;
     case 'too-few-arms':

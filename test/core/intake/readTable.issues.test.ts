@@ -91,7 +91,7 @@ describe('readTable issue list', () => {
         role: 'arm',
         value: 'Placebo',
         use: null,
-        message: '\'eGFR visits\'!C8: subject "K-004" is in arm "Placebo" here but in another arm elsewhere; a subject must stay in one arm.',
+        message: '\'eGFR visits\'!C8: subject "K-004" is in arm "Placebo" here but in arm "Active" elsewhere; a subject must stay in one arm.',
       },
       {
         code: 'subject-in-two-arms',
@@ -101,7 +101,7 @@ describe('readTable issue list', () => {
         role: 'arm',
         value: 'Active',
         use: null,
-        message: '\'eGFR visits\'!C9: subject "K-004" is in arm "Active" here but in another arm elsewhere; a subject must stay in one arm.',
+        message: '\'eGFR visits\'!C9: subject "K-004" is in arm "Active" here but in arm "Placebo" elsewhere; a subject must stay in one arm.',
       },
     ]);
   });

@@ -49,6 +49,7 @@ function printSummary(json: Record<string, unknown>, io: Console2): void {
   );
   const settings = (json.settings ?? {}) as Record<string, unknown>;
   if (typeof settings.cutoff === 'string') io.out(`Data cut-off: ${settings.cutoff}.`);
+  if (Array.isArray(json.notes)) for (const n of json.notes) io.out(`Note: ${String(n)}`);
   const line = countsLine(visits.counts);
   if (line !== null) io.out(`Visits: ${line}.`);
   if (model && typeof model.summary === 'string') io.out(`Model: ${model.summary}`);

@@ -78,6 +78,9 @@ export async function runAnalysis(
 
   if (!(await enter('fitting'))) return CANCELLED;
   const include = modelRows(table, timing, settings.scheduledOnly);
+  if (settings.mode === 'unblinded' && settings.referenceArm !== undefined && !table.arms.includes(settings.referenceArm)) {
+    notes.push(`The reference arm "${settings.referenceArm}" is not among the arms in the data (${table.arms.map((a) => `"${a}"`).join(', ')}); "${table.arms[0] ?? ''}", the first arm in the data, serves as the reference instead.`);
+  }
   let fit: ModelFit | null = null;
   let modelNote: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
   if (modelNote === null) {

@@ -116,4 +116,16 @@ describe('runAnalysis', () => {
     if (!unblinded.ok) throw new Error('run failed');
     expect((unblinded.json.settings as { referenceArm: unknown }).referenceArm).toBe('Y');
   });
+
+  it('says so in the notes when the chosen reference arm is not in the data, and uses the first arm instead', async () => {
+    const out = await runAnalysis(CELLS, {
+      ...SETTINGS,
+      mode: 'unblinded',
+      referenceArm: 'Z',
+      mapping: { subject: 0, site: 1, arm: 2, visit: 3, date: 4, value: 5, covariates: [] },
+    });
+    if (!out.ok) throw new Error('run failed');
+    expect(out.json.notes).toEqual([expect.stringMatching(/^The reference arm "Z" is not among the arms in the data \("X", "Y"\); "X"/)]);
+    expect((out.json.settings as { referenceArm: unknown }).referenceArm).toBe('X');
+  });
 });

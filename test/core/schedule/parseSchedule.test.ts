@@ -1,4 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import type { CellValue } from '../../../src/core/intake/types';
 import { parseSchedule } from '../../../src/core/schedule/parseSchedule';
 import { STARTER_SCHEDULE, starterScheduleCells } from '../../../src/core/schedule/starter';
 
@@ -96,5 +98,30 @@ describe('parseSchedule', () => {
     const copy = JSON.parse(JSON.stringify(cells));
     parseSchedule(cells, 'Schedule', 'A1');
     expect(cells).toEqual(copy);
+  });
+});
+
+describe('parseSchedule on arbitrary grids', () => {
+  const cell = fc.oneof(
+    fc.constantFrom<CellValue>(null, undefined, '', 0, -3, 7, 85, 1.5, '12', ' 7 ', 'x', true, '#N/A', 'Week 4', 'week4'),
+    fc.string({ maxLength: 6 }),
+    fc.integer({ min: -400, max: 400 }),
+  );
+  it('never throws, and keeps only valid visits sorted by target day, each error with a cell address', () => {
+    fc.assert(
+      fc.property(fc.array(fc.array(cell, { maxLength: 6 }), { maxLength: 8 }), fc.boolean(), (body, csv) => {
+        const head = csv ? ['visit', 'target_day', 'days_before', 'days_after'] : ['Visit', 'Target study day', 'Days allowed before', 'Days allowed after'];
+        const r = parseSchedule([head, ...body], 'Schedule', 'A1');
+        for (const v of r.schedule) {
+          expect(Number.isInteger(v.targetDay) && v.targetDay !== 0).toBe(true);
+          expect(Number.isInteger(v.before) && v.before >= 0 && Number.isInteger(v.after) && v.after >= 0).toBe(true);
+          expect(v.label.trim()).not.toBe('');
+        }
+        for (let k = 1; k < r.schedule.length; k++) expect(r.schedule[k]!.targetDay).toBeGreaterThanOrEqual(r.schedule[k - 1]!.targetDay);
+        expect(r.ok).toBe(!r.issues.some((i) => i.severity === 'error'));
+        for (const i of r.issues) if (i.code !== 'schedule-empty') expect(i.cell).toMatch(/^Schedule![A-Z]+\d+$/);
+      }),
+      { numRuns: 300 },
+    );
   });
 });

@@ -1,0 +1,79 @@
+import { describe, expect, it } from 'vitest';
+import { isIsoDate, parseAnalyzeArgs, UsageError } from '../../src/cli/args';
+import { buildMapping } from '../../src/cli/mapping';
+
+const BASE = ['--data', 'v.csv', '--schedule', 's.csv'];
+
+describe('parseAnalyzeArgs', () => {
+  it('fills the defaults of SPEC §5: blinded, month, Kenward–Roger, REML, level 0.95, all valid rows', () => {
+    expect(parseAnalyzeArgs(BASE)).toEqual({
+      data: 'v.csv',
+      schedule: 's.csv',
+      map: [],
+      unblinded: false,
+      timeUnit: 'month',
+      df: 'kenward-roger',
+      method: 'reml',
+      level: 0.95,
+      covariates: [],
+      scheduledOnly: false,
+      perSubject: false,
+    });
+  });
+
+  it('takes values after a space or after "=", repeats --map and --covariate, and reads boolean flags', () => {
+    const a = parseAnalyzeArgs([...BASE, '--level=0.9', '--map', 'value=AVAL', '--map=site=Centre name', '--covariate', 'BASE', '--covariate', 'AGE', '--unblinded', '--reference-arm', 'Placebo', '--per-subject']);
+    expect(a.level).toBe(0.9);
+    expect(a.map).toEqual([
+      ['value', 'AVAL'],
+      ['site', 'Centre name'],
+    ]);
+    expect(a.covariates).toEqual(['BASE', 'AGE']);
+    expect(a).toMatchObject({ unblinded: true, referenceArm: 'Placebo', perSubject: true, scheduledOnly: false });
+  });
+
+  it('rejects misuse with a UsageError that names the flag', () => {
+    const bad: [string[], RegExp][] = [
+      [['--data', 'v.csv'], /--schedule FILE is required/],
+      [[...BASE, '--level', '1.5'], /--level must be a number between 0 and 1/],
+      [[...BASE, '--df', 'containment'], /--df must be one of kenward-roger, satterthwaite, residual/],
+      [[...BASE, '--time-unit', 'year'], /--time-unit must be one of month, week, day/],
+      [[...BASE, '--map', 'AVAL'], /--map takes role=Header/],
+      [[...BASE, '--out'], /--out needs a value/],
+      [[...BASE, '--out', 'a.xlsx', '--out', 'b.xlsx'], /--out is given twice/],
+      [[...BASE, '--unblinded=yes'], /--unblinded takes no value/],
+      [[...BASE, '--reference-arm', 'Placebo'], /--reference-arm only applies with --unblinded/],
+      [[...BASE, 'extra'], /Unexpected argument "extra"/],
+    ];
+    for (const [argv, message] of bad) expect(() => parseAnalyzeArgs(argv)).toThrow(message);
+    expect(() => parseAnalyzeArgs([])).toThrow(UsageError);
+  });
+});
+
+describe('isIsoDate', () => {
+  it('accepts only real calendar dates written YYYY-MM-DD (ISO 8601 extended format)', () => {
+    // 2024 is a leap year and 2025 is not (Gregorian rule, common practice).
+    expect(['2024-02-29', '2025-12-31', '1900-01-01'].map(isIsoDate)).toEqual([true, true, true]);
+    expect(['2025-02-29', '2025-13-01', '2025-1-5', '20250105', '2025-02-30 '].map(isIsoDate)).toEqual([false, false, false, false, false]);
+  });
+});
+
+describe('buildMapping', () => {
+  const headers = ['USUBJID', 'ADT', 'AVAL', 'BASE', 'Visit day'];
+  const detected = { subject: 0, date: 1, value: 2, covariates: [] };
+
+  it('lays each --map role over the detected mapping, matching headers exactly or else ignoring case', () => {
+    expect(buildMapping(detected, headers, [['value', 'base']], [])).toEqual({ subject: 0, date: 1, value: 3, covariates: [] });
+    expect(buildMapping(detected, headers, [['study-day', 'Visit day']], ['BASE'])).toEqual({ subject: 0, date: 1, value: 2, studyDay: 4, covariates: [3] });
+  });
+
+  it('removes a role mapped to "none", and moves a column given a new role out of its detected one', () => {
+    expect(buildMapping(detected, headers, [['date', 'none']], [])).toEqual({ subject: 0, value: 2, covariates: [] });
+    expect(buildMapping(detected, headers, [['site', 'AVAL']], [])).toEqual({ subject: 0, date: 1, site: 2, covariates: [] });
+  });
+
+  it('throws a UsageError for an unknown role or a header the data do not have', () => {
+    expect(() => buildMapping(detected, headers, [['colour', 'AVAL']], [])).toThrow(/unknown role "colour"/);
+    expect(() => buildMapping(detected, headers, [], ['AGE'])).toThrow(/no column headed "AGE"/);
+  });
+});

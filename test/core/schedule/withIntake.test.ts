@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { readTable } from '../../../src/core/intake/readTable';
 import type { CellValue } from '../../../src/core/intake/types';
-import { classifyVisits, computeStudyDays, parseSchedule, starterScheduleCells } from '../../../src/core/schedule';
-import { summarizeTiming, timingJson } from '../../../src/core/report';
+import { NO_STATUS, classifyVisits, computeStudyDays, parseSchedule, starterScheduleCells } from '../../../src/core/schedule';
+import { summarizeTiming, timingJson, timingSheets } from '../../../src/core/report';
 
 // Invented kidney-function trial rows (eGFR every 12 weeks), read through the real intake layer.
 // Starter schedule: Baseline day 1 (±0), Week 12 day 85, Week 24 day 169, ... each ±7 days.
@@ -50,5 +51,45 @@ describe('schedule layer on tables read by readTable', () => {
       ['K-001', 'Week 36', 60, 'comingUp'],
       ['K-002', 'Week 36', 82, 'comingUp'],
     ]);
+  });
+});
+
+describe('schedule and timing reports on arbitrary grids read by readTable', () => {
+  const cellArb = fc.oneof(
+    fc.constantFrom<CellValue>(null, '', 'K-1', 'K-2', 'k-1 ', 'Baseline', 'Week 12', 'WEEK12', 'Other', '#N/A', 'x', '2024-01-10', '2024-04-05', '2024-02-30', '01', '02'),
+    fc.integer({ min: 45000, max: 45400 }),
+    fc.double({ min: -5, max: 400, noNaN: true }),
+  );
+  it('never throws from intake to sheets and JSON, and every row either has a status or is left out', () => {
+    let usableRuns = 0;
+    fc.assert(
+      fc.property(fc.array(fc.array(cellArb, { minLength: 6, maxLength: 6 }), { minLength: 1, maxLength: 25 }), (body) => {
+        const cells: CellValue[][] = [['Subject', 'Visit', 'Visit date', 'Randomisation date', 'eGFR', 'Site'], ...body];
+        const read = readTable(cells, {
+          sheet: 'Visits',
+          topLeft: 'B2',
+          dateSystem: 1900,
+          mode: 'blinded',
+          mapping: { subject: 0, visit: 1, date: 2, reference: 3, value: 4, site: 5, covariates: [] },
+        });
+        if (!read.ok) return;
+        usableRuns++;
+        const schedule = parseSchedule(starterScheduleCells(), 'Schedule', 'A1').schedule;
+        const place = { sheet: 'Visits', topLeft: 'B2' };
+        const days = computeStudyDays(read.table, schedule, place);
+        const timing = classifyVisits(read.table, days, schedule, { place });
+        const summary = summarizeTiming({ table: read.table, schedule, days, timing });
+        expect(() => JSON.stringify(timingJson(summary))).not.toThrow();
+        expect(timingSheets(summary)).toHaveLength(3);
+        for (let i = 0; i < read.table.nRows; i++) {
+          const hasStatus = timing.rowStatus[i] !== NO_STATUS;
+          const usable = read.table.usableTiming[i] === 1 && Number.isFinite(days.studyDays[i]!);
+          expect(hasStatus).toBe(usable);
+        }
+        for (const issue of days.issues) expect(issue.cell).toMatch(/^Visits!D\d+$/);
+      }),
+      { numRuns: 200 },
+    );
+    expect(usableRuns).toBeGreaterThan(20); // the property must reach the schedule layer often enough to mean something
   });
 });

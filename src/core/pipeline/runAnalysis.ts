@@ -74,6 +74,12 @@ export async function runAnalysis(
   const days = computeStudyDays(table, settings.schedule, place);
   const timing = classifyVisits(table, days, settings.schedule, { place, ...(cutoff === undefined ? {} : { cutoff }) });
   const issues: Issue[] = [...read.issues, ...fromScheduleIssues([...days.issues, ...timing.issues])];
+  const usedForTiming = countTiming(timing.rowStatus);
+  if (usedForTiming === 0) {
+    // Intake found usable rows, but none survived windowing (all after the cut-off, or no reference date).
+    const why = cutoff !== undefined ? `is dated on or before the data cut-off ${settings.cutoff ?? ''}` : 'has a study day (each needs a reference date or a baseline record)';
+    return { ok: false, issues: [...issues, { code: 'no-usable-rows', severity: 'error', cell: null, row: null, role: null, value: '', use: 'timing', message: `No record ${why}, so there is nothing to analyse.` }] };
+  }
   const summary = summarizeTiming({ table, schedule: settings.schedule, days, timing });
 
   if (!(await enter('fitting'))) return CANCELLED;
@@ -110,7 +116,6 @@ export async function runAnalysis(
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);
   const fingerprint = fingerprintCells(cells);
-  const usedForTiming = countTiming(timing.rowStatus);
   const model = modelOutputs({ fit, means, settings });
   const sheets: SheetSpec[] = [
     ...timingSheets(summary),

@@ -76,6 +76,14 @@ describe('runAnalysis', () => {
     expect(JSON.stringify(cells)).toBe(before);
   });
 
+  it('stops with an error when no record is left on or before the cut-off, keeping the row warnings', async () => {
+    const out = await runAnalysis(CELLS, { ...SETTINGS, cutoff: '2024-12-31' });
+    expect(out.ok).toBe(false);
+    const errors = out.issues.filter((i) => i.severity === 'error');
+    expect(errors.map((i) => [i.code, i.message])).toEqual([['no-usable-rows', 'No record is dated on or before the data cut-off 2024-12-31, so there is nothing to analyse.']]);
+    expect(out.issues.filter((i) => i.code === 'after-cutoff' && i.use === 'timing')).toHaveLength(11);
+  });
+
   it('lists each excluded row once per use with its cell address, and counts rows used for timing and the model', async () => {
     const out = await runAnalysis(CELLS, SETTINGS);
     if (!out.ok) throw new Error('run failed');

@@ -93,7 +93,7 @@ export function generateTrial(o: TrialOptions, onRow: (r: DemoRow) => void): voi
     // The visit after which the patient drops out (5 = completes).
     const dropAfter = rand() < o.dropoutRate ? 1 + Math.floor(rand() * 4) : 5;
     const emit = (visit: string, studyDay: number): void => {
-      const date = randomised + studyDay - 1;
+      const date = studyDay > 0 ? randomised + studyDay - 1 : randomised + studyDay; // CDISC: no day 0
       if (date > o.cutoff) return;
       const value = level + (slopePerYear * (studyDay - 1)) / 365.25 + 4 * normal(rand);
       onRow({ subject, site, arm, visit, date, rand: randomised, value: Math.round(value * 10) / 10 });

@@ -3,7 +3,7 @@ import { basename, extname } from 'node:path';
 import type { CellValue, DateSystem } from '../core/intake/types';
 import { parseSchedule } from '../core/schedule';
 import type { ScheduleVisit } from '../core/schedule/types';
-import { readCsvText, readXlsxBuffer } from '../files';
+import { columnLetters, readCsvText, readXlsxBuffer } from '../files';
 import { UsageError } from './args';
 
 /** The data file as cells, with where they came from (for cell addresses and the analysis record). */
@@ -15,6 +15,16 @@ export interface DataInput {
   readonly cells: CellValue[][];
   /** CSV cells are all text, so intake accepts numbers written as text. */
   readonly numericText: 'accept' | 'reject';
+}
+
+/** The A1 range a grid covers from its top-left cell, e.g. "A1:G921" (for the analysis record's input label). */
+function rangeOf(topLeft: string, cells: readonly (readonly CellValue[])[]): string {
+  const m = /^([A-Z]+)(\d+)$/.exec(topLeft);
+  if (!m || cells.length === 0) return topLeft;
+  let col = 0;
+  for (const ch of m[1]!) col = col * 26 + (ch.charCodeAt(0) - 64);
+  const width = cells.reduce((w, r) => Math.max(w, r.length), 1);
+  return `${topLeft}:${columnLetters(col + width - 1)}${Number(m[2]) + cells.length - 1}`;
 }
 
 async function readBytes(path: string, what: string): Promise<Buffer> {
@@ -36,12 +46,12 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
     if (sheet !== undefined) throw new UsageError('--sheet applies to .xlsx files only.');
     const cells = readCsvText(new TextDecoder('utf-8').decode(bytes));
     const name = basename(path, extname(path));
-    return { label: basename(path), sheet: name, topLeft: 'A1', dateSystem: 1900, cells, numericText: 'accept' };
+    return { label: `${basename(path)} (${rangeOf('A1', cells)})`, sheet: name, topLeft: 'A1', dateSystem: 1900, cells, numericText: 'accept' };
   }
   if (ext === '.xlsx' || ext === '.xlsm') {
     const read = await readXlsxBuffer(new Uint8Array(bytes), sheet);
     return {
-      label: `${basename(path)} [${read.sheet}]`,
+      label: `${basename(path)}, sheet ${read.sheet}!${rangeOf(read.topLeft, read.cells)}`,
       sheet: read.sheet,
       topLeft: read.topLeft,
       dateSystem: read.dateSystem,

@@ -42,7 +42,7 @@ async function loadXlsx(path: string): Promise<ExcelJS.Workbook> {
 /** The parts of the results JSON these tests read (schema: README.md, "Results JSON"). */
 interface Results {
   tool: { name: string; version: string };
-  input: { excluded: { row: number; cell: string; use: string; reason: string }[]; fingerprint: string };
+  input: { label: string; excluded: { row: number; cell: string; use: string; reason: string }[]; fingerprint: string };
   settings: { mode: string; referenceArm: string | null; mapping: Record<string, unknown> } & Record<string, unknown>;
   visits: { counts: Record<string, number>; byArm?: unknown };
   model: {
@@ -132,6 +132,7 @@ describe('longipane analyze on the invented demo trial', () => {
   it('names the tool, its version, the input fingerprint and the settings in the JSON', () => {
     expect(json.tool).toEqual({ name: 'longipane', version: expect.stringMatching(/^\d+\.\d+\.\d+/) });
     expect(json.input.fingerprint).toMatch(/^[0-9a-f]{64}$/);
+    expect(json.input.label).toBe('egfr-visits.csv (A1:G921)');
     expect(json.settings).toMatchObject({ mode: 'unblinded', referenceArm: 'Placebo', timeUnit: 'month', dfMethod: 'kenward-roger', method: 'reml', level: 0.95, runAt: '2026-04-01T09:00:00.000Z' });
     expect(json.settings.mapping).toMatchObject({ subject: 'USUBJID', date: 'ADT', reference: 'RANDDT', visit: 'AVISIT', value: 'AVAL', arm: 'TRT01P', site: 'SITEID' });
   });
@@ -224,6 +225,7 @@ describe('longipane analyze on an .xlsx workbook', () => {
     expect(r.err).toEqual([]);
     expect(r.code).toBe(0);
     const json = await readJson(join(d, 'r.json'));
+    expect(json.input.label).toBe('visits.xlsx, sheet Visits!A1:G18');
     const cells = json.input.excluded.map((e) => e.cell);
     expect(cells).toEqual(expect.arrayContaining(['Visits!G6', 'Visits!A10', 'Visits!E12']));
     // Same data as the CSV run: on time / late / missed counts agree whichever file type carried them.

@@ -3,7 +3,14 @@
  * functions. Non-finite or non-positive degrees of freedom give NaN rather than a throw (a numerical outcome). An
  * infinite df gives the normal limit.
  */
-import { jStat } from 'jstat';
+import * as jstatModule from 'jstat';
+
+type JStat = typeof jstatModule.jStat;
+/**
+ * jstat is a CommonJS module: bundlers expose `jStat` as a named export, while Node's native ESM loader only offers the
+ * module object as `default`. Take whichever is there, so the same code runs under vitest, the CLI bundle and tsx.
+ */
+const jStat: JStat = (jstatModule as { jStat?: JStat }).jStat ?? (jstatModule as unknown as { default: { jStat: JStat } }).default.jStat;
 
 /** Upper quantile t(prob; df), e.g. tQuantile(0.975, 10) = 2.2281 (Abramowitz & Stegun 1964, Table 26.10). */
 export function tQuantile(prob: number, df: number): number {
@@ -37,9 +44,19 @@ export function fQuantile(prob: number, d1: number, d2: number): number {
   return (d2 / d1) * (x / (1 - x));
 }
 
-/** Quantile of chi-square(df), e.g. chiSquareQuantile(0.95, 1) = 3.8415 (Abramowitz & Stegun 1964, Table 26.8). */
+/**
+ * Quantile of chi-square(df), e.g. chiSquareQuantile(0.95, 1) = 3.8415 (Abramowitz & Stegun 1964, Table 26.8).
+ * Above 10,000 df the Wilson–Hilferty cube-root normal approximation is used (Wilson & Hilferty 1931;
+ * Abramowitz & Stegun 26.4.17): its relative error there is below 1e-7, while jstat's incomplete-gamma inversion
+ * takes milliseconds per call at such df. Cost O(1) above that, an iterative inversion below.
+ */
 export function chiSquareQuantile(prob: number, df: number): number {
   if (!(df > 0) || !Number.isFinite(df)) return NaN;
+  if (df > 1e4) {
+    const z = jStat.normal.inv(prob, 0, 1);
+    const h = 2 / (9 * df);
+    return df * (1 - h + z * Math.sqrt(h)) ** 3;
+  }
   return jStat.chisquare.inv(prob, df);
 }
 

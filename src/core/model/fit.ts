@@ -14,11 +14,11 @@ import { adjustedCovariance, informationPieces, inverseInformation } from './inf
 import { matMul } from './dense';
 import { checkRank } from './pivotedCholesky';
 import { conditionalResiduals, subjectEffects } from './subjects';
-import { sufficientStats, type SufficientStats } from './sufficient';
+import { sufficientStats, sufficientStatsFast, type SufficientStats } from './sufficient';
 import { trajectories } from './trajectories';
-import { validateModelInput } from './validate';
+import { validateModelRows, validateModelShape } from './validate';
 import { varianceIntervals } from './varianceIntervals';
-import type { FitOptions, JointTest, ModelData, ModelFit, SlopeDifference, TimeUnit, TreatmentEffect } from './types';
+import type { FitOptions, JointTest, ModelData, ModelFit, SlopeDifference, SubjectEffect, TimeUnit, TreatmentEffect } from './types';
 
 /** Days per model time unit: a month is 365.25/12 = 30.4375 days (common practice), a week 7, a day 1. */
 export const DAYS_PER_TIME_UNIT: Readonly<Record<TimeUnit, number>> = { month: 30.4375, week: 7, day: 1 };
@@ -30,9 +30,9 @@ export const DAYS_PER_TIME_UNIT: Readonly<Record<TimeUnit, number>> = { month: 3
  * se 10.171; variance.subject 615.31 (SD 24.805), variance.residual 16.167 (SD 4.0208); logLik −61.0885.
  */
 export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelFit {
-  validateModelInput(data, options);
+  validateModelShape(data, options);
   const design = buildDesign(data, options.design === 'intercept-only');
-  const st = sufficientStats(data.y, data.subject, data.nSubjects, design);
+  const st = dataPass(data, design);
   const p = design.p;
   const N = st.nObs;
   if (N <= p) throw new ModelInputError(`${N} observations are too few for ${p} fixed effects.`);
@@ -113,16 +113,13 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   const k = p + 2;
   const bicN = options.method === 'reml' ? N - p : N;
   const logLik = pt.logLik;
-  let tMin = Infinity;
-  let tMax = -Infinity;
-  for (let r = 0; r < N; r++) {
-    const t = data.time[r]!;
-    if (t < tMin) tMin = t;
-    if (t > tMax) tMax = t;
-  }
+  let tMax = st.tMax;
   for (const cd of options.contrastDays) tMax = Math.max(tMax, (cd.day - 1) / unit);
-  tMin = Math.min(tMin, 0);
-  const subjects = subjectEffects(st, pt.beta, gamma, data.subjectIds);
+  const tMin = Math.min(st.tMin, 0);
+  // Per-subject BLUPs are produced on first access (SPEC §5: "on request") and then kept; the getter is enumerable,
+  // so spreading, JSON and structured cloning see an ordinary array.
+  let subjectsCache: SubjectEffect[] | null = null;
+  const beta = pt.beta;
   let message = est.message;
   if (atBoundary && options.dfMethod !== 'residual') {
     message += ' For the degrees of freedom the between-patient variance is held fixed at zero; only the within-patient variance is treated as estimated.';
@@ -143,13 +140,37 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     slopeDifferences,
     jointTest: joint,
     trajectories: trajectories(design, st, ctx, data.arms, tMin, tMax, unit, options.gridPoints ?? 25),
-    subjects,
+    get subjects(): SubjectEffect[] {
+      subjectsCache ??= subjectEffects(st, beta, gamma, data.subjectIds);
+      return subjectsCache;
+    },
   };
   if (options.residuals === true) {
-    const blups = blupArray(st, subjects);
+    const blups = blupArray(st, fit.subjects);
     return { ...fit, residuals: conditionalResiduals(data.y, data.subject, design.fillRow, pt.beta, blups) };
   }
   return fit;
+}
+
+/**
+ * The one pass over the rows: the fast pass when the design has no covariates (its sanity checks — every row counted
+ * in a valid arm, every subject in one arm, finite totals — stand in for a row-by-row validation), else a row-by-row
+ * validation and the general pass.
+ */
+function dataPass(data: ModelData, design: Design): SufficientStats {
+  if (design.timeCol >= 0 && design.p === 2 * design.nArms) {
+    const fast = sufficientStatsFast(data.y, data.time, data.subject, data.nSubjects, data.armIndex, design);
+    if (fast !== null && finiteStats(fast)) return fast;
+  }
+  validateModelRows(data);
+  return sufficientStats(data.y, data.subject, data.nSubjects, design, data.time);
+}
+
+function finiteStats(st: SufficientStats): boolean {
+  if (!Number.isFinite(st.yty) || !Number.isFinite(st.tMin) || !Number.isFinite(st.tMax)) return false;
+  for (let i = 0; i < st.xtx.length; i++) if (!Number.isFinite(st.xtx[i]!)) return false;
+  for (let i = 0; i < st.xty.length; i++) if (!Number.isFinite(st.xty[i]!)) return false;
+  return true;
 }
 
 function blupArray(st: SufficientStats, subjects: readonly { blup: number }[]): Float64Array {

@@ -9,14 +9,11 @@ import type { SufficientStats } from './sufficient';
 import type { SubjectEffect } from './types';
 
 export function subjectEffects(st: SufficientStats, beta: Float64Array, gamma: number, ids: readonly string[] | undefined): SubjectEffect[] {
-  const p = st.p;
   const out: SubjectEffect[] = [];
   for (let s = 0; s < st.count.length; s++) {
     const n = st.count[s]!;
     if (n === 0) continue;
-    let fitted = 0;
-    for (let j = 0; j < p; j++) fitted += st.xsum[s * p + j]! * beta[j]!;
-    const e = st.ysum[s]! - fitted;
+    const e = st.ysum[s]! - st.xbSum(s, beta);
     const blup = (gamma / (1 + n * gamma)) * e;
     out.push({ id: ids?.[s] ?? String(s + 1), n, blup, meanResidual: e / n - blup });
   }

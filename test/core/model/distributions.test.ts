@@ -28,3 +28,16 @@ describe('distribution quantiles match printed handbook tables', () => {
     expect(tTwoSided(1, -1)).toBeNaN();
   });
 });
+
+describe('chi-square quantiles at large df', () => {
+  it('the Wilson–Hilferty branch above 10,000 df agrees with the exact inversion to 1e-7 relative (Abramowitz & Stegun 26.4.17)', async () => {
+    const { jStat } = (await import('jstat')) as unknown as { jStat: { chisquare: { inv(p: number, d: number): number } } };
+    for (const df of [10_001, 50_000, 400_000]) {
+      for (const prob of [0.025, 0.975]) {
+        const exact = jStat.chisquare.inv(prob, df);
+        // 1e-7: the approximation's relative error at 10^4 df is ~4e-8 and shrinks like 1/df.
+        expect(Math.abs(chiSquareQuantile(prob, df) - exact) / exact).toBeLessThan(1e-7);
+      }
+    }
+  });
+});

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { readCsvText } from '../../src/files/readCsv';
+import { readXlsxBuffer } from '../../src/files/readXlsx';
+import { writeWorkbook } from '../../src/files/writeWorkbook';
 import { readTable } from '../../src/core/intake';
 
 const CSV = '\uFEFFUSUBJID,SITEID,TRT01P,AVISIT,ADT,RANDDT,AVAL\r\n' +
@@ -34,8 +36,6 @@ describe('CSV → cells → intake', () => {
 
 describe('SheetSpec → .xlsx → cells', () => {
   it('reads back what writeWorkbook wrote: text as text, numbers and date serials unchanged', async () => {
-    const { writeWorkbook } = await import('../../src/files/writeWorkbook');
-    const { readXlsxBuffer } = await import('../../src/files/readXlsx');
     const bytes = await writeWorkbook([
       {
         name: 'Listing',

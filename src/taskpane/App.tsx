@@ -31,7 +31,10 @@ const useStyles = makeStyles({
   },
   title: { margin: 0, fontSize: tokens.fontSizeBase500, fontWeight: tokens.fontWeightSemibold },
   status: { margin: 0, minHeight: '1.2em', fontSize: tokens.fontSizeBase200, color: tokens.colorBrandForeground1 },
-  intro: { margin: `${tokens.spacingVerticalXS} 0 ${tokens.spacingVerticalS} 0`, color: tokens.colorNeutralForeground2 },
+  intro: {
+    margin: `${tokens.spacingVerticalXS} 0 ${tokens.spacingVerticalS} 0`,
+    color: tokens.colorNeutralForeground2,
+  },
 });
 
 export interface AppProps {
@@ -110,7 +113,9 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
       setMapping(fillGaps(detected.mapping, saved?.mapping, hs.length));
       setConfirmed(false);
       setOutcome(null);
-      setStatus(`Read ${src.label}: ${Math.max(0, src.cells.length - 1)} rows. Check the proposed columns and confirm them.`);
+      setStatus(
+        `Read ${src.label}: ${Math.max(0, src.cells.length - 1)} rows. Check the proposed columns and confirm them.`,
+      );
     } catch (e) {
       setDataError(`The data could not be read: ${messageOf(e)}`);
       setStatus('The data could not be read.');
@@ -125,7 +130,11 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
       const result = await actions.loadSchedule(name, file);
       setScheduleName(name);
       setScheduleResult(result);
-      setStatus(result.ok ? `Schedule ${name}: ${result.schedule.length} planned visits.` : `Schedule ${name} has a problem: ${result.message}`);
+      setStatus(
+        result.ok
+          ? `Schedule ${name}: ${result.schedule.length} planned visits.`
+          : `Schedule ${name} has a problem: ${result.message}`,
+      );
     } catch (e) {
       setScheduleName(name);
       setScheduleResult({ ok: false, message: `The schedule could not be read: ${messageOf(e)}` });
@@ -158,7 +167,8 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
   if (!source || !mapping) blockers.push('Read the visit data first (step 1).');
   else if (!confirmed) blockers.push('Confirm the columns (step 1).');
   if (!scheduleResult?.ok) blockers.push('Choose a visit schedule (step 2).');
-  if (settings.cutoff !== '' && !isIsoDate(settings.cutoff)) blockers.push('The cut-off date is not a valid date (step 3).');
+  if (settings.cutoff !== '' && !isIsoDate(settings.cutoff))
+    blockers.push('The cut-off date is not a valid date (step 3).');
   if (!isLevel(settings.level)) blockers.push('The confidence level must lie between 50% and 100% (step 3).');
   if (settings.mode === 'unblinded' && mapping && mapping.arm === undefined) {
     blockers.push('Unblinded mode needs the treatment-arm column (step 1), or switch back to blinded.');
@@ -177,20 +187,33 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
       setStatus(`${STAGE_WORDS[s]}…`);
     };
     const effective: PaneSettings =
-      settings.mode === 'unblinded' && !arms.includes(settings.referenceArm) ? { ...settings, referenceArm: arms[0] ?? '' } : settings;
+      settings.mode === 'unblinded' && !arms.includes(settings.referenceArm)
+        ? { ...settings, referenceArm: arms[0] ?? '' }
+        : settings;
     try {
       const run = toAnalysisSettings(source, mapping, scheduleResult.schedule, effective, new Date().toISOString());
-      const output = await engine.runAnalysis(source.cells, run, { onStage, signal: ctl.signal, yieldControl: nextTick });
+      const output = await engine.runAnalysis(source.cells, run, {
+        onStage,
+        signal: ctl.signal,
+        yieldControl: nextTick,
+      });
       if (ctl.signal.aborted || (!output.ok && output.cancelled === true)) {
         setOutcome({ kind: 'cancelled' });
         setStatus('The run was stopped. Nothing was written.');
       } else if (!output.ok) {
         setOutcome({ kind: 'blocked', issues: output.issues });
-        setStatus(`The run stopped at ${output.issues.filter((i) => i.severity === 'error').length} problems in the data.`);
+        setStatus(
+          `The run stopped at ${output.issues.filter((i) => i.severity === 'error').length} problems in the data.`,
+        );
       } else {
         onStage('writing');
         const written = await actions.writeResults(output);
-        setOutcome({ kind: 'done', written, headline: headlineOf(output, Math.max(0, source.cells.length - 1)), issues: output.issues });
+        setOutcome({
+          kind: 'done',
+          written,
+          headline: headlineOf(output, Math.max(0, source.cells.length - 1)),
+          issues: output.issues,
+        });
         setStatus(`Finished: ${written.length} result sheets written.`);
         actions.save(toSaved(effective, mapping, scheduleName)).catch((e: unknown) => {
           setStatus(`Finished, but the settings could not be remembered: ${messageOf(e)}`);
@@ -221,8 +244,8 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
       <main aria-label="Longipane">
         <h1 className={styles.title}>Longipane</h1>
         <Text as="p" className={styles.intro}>
-          Check visit timing against the schedule and look at the trend over time with a mixed model. Everything stays on
-          this computer.
+          Check visit timing against the schedule and look at the trend over time with a mixed model. Everything stays
+          on this computer.
         </Text>
         <p role="status" aria-live="polite" className={styles.status}>
           {status}
@@ -269,7 +292,13 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
           <SettingsStep settings={settings} arms={arms} onChange={setSettings} />
         </StepSection>
         <StepSection number={4} id="step-run" title="Run" state={outcome?.kind === 'done' ? 'done' : 'open'}>
-          <RunStep blockers={blockers} stage={stage} cancelling={cancelling} onRun={() => void onRun()} onCancel={onCancel} />
+          <RunStep
+            blockers={blockers}
+            stage={stage}
+            cancelling={cancelling}
+            onRun={() => void onRun()}
+            onCancel={onCancel}
+          />
         </StepSection>
         <StepSection
           number={5}

@@ -36,7 +36,8 @@ export interface DataStepProps {
 export function mappingGaps(mapping: ColumnMapping): string[] {
   const gaps: string[] = [];
   if (mapping.subject === undefined) gaps.push('Choose the patient column.');
-  if (mapping.date === undefined && mapping.studyDay === undefined) gaps.push('Choose a visit date or a study day column.');
+  if (mapping.date === undefined && mapping.studyDay === undefined)
+    gaps.push('Choose a visit date or a study day column.');
   return gaps;
 }
 
@@ -49,7 +50,11 @@ export function DataStep(props: DataStepProps): ReactNode {
     <div className={styles.col}>
       <SourcePicker kinds={props.kinds} busy={props.loading !== null} onPick={props.onPick} />
       {props.loading !== null && (
-        <ProgressBar {...(props.loading > 0 ? { value: props.loading } : {})} aria-label="Reading the data" thickness="large" />
+        <ProgressBar
+          {...(props.loading > 0 ? { value: props.loading } : {})}
+          aria-label="Reading the data"
+          thickness="large"
+        />
       )}
       {props.error !== null && (
         <MessageBar intent="error">
@@ -61,7 +66,14 @@ export function DataStep(props: DataStepProps): ReactNode {
           <Text>
             Read <strong>{source.label}</strong>: {rows.toLocaleString('en-US')} rows, {props.headers.length} columns.
           </Text>
-          <PreviewTable headers={props.headers} cells={source.cells} />
+          <PreviewTable
+            headers={props.headers}
+            cells={source.cells}
+            hiddenColumn={props.blinded ? (mapping?.arm ?? null) : null}
+          />
+          {props.blinded && mapping?.arm !== undefined && (
+            <Text size={200}>The treatment-arm column is hidden while blinded.</Text>
+          )}
         </>
       )}
       {source && mapping && (

@@ -7,7 +7,12 @@ import { roleOfColumn, setRole, toggleCovariate } from './mapping';
 
 const useStyles = makeStyles({
   list: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
-  fieldset: { border: `1px solid ${tokens.colorNeutralStroke2}`, borderRadius: tokens.borderRadiusMedium, padding: tokens.spacingHorizontalS, margin: 0 },
+  fieldset: {
+    border: `1px solid ${tokens.colorNeutralStroke2}`,
+    borderRadius: tokens.borderRadiusMedium,
+    padding: tokens.spacingHorizontalS,
+    margin: 0,
+  },
   legend: { fontWeight: tokens.fontWeightSemibold, padding: '0 4px' },
   none: { color: tokens.colorNeutralForeground3, margin: 0 },
 });
@@ -23,12 +28,21 @@ export interface MappingEditorProps {
   readonly onChange: (mapping: ColumnMapping) => void;
 }
 
-export function MappingEditor({ headers, mapping, reasons, blinded, suggestions, onChange }: MappingEditorProps): ReactNode {
+export function MappingEditor({
+  headers,
+  mapping,
+  reasons,
+  blinded,
+  suggestions,
+  onChange,
+}: MappingEditorProps): ReactNode {
   const styles = useStyles();
-  const free = headers.map((_, i) => i).filter((i) => {
-    const role = roleOfColumn(mapping, i);
-    return role === null || role === 'covariate';
-  });
+  const free = headers
+    .map((_, i) => i)
+    .filter((i) => {
+      const role = roleOfColumn(mapping, i);
+      return role === null || role === 'covariate';
+    });
   return (
     <div className={styles.list}>
       {ROLES.map(({ role, label, help }) => {
@@ -41,7 +55,12 @@ export function MappingEditor({ headers, mapping, reasons, blinded, suggestions,
               ? reason
               : help;
         return (
-          <Field key={role} label={role === 'arm' && blinded ? `${label} (not read while blinded)` : label} hint={hint} size="small">
+          <Field
+            key={role}
+            label={role === 'arm' && blinded ? `${label} (not read while blinded)` : label}
+            hint={hint}
+            size="small"
+          >
             <Select
               value={chosen === undefined ? '' : String(chosen)}
               onChange={(_, data) => onChange(setRole(mapping, role, data.value === '' ? null : Number(data.value)))}

@@ -5,9 +5,20 @@ import type { CellValue } from '../core/intake/types';
 import { cellText } from './cells';
 
 const useStyles = makeStyles({
-  wrap: { overflowX: 'auto', maxWidth: '100%', border: `1px solid ${tokens.colorNeutralStroke2}`, borderRadius: tokens.borderRadiusMedium },
+  wrap: {
+    overflowX: 'auto',
+    maxWidth: '100%',
+    border: `1px solid ${tokens.colorNeutralStroke2}`,
+    borderRadius: tokens.borderRadiusMedium,
+  },
   table: { borderCollapse: 'collapse', fontSize: tokens.fontSizeBase200, whiteSpace: 'nowrap' },
-  th: { textAlign: 'left', padding: '2px 6px', backgroundColor: tokens.colorNeutralBackground3, fontWeight: tokens.fontWeightSemibold },
+  th: {
+    textAlign: 'left',
+    padding: '2px 6px',
+    backgroundColor: tokens.colorNeutralBackground3,
+    fontWeight: tokens.fontWeightSemibold,
+  },
+  hidden: { color: tokens.colorNeutralForeground3, fontStyle: 'italic' },
   td: { padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
 });
 
@@ -16,9 +27,11 @@ export interface PreviewTableProps {
   readonly cells: readonly (readonly CellValue[])[];
   /** How many data rows to show (default 5). */
   readonly rows?: number;
+  /** A column whose values are not shown (the arm column while blinded). */
+  readonly hiddenColumn?: number | null;
 }
 
-export function PreviewTable({ headers, cells, rows = 5 }: PreviewTableProps): ReactNode {
+export function PreviewTable({ headers, cells, rows = 5, hiddenColumn = null }: PreviewTableProps): ReactNode {
   const styles = useStyles();
   const body = cells.slice(1, 1 + rows);
   return (
@@ -38,7 +51,7 @@ export function PreviewTable({ headers, cells, rows = 5 }: PreviewTableProps): R
             <tr key={r}>
               {headers.map((_, c) => (
                 <td key={c} className={styles.td}>
-                  {cellText(row[c])}
+                  {c === hiddenColumn ? <span className={styles.hidden}>hidden</span> : cellText(row[c])}
                 </td>
               ))}
             </tr>

@@ -1,6 +1,14 @@
 /** Step 5: the sheets written (as links), a short headline, the problems with their cells, and the cautions. */
 import type { ReactNode } from 'react';
-import { Link, MessageBar, MessageBarBody, MessageBarTitle, Text, makeStyles, tokens } from '@fluentui/react-components';
+import {
+  Link,
+  MessageBar,
+  MessageBarBody,
+  MessageBarTitle,
+  Text,
+  makeStyles,
+  tokens,
+} from '@fluentui/react-components';
 import { CautionList } from './CautionList';
 import { IssueList } from './IssueList';
 import type { RunOutcome } from './outcome';
@@ -8,7 +16,7 @@ import type { RunOutcome } from './outcome';
 const useStyles = makeStyles({
   col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
   subhead: { margin: 0, fontSize: tokens.fontSizeBase300, fontWeight: tokens.fontWeightSemibold },
-  sheets: { margin: 0, paddingLeft: '18px' },
+  sheets: { margin: 0, padding: 0, listStyleType: 'none', display: 'flex', flexDirection: 'column', gap: '4px' },
   headline: { margin: 0, paddingLeft: '18px', display: 'flex', flexDirection: 'column', gap: '2px' },
 });
 
@@ -72,7 +80,9 @@ export function ResultsStep({ outcome, onShowSheet, onSelectCell }: ResultsStepP
       </ul>
       <CautionList />
       <h3 className={styles.subhead}>
-        {outcome.issues.length === 0 ? 'No problems found in the data' : `Problems found in the data (${outcome.issues.length})`}
+        {outcome.issues.length === 0
+          ? 'No problems found in the data'
+          : `Problems found in the data (${outcome.issues.length})`}
       </h3>
       {outcome.issues.length > 0 && <IssueList issues={outcome.issues} onSelect={onSelectCell} />}
     </div>

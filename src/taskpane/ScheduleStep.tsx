@@ -1,7 +1,18 @@
 /** Step 2: choose where the visit schedule comes from (a sheet, a file, or a starter), and show it or its problem. */
 import type { ChangeEvent, ReactNode } from 'react';
 import { useId, useState } from 'react';
-import { Button, Field, Label, MessageBar, MessageBarBody, Select, Spinner, Text, makeStyles, tokens } from '@fluentui/react-components';
+import {
+  Button,
+  Field,
+  Label,
+  MessageBar,
+  MessageBarBody,
+  Select,
+  Spinner,
+  Text,
+  makeStyles,
+  tokens,
+} from '@fluentui/react-components';
 import type { ScheduleLoad, ScheduleSource } from './actions';
 import { ScheduleTable } from './ScheduleTable';
 
@@ -37,7 +48,9 @@ export function ScheduleStep(props: ScheduleStepProps): ReactNode {
   };
   return (
     <div className={styles.col}>
-      <Text>The schedule lists each planned visit, its planned study day and how many days early or late it may be held.</Text>
+      <Text>
+        The schedule lists each planned visit, its planned study day and how many days early or late it may be held.
+      </Text>
       {props.sources.length > 0 && (
         <div className={styles.row}>
           <Field label={props.allowFile ? 'Schedule already loaded' : 'Schedule sheet'} className={styles.grow}>
@@ -57,7 +70,14 @@ export function ScheduleStep(props: ScheduleStepProps): ReactNode {
       {props.allowFile && (
         <div className={styles.file}>
           <Label htmlFor={fileId}>Schedule file (CSV)</Label>
-          <input id={fileId} type="file" accept=".csv,.txt" disabled={props.busy} onChange={onFile} data-testid="schedule-file" />
+          <input
+            id={fileId}
+            type="file"
+            accept=".csv,.txt"
+            disabled={props.busy}
+            onChange={onFile}
+            data-testid="schedule-file"
+          />
         </div>
       )}
       <div>

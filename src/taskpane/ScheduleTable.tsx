@@ -4,9 +4,20 @@ import { makeStyles, tokens } from '@fluentui/react-components';
 import type { ScheduleVisit } from '../core/schedule/types';
 
 const useStyles = makeStyles({
-  wrap: { maxHeight: '220px', overflowY: 'auto', border: `1px solid ${tokens.colorNeutralStroke2}`, borderRadius: tokens.borderRadiusMedium },
+  wrap: {
+    maxHeight: '220px',
+    overflowY: 'auto',
+    border: `1px solid ${tokens.colorNeutralStroke2}`,
+    borderRadius: tokens.borderRadiusMedium,
+  },
   table: { borderCollapse: 'collapse', width: '100%', fontSize: tokens.fontSizeBase200 },
-  th: { textAlign: 'left', padding: '2px 6px', backgroundColor: tokens.colorNeutralBackground3, position: 'sticky', top: 0 },
+  th: {
+    textAlign: 'left',
+    padding: '2px 6px',
+    backgroundColor: tokens.colorNeutralBackground3,
+    position: 'sticky',
+    top: 0,
+  },
   num: { textAlign: 'right', padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
   td: { padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
 });
@@ -19,10 +30,18 @@ export function ScheduleTable({ visits }: { readonly visits: readonly ScheduleVi
         <caption style={{ textAlign: 'left', padding: '2px 6px' }}>{visits.length} planned visits</caption>
         <thead>
           <tr>
-            <th className={styles.th} scope="col">Visit</th>
-            <th className={styles.th} scope="col">Planned day</th>
-            <th className={styles.th} scope="col">Days early allowed</th>
-            <th className={styles.th} scope="col">Days late allowed</th>
+            <th className={styles.th} scope="col">
+              Visit
+            </th>
+            <th className={styles.th} scope="col">
+              Planned day
+            </th>
+            <th className={styles.th} scope="col">
+              Days early allowed
+            </th>
+            <th className={styles.th} scope="col">
+              Days late allowed
+            </th>
           </tr>
         </thead>
         <tbody>

@@ -1,7 +1,17 @@
 /** Step 3: cut-off date, blinded or unblinded, reference arm, time unit, degrees of freedom, method, confidence level. */
 import type { ReactNode } from 'react';
 import { useState } from 'react';
-import { Checkbox, Field, Input, Radio, RadioGroup, Select, Text, makeStyles, tokens } from '@fluentui/react-components';
+import {
+  Checkbox,
+  Field,
+  Input,
+  Radio,
+  RadioGroup,
+  Select,
+  Text,
+  makeStyles,
+  tokens,
+} from '@fluentui/react-components';
 import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
 import { isIsoDate, isLevel, type PaneSettings } from './paneSettings';
 import { UnblindDialog } from './UnblindDialog';
@@ -53,7 +63,9 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
         <Radio value="blinded" label="Blinded: pooled results, no arms (default)" />
         <Radio value="unblinded" label="Unblinded: results by treatment arm" />
       </RadioGroup>
-      {settings.mode === 'unblinded' && <Text className={styles.unblinded}>Unblinded mode is on. Results show treatment arms.</Text>}
+      {settings.mode === 'unblinded' && (
+        <Text className={styles.unblinded}>Unblinded mode is on. Results show treatment arms.</Text>
+      )}
       <UnblindDialog
         open={asking}
         onConfirm={() => {
@@ -65,9 +77,18 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
       {settings.mode === 'unblinded' && (
         <Field
           label="Reference arm (compared against)"
-          {...(arms.length === 0 ? { hint: 'Choose the treatment-arm column in step 1 first.', validationState: 'error' as const } : {})}
+          {...(arms.length === 0
+            ? { hint: 'Choose the treatment-arm column in step 1 first.', validationState: 'error' as const }
+            : {})}
         >
-          <Select value={settings.referenceArm !== '' && arms.includes(settings.referenceArm) ? settings.referenceArm : (arms[0] ?? '')} onChange={(_, d) => set({ referenceArm: d.value })}>
+          <Select
+            value={
+              settings.referenceArm !== '' && arms.includes(settings.referenceArm)
+                ? settings.referenceArm
+                : (arms[0] ?? '')
+            }
+            onChange={(_, d) => set({ referenceArm: d.value })}
+          >
             {arms.map((a) => (
               <option key={a} value={a}>
                 {a}
@@ -112,7 +133,9 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
       </Field>
       <Field
         label="Confidence level (%)"
-        {...(isLevel(levelNumber) ? {} : { validationState: 'error' as const, validationMessage: 'Give a number between 50 and 100, e.g. 95.' })}
+        {...(isLevel(levelNumber)
+          ? {}
+          : { validationState: 'error' as const, validationMessage: 'Give a number between 50 and 100, e.g. 95.' })}
       >
         <Input
           type="number"

@@ -39,7 +39,14 @@ export function SourcePicker({ kinds, busy, onPick }: SourcePickerProps): ReactN
       {kinds.includes('file') && (
         <div className={styles.file}>
           <Label htmlFor={fileId}>Visit data file (CSV or Excel .xlsx)</Label>
-          <input id={fileId} type="file" accept=".csv,.txt,.xlsx" disabled={busy} onChange={onFile} data-testid="data-file" />
+          <input
+            id={fileId}
+            type="file"
+            accept=".csv,.txt,.xlsx"
+            disabled={busy}
+            onChange={onFile}
+            data-testid="data-file"
+          />
         </div>
       )}
     </div>

@@ -12,7 +12,14 @@ const useStyles = makeStyles({
     flexDirection: 'column',
     gap: tokens.spacingVerticalS,
   },
-  heading: { margin: 0, fontSize: tokens.fontSizeBase400, fontWeight: tokens.fontWeightSemibold, display: 'flex', gap: '8px', alignItems: 'baseline' },
+  heading: {
+    margin: 0,
+    fontSize: tokens.fontSizeBase400,
+    fontWeight: tokens.fontWeightSemibold,
+    display: 'flex',
+    gap: '8px',
+    alignItems: 'baseline',
+  },
   number: {
     display: 'inline-flex',
     alignItems: 'center',
@@ -42,7 +49,12 @@ export interface StepSectionProps {
 
 export function StepSection({ number, title, id, state, lockedText, children }: StepSectionProps): ReactNode {
   const styles = useStyles();
-  const badge = state === 'done' ? `${styles.number} ${styles.numberDone}` : state === 'locked' ? `${styles.number} ${styles.numberLocked}` : styles.number;
+  const badge =
+    state === 'done'
+      ? `${styles.number} ${styles.numberDone}`
+      : state === 'locked'
+        ? `${styles.number} ${styles.numberLocked}`
+        : styles.number;
   return (
     <section className={styles.section} aria-labelledby={`${id}-title`} id={id}>
       <h2 className={styles.heading} id={`${id}-title`}>

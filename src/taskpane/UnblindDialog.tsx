@@ -26,7 +26,7 @@ export function UnblindDialog({ open, onConfirm, onCancel }: UnblindDialogProps)
           <DialogContent id="unblind-text">{UNBLINDED_CAUTION}</DialogContent>
           <DialogActions>
             <Button appearance="primary" onClick={onConfirm}>
-              I may see arms: switch to unblinded
+              Yes, switch to unblinded
             </Button>
             <Button onClick={onCancel}>Stay blinded</Button>
           </DialogActions>

@@ -6,7 +6,11 @@ import { runAnalysis } from '../core/pipeline/runAnalysis';
 
 export interface PaneEngine {
   readonly detectMapping: (headers: readonly string[], mode: Mode) => DetectedMapping;
-  readonly runAnalysis: (cells: readonly (readonly CellValue[])[], settings: AnalysisSettings, hooks: RunHooks) => Promise<AnalysisOutput>;
+  readonly runAnalysis: (
+    cells: readonly (readonly CellValue[])[],
+    settings: AnalysisSettings,
+    hooks: RunHooks,
+  ) => Promise<AnalysisOutput>;
 }
 
 export const CORE_ENGINE: PaneEngine = { detectMapping, runAnalysis };

@@ -1,33 +1,112 @@
-/** The few plain lines the results step leads with: what was read, what was left out, and the model's own summary. */
+/**
+ * The few plain lines the results step leads with: what was read and used, how visits kept to the schedule, and the
+ * model's main number. Read from the run's results JSON (schema in the README); when a part is missing there, the
+ * model sheet's own plain-language summary stands in.
+ */
 import type { AnalysisOutput } from '../core/pipeline/types';
 import { CAUTIONS, INVENTED_DATA_NOTE } from '../core/report/cautions';
+import { formatCell } from '../core/report/formats';
 import type { SheetSpec } from '../core/report/types';
 
 type Done = Extract<AnalysisOutput, { ok: true }>;
+type Json = Record<string, unknown>;
 
-const count = (n: number, one: string, many: string): string => `${n.toLocaleString('en-US')} ${n === 1 ? one : many}`;
+const obj = (v: unknown): Json | null =>
+  typeof v === 'object' && v !== null && !Array.isArray(v) ? (v as Json) : null;
+const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
+const str = (v: unknown): string | null => (typeof v === 'string' ? v : null);
+const list = (v: unknown): Json[] => (Array.isArray(v) ? v.map(obj).filter((x): x is Json => x !== null) : []);
+const whole = (n: number): string => n.toLocaleString('en-US');
+const two = (n: number): string => formatCell(n, 'decimal2');
+
+/** "95% confidence interval 0.76 to 7.33" from a JSON result with lower and upper. */
+function interval(r: Json, level: number | null): string {
+  const lo = num(r.lower);
+  const hi = num(r.upper);
+  if (lo === null || hi === null) return '';
+  return `${level === null ? '' : `${formatCell(level * 100, 'decimal1').replace(/\.0$/, '')}% `}CI ${two(lo)} to ${two(hi)}`;
+}
 
 /**
- * Lines for the results step. Counts come from the output's exclusion list; the summary is the first plain paragraph
- * of the model sheet (the report puts its plain-language summary there, SPEC §5), else of any sheet.
- * Example: 10 rows read, one left out of the model gives "10 rows read." and "1 row left out of the model; …".
+ * Lines for the results step. Example, for the invented demo run unblinded: "920 rows read from 240 patients: 918
+ * used for visit timing, 916 in the model.", "820 of 975 visits due were on time (84.1%); 86 missed.", "At Week 48,
+ * Active differed from Placebo by 4.05 (95% CI 0.76 to 7.33; p = 0.0159)."
  */
 export function headlineOf(output: Done, rowsRead: number): string[] {
-  const lines = [`${count(rowsRead, 'row', 'rows')} read.`];
-  const timing = new Set(output.excluded.filter((e) => e.use === 'timing').map((e) => e.row)).size;
-  const model = new Set(output.excluded.filter((e) => e.use === 'model').map((e) => e.row)).size;
-  if (timing + model === 0) lines.push('No row was left out.');
-  else lines.push(`${count(timing, 'row', 'rows')} left out of visit timing; ${count(model, 'row', 'rows')} left out of the model (see the problems below).`);
-  const summary = modelSummary(output.sheets);
-  if (summary !== null) lines.push(summary);
+  const json = output.json;
+  const input = obj(json.input);
+  const lines: string[] = [];
+  const subjects = num(input?.subjects);
+  const timing = num(input?.usedForTiming);
+  const model = num(input?.usedForModel);
+  let first = `${whole(rowsRead)} ${rowsRead === 1 ? 'row' : 'rows'} read${subjects === null ? '' : ` from ${whole(subjects)} patients`}`;
+  if (timing !== null && model !== null)
+    first += `: ${whole(timing)} used for visit timing, ${whole(model)} in the model`;
+  lines.push(`${first}.`);
+
+  const counts = obj(obj(json.visits)?.counts);
+  const onTime = num(counts?.onTime);
+  const missed = num(counts?.missed);
+  const due =
+    onTime === null || missed === null ? null : onTime + (num(counts?.early) ?? 0) + (num(counts?.late) ?? 0) + missed;
+  if (onTime !== null && missed !== null && due !== null && due > 0) {
+    lines.push(
+      `${whole(onTime)} of ${whole(due)} visits due were on time (${formatCell(onTime / due, 'percent1')}); ${whole(missed)} missed.`,
+    );
+  }
+
+  const fit = obj(json.model);
+  const modelLine = fit === null ? null : modelHeadline(fit);
+  if (modelLine !== null) lines.push(modelLine);
+  else {
+    const note = str(json.modelNote);
+    const summary = note ?? modelSummary(output.sheets);
+    if (summary !== null) lines.push(summary);
+  }
   return lines;
+}
+
+/** The treatment difference at the last planned visit (unblinded) or the intraclass correlation (blinded). */
+function modelHeadline(fit: Json): string | null {
+  const level = num(fit.level);
+  const status =
+    fit.converged === false ? ` The fit did not converge: ${str(fit.message) ?? 'see the model sheet'}.` : '';
+  const effects = list(fit.treatmentEffects);
+  const last = effects[effects.length - 1];
+  const arms = Array.isArray(fit.arms) ? fit.arms.filter((a): a is string => typeof a === 'string') : [];
+  if (last !== undefined) {
+    const est = num(last.estimate);
+    const p = num(last.p);
+    const arm = str(last.arm);
+    const where = str(last.label) ?? (num(last.day) !== null ? `study day ${num(last.day)}` : null);
+    if (est !== null && arm !== null && where !== null) {
+      const reference = arms[0] !== undefined && arms[0] !== arm ? ` from ${arms[0]}` : '';
+      const ci = interval(last, level);
+      const rest = [ci, p === null ? '' : p < 0.0001 ? 'p < 0.0001' : `p = ${formatCell(p, 'pvalue')}`].filter(
+        (s) => s !== '',
+      );
+      return `At ${where}, ${arm} differed${reference} by ${two(est)}${rest.length > 0 ? ` (${rest.join('; ')})` : ''}.${status}`;
+    }
+  }
+  const variance = obj(fit.variance);
+  const icc = num(variance?.icc);
+  if (icc !== null && variance !== null) {
+    const ci = interval({ lower: variance.iccLower, upper: variance.iccUpper }, level);
+    return `Intraclass correlation ${two(icc)}${ci === '' ? '' : ` (${ci})`}: the share of the variation that lies between patients.${status}`;
+  }
+  return status === '' ? null : status.trim();
 }
 
 const STANDING = new Set<string>([...CAUTIONS, INVENTED_DATA_NOTE]);
 
 function firstPlainParagraph(sheet: SheetSpec): string | null {
   for (const block of sheet.blocks) {
-    if (block.kind === 'paragraph' && (block.style ?? 'normal') === 'normal' && !STANDING.has(block.text) && block.text.trim() !== '') {
+    if (
+      block.kind === 'paragraph' &&
+      (block.style ?? 'normal') === 'normal' &&
+      !STANDING.has(block.text) &&
+      block.text.trim() !== ''
+    ) {
       return block.text;
     }
   }
@@ -35,10 +114,6 @@ function firstPlainParagraph(sheet: SheetSpec): string | null {
 }
 
 function modelSummary(sheets: readonly SheetSpec[]): string | null {
-  const modelFirst = [...sheets].sort((a, b) => Number(/model/i.test(b.name)) - Number(/model/i.test(a.name)));
-  for (const sheet of modelFirst) {
-    const text = firstPlainParagraph(sheet);
-    if (text !== null) return text;
-  }
-  return null;
+  const modelSheet = sheets.find((s) => /model/i.test(s.name));
+  return modelSheet === undefined ? null : firstPlainParagraph(modelSheet);
 }

@@ -54,7 +54,8 @@ export function fillGaps(primary: ColumnMapping, secondary: ColumnMapping | unde
   for (const [key, value] of Object.entries(secondary)) {
     if (key === 'covariates') continue;
     const role = key as SingleRole;
-    if (next[role] === undefined && roleOfColumn(next, value as number) === null) next = setRole(next, role, value as number);
+    if (next[role] === undefined && roleOfColumn(next, value as number) === null)
+      next = setRole(next, role, value as number);
   }
   return next;
 }

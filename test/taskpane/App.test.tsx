@@ -98,7 +98,7 @@ describe('mode', () => {
     expect(screen.queryByLabelText(/Reference arm/)).toBeNull();
 
     fireEvent.click(screen.getByRole('radio', { name: /Unblinded/ }));
-    fireEvent.click(within(await screen.findByRole('alertdialog')).getByRole('button', { name: /switch to unblinded/ }));
+    fireEvent.click(await screen.findByRole('button', { name: /switch to unblinded/ }));
     const reference = await screen.findByLabelText(/Reference arm/, { selector: 'select' });
     expect([...(reference as HTMLSelectElement).options].map((o) => o.value)).toEqual(['Placebo', 'Active']);
     fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));

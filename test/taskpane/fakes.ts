@@ -19,7 +19,13 @@ export const SCHEDULE: readonly ScheduleVisit[] = [
   { label: 'Week 12', targetDay: 85, before: 7, after: 7 },
 ];
 
-export const SOURCE: DataSource = { label: 'Visits!A1:G5', sheet: 'Visits', topLeft: 'A1', dateSystem: 1900, cells: CELLS };
+export const SOURCE: DataSource = {
+  label: 'Visits!A1:G5',
+  sheet: 'Visits',
+  topLeft: 'A1',
+  dateSystem: 1900,
+  cells: CELLS,
+};
 
 export const WRITTEN: readonly WrittenSheet[] = [
   { name: 'Visit timing', title: 'Visit timing against the schedule' },
@@ -81,7 +87,11 @@ export function okOutput(): Extract<AnalysisOutput, { ok: true }> {
     excluded: [{ row: 5, cell: 'Visits!G5', use: 'model', reason: 'blank value' }],
     sheets: [
       { name: 'Visit timing', title: 'Visit timing against the schedule', blocks: [] },
-      { name: 'Model', title: 'Mixed model', blocks: [{ kind: 'paragraph', text: 'eGFR fell by 0.4 per month on average.' }] },
+      {
+        name: 'Model',
+        title: 'Mixed model',
+        blocks: [{ kind: 'paragraph', text: 'eGFR fell by 0.4 per month on average.' }],
+      },
     ],
     json: {},
   };

@@ -1,0 +1,31 @@
+/** The report download: the sheets written into an .xlsx file, handed to the browser through a Blob URL. */
+import type { SheetSpec } from '../core/report/types';
+import { writeWorkbook } from '../files';
+
+const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
+
+/** Builds the workbook and starts the download; the Blob URL is released once the click has been handled. */
+export async function downloadReport(sheets: readonly SheetSpec[], fileName: string): Promise<void> {
+  const bytes = await writeWorkbook(sheets);
+  const blob = new Blob([bytes as Uint8Array<ArrayBuffer>], { type: XLSX_TYPE });
+  downloadBlob(blob, fileName);
+}
+
+/** Starts a download of `blob` under `fileName`. */
+export function downloadBlob(blob: Blob, fileName: string): void {
+  const url = URL.createObjectURL(blob);
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = fileName;
+  link.style.display = 'none';
+  document.body.appendChild(link);
+  link.click();
+  link.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}
+
+/** A file name for the report from the run time: "longipane-report-2026-12-02-0415.xlsx". */
+export function reportFileName(now: Date): string {
+  const iso = now.toISOString();
+  return `longipane-report-${iso.slice(0, 10)}-${iso.slice(11, 13)}${iso.slice(14, 16)}.xlsx`;
+}

@@ -1,0 +1,13 @@
+/** Entry of the browser page: mounts the page with the file-based host actions. */
+import { StrictMode } from 'react';
+import { createRoot } from 'react-dom/client';
+import { Page } from './Page';
+import { createWebActions } from './webActions';
+
+const root = document.getElementById('root');
+if (root === null) throw new Error('The page has no element with id "root".');
+createRoot(root).render(
+  <StrictMode>
+    <Page actions={createWebActions()} />
+  </StrictMode>,
+);

@@ -1,0 +1,44 @@
+/** What the page shows beside the pane: the written sheets, the loaded data (for "go to cell"), and a highlighted cell. */
+import type { SheetSpec } from '../core/report/types';
+import type { DataSource } from '../taskpane/actions';
+
+export interface HighlightedCell {
+  /** The address as given, e.g. "'egfr-visits'!F17". */
+  readonly address: string;
+  /** 0-based row index into the source's cells (0 is the header row). */
+  readonly rowIndex: number;
+  /** 0-based column index into the source's cells. */
+  readonly colIndex: number;
+}
+
+export interface PageState {
+  /** The sheets of the last run, each with the unique name it was given. */
+  readonly sheets: readonly { readonly name: string; readonly spec: SheetSpec }[];
+  readonly source: DataSource | null;
+  readonly highlight: HighlightedCell | null;
+  /** A message about a cell address the page could not show, or null. */
+  readonly notice: string | null;
+}
+
+/** A tiny observable holder, read by React through useSyncExternalStore. */
+export class ResultStore {
+  private state: PageState = { sheets: [], source: null, highlight: null, notice: null };
+  private readonly listeners = new Set<() => void>();
+
+  readonly subscribe = (listener: () => void): (() => void) => {
+    this.listeners.add(listener);
+    return () => this.listeners.delete(listener);
+  };
+
+  readonly get = (): PageState => this.state;
+
+  update(patch: Partial<PageState>): void {
+    this.state = { ...this.state, ...patch };
+    for (const l of this.listeners) l();
+  }
+}
+
+/** The DOM id of a sheet's section on the page (letters, digits and "-" only). */
+export function sheetDomId(name: string): string {
+  return `sheet-${name.toLowerCase().replace(/[^a-z0-9]+/g, '-')}`;
+}

@@ -1,0 +1,181 @@
+/**
+ * The pane's host on a plain page: files come from a file picker, schedules from a CSV file or the starter, results
+ * are kept in a ResultStore that the page draws beside the pane. Nothing is sent anywhere.
+ */
+import type { CellValue } from '../core/intake/types';
+import type { ScheduleVisit } from '../core/schedule/types';
+import { STARTER_SCHEDULE, parseCell, parseSchedule, starterScheduleCells } from '../core/schedule';
+import { readCsvText, readXlsxBuffer, uniqueSheetNames } from '../files';
+import type { DataSource, PaneActions, SavedSettings, ScheduleLoad, WrittenSheet } from '../taskpane/actions';
+import { downloadBlob } from './download';
+import { ResultStore, sheetDomId } from './resultStore';
+
+export const STARTER_NAME = 'Starter schedule';
+
+export interface WebActions extends PaneActions {
+  readonly store: ResultStore;
+}
+
+const isXlsx = (name: string): boolean => /\.xlsx$/i.test(name);
+
+/** The file name without its extension, used as the "sheet" in cell addresses of CSV data ("egfr-visits"). */
+export function baseName(name: string): string {
+  const stem = name.replace(/^.*[\\/]/, '').replace(/\.[^.]+$/, '');
+  return stem === '' ? 'Data' : stem;
+}
+
+/** Reads a picked file into a block of cells: CSV as text (intake reads numbers from text), XLSX's first sheet. */
+export async function readDataFile(file: File): Promise<DataSource> {
+  if (isXlsx(file.name)) {
+    const sheet = await readXlsxBuffer(await file.arrayBuffer());
+    return {
+      label: `${file.name} (sheet ${sheet.sheet})`,
+      sheet: sheet.sheet,
+      topLeft: sheet.topLeft,
+      dateSystem: sheet.dateSystem,
+      cells: sheet.cells,
+      numericText: 'reject',
+    };
+  }
+  const cells = readCsvText(await file.text());
+  return {
+    label: file.name,
+    sheet: baseName(file.name),
+    topLeft: 'A1',
+    dateSystem: 1900,
+    cells,
+    numericText: 'accept',
+  };
+}
+
+/** The message shown when a schedule table has errors: each problem with its cell, at most five. */
+export function scheduleMessage(
+  issues: readonly { readonly severity: string; readonly cell: string | null; readonly message: string }[],
+): string {
+  const errors = issues.filter((i) => i.severity === 'error');
+  const shown = errors.slice(0, 5).map((i) => (i.cell !== null ? `${i.cell}: ${i.message}` : i.message));
+  const more = errors.length > 5 ? ` (and ${errors.length - 5} more)` : '';
+  return shown.join(' ') + more;
+}
+
+/** Splits "Sheet!C17" or "'My sheet'!C17" into the sheet name and the cell. */
+export function splitAddress(address: string): { readonly sheet: string; readonly cell: string } | null {
+  const bang = address.lastIndexOf('!');
+  if (bang < 0) return null;
+  let sheet = address.slice(0, bang);
+  if (sheet.startsWith("'") && sheet.endsWith("'")) sheet = sheet.slice(1, -1).replace(/''/g, "'");
+  return { sheet, cell: address.slice(bang + 1) };
+}
+
+export function createWebActions(store: ResultStore = new ResultStore()): WebActions {
+  const schedules = new Map<string, readonly ScheduleVisit[]>();
+  let saved: SavedSettings | null = null;
+
+  const loadScheduleFile = async (file: File): Promise<ScheduleLoad> => {
+    let cells: CellValue[][];
+    let sheet = baseName(file.name);
+    let topLeft = 'A1';
+    if (isXlsx(file.name)) {
+      const x = await readXlsxBuffer(await file.arrayBuffer());
+      cells = x.cells;
+      sheet = x.sheet;
+      topLeft = x.topLeft;
+    } else cells = readCsvText(await file.text());
+    const parsed = parseSchedule(cells, sheet, topLeft);
+    if (!parsed.ok) return { ok: false, message: scheduleMessage(parsed.issues) || 'The schedule could not be read.' };
+    schedules.set(file.name, parsed.schedule);
+    return { ok: true, schedule: parsed.schedule };
+  };
+
+  return {
+    store,
+    sourceKinds: ['file'],
+
+    async loadData(kind, file, onProgress) {
+      if (kind !== 'file' || file === undefined)
+        throw new Error('On this page, data come from a file: choose a CSV or .xlsx file.');
+      onProgress?.(0.1);
+      const source = await readDataFile(file);
+      onProgress?.(1);
+      store.update({ source, highlight: null, notice: null });
+      return source;
+    },
+
+    async listScheduleSources() {
+      return [...schedules.keys()].map((name) => ({ name }));
+    },
+
+    async loadSchedule(name, file) {
+      if (file !== undefined) return loadScheduleFile(file);
+      const known = schedules.get(name);
+      return known !== undefined
+        ? { ok: true, schedule: known }
+        : { ok: false, message: `No schedule named “${name}” has been loaded on this page.` };
+    },
+
+    async createStarterSchedule() {
+      schedules.set(STARTER_NAME, STARTER_SCHEDULE);
+      const csv = starterScheduleCells({ csv: true })
+        .map((row) =>
+          row
+            .map((v) => (typeof v === 'string' && /[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : String(v)))
+            .join(','),
+        )
+        .join('\r\n');
+      downloadBlob(new Blob([`${csv}\r\n`], { type: 'text/csv' }), 'starter-schedule.csv');
+      return STARTER_NAME;
+    },
+
+    async writeResults(output, onProgress) {
+      const names = uniqueSheetNames(output.sheets.map((s) => s.name));
+      const sheets = output.sheets.map((spec, i) => ({ name: names[i] ?? spec.name, spec }));
+      store.update({ sheets, highlight: null, notice: null });
+      onProgress?.(1);
+      return sheets.map((s): WrittenSheet => ({ name: s.name, title: s.spec.title }));
+    },
+
+    async showSheet(name) {
+      const heading = document.getElementById(`${sheetDomId(name)}-title`);
+      heading?.scrollIntoView({ block: 'start' });
+      heading?.focus();
+    },
+
+    async selectCell(address) {
+      const { source } = store.get();
+      const parts = splitAddress(address);
+      if (source === null || parts === null) {
+        store.update({ highlight: null, notice: `The page cannot show ${address}.` });
+        return;
+      }
+      let cell: { col: number; row: number };
+      let top: { col: number; row: number };
+      try {
+        cell = parseCell(parts.cell);
+        top = parseCell(source.topLeft);
+      } catch {
+        store.update({ highlight: null, notice: `“${address}” is not a cell address.` });
+        return;
+      }
+      const rowIndex = cell.row - top.row;
+      const colIndex = cell.col - top.col;
+      if (rowIndex < 0 || rowIndex >= source.cells.length || colIndex < 0) {
+        store.update({ highlight: null, notice: `${address} lies outside the loaded data (${source.label}).` });
+        return;
+      }
+      store.update({ highlight: { address, rowIndex, colIndex }, notice: null });
+      requestAnimationFrame(() => {
+        const box = document.getElementById('source-row');
+        box?.scrollIntoView({ block: 'start' });
+        box?.focus();
+      });
+    },
+
+    async loadSaved() {
+      return saved;
+    },
+
+    async save(settings) {
+      saved = settings;
+    },
+  };
+}

@@ -1,0 +1,135 @@
+// @vitest-environment jsdom
+import { afterEach, describe, expect, it } from 'vitest';
+import { act, cleanup, fireEvent, render, screen } from '@testing-library/react';
+import type { ChartSpec, TableBlock } from '../../src/core/report/types';
+import { ChartView } from '../../src/web/ChartView';
+import { ResultsView } from '../../src/web/ResultsView';
+import { ResultStore } from '../../src/web/resultStore';
+import { TableView } from '../../src/web/TableView';
+
+afterEach(cleanup);
+
+const trajectory: ChartSpec = {
+  kind: 'line',
+  id: 'Trajectory',
+  title: 'Mean eGFR over time (invented data)',
+  xLabel: 'Months since randomisation',
+  yLabel: 'eGFR',
+  series: [
+    { name: 'Placebo', x: [0, 3, 6, 9], y: [60, 58, null, 55], lower: [58, 56, null, 52], upper: [62, 60, null, 58] },
+    { name: 'Observed', x: [0, 3, 6, 9], y: [61, 57, 56, 54], style: 'points' },
+  ],
+};
+
+describe('ChartView', () => {
+  it('draws a line per unbroken run, a marker per point, a band for the interval, and names the chart for screen readers', () => {
+    const { container } = render(<ChartView chart={trajectory} />);
+    // Placebo: a null at x = 6 splits the line into two runs; 'points' draws no line.
+    expect(container.querySelectorAll('polyline')).toHaveLength(2);
+    // 3 finite Placebo points + 4 observed markers (circles for the first series, squares for the second).
+    expect(container.querySelectorAll('circle')).toHaveLength(3 + 1); // + the legend swatch of the first series
+    expect(container.querySelectorAll('svg[role="img"] rect')).toHaveLength(4);
+    expect(container.querySelectorAll('polygon[opacity="0.15"]')).toHaveLength(1);
+    expect(screen.getByRole('img').getAttribute('aria-label')).toContain('Mean eGFR over time (invented data)');
+    expect(screen.getByText('Months since randomisation')).toBeTruthy();
+  });
+
+  it('draws bars from zero for categories, with whiskers for intervals', () => {
+    const bars: ChartSpec = {
+      kind: 'bar',
+      id: 'OnTime',
+      title: 'On-time rate by site',
+      xLabel: 'Site',
+      yLabel: 'On time',
+      series: [
+        {
+          name: 'On-time rate',
+          x: ['S01', 'S02', 'S03'],
+          y: [0.9, 0.75, null],
+          lower: [0.8, 0.6, null],
+          upper: [0.95, 0.85, null],
+        },
+      ],
+    };
+    const { container } = render(<ChartView chart={bars} />);
+    const rects = [...container.querySelectorAll('svg[role="img"] rect')];
+    expect(rects).toHaveLength(2);
+    const bottoms = rects.map((r) => Number(r.getAttribute('y')) + Number(r.getAttribute('height')));
+    expect(bottoms[0]).toBeCloseTo(bottoms[1] ?? NaN, 9); // both bars stand on the zero line (exact identity)
+    expect(container.querySelectorAll('svg[role="img"] g[stroke] line')).toHaveLength(2 * 3);
+    expect(screen.getByText('S03')).toBeTruthy();
+  });
+});
+
+describe('TableView', () => {
+  const table: TableBlock = {
+    kind: 'table',
+    id: 'ByVisit',
+    caption: 'Visit timing by visit',
+    columns: [
+      { header: 'Visit', format: 'text' },
+      { header: 'On-time rate', format: 'percent1' },
+      { header: 'p', format: 'pvalue' },
+    ],
+    rows: [
+      ['Week 12', 0.9167, 0.00002],
+      ['=1+1', null, 0.5],
+    ],
+  };
+
+  it('formats cells with the shared number formats and shows text as written, never as a formula', () => {
+    render(<TableView table={table} />);
+    expect(screen.getByText('91.7%')).toBeTruthy();
+    expect(screen.getByText('<0.0001')).toBeTruthy();
+    expect(screen.getByText('=1+1')).toBeTruthy();
+    expect(screen.getByRole('table', { name: 'Visit timing by visit' })).toBeTruthy();
+  });
+
+  it('shows the first rows of a long table and says the download has them all', () => {
+    render(<TableView table={table} maxRows={1} />);
+    expect(screen.queryByText('=1+1')).toBeNull();
+    expect(screen.getByText(/Showing the first 1 of 2 rows/)).toBeTruthy();
+  });
+});
+
+describe('ResultsView', () => {
+  it('shows the sheets kept by the store, and the data row of a selected cell with the cell marked', () => {
+    const store = new ResultStore();
+    render(<ResultsView store={store} />);
+    expect(screen.getByText(/The result sheets appear here/)).toBeTruthy();
+    expect(screen.queryByRole('button', { name: /Download report/ })).toBeNull();
+    act(() =>
+      store.update({
+        sheets: [
+          {
+            name: 'Model',
+            spec: {
+              name: 'Model',
+              title: 'Mixed model',
+              blocks: [{ kind: 'paragraph', text: 'Careful.', style: 'caution' }],
+            },
+          },
+        ],
+        source: {
+          label: 'visits.csv',
+          sheet: 'visits',
+          topLeft: 'A1',
+          dateSystem: 1900,
+          cells: [
+            ['USUBJID', 'AVAL'],
+            ['K-1', '61'],
+            ['K-2', ''],
+          ],
+        },
+        highlight: { address: 'visits!B3', rowIndex: 2, colIndex: 1 },
+      }),
+    );
+    expect(screen.getByRole('heading', { name: /Mixed model/ })).toBeTruthy();
+    expect(screen.getByRole('button', { name: 'Download report (.xlsx)' })).toBeTruthy();
+    expect(screen.getByText('Cell visits!B3 in visits.csv')).toBeTruthy();
+    const marked = document.querySelector('td.hit');
+    expect(marked?.parentElement?.querySelector('th')?.textContent).toBe('3');
+    fireEvent.click(screen.getByRole('button', { name: 'Close' }));
+    expect(screen.queryByText('Cell visits!B3 in visits.csv')).toBeNull();
+  });
+});

@@ -26,6 +26,15 @@ export interface ModelSheetContext {
   readonly subjectIds: readonly string[];
 }
 
+/** Thrown when the report is asked for something the fit cannot support, e.g. a blinded report of a fit with arms. */
+export class ModelReportError extends Error {
+  readonly code = 'model-report' as const;
+  constructor(message: string) {
+    super(`Model report: ${message}`);
+    this.name = 'ModelReportError';
+  }
+}
+
 /** Sheet names of the model output (front ends make them unique in the workbook). */
 export const MODEL_SHEET_NAMES = { results: 'Model results', perPatient: 'Per patient' } as const;
 
@@ -54,10 +63,14 @@ function inferenceColumns(level: number): TableColumn[] {
 const inferenceCells = (r: ContrastResult): SheetCell[] => [cell(r.estimate), cell(r.se), cell(r.df), cell(r.t), cell(r.p), cell(r.lower), cell(r.upper)];
 
 /**
- * Builds the model sheets. Example: a blinded fit with perSubject false -> one sheet "Model results" whose first block
+ * Builds the model sheets; a blinded context with a fit that has arms throws ModelReportError (never leak arms).
+ * Example: a blinded fit with perSubject false -> one sheet "Model results" whose first block
  * is the summary paragraph, followed by the caution paragraphs and the tables.
  */
 export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpec[] {
+  if (context.mode === 'blinded' && fit.arms.length > 0) {
+    throw new ModelReportError('a blinded report cannot show a fit that contains arm terms; fit the blinded data without arms.');
+  }
   const unit = UNIT[fit.timeUnit];
   const unblinded = context.mode === 'unblinded' && fit.arms.length > 1;
   const blocks: Block[] = [para(modelSummaryText(fit, context.mode)), ...cautionBlocks(context.mode)];

@@ -83,4 +83,19 @@ describe('fitFromTable builds the model columns from the intake table', () => {
     expect(() => fitFromTable(t, days, include, { ...opts, referenceArm: 'Sham' })).toThrow(/Sham/);
     expect(() => fitFromTable(t, days, new Uint8Array(t.nRows), opts)).toThrow(ModelInputError);
   });
+  it('does not mutate the table, the study days or the include mask', () => {
+    const before = JSON.stringify({ ...t, value: Array.from(t.value), usableModel: Array.from(t.usableModel) });
+    const d0 = Array.from(days);
+    const i0 = Array.from(include);
+    fitFromTable(t, days, include, opts);
+    expect(JSON.stringify({ ...t, value: Array.from(t.value), usableModel: Array.from(t.usableModel) })).toBe(before);
+    expect(Array.from(days)).toEqual(d0);
+    expect(Array.from(include)).toEqual(i0);
+  });
+  it('per-subject results behave as plain data: present in JSON and in a spread copy', () => {
+    const fit = fitFromTable(t, days, include, opts);
+    const json = JSON.parse(JSON.stringify(fit)) as { subjects: { id: string }[] };
+    expect(json.subjects.map((s) => s.id)).toEqual(['P01', 'P02', 'P03', 'P04', 'P05', 'P06']);
+    expect({ ...fit }.subjects).toEqual(fit.subjects);
+  });
 });

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { fitRandomIntercept, type FitOptions, type ModelData, type ModelFit } from '../../../src/core/model';
 import { CAUTIONS, UNBLINDED_CAUTION } from '../../../src/core/report/cautions';
 import { modelJson } from '../../../src/core/report/modelJson';
-import { modelSheets, type ModelSheetContext } from '../../../src/core/report/modelSheet';
+import { ModelReportError, modelSheets, type ModelSheetContext } from '../../../src/core/report/modelSheet';
 import { num, pPhrase } from '../../../src/core/report/modelText';
 import type { TableBlock } from '../../../src/core/report/types';
 import { normals, seeded } from '../model/helpers';
@@ -52,9 +52,12 @@ describe('modelSheets', () => {
   });
 
   it('carries every caution, and the unblinded caution in unblinded mode only', () => {
-    const texts = (mode: 'blinded' | 'unblinded'): string[] => modelSheets(fit, ctx(mode, false))[0]!.blocks.flatMap((b) => (b.kind === 'paragraph' && b.style === 'caution' ? [b.text] : []));
-    expect(texts('unblinded')).toEqual([...CAUTIONS, UNBLINDED_CAUTION]);
-    expect(texts('blinded')).toEqual([...CAUTIONS]);
+    const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
+    const texts = (mode: 'blinded' | 'unblinded'): string[] =>
+      modelSheets(mode === 'blinded' ? blind : fit, ctx(mode, true)).flatMap((sh) => sh.blocks.flatMap((b) => (b.kind === 'paragraph' && b.style === 'caution' ? [b.text] : [])));
+    // Both sheets (results and per patient) carry them.
+    expect(texts('unblinded')).toEqual([...CAUTIONS, UNBLINDED_CAUTION, ...CAUTIONS, UNBLINDED_CAUTION]);
+    expect(texts('blinded')).toEqual([...CAUTIONS, ...CAUTIONS]);
   });
 
   it('has the fixed-effects, by-visit, slope, variance, fit-statistics, trajectory and observed tables with consistent shapes', () => {
@@ -101,6 +104,10 @@ describe('modelSheets', () => {
   it('number phrasing: 1 decimal from 100, 2 from 1, 3 significant below; p below 0.0001 as "< 0.0001"', () => {
     expect([num(123.456), num(-2.345), num(0.012345), num(NaN)]).toEqual(['123.5', '-2.35', '0.0123', 'n/a']);
     expect([pPhrase(0.00001), pPhrase(0.01234)]).toEqual(['p < 0.0001', 'p = 0.0123']);
+  });
+
+  it('refuses a blinded report of a fit with arms (ModelReportError), so arms never leak into blinded sheets', () => {
+    expect(() => modelSheets(fit, ctx('blinded', false))).toThrow(ModelReportError);
   });
 
   it('sheet names are at most 24 characters', () => {

@@ -1,21 +1,38 @@
 // Builds the Excel task pane (dist/taskpane.html) and the browser page (dist/index.html) from src/, and copies the
 // manifest and icons. `npm start` serves dist over https://localhost:3000 with the Office development certificates.
 import { fileURLToPath } from 'node:url';
-import { dirname, resolve } from 'node:path';
+import { existsSync, readFileSync } from 'node:fs';
+import { homedir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
 import HtmlWebpackPlugin from 'html-webpack-plugin';
 import CopyWebpackPlugin from 'copy-webpack-plugin';
 
 const root = dirname(fileURLToPath(import.meta.url));
 const PORT = 3000;
 
-/** HTTPS options from the Office development certificates; on failure, says how to fix it and stops. */
+/**
+ * HTTPS options from the Office development certificates (office-addin-dev-certs creates them in
+ * ~/.office-addin-dev-certs and asks the system to trust its CA). Where the CA cannot be installed (Linux without
+ * sudo, containers) but the files exist, they are used as they are and the message says to trust ca.crt by hand.
+ * With no certificates at all, it says how to get them and stops.
+ */
 async function httpsOptions() {
+  const dir = join(homedir(), '.office-addin-dev-certs');
   try {
     const devCerts = await import('office-addin-dev-certs');
     const getOptions = devCerts.getHttpsServerOptions ?? devCerts.default?.getHttpsServerOptions;
     return await getOptions();
   } catch (error) {
-    const reason = error instanceof Error ? error.message : String(error);
+    const reason = error instanceof Error ? error.message.trim() : String(error);
+    const files = ['ca.crt', 'localhost.crt', 'localhost.key'].map((f) => join(dir, f));
+    if (files.every((f) => existsSync(f))) {
+      process.stderr.write(
+        `The development CA could not be installed (${reason}).\n` +
+          `Serving with the certificates in ${dir}; trust ${files[0]} in your browser or system yourself.\n`,
+      );
+      const [ca, cert, key] = files.map((f) => readFileSync(f));
+      return { ca, cert, key };
+    }
     throw new Error(
       `Could not get the localhost development certificates (${reason}).\n` +
         'Install them once with: npx office-addin-dev-certs install\n' +

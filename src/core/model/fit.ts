@@ -14,7 +14,8 @@ import { adjustedCovariance, informationPieces, inverseInformation } from './inf
 import { matMul } from './dense';
 import { checkRank } from './pivotedCholesky';
 import { conditionalResiduals, subjectEffects } from './subjects';
-import { sufficientStats, sufficientStatsFast, type SufficientStats } from './sufficient';
+import { sufficientStatsFast } from './armSumsPass';
+import { sufficientStats, type SufficientStats } from './sufficient';
 import { trajectories } from './trajectories';
 import { validateModelRows, validateModelShape } from './validate';
 import { varianceIntervals } from './varianceIntervals';

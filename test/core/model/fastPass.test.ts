@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import type { ModelData } from '../../../src/core/model';
 import { buildDesign } from '../../../src/core/model/design';
-import { sufficientStats, sufficientStatsFast, type SufficientStats } from '../../../src/core/model/sufficient';
+import { sufficientStatsFast } from '../../../src/core/model/armSumsPass';
+import { sufficientStats, type SufficientStats } from '../../../src/core/model/sufficient';
 import { normals, seeded } from './helpers';
 
 /** Invented: 3 arms, 40 subjects with 1–6 visits. */

@@ -20,12 +20,12 @@ const WARNINGS_SHOWN = 5;
 export const VERSION: string = pkg.version;
 
 /** Where output goes; tests pass their own to capture it. */
-export interface Console2 {
+export interface CliOutput {
   out(line: string): void;
   err(line: string): void;
 }
 
-const processConsole: Console2 = {
+const processConsole: CliOutput = {
   out: (line) => process.stdout.write(`${line}\n`),
   err: (line) => process.stderr.write(`${line}\n`),
 };
@@ -40,7 +40,7 @@ function countsLine(counts: unknown): string | null {
   return (Object.keys(STATUS_WORDS) as VisitStatus[]).map((k) => `${STATUS_WORDS[k].toLowerCase()} ${String(c[k] ?? 0)}`).join(', ');
 }
 
-function printSummary(json: Record<string, unknown>, io: Console2): void {
+function printSummary(json: Record<string, unknown>, io: CliOutput): void {
   const input = (json.input ?? {}) as Record<string, unknown>;
   const visits = (json.visits ?? {}) as Record<string, unknown>;
   const model = json.model as Record<string, unknown> | null | undefined;
@@ -56,7 +56,7 @@ function printSummary(json: Record<string, unknown>, io: Console2): void {
   else if (typeof json.modelNote === 'string') io.out(`Model: not fitted (${json.modelNote}).`);
 }
 
-async function analyze(args: AnalyzeArgs, io: Console2, now: () => Date): Promise<number> {
+async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promise<number> {
   const data = await readDataFile(args.data, args.sheet);
   const schedule = await readScheduleFile(args.schedule);
   if (!schedule.ok) {
@@ -128,7 +128,7 @@ async function analyze(args: AnalyzeArgs, io: Console2, now: () => Date): Promis
  * Runs the command line with the arguments after the program name and returns the exit code:
  * 0 done, 1 the data or schedule could not be analysed, 2 wrong usage or an unreadable file.
  */
-export async function main(argv: readonly string[], io: Console2 = processConsole, now: () => Date = () => new Date()): Promise<number> {
+export async function main(argv: readonly string[], io: CliOutput = processConsole, now: () => Date = () => new Date()): Promise<number> {
   const [command, ...rest] = argv;
   if (command === undefined || command === 'help' || command === '--help' || command === '-h') {
     io.out(HELP_TEXT);

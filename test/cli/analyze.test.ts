@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../../src/cli/main';
-import type { Console2 } from '../../src/cli/main';
+import type { CliOutput } from '../../src/cli/main';
 import { UNBLINDED_CAUTION } from '../../src/core/report/cautions';
 
 const DEMO_DATA = join(__dirname, '..', '..', 'demo', 'egfr-visits.csv');
@@ -28,7 +28,7 @@ interface Run {
 async function run(...argv: string[]): Promise<Run> {
   const out: string[] = [];
   const err: string[] = [];
-  const io: Console2 = { out: (l) => out.push(l), err: (l) => err.push(l) };
+  const io: CliOutput = { out: (l) => out.push(l), err: (l) => err.push(l) };
   const code = await main(argv, io, FIXED_NOW);
   return { code, out, err };
 }

@@ -77,19 +77,28 @@ export function blockRows(columnCount: number, bytesPerCell: number, targetBytes
   return Math.max(1, Math.min(byBytes, byCells));
 }
 
-/** Where the range is, its size and the workbook's date system, in one request. */
+/** The range a read target names (before its size is known). */
+function targetRange(context: Excel.RequestContext, target: ReadTarget): Excel.Range {
+  if (target.kind === 'selection') {
+    const selected = context.workbook.getSelectedRange();
+    return selected.getIntersectionOrNullObject(selected.worksheet.getUsedRange(true));
+  }
+  if (target.kind === 'usedRange') return context.workbook.worksheets.getActiveWorksheet().getUsedRange(true);
+  return context.workbook.worksheets.getItem(target.name).getUsedRange(true);
+}
+
+/**
+ * Where the range is, its size and the workbook's date system, in one request. A selection is cut to the sheet's used
+ * range (getIntersectionOrNullObject, ExcelApi 1.4), so selecting whole columns reads only the rows that hold values.
+ */
 async function readGeometry(target: ReadTarget): Promise<Geometry> {
   return Excel.run(async (context) => {
-    const range =
-      target.kind === 'selection'
-        ? context.workbook.getSelectedRange()
-        : target.kind === 'usedRange'
-          ? context.workbook.worksheets.getActiveWorksheet().getUsedRange(true)
-          : context.workbook.worksheets.getItem(target.name).getUsedRange(true);
+    const range = targetRange(context, target);
     range.load('rowIndex,columnIndex,rowCount,columnCount');
     range.worksheet.load('name');
     const probe = queueDateProbe(context);
     await context.sync();
+    if (range.isNullObject) throw new ExcelAdapterError('The selection holds no values: select the header row and the data rows below it.');
     return {
       sheet: range.worksheet.name,
       row: range.rowIndex,

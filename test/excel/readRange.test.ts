@@ -26,12 +26,25 @@ interface Fake {
 }
 
 /** A workbook whose selection is A1:F100000 on sheet "Visits", in the 1900 date system unless said otherwise. */
-function fakeWorkbook(options: { probe?: number; refuseOver?: number; failWith?: unknown } = {}): Fake {
+function fakeWorkbook(options: { probe?: number; refuseOver?: number; failWith?: unknown; emptySelection?: boolean } = {}): Fake {
   const requests: { row: number; rowCount: number; bytes: number }[] = [];
   let pending: { rowCount: number } | null = null;
   const context = {
     workbook: {
-      selection: { rowIndex: 0, columnIndex: 0, rowCount: ROWS, columnCount: COLS, worksheet: { name: 'Visits' } },
+      // The selection is columns A:F; its intersection with the used range is A1:F100000.
+      selection: {
+        worksheet: {
+          used: { address: 'Visits!A1:F100000' },
+          getUsedRange: function (this: { used: unknown }, valuesOnly: boolean) {
+            expect(valuesOnly).toBe(true);
+            return this.used;
+          },
+        },
+        intersection: { rowIndex: 0, columnIndex: 0, rowCount: ROWS, columnCount: COLS, worksheet: { name: 'Visits' } },
+        getIntersectionOrNullObject: function (this: { intersection: unknown }) {
+          return this.intersection;
+        },
+      },
       getSelectedRange: function (this: { selection: unknown }) {
         return this.selection;
       },
@@ -59,6 +72,9 @@ function fakeWorkbook(options: { probe?: number; refuseOver?: number; failWith?:
       throw Object.assign(new Error('The request payload size has exceeded the limit.'), { code: 'RequestPayloadSizeLimitExceeded' });
     }
   });
+  // isNullObject needs no load() in Excel; office-addin-mock would demand one, so it is set on the mocked object.
+  const mocked = mock.excel as unknown as { context: { workbook: { selection: { intersection: object } } } };
+  Object.defineProperty(mocked.context.workbook.selection.intersection, 'isNullObject', { value: options.emptySelection === true });
   // The mock copies plain data at construction, so the block reader is attached to the mocked sheet afterwards.
   const mockedSheet = (mock.excel as unknown as { context: { workbook: { worksheets: { sheet: { block: unknown; getRangeByIndexes?: unknown } } } } }).context.workbook.worksheets.sheet;
   mockedSheet.getRangeByIndexes = (row: number, column: number, rowCount: number, columnCount: number) => {
@@ -116,6 +132,12 @@ describe('readRange', () => {
     expect(progress.at(-1)).toBe(1);
     expect([...progress].sort((a, b) => a - b)).toEqual(progress);
     expect(r).toMatchObject({ sheet: 'Visits', address: 'A1:F100000', topLeft: 'A1', dateSystem: 1900 });
+  });
+
+  it('rejects a selection that holds no values with a plain message and reads nothing', async () => {
+    const fake = fakeWorkbook({ emptySelection: true });
+    await expect(readRange({ kind: 'selection' })).rejects.toThrow(/selection holds no values/);
+    expect(fake.requests).toHaveLength(0);
   });
 
   it('turns error cells into their text and empty cells into null', async () => {

@@ -2,6 +2,9 @@
 export * from './types';
 export { runAnalysis } from './runAnalysis';
 export { excludedRows } from './excludedRows';
+export { PipelineUsageError } from './errors';
+export { fitStage } from './fitStage';
+export type { FitStage } from './fitStage';
 export { contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
 export type { ObservedMean } from './modelData';
 export { resultsJson, mappingByHeader } from './resultsJson';

@@ -1,22 +1,20 @@
+import type { CellValue, Issue } from '../intake/types';
 import { readTable } from '../intake/readTable';
-import type { Issue } from '../intake/types';
-import { fitFromTable, ModelInputError, RankDeficiencyError } from '../model';
-import type { ModelFit } from '../model/types';
 import { fingerprintCells } from '../report/fingerprint';
 import { summarizeTiming } from '../report/summarizeTiming';
+import { timingJson } from '../report/timingJson';
 import { timingSheets } from '../report/timingSheets';
 import type { SheetSpec } from '../report/types';
 import { classifyVisits, computeStudyDays, dayNumberFromIso, NO_STATUS } from '../schedule';
-import type { CellValue } from '../intake/types';
+import { PipelineUsageError } from './errors';
 import { excludedRows } from './excludedRows';
+import { fitStage } from './fitStage';
 import { fromScheduleIssues, modelNotFitted } from './issues';
-import { contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
-import { resultsJson } from './resultsJson';
 import { modelOutputs, recordSheet } from './reportParts';
-import { timingJson } from '../report/timingJson';
+import { resultsJson } from './resultsJson';
 import type { AnalysisOutput, AnalysisSettings, RunHooks, Stage } from './types';
 
-/** Raised inside a run when the hooks' signal is aborted between stages. */
+/** What a run returns when the hooks' signal is aborted between stages. */
 const CANCELLED: AnalysisOutput = { ok: false, issues: [], cancelled: true };
 
 /**
@@ -27,7 +25,8 @@ const CANCELLED: AnalysisOutput = { ok: false, issues: [], cancelled: true };
  * per scheduled visit, by arm when unblinded) and writing (timing sheets, model sheets, the analysis record last; JSON).
  * Between stages it reports progress, yields to the front end and stops with { ok: false, cancelled: true } when
  * hooks.signal is aborted. Errors in the data give { ok: false, issues } with cell addresses; a model that cannot be
- * fitted leaves the visit-timing results standing (JSON model: null and a 'model-not-fitted' warning).
+ * fitted leaves the visit-timing results standing (JSON model: null and a 'model-not-fitted' warning). Misuse (an
+ * empty schedule, a cut-off that is not a date) throws PipelineUsageError.
  * Cost: O(rows) for intake and windowing plus the model engine's one pass; never an n×n matrix.
  *
  * Example: runAnalysis(cells, { sheet: 'Visits', topLeft: 'A1', dateSystem: 1900, mode: 'blinded', schedule, … })
@@ -45,6 +44,10 @@ export async function runAnalysis(
     return !hooks.signal?.aborted;
   };
 
+  if (settings.schedule.length === 0) throw new PipelineUsageError('the schedule has no visits', 'read it with parseSchedule and check ok first');
+  const cutoffDay = settings.cutoff === undefined ? undefined : dayNumberFromIso(settings.cutoff);
+  if (cutoffDay !== undefined && Number.isNaN(cutoffDay)) throw new PipelineUsageError('the cut-off must be a real date written YYYY-MM-DD', settings.cutoff ?? '');
+
   if (!(await enter('reading'))) return CANCELLED;
   const place = { sheet: settings.sheet, topLeft: settings.topLeft };
   const read = readTable(cells, {
@@ -57,19 +60,13 @@ export async function runAnalysis(
   });
   if (!read.ok) return { ok: false, issues: read.issues };
   const table = read.table;
-  if (settings.schedule.length === 0) {
-    throw new RangeError('runAnalysis: the schedule has no visits (read it with parseSchedule and check ok first).');
-  }
 
   if (!(await enter('windowing'))) return CANCELLED;
-  const dated = table.timeKind === 'date';
-  let cutoff: number | undefined;
   const notes: string[] = [];
-  if (settings.cutoff !== undefined) {
-    const day = dayNumberFromIso(settings.cutoff);
-    if (Number.isNaN(day)) throw new RangeError(`runAnalysis: cutoff "${settings.cutoff}" is not a date written YYYY-MM-DD.`);
-    if (dated) cutoff = day;
-    else notes.push(`The cut-off ${settings.cutoff} is a calendar date, but the data carry study days only; each subject's last record serves as the cut-off instead.`);
+  // A calendar cut-off applies to dated data; study-day data have no calendar to apply it to.
+  const cutoff = table.timeKind === 'date' ? cutoffDay : undefined;
+  if (cutoffDay !== undefined && cutoff === undefined) {
+    notes.push(`The cut-off ${settings.cutoff ?? ''} is a calendar date, but the data carry study days only; each subject's last record serves as the cut-off instead.`);
   }
   const days = computeStudyDays(table, settings.schedule, place);
   const timing = classifyVisits(table, days, settings.schedule, { place, ...(cutoff === undefined ? {} : { cutoff }) });
@@ -83,35 +80,12 @@ export async function runAnalysis(
   const summary = summarizeTiming({ table, schedule: settings.schedule, days, timing });
 
   if (!(await enter('fitting'))) return CANCELLED;
-  const include = modelRows(table, timing, settings.scheduledOnly);
-  if (settings.mode === 'unblinded' && settings.referenceArm !== undefined && !table.arms.includes(settings.referenceArm)) {
-    notes.push(`The reference arm "${settings.referenceArm}" is not among the arms in the data (${table.arms.map((a) => `"${a}"`).join(', ')}); "${table.arms[0] ?? ''}", the first arm in the data, serves as the reference instead.`);
-  }
-  let fit: ModelFit | null = null;
-  let modelNote: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
-  if (modelNote === null) {
-    try {
-      fit = fitFromTable(table, days.studyDays, include, {
-        method: settings.method,
-        dfMethod: settings.dfMethod,
-        level: settings.level,
-        timeUnit: settings.timeUnit,
-        contrastDays: contrastDays(settings.schedule),
-        residuals: settings.perSubject,
-        ...(settings.referenceArm === undefined ? {} : { referenceArm: settings.referenceArm }),
-      });
-    } catch (e) {
-      // The engine refuses data it cannot estimate from (no usable rows, one subject, a design without full rank):
-      // a property of these data, reported as such; the visit-timing results still stand.
-      if (!(e instanceof ModelInputError || e instanceof RankDeficiencyError)) throw e;
-      modelNote = e.message;
-    }
-  }
+  const stage = fitStage(table, days, timing, settings);
+  notes.push(...stage.notes);
+  const { fit, note: modelNote, means } = stage;
   if (modelNote !== null && table.mapping.value !== undefined) issues.push(modelNotFitted(modelNote));
-  const arms = settings.mode === 'unblinded' ? (fit?.arms ?? orderedArms(table.arms, settings.referenceArm)) : [];
-  const means = observedMeans(table, timing, settings.schedule, include, arms);
   const usedForModel = fit?.nObservations ?? 0;
-  const referenceArm = settings.mode === 'unblinded' ? (arms[0] ?? null) : null;
+  const referenceArm = stage.arms[0] ?? null;
 
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { runAnalysis } from '../../../src/core/pipeline';
+import { PipelineUsageError, runAnalysis } from '../../../src/core/pipeline';
 import type { AnalysisSettings, Stage } from '../../../src/core/pipeline';
 import type { CellValue } from '../../../src/core/intake/types';
 
@@ -82,6 +82,19 @@ describe('runAnalysis', () => {
     const errors = out.issues.filter((i) => i.severity === 'error');
     expect(errors.map((i) => [i.code, i.message])).toEqual([['no-usable-rows', 'No record is dated on or before the data cut-off 2024-12-31, so there is nothing to analyse.']]);
     expect(out.issues.filter((i) => i.code === 'after-cutoff' && i.use === 'timing')).toHaveLength(11);
+  });
+
+  it('throws PipelineUsageError for settings no front end should send: an empty schedule or a cut-off that is no date', async () => {
+    await expect(runAnalysis(CELLS, { ...SETTINGS, schedule: [] })).rejects.toThrow(PipelineUsageError);
+    await expect(runAnalysis(CELLS, { ...SETTINGS, cutoff: '2025-02-30' })).rejects.toThrow(/runAnalysis: the cut-off must be a real date written YYYY-MM-DD \(2025-02-30\)/);
+  });
+
+  it('notes that a calendar cut-off cannot apply to study-day data, and uses each subject’s last record instead', async () => {
+    const cells: CellValue[][] = [['USUBJID', 'ADY', 'AVAL'], ['A', 1, 5], ['A', 29, 6], ['B', 1, 4], ['B', 30, 4.5], ['C', 1, 7], ['C', 57, 6]];
+    const out = await runAnalysis(cells, SETTINGS);
+    if (!out.ok) throw new Error('run failed');
+    expect(out.json.notes).toEqual(['The cut-off 2025-03-31 is a calendar date, but the data carry study days only; each subject\'s last record serves as the cut-off instead.']);
+    expect((out.json.settings as { cutoffRule: unknown }).cutoffRule).toBe('eachSubjectsLastRecord');
   });
 
   it('lists each excluded row once per use with its cell address, and counts rows used for timing and the model', async () => {

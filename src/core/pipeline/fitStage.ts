@@ -1,0 +1,55 @@
+import type { IntakeTable } from '../intake/types';
+import { fitFromTable, ModelInputError, RankDeficiencyError } from '../model';
+import type { ModelFit } from '../model/types';
+import type { StudyDays, VisitTiming } from '../schedule/types';
+import { contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
+import type { ObservedMean } from './modelData';
+import type { AnalysisSettings } from './types';
+
+export interface FitStage {
+  /** Null when the model was not fitted; `note` then says why. */
+  readonly fit: ModelFit | null;
+  readonly note: string | null;
+  /** Arms in the model's order (reference first) in unblinded mode, else empty. */
+  readonly arms: readonly string[];
+  readonly means: readonly ObservedMean[];
+  /** Plain sentences for the record and the JSON (e.g. a reference arm that is not in the data). */
+  readonly notes: readonly string[];
+}
+
+/**
+ * The fitting stage: fitFromTable on the rows modelRows picks (all valid rows, or only each scheduled visit's record),
+ * with contrasts at every scheduled visit's target day after the first (baseline) visit, and the observed means per
+ * scheduled visit (by arm in unblinded mode). A design the engine refuses (no usable rows, one subject, not of full
+ * rank) is a property of the data: fit null and the engine's reason as `note`. Cost: O(rows) plus the engine's pass.
+ */
+export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTiming, settings: AnalysisSettings): FitStage {
+  const include = modelRows(table, timing, settings.scheduledOnly);
+  const notes: string[] = [];
+  const unblinded = settings.mode === 'unblinded';
+  if (unblinded && settings.referenceArm !== undefined && !table.arms.includes(settings.referenceArm)) {
+    notes.push(
+      `The reference arm "${settings.referenceArm}" is not among the arms in the data (${table.arms.map((a) => `"${a}"`).join(', ')}); "${table.arms[0] ?? ''}", the first arm in the data, serves as the reference instead.`,
+    );
+  }
+  let fit: ModelFit | null = null;
+  let note: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
+  if (note === null) {
+    try {
+      fit = fitFromTable(table, days.studyDays, include, {
+        method: settings.method,
+        dfMethod: settings.dfMethod,
+        level: settings.level,
+        timeUnit: settings.timeUnit,
+        contrastDays: contrastDays(settings.schedule),
+        residuals: settings.perSubject,
+        ...(settings.referenceArm === undefined ? {} : { referenceArm: settings.referenceArm }),
+      });
+    } catch (e) {
+      if (!(e instanceof ModelInputError || e instanceof RankDeficiencyError)) throw e;
+      note = e.message;
+    }
+  }
+  const arms = unblinded ? (fit?.arms ?? orderedArms(table.arms, settings.referenceArm)) : [];
+  return { fit, note, arms, means: observedMeans(table, timing, settings.schedule, include, arms), notes };
+}

@@ -96,6 +96,7 @@ describe('longipane analyze on the invented demo trial', () => {
     expect(result.err).toEqual([]);
     expect(result.code).toBe(0);
     expect(result.out.filter((l) => l === UNBLINDED_CAUTION)).toHaveLength(1);
+    // demo/egfr-visits.csv has 921 lines: the header and 920 data rows.
     expect(result.out.some((l) => l.startsWith('Rows: 920 '))).toBe(true);
     expect((await readdir(join(dir, 'demo'))).sort()).toEqual(['report.xlsx', 'results.json']);
   });

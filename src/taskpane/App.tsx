@@ -229,6 +229,11 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
     }
   };
 
+  // When a run ends, take keyboard focus to the results so the next Tab lands on them.
+  useEffect(() => {
+    if (outcome !== null) document.getElementById('step-results-title')?.focus();
+  }, [outcome]);
+
   const onCancel = (): void => {
     controller.current?.abort();
     setCancelling(true);

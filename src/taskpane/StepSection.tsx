@@ -57,7 +57,7 @@ export function StepSection({ number, title, id, state, lockedText, children }: 
         : styles.number;
   return (
     <section className={styles.section} aria-labelledby={`${id}-title`} id={id}>
-      <h2 className={styles.heading} id={`${id}-title`}>
+      <h2 className={styles.heading} id={`${id}-title`} tabIndex={-1}>
         <span className={badge} aria-hidden="true">
           {state === 'done' ? '✓' : number}
         </span>

@@ -25,9 +25,11 @@ function xGeometry(chart: ChartSpec): Geometry & { readonly band: number } {
   const right = W - M.right;
   if (numeric) {
     const ext = extent(...chart.series.map((s) => s.x as readonly number[])) ?? [0, 1];
-    const ticks = niceTicks(ext[0], ext[1], 6);
-    const lo = ticks[0] ?? ext[0];
-    const hi = ticks[ticks.length - 1] ?? ext[1];
+    // The x axis spans the data with a small margin (not out to the next round number); ticks inside it only.
+    const pad = (ext[1] - ext[0]) * 0.03 || 1;
+    const lo = ext[0] - pad;
+    const hi = ext[1] + pad;
+    const ticks = niceTicks(ext[0], ext[1], 6).filter((t) => t >= lo && t <= hi);
     const sx = linearScale(lo, hi, left, right);
     return {
       band: 0,
@@ -78,8 +80,24 @@ function runs(points: readonly ({ x: number; y: number } | null)[]): { x: number
   return out;
 }
 
-export function ChartView({ chart }: { readonly chart: ChartSpec }): ReactNode {
+/** The colour group of a series: the part of its name before ": " ("Active: model" and "Active: observed mean" share
+ * a colour), else the whole name. */
+export function colourGroup(name: string): string {
+  const at = name.indexOf(': ');
+  return at > 0 ? name.slice(0, at) : name;
+}
+
+export interface ChartViewProps {
+  readonly chart: ChartSpec;
+  /** 'percent' writes y ticks as percentages (for rates stored as fractions). */
+  readonly yAxis?: 'plain' | 'percent';
+}
+
+export function ChartView({ chart, yAxis = 'plain' }: ChartViewProps): ReactNode {
   const geo = xGeometry(chart);
+  const groups = [...new Set(chart.series.map((s) => colourGroup(s.name)))];
+  const yTickLabel = (t: number): string =>
+    yAxis === 'percent' ? `${tickLabel(Math.round(t * 1000) / 10)}%` : tickLabel(t);
   const yExt = extent(...chart.series.flatMap((s) => [s.y, s.lower, s.upper])) ?? [0, 1];
   const yLo = chart.kind === 'bar' ? Math.min(0, yExt[0]) : yExt[0];
   const yHi = chart.kind === 'bar' ? Math.max(0, yExt[1]) : yExt[1];
@@ -93,7 +111,7 @@ export function ChartView({ chart }: { readonly chart: ChartSpec }): ReactNode {
   const longLabels = geo.ticks.length > 6 || geo.ticks.some((t) => t.label.length > 8);
 
   const drawn = chart.series.map((s, k) => {
-    const colour = SERIES_COLOURS[k % SERIES_COLOURS.length] ?? '#333';
+    const colour = SERIES_COLOURS[groups.indexOf(colourGroup(s.name)) % SERIES_COLOURS.length] ?? '#333';
     const shape = MARKERS[k % MARKERS.length] ?? 'circle';
     const parts: ReactNode[] = [];
     const xs = s.y.map((_, i) => {
@@ -101,7 +119,7 @@ export function ChartView({ chart }: { readonly chart: ChartSpec }): ReactNode {
       if (x === null) return null;
       return chart.kind === 'bar' ? x - (geo.band * 0.8) / 2 + (k + 0.5) * barWidth : x;
     });
-    const lineStyle = chart.kind === 'line' && s.style !== 'points';
+    const lineStyle = chart.kind !== 'bar' && (s.style === 'line' || (s.style === undefined && chart.kind === 'line'));
     const intervals = s.lower !== undefined && s.upper !== undefined;
     if (intervals && lineStyle && geo.band === 0) {
       const top: string[] = [];
@@ -168,11 +186,13 @@ export function ChartView({ chart }: { readonly chart: ChartSpec }): ReactNode {
           ),
         );
       }
+      // A line through many points reads better without a marker on each.
+      const showMarkers = !lineStyle || pts.length <= 12;
       pts.forEach((p, i) => {
-        if (p) parts.push(marker(shape, p.x, p.y, colour, `m${i}`));
+        if (p && showMarkers) parts.push(marker(shape, p.x, p.y, colour, `m${i}`));
       });
     }
-    return { name: s.name, colour, shape, node: <g key={k}>{parts}</g> };
+    return { name: s.name, colour, shape, line: lineStyle, node: <g key={k}>{parts}</g> };
   });
 
   const description = `${chart.title}. ${chart.yLabel} against ${chart.xLabel}; series: ${chart.series.map((s) => s.name).join(', ')}.`;
@@ -197,7 +217,7 @@ export function ChartView({ chart }: { readonly chart: ChartSpec }): ReactNode {
               strokeWidth={t === 0 ? 1.2 : 1}
             />
             <text x={M.left - 6} y={sy(t)} textAnchor="end" dominantBaseline="middle" fontSize={11} fill="#333">
-              {tickLabel(t)}
+              {yTickLabel(t)}
             </text>
           </g>
         ))}
@@ -237,14 +257,20 @@ export function ChartView({ chart }: { readonly chart: ChartSpec }): ReactNode {
         <ul className="chart-legend" aria-label="Legend">
           {drawn.map((d) => (
             <li key={d.name}>
-              <svg width="14" height="14" aria-hidden="true">
-                {marker(d.shape, 7, 7, d.colour, 'k')}
+              <svg width="22" height="14" aria-hidden="true">
+                {d.line ? (
+                  <line x1={1} x2={21} y1={7} y2={7} stroke={d.colour} strokeWidth={2.5} />
+                ) : (
+                  marker(d.shape, 11, 7, d.colour, 'k')
+                )}
               </svg>
               {d.name}
             </li>
           ))}
           {chart.series.some((s) => s.lower !== undefined) && (
-            <li className="chart-legend-note">Shaded bands and whiskers show the confidence intervals.</li>
+            <li className="chart-legend-note">
+              Shaded bands and whiskers show the interval or range described with the table above.
+            </li>
           )}
         </ul>
       ) : null}

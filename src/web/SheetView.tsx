@@ -1,9 +1,18 @@
 /** One result sheet on the page: its title, then its paragraphs, tables and charts in order. */
 import type { ReactNode } from 'react';
-import type { SheetSpec } from '../core/report/types';
+import type { ChartSpec, SheetSpec } from '../core/report/types';
 import { ChartView } from './ChartView';
 import { sheetDomId } from './resultStore';
 import { TableView } from './TableView';
+
+/** 'percent' when the chart's numbers sit in a percentage column of its source table (matched by series name). */
+export function yAxisOf(chart: ChartSpec, sheet: SheetSpec): 'plain' | 'percent' {
+  const table = sheet.blocks.find((b) => b.kind === 'table' && b.id === chart.sourceTable);
+  if (table === undefined || table.kind !== 'table') return 'plain';
+  const names = new Set(chart.series.map((s) => s.name));
+  const columns = table.columns.filter((c) => names.has(c.header));
+  return columns.length > 0 && columns.every((c) => c.format === 'percent1') ? 'percent' : 'plain';
+}
 
 export function SheetView({ name, spec }: { readonly name: string; readonly spec: SheetSpec }): ReactNode {
   return (
@@ -22,7 +31,7 @@ export function SheetView({ name, spec }: { readonly name: string; readonly spec
           );
         }
         if (block.kind === 'table') return <TableView key={i} table={block} />;
-        return <ChartView key={i} chart={block.chart} />;
+        return <ChartView key={i} chart={block.chart} yAxis={yAxisOf(block.chart, spec)} />;
       })}
     </section>
   );

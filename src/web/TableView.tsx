@@ -1,18 +1,24 @@
 /** A TableBlock as an HTML table, cells formatted by the shared formatCell; long tables show their first rows. */
 import type { ReactNode } from 'react';
+import { useState } from 'react';
 import type { TableBlock } from '../core/report/types';
 import { formatCell } from '../core/report/formats';
 
 export interface TableViewProps {
   readonly table: TableBlock;
-  /** Rows shown before the note that the full table is in the download (default 200). */
+  /** Rows shown at most, with a note that the download has them all (default 200). */
   readonly maxRows?: number;
+  /** Rows shown at first when the table is long (more than twice this); a button shows the rest (default 12). */
+  readonly previewRows?: number;
 }
 
 const NUMERIC = new Set(['integer', 'decimal1', 'decimal2', 'decimal3', 'decimal4', 'decimal6', 'percent1', 'pvalue']);
 
-export function TableView({ table, maxRows = 200 }: TableViewProps): ReactNode {
-  const rows = table.rows.slice(0, maxRows);
+export function TableView({ table, maxRows = 200, previewRows = 12 }: TableViewProps): ReactNode {
+  const long = table.rows.length > 2 * previewRows;
+  const [open, setOpen] = useState(!long);
+  const limit = open ? maxRows : Math.min(previewRows, maxRows);
+  const rows = table.rows.slice(0, limit);
   return (
     <div className="table-wrap" role="region" aria-label={table.caption} tabIndex={0}>
       <table className="sheet-table" data-table-id={table.id}>
@@ -38,7 +44,12 @@ export function TableView({ table, maxRows = 200 }: TableViewProps): ReactNode {
           ))}
         </tbody>
       </table>
-      {table.rows.length > maxRows && (
+      {!open && (
+        <button type="button" className="plain-button" onClick={() => setOpen(true)}>
+          Show all {table.rows.length.toLocaleString('en-US')} rows
+        </button>
+      )}
+      {open && table.rows.length > maxRows && (
         <p className="table-note">
           Showing the first {maxRows.toLocaleString('en-US')} of {table.rows.length.toLocaleString('en-US')} rows. The
           downloaded report has them all.

@@ -127,12 +127,18 @@ describe('the browser page with the invented demo trial', () => {
     await dialog.getByRole('button', { name: /switch to unblinded/ }).click();
     await pane().getByLabel('Reference arm (compared against)').selectOption('Placebo');
     await run();
-    const text = await results().innerText();
-    expect(text).toMatch(/by visit/i);
-    expect(text).toMatch(/Week 48/);
-    expect(text).toMatch(/Active/);
-    expect(text).toMatch(/difference/i);
+    // The visit-timing table by visit: a header row and one row per scheduled visit of the demo schedule (5).
+    await expect(results().locator('table[data-table-id="ByVisit"] tr').count()).resolves.toBe(1 + 5);
+    // The model's treatment difference at the last visit, Active against the chosen reference Placebo.
+    const difference = results().locator('table[data-table-id="DifferenceByVisit"] tbody tr', { hasText: 'Week 48' });
+    await expect(difference.count()).resolves.toBe(1);
+    expect(await difference.innerText()).toContain('Active');
+    await expect(results().getByText(/Placebo/).count()).resolves.toBeGreaterThan(0);
+    // The pane's short headline states that difference too.
+    await pane().getByText(/^At Week 48, Active differed from Placebo by /).waitFor();
     await page.screenshot({ path: join(ARTIFACTS, 'page-unblinded.png'), fullPage: false });
+    await results().locator('table[data-table-id="FixedEffects"]').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: join(ARTIFACTS, 'page-unblinded-model.png'), fullPage: false });
   }, 180_000);
 
   it('a problem link shows the data row of its cell, and the report downloads as an .xlsx file', async () => {
@@ -161,8 +167,10 @@ describe('the browser page with the invented demo trial', () => {
         .isChecked(),
     ).toBe(true);
     await run();
+    await expect(results().locator('table[data-table-id="ByVisit"] tr').count()).resolves.toBe(1 + 5);
+    await expect(results().locator('table[data-table-id="DifferenceByVisit"]').count()).resolves.toBe(0);
+    await pane().getByText(/^Intraclass correlation /).waitFor();
     const text = await results().innerText();
-    expect(text).toMatch(/by visit/i);
     for (const arm of ['Placebo', 'Active', 'TRT01P']) expect(text).not.toContain(arm);
     await page.screenshot({ path: join(ARTIFACTS, 'page-blinded.png'), fullPage: false });
     // The pane scrolls inside the page: picture it from the Run step down (what the user sees after a run), and

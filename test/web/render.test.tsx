@@ -2,7 +2,8 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { act, cleanup, fireEvent, render, screen } from '@testing-library/react';
 import type { ChartSpec, TableBlock } from '../../src/core/report/types';
-import { ChartView } from '../../src/web/ChartView';
+import { ChartView, colourGroup } from '../../src/web/ChartView';
+import { yAxisOf } from '../../src/web/SheetView';
 import { ResultsView } from '../../src/web/ResultsView';
 import { ResultStore } from '../../src/web/resultStore';
 import { TableView } from '../../src/web/TableView';
@@ -27,7 +28,7 @@ describe('ChartView', () => {
     // Placebo: a null at x = 6 splits the line into two runs; 'points' draws no line.
     expect(container.querySelectorAll('polyline')).toHaveLength(2);
     // 3 finite Placebo points + 4 observed markers (circles for the first series, squares for the second).
-    expect(container.querySelectorAll('circle')).toHaveLength(3 + 1); // + the legend swatch of the first series
+    expect(container.querySelectorAll('circle')).toHaveLength(3); // the legend shows a line for a line series
     expect(container.querySelectorAll('svg[role="img"] rect')).toHaveLength(4);
     expect(container.querySelectorAll('polygon[opacity="0.15"]')).toHaveLength(1);
     expect(screen.getByRole('img').getAttribute('aria-label')).toContain('Mean eGFR over time (invented data)');
@@ -61,6 +62,48 @@ describe('ChartView', () => {
   });
 });
 
+describe('chart helpers', () => {
+  it('series named "<group>: <part>" share a colour group, so an arm keeps one colour for model and observed', () => {
+    expect(['Active: model', 'Active: observed mean', 'Median deviation'].map(colourGroup)).toEqual([
+      'Active',
+      'Active',
+      'Median deviation',
+    ]);
+  });
+
+  it('a chart of a percentage column gets percentage ticks (0.8 is written 80%)', () => {
+    const chart: ChartSpec = {
+      kind: 'bar',
+      id: 'C',
+      title: 'On-time rate by site',
+      xLabel: 'Site',
+      yLabel: 'On-time rate',
+      sourceTable: 'BySite',
+      series: [{ name: 'On-time rate', x: ['S01'], y: [0.8] }],
+    };
+    const sheet = {
+      name: 'S',
+      title: 'S',
+      blocks: [
+        {
+          kind: 'table' as const,
+          id: 'BySite',
+          caption: 'By site',
+          columns: [
+            { header: 'Site', format: 'text' as const },
+            { header: 'On-time rate', format: 'percent1' as const },
+          ],
+          rows: [['S01', 0.8]],
+        },
+      ],
+    };
+    expect(yAxisOf(chart, sheet)).toBe('percent');
+    expect(yAxisOf({ ...chart, sourceTable: 'Other' }, sheet)).toBe('plain');
+    render(<ChartView chart={chart} yAxis="percent" />);
+    expect(screen.getByText('80%')).toBeTruthy();
+  });
+});
+
 describe('TableView', () => {
   const table: TableBlock = {
     kind: 'table',
@@ -85,7 +128,15 @@ describe('TableView', () => {
     expect(screen.getByRole('table', { name: 'Visit timing by visit' })).toBeTruthy();
   });
 
-  it('shows the first rows of a long table and says the download has them all', () => {
+  it('shows a long table folded to its first rows, with a button that shows them all', () => {
+    const rows = Array.from({ length: 30 }, (_, i) => [`V${i + 1}`, 0.5, 0.5]);
+    render(<TableView table={{ ...table, rows }} />);
+    expect(screen.getAllByRole('row')).toHaveLength(1 + 12);
+    fireEvent.click(screen.getByRole('button', { name: 'Show all 30 rows' }));
+    expect(screen.getAllByRole('row')).toHaveLength(1 + 30);
+  });
+
+  it('shows at most maxRows rows and says the download has them all', () => {
     render(<TableView table={table} maxRows={1} />);
     expect(screen.queryByText('=1+1')).toBeNull();
     expect(screen.getByText(/Showing the first 1 of 2 rows/)).toBeTruthy();

@@ -149,6 +149,38 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
     }
   });
 
+  it('analytic vs numerical information: the finite-difference REML Hessian equals I_rs − y\'PV_rPV_sPy (exact identity)', () => {
+    // For V linear in θ, −∂²ℓ_R/∂θ_r∂θ_s = y'PV_rPV_sPy − ½ tr(PV_rPV_s) (Harville 1977, §6), so the numerical Hessian
+    // ties the analytic expected information I_rs = ½ tr(PV_rPV_s) to a quantity computed without it.
+    const gamma = 0.7;
+    const pt = profileAt(st, gamma, 'reml')!;
+    const th = [gamma * pt.sigma2, pt.sigma2];
+    const phi = pt.aInv.map((v) => v * pt.sigma2);
+    const info = informationPieces(st, gamma, pt.sigma2, phi, 'reml').information;
+    const X = denseX(d);
+    const Vi = inverse(denseV(d, th[0]!, th[1]!));
+    const Phi = inverse(X.transpose().mmul(Vi).mmul(X));
+    const P = Vi.clone().sub(Vi.mmul(X).mmul(Phi).mmul(X.transpose()).mmul(Vi));
+    const y = Matrix.columnVector(Array.from(d.y));
+    const Vr = [denseV(d, 0, 0, 0), denseV(d, 0, 0, 1)];
+    const f = (a: number, b: number): number => denseLogLik(d, a, b, 'reml');
+    const h = th.map((v) => 1e-3 * v);
+    for (let r = 0; r < 2; r++) {
+      for (let s = 0; s < 2; s++) {
+        const at = (dr: number, ds: number): number => {
+          const x = [...th];
+          x[r] = x[r]! + dr * h[r]!;
+          x[s] = x[s]! + ds * h[s]!;
+          return f(x[0]!, x[1]!);
+        };
+        const hess = r === s ? (at(1, 0) - 2 * at(0, 0) + at(-1, 0)) / h[r]! ** 2 : (at(1, 1) - at(1, -1) - at(-1, 1) + at(-1, -1)) / (4 * h[r]! * h[s]!);
+        const quad = y.transpose().mmul(P).mmul(Vr[r]!).mmul(P).mmul(Vr[s]!).mmul(P).mmul(y).get(0, 0);
+        // Relative 1e-4: second differences with h = 1e-3 θ carry O(h²) truncation and ~1e-14·|ℓ|/h² rounding.
+        expect(Math.abs(-hess - (quad - info[r * 2 + s]!))).toBeLessThan(1e-4 * Math.abs(quad));
+      }
+    }
+  });
+
   it('the analytic expected ML information equals ½ tr(V⁻¹V_r V⁻¹V_s) from dense matrices (the pooled T_rs forms)', () => {
     const gamma = 0.7;
     const pt = profileAt(st, gamma, 'ml')!;

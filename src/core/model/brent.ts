@@ -1,6 +1,6 @@
 /**
  * Brent's one-dimensional minimiser: golden-section search with parabolic interpolation, on a bracket [a, b]
- * (Brent 1973, Algorithms for Minimization without Derivatives, ch. 5, procedure localmin).
+ * (Brent 1973, Algorithms for Minimization without Derivatives).
  * It stops when the bracket around the best point is within 2·tol + ε|x| (default tol 1e-10, suited to a log-ratio of
  * order 1: the likelihood is then flat to ~1e-20 relative), or after maxIter (default 200) steps. Cost: one function
  * value per step.

@@ -5,7 +5,7 @@
 
 /**
  * Cholesky factor L (lower, row-major) of a symmetric positive definite matrix, or null when a pivot is not positive.
- * Golub & Van Loan 2013, Algorithm 4.2.1. Cost O(p^3 / 3).
+ * Golub & Van Loan 2013, Matrix Computations (the outer-product Cholesky). Cost O(p^3 / 3).
  * Example: cholesky(Float64Array.of(4, 2, 2, 5), 2) -> [2, 0, 1, 2].
  */
 export function cholesky(a: Float64Array, p: number): Float64Array | null {

@@ -46,8 +46,8 @@ export function fQuantile(prob: number, d1: number, d2: number): number {
 
 /**
  * Quantile of chi-square(df), e.g. chiSquareQuantile(0.95, 1) = 3.8415 (Abramowitz & Stegun 1964, Table 26.8).
- * Above 10,000 df the Wilson–Hilferty cube-root normal approximation is used (Wilson & Hilferty 1931;
- * Abramowitz & Stegun 26.4.17): its relative error there is below 1e-7, while jstat's incomplete-gamma inversion
+ * Above 10,000 df the Wilson–Hilferty cube-root normal approximation is used (Wilson & Hilferty 1931):
+ * its relative error there is below 1e-7, while jstat's incomplete-gamma inversion
  * takes milliseconds per call at such df. Cost O(1) above that, an iterative inversion below.
  */
 export function chiSquareQuantile(prob: number, df: number): number {

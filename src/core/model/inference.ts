@@ -7,7 +7,7 @@
  *   Kenward–Roger (1997): SE² = LΦ_AL'; for one row their A1 = A2 = g'Wg/(LΦL')², so λ = 1 and m = 2/A2, the same
  *   Satterthwaite-type df paired with the adjusted covariance.
  *   residual: SE² = LΦL', df = N − p.
- * Several rows (ℓ x p): Kenward–Roger's F approximation (1997, §4) with Θ = L'(LΦL')⁻¹L,
+ * Several rows (ℓ x p): Kenward–Roger's F approximation (1997) with Θ = L'(LΦL')⁻¹L,
  *   A1 = Σ W_rs tr(ΘΦP_rΦ) tr(ΘΦP_sΦ), A2 = Σ W_rs tr(ΘΦP_rΦΘΦP_sΦ), and the scale λ and denominator df m below;
  *   Satterthwaite uses Fai & Cornelius 1996 (Satterthwaite df per eigen-direction of LΦL', combined through
  *   E = Σ ν_k/(ν_k − 2)); residual uses F with (ℓ, N − p).
@@ -106,7 +106,7 @@ export function jointTest(ctx: InferenceContext, rows: readonly (readonly number
 }
 
 /**
- * Kenward–Roger scale λ and denominator df m for ℓ rows (Kenward & Roger 1997, §4):
+ * Kenward–Roger scale λ and denominator df m for ℓ rows (Kenward & Roger 1997):
  * B = (A1 + 6A2)/(2ℓ), g = ((ℓ+1)A1 − (ℓ+4)A2)/((ℓ+2)A2), c1 = g/(3ℓ+2(1−g)), c2 = (ℓ−g)/(3ℓ+2(1−g)),
  * c3 = (ℓ+2−g)/(3ℓ+2(1−g)), E = 1/(1 − A2/ℓ), V = (2/ℓ)(1 + c1B)/((1 − c2B)²(1 − c3B)), ρ = V/(2E²),
  * m = 4 + (ℓ+2)/(ℓρ − 1), λ = m/(E(m − 2)).

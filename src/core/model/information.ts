@@ -1,7 +1,7 @@
 /**
  * The pieces of Kenward–Roger and Satterthwaite inference for the random-intercept model, in the variance-components
  * parametrisation θ = (σ²_u, σ²): V = σ²_u ZZ' + σ² I is linear in θ, V_1 = blockdiag(J_i), V_2 = I
- * (Kenward & Roger 1997, Biometrics 53:983–997, §2). Every piece pools by cluster size with a_n = 1/(1 + nγ):
+ * (Kenward & Roger 1997, Biometrics 53:983–997). Every piece pools by cluster size with a_n = 1/(1 + nγ):
  *   P_1 = X'V⁻¹V_1V⁻¹X = σ⁻⁴ Σ a² S_n               P_2 = X'V⁻²X = σ⁻⁴ [X'X + Σ (a²−1)/n S_n]
  *   Q_11 = σ⁻⁶ Σ n a³ S_n    Q_12 = Q_21 = σ⁻⁶ Σ a³ S_n    Q_22 = X'V⁻³X = σ⁻⁶ [X'X + Σ (a³−1)/n S_n]
  *   T_rs = tr(V⁻¹V_rV⁻¹V_s): T_11 = σ⁻⁴ Σ m n² a², T_12 = σ⁻⁴ Σ m n a², T_22 = σ⁻⁴ Σ m (n − 1 + a²)
@@ -77,7 +77,7 @@ export function inverseInformation(info: Float64Array, atBoundary: boolean): Flo
 
 /**
  * Kenward–Roger adjusted covariance Φ_A = Φ + 2Λ, Λ = Φ [Σ_r Σ_s W_rs (Q_rs − P_r Φ P_s)] Φ (Kenward & Roger 1997,
- * eq. 4–5, with R_rs = 0 since V is linear in θ). Cost O(p³).
+ * with R_rs = 0 since V is linear in θ). Cost O(p³).
  */
 export function adjustedCovariance(phi: Float64Array, pieces: InformationPieces, W: Float64Array, p: number): Float64Array {
   const { P, Q11, Q12, Q22 } = pieces;

@@ -8,7 +8,7 @@ export interface RankCheck {
 
 /**
  * Checks X'X for linear dependence with a diagonally pivoted Cholesky factorisation of the scaled cross-product
- * matrix D^-1/2 X'X D^-1/2 (unit diagonal), Higham 2002, Accuracy and Stability of Numerical Algorithms, §10.3.
+ * matrix D^-1/2 X'X D^-1/2 (unit diagonal), Higham 2002, Accuracy and Stability of Numerical Algorithms (Cholesky with complete pivoting).
  * A remaining pivot below `tol` (default 1e-10, well above rounding in a unit-diagonal matrix yet far below any real
  * signal) marks a dependent column; the columns with non-negligible weight in the corresponding null vector are
  * returned. Cost O(p^3).

@@ -1,11 +1,11 @@
 /**
  * Intervals for the variance components and the intraclass correlation.
- * - σ²_u and σ²: Satterthwaite's scaled chi-square intervals (Satterthwaite 1946; Searle, Casella & McCulloch 1992,
- *   §5.5): ν_r = 2θ_r²/W_rr with W the inverse expected information, interval [ν θ/χ²(1−α/2; ν), ν θ/χ²(α/2; ν)].
+ * - σ²_u and σ²: Satterthwaite's scaled chi-square intervals (Satterthwaite 1946; Searle, Casella & McCulloch 1992):
+ *   ν_r = 2θ_r²/W_rr with W the inverse expected information, interval [ν θ/χ²(1−α/2; ν), ν θ/χ²(α/2; ν)].
  *   In balanced one-way data W_22 = 2σ⁴/(N − a) exactly, so the σ² interval is the exact chi-square interval
  *   SSW/χ²(·; N − a). At the boundary σ²_u = 0 the subject interval is [0, z √W_11] (normal z, original scale).
  * - ICC = σ²_u/(σ²_u + σ²): in a balanced one-way layout (intercept only, equal cluster sizes) the exact F-based
- *   interval (Searle 1971, Linear Models, §9.8): F = MSB/MSW, F_L = F / F(1−α/2; a−1, a(n−1)),
+ *   interval (Searle 1971, Linear Models): F = MSB/MSW, F_L = F / F(1−α/2; a−1, a(n−1)),
  *   F_U = F / F(α/2; a−1, a(n−1)), ICC_L = (F_L − 1)/(F_L + n − 1), ICC_U = (F_U − 1)/(F_U + n − 1), clipped to [0, 1].
  *   Otherwise a Wald interval on the logit scale (logit ICC = log σ²_u − log σ², delta method with W).
  * Cost O(1) (plus O(K) for the balanced check).

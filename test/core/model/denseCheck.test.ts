@@ -150,7 +150,7 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
   });
 
   it('analytic vs numerical information: the finite-difference REML Hessian equals I_rs − y\'PV_rPV_sPy (exact identity)', () => {
-    // For V linear in θ, −∂²ℓ_R/∂θ_r∂θ_s = y'PV_rPV_sPy − ½ tr(PV_rPV_s) (Harville 1977, §6), so the numerical Hessian
+    // For V linear in θ, −∂²ℓ_R/∂θ_r∂θ_s = y'PV_rPV_sPy − ½ tr(PV_rPV_s) (Harville 1977), so the numerical Hessian
     // ties the analytic expected information I_rs = ½ tr(PV_rPV_s) to a quantity computed without it.
     const gamma = 0.7;
     const pt = profileAt(st, gamma, 'reml')!;

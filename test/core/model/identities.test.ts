@@ -15,7 +15,7 @@ function anova(groups: readonly (readonly number[])[]): { msb: number; msw: numb
   return { msb: ssb / (a - 1), msw: ssw / (a * (n - 1)), n };
 }
 
-describe('balanced one-way REML equals the ANOVA estimators (Searle, Casella & McCulloch 1992, §3.7 and §6.6)', () => {
+describe('balanced one-way REML equals the ANOVA estimators (Searle, Casella & McCulloch 1992)', () => {
   it('exact identity: σ²_u = (MSB − MSW)/n and σ² = MSW when MSB > MSW, otherwise the boundary σ²_u = 0', () => {
     const groupsArb = fc
       .record({ a: fc.integer({ min: 2, max: 8 }), n: fc.integer({ min: 2, max: 6 }) })

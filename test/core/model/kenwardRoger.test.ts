@@ -1,5 +1,5 @@
 /**
- * Kenward & Roger (1997, Biometrics 53:983–997, §5) show that their approximation reproduces the exact F tests of
+ * Kenward & Roger (1997, Biometrics 53:983–997) show that their approximation reproduces the exact F tests of
  * balanced designs. Checked here on invented balanced data: equal subjects per arm, identical visit times.
  */
 import { Matrix, inverse } from 'ml-matrix';

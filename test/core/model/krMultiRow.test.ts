@@ -1,6 +1,6 @@
 /**
  * The Kenward–Roger F approximation for several rows, checked on unbalanced three-arm data against the formulas of
- * Kenward & Roger (1997, Biometrics 53:983–997, §4) evaluated here with dense n x n matrices (ml-matrix).
+ * Kenward & Roger (1997, Biometrics 53:983–997) evaluated here with dense n x n matrices (ml-matrix).
  */
 import { Matrix, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';

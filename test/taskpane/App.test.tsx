@@ -226,7 +226,40 @@ describe('cancel', () => {
   });
 });
 
+describe('schedule step', () => {
+  it('a schedule with problems shows the host message and keeps the run closed', async () => {
+    const { actions, spies } = fakeActions();
+    spies.loadSchedule.mockResolvedValueOnce({
+      ok: false,
+      message: 'Schedule!B3: the target day must be a whole number.',
+    });
+    render(<App actions={actions} engine={engineWith().engine} />);
+    fireEvent.click(await screen.findByRole('button', { name: 'Use this schedule' }));
+    expect(await screen.findByText('Schedule!B3: the target day must be a whole number.')).toBeTruthy();
+    expect(screen.getByText('Choose a visit schedule (step 2).')).toBeTruthy();
+  });
+
+  it('the starter schedule is written by the host and then read back under the name it returns', async () => {
+    const { actions, spies } = fakeActions();
+    render(<App actions={actions} engine={engineWith().engine} />);
+    fireEvent.click(screen.getByRole('button', { name: 'Write a starter schedule sheet' }));
+    await screen.findByRole('region', { name: 'Visit schedule' });
+    expect(spies.loadSchedule).toHaveBeenCalledWith('Schedule (2)', undefined);
+  });
+});
+
 describe('run step', () => {
+  it('a confidence level outside 50–100% blocks the run and says which setting to fix', async () => {
+    const { actions } = fakeActions();
+    render(<App actions={actions} engine={engineWith().engine} />);
+    await loadAndConfirm();
+    fireEvent.change(screen.getByLabelText(/Confidence level/), { target: { value: '100' } });
+    expect(await screen.findByText('The confidence level must lie between 50% and 100% (step 3).')).toBeTruthy();
+    expect(screen.getByRole('button', { name: 'Run the analysis' })).toHaveProperty('disabled', true);
+    fireEvent.change(screen.getByLabelText(/Confidence level/), { target: { value: '90' } });
+    expect(screen.getByRole('button', { name: 'Run the analysis' })).toHaveProperty('disabled', false);
+  });
+
   it('the run button stays disabled and says why until data, columns and schedule are in place', () => {
     const { actions } = fakeActions();
     render(<App actions={actions} engine={engineWith().engine} />);

@@ -56,7 +56,6 @@ export function buildDesign(data: ModelData, interceptOnly: boolean): Design {
     armTimeCol = terms.length;
     for (let a = 1; a < nArms; a++) terms.push({ name: `Time × arm ${data.arms[a]!}`, kind: 'armTime', arm: data.arms[a]! });
   }
-  const covCol = terms.length;
   const numeric: { col: number; values: Float64Array }[] = [];
   const categorical: { col: number; nLevels: number; level: Int32Array }[] = [];
   for (const cov of data.covariates) {
@@ -82,12 +81,19 @@ export function buildDesign(data: ModelData, interceptOnly: boolean): Design {
   }
   const p = terms.length;
   const time = data.time;
-  const nCovCols = p - covCol;
+  const numCols = Int32Array.from(numeric, (c) => c.col);
+  const numVals = numeric.map((c) => c.values);
+  const catCols = Int32Array.from(categorical, (c) => c.col);
+  const catLevels = Int32Array.from(categorical, (c) => c.nLevels);
+  const catIndex = categorical.map((c) => c.level);
+  const nNum = numCols.length;
+  const nCat = catCols.length;
+  const armed = armCol >= 0;
   const fillRow = (r: number, x: Float64Array): void => {
     x[0] = 1;
     const t = time[r]!;
     x[timeCol] = t;
-    if (armCol >= 0) {
+    if (armed) {
       for (let a = 1; a < nArms; a++) {
         x[armCol + a - 1] = 0;
         x[armTimeCol + a - 1] = 0;
@@ -98,13 +104,13 @@ export function buildDesign(data: ModelData, interceptOnly: boolean): Design {
         x[armTimeCol + a - 1] = t;
       }
     }
-    if (nCovCols > 0) {
-      for (const c of numeric) x[c.col] = c.values[r]!;
-      for (const c of categorical) {
-        for (let li = 1; li < c.nLevels; li++) x[c.col + li - 1] = 0;
-        const li = c.level[r]!;
-        if (li > 0) x[c.col + li - 1] = 1;
-      }
+    for (let k = 0; k < nNum; k++) x[numCols[k]!] = numVals[k]![r]!;
+    for (let k = 0; k < nCat; k++) {
+      const c0 = catCols[k]!;
+      const nl = catLevels[k]!;
+      for (let li = 1; li < nl; li++) x[c0 + li - 1] = 0;
+      const li = catIndex[k]![r]!;
+      if (li > 0) x[c0 + li - 1] = 1;
     }
   };
   return { p, terms, nArms, timeCol, armCol, armTimeCol, fillRow };

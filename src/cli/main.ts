@@ -1,7 +1,7 @@
 /** The command line: `longipane analyze …` reads files, runs the same pipeline as the add-in and writes .xlsx/JSON. */
-import { detectMapping } from '../core/intake';
+import { detectMapping, IntakeUsageError } from '../core/intake';
 import type { Issue } from '../core/intake/types';
-import { runAnalysis } from '../core/pipeline';
+import { PipelineUsageError, runAnalysis } from '../core/pipeline';
 import type { AnalysisSettings } from '../core/pipeline/types';
 import { UNBLINDED_CAUTION } from '../core/report/cautions';
 import { STATUS_WORDS } from '../core/schedule/types';
@@ -150,7 +150,7 @@ export async function main(argv: readonly string[], io: CliOutput = processConso
       io.err('Run `longipane help` for the options.');
       return 2;
     }
-    if (e instanceof FileFormatError) {
+    if (e instanceof FileFormatError || e instanceof IntakeUsageError || e instanceof PipelineUsageError) {
       io.err(`longipane: ${e.message}`);
       return 2;
     }

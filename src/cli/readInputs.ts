@@ -1,5 +1,6 @@
 import { readFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
+import { MAX_COLUMN_INDEX, MAX_ROW } from '../core/intake';
 import type { CellValue, DateSystem } from '../core/intake/types';
 import { parseSchedule } from '../core/schedule';
 import type { ScheduleVisit } from '../core/schedule/types';
@@ -45,6 +46,12 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
   if (ext === '.csv' || ext === '.txt') {
     if (sheet !== undefined) throw new UsageError('--sheet applies to .xlsx files only.');
     const cells = readCsvText(new TextDecoder('utf-8').decode(bytes));
+    // Every problem and result refers to a worksheet cell, so the file must fit on one worksheet.
+    if (cells.length > MAX_ROW || (cells[0]?.length ?? 0) > MAX_COLUMN_INDEX + 1) {
+      throw new UsageError(
+        `"${path}" has ${cells.length.toLocaleString('en-US')} lines and ${cells[0]?.length ?? 0} columns; a worksheet holds at most ${MAX_ROW.toLocaleString('en-US')} rows (header included) and ${MAX_COLUMN_INDEX + 1} columns. Split the file, e.g. by site.`,
+      );
+    }
     const name = basename(path, extname(path));
     return { label: `${basename(path)} (${rangeOf('A1', cells)})`, sheet: name, topLeft: 'A1', dateSystem: 1900, cells, numericText: 'accept' };
   }

@@ -325,6 +325,17 @@ describe('longipane analyze when something is wrong', () => {
     }
   });
 
+  it('exits with 2 and says to split the file when a CSV has more rows than a worksheet holds (1,048,576, header included)', async () => {
+    const d = join(dir, 'huge');
+    await mkdir(d, { recursive: true });
+    // 1,048,576 is Excel's row limit (ECMA-376 Part 1 leaves it to the application; common practice).
+    await writeFile(join(d, 'huge.csv'), `USUBJID\n${'x\n'.repeat(1_048_576)}`);
+    await writeFile(join(d, 'schedule.csv'), SCHEDULE);
+    const r = await run('analyze', '--data', join(d, 'huge.csv'), '--schedule', join(d, 'schedule.csv'));
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/has 1,048,577 lines and 1 columns; a worksheet holds at most 1,048,576 rows .* Split the file/);
+  });
+
   it('prints the help text for `help` and exits with 0', async () => {
     const r = await run('help');
     expect(r.code).toBe(0);

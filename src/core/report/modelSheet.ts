@@ -128,18 +128,27 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   blocks.push({
     kind: 'table',
     id: 'FitStatistics',
-    caption: 'Fit statistics',
-    columns: [col('Item', 'text', 30), col('Value', 'decimal4'), col('Note', 'text', 60)],
+    caption: 'Fit statistics and convergence verdict',
+    columns: [col('Item', 'text', 24), col('Value', 'decimal3'), col('Note', 'text', 60)],
     rows: [
       ['Estimation', null, fit.method === 'reml' ? 'Restricted maximum likelihood (REML)' : 'Maximum likelihood'],
       ['Degrees of freedom', null, fit.dfMethod === 'kenward-roger' ? 'Kenward–Roger, with its adjusted covariance' : fit.dfMethod === 'satterthwaite' ? 'Satterthwaite' : 'Residual (measurements − fixed effects)'],
-      ['Patients', fit.nSubjects, ''],
-      ['Measurements', fit.nObservations, ''],
       ['Log-likelihood', cell(fit.logLik), fit.method === 'reml' ? 'restricted log-likelihood, constants included' : 'constants included'],
       ['AIC', cell(fit.aic), `−2 × log-likelihood + 2k, k = ${fit.nParameters} (fixed effects + 2 variances)`],
       ['BIC', cell(fit.bic), `−2 × log-likelihood + k × log(N), N = ${fit.bicN}${fit.method === 'reml' ? ' (measurements − fixed effects)' : ' (measurements)'}`],
-      ['Likelihood evaluations', fit.iterations, ''],
       ['Verdict', null, `${FIT_STATUS_WORDS[fit.status]}. ${fit.message}`],
+    ],
+  });
+  blocks.push({
+    kind: 'table',
+    id: 'FitCounts',
+    caption: 'Data used and work done',
+    columns: [col('Item', 'text', 24), col('Count', 'integer')],
+    rows: [
+      ['Patients', fit.nSubjects],
+      ['Measurements', fit.nObservations],
+      ['Fixed effects', fit.fixedEffects.length],
+      ['Likelihood evaluations', fit.iterations],
     ],
   });
 

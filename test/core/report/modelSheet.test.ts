@@ -62,7 +62,7 @@ describe('modelSheets', () => {
 
   it('has the fixed-effects, by-visit, slope, variance, fit-statistics, trajectory and observed tables with consistent shapes', () => {
     const ts = tables(modelSheets(fit, ctx('unblinded', false)));
-    expect(ts.map((t) => t.id)).toEqual(['FixedEffects', 'DifferenceByVisit', 'SlopeDifference', 'VarianceICC', 'FitStatistics', 'Trajectories', 'ObservedMeans']);
+    expect(ts.map((t) => t.id)).toEqual(['FixedEffects', 'DifferenceByVisit', 'SlopeDifference', 'VarianceICC', 'FitStatistics', 'FitCounts', 'Trajectories', 'ObservedMeans']);
     for (const t of ts) {
       expect(t.id).toMatch(/^[A-Za-z0-9]+$/);
       for (const r of t.rows) expect(r.length).toBe(t.columns.length);
@@ -98,7 +98,7 @@ describe('modelSheets', () => {
     expect(all).not.toContain('Placebo');
     const first = sheets[0]!.blocks[0]!;
     expect(first.kind === 'paragraph' ? first.text : '').toMatch(/intraclass correlation is 0\.\d+/);
-    expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'FitStatistics', 'Trajectories', 'ObservedMeans']);
+    expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'FitStatistics', 'FitCounts', 'Trajectories', 'ObservedMeans']);
   });
 
   it('number phrasing: 1 decimal from 100, 2 from 1, 3 significant below; p below 0.0001 as "< 0.0001"', () => {

@@ -4,7 +4,15 @@
  */
 import type { ReactNode } from 'react';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
-import { FluentProvider, Text, makeStyles, tokens, webLightTheme } from '@fluentui/react-components';
+import {
+  FluentProvider,
+  MessageBar,
+  MessageBarBody,
+  Text,
+  makeStyles,
+  tokens,
+  webLightTheme,
+} from '@fluentui/react-components';
 import type { ColumnMapping, DetectedMapping } from '../core/intake/types';
 import type { Stage } from '../core/pipeline/types';
 import type { DataSource, PaneActions, SavedSettings, ScheduleLoad, ScheduleSource } from './actions';
@@ -70,6 +78,8 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
   const [stage, setStage] = useState<Stage | null>(null);
   const [cancelling, setCancelling] = useState(false);
   const [outcome, setOutcome] = useState<RunOutcome | null>(null);
+  /** What the shown results were computed from, to say when the choices have changed since. */
+  const [ranWith, setRanWith] = useState<string | null>(null);
   const controller = useRef<AbortController | null>(null);
 
   const refreshSources = useCallback(async (): Promise<void> => {
@@ -174,6 +184,8 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
     blockers.push('Unblinded mode needs the treatment-arm column (step 1), or switch back to blinded.');
   }
 
+  const runKey = (): string => JSON.stringify([source?.label, mapping, scheduleName, scheduleResult, settings]);
+
   const onRun = async (): Promise<void> => {
     if (!source || !mapping || !scheduleResult?.ok || blockers.length > 0) return;
     const ctl = new AbortController();
@@ -186,6 +198,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
       setStage(s);
       setStatus(`${STAGE_WORDS[s]}…`);
     };
+    const ranKey = runKey();
     const effective: PaneSettings =
       settings.mode === 'unblinded' && !arms.includes(settings.referenceArm)
         ? { ...settings, referenceArm: arms[0] ?? '' }
@@ -215,6 +228,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
           issues: output.issues,
         });
         setStatus(`Finished: ${written.length} result sheets written.`);
+        setRanWith(ranKey);
         actions.save(toSaved(effective, mapping, scheduleName)).catch((e: unknown) => {
           setStatus(`Finished, but the settings could not be remembered: ${messageOf(e)}`);
         });
@@ -312,6 +326,13 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
           state={outcome === null ? 'locked' : 'open'}
           lockedText="Results appear here after a run."
         >
+          {outcome?.kind === 'done' && ranWith !== null && ranWith !== runKey() && (
+            <MessageBar intent="warning">
+              <MessageBarBody>
+                The choices above have changed since this run. Run again to update the results.
+              </MessageBarBody>
+            </MessageBar>
+          )}
           {outcome && (
             <ResultsStep
               outcome={outcome}

@@ -108,6 +108,17 @@ describe('mode', () => {
     expect(calls[0]?.referenceArm).toBe('Placebo');
   });
 
+  it('results say so when the choices change after the run', async () => {
+    const { actions } = fakeActions();
+    render(<App actions={actions} engine={engineWith().engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await screen.findByText(/Sheets written/);
+    expect(screen.queryByText(/have changed since this run/)).toBeNull();
+    fireEvent.change(select(/Time unit/), { target: { value: 'week' } });
+    expect(screen.getByText(/have changed since this run/)).toBeTruthy();
+  });
+
   it('a blinded run reads no arm column even though one was detected', async () => {
     const { actions } = fakeActions();
     const { engine, calls } = engineWith();

@@ -65,6 +65,46 @@ describe('layoutSheet', () => {
     expect(layout.tables[0]?.rowCount).toBe(2);
   });
 
+  it('charts intervals as dashed series beside their estimate and lines up series on the union of x values', () => {
+    const layout = layoutSheet(
+      {
+        name: 'S',
+        title: 'T',
+        blocks: [
+          {
+            kind: 'chart',
+            chart: {
+              kind: 'scatter',
+              id: 'C',
+              title: 't',
+              xLabel: 'Month',
+              yLabel: 'eGFR',
+              series: [
+                { name: 'A', x: [0, 3], y: [1, 2], lower: [0.5, 1.5], upper: [1.5, 2.5], style: 'line' },
+                { name: 'B', x: [3, 6], y: [4, 5] },
+              ],
+            },
+          },
+        ],
+      },
+      1900,
+    );
+    const chart = layout.charts[0];
+    expect(chart?.type).toBe('XYScatterLines');
+    expect(chart?.series.map((s) => [s.name, s.column, s.dashed, s.markersOnly])).toEqual([
+      ['A', 1, false, false],
+      ['A lower', 2, true, false],
+      ['A upper', 3, true, false],
+      ['B', 4, false, true],
+    ]);
+    const body = layout.patches.find((p) => p.row === 4)?.values;
+    expect(body).toEqual([
+      [0, 1, 0.5, 1.5, ''],
+      [3, 2, 1.5, 2.5, 4],
+      [6, '', '', '', 5],
+    ]);
+  });
+
   it('does not mutate the spec it lays out', () => {
     const spec = { name: 'S', title: 'T', blocks: [{ kind: 'table' as const, id: 'X', caption: 'c', columns: [{ header: 'h', format: 'date' as const }], rows: [[45000]] }] };
     const copy = structuredClone(spec);

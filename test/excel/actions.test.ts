@@ -34,6 +34,22 @@ describe('createExcelActions', () => {
     expect(wb.ops.filter((o) => o.op === 'table').map((o) => ('address' in o ? o.address : ''))).toEqual([`A1:D${cells.length}`]);
   });
 
+  it('writeResults renders every sheet as a new sheet, shows the first and reports progress up to 1', async () => {
+    const wb = installFakeExcel(['Data', 'Model']);
+    const sheet = (name: string) => ({ name, title: `${name} title`, blocks: [{ kind: 'paragraph' as const, text: 'x' }] });
+    const output = { ok: true as const, issues: [], excluded: [], sheets: [sheet('Model'), sheet('Visit timing')], json: {} };
+    const progress: number[] = [];
+    const written = await createExcelActions().writeResults(output, (f) => progress.push(f));
+    expect(written).toEqual([
+      { name: 'Model (2)', title: 'Model title' },
+      { name: 'Visit timing', title: 'Visit timing title' },
+    ]);
+    expect(wb.sheets).toEqual(['Data', 'Model', 'Model (2)', 'Visit timing']);
+    expect(wb.ops.filter((o) => o.op === 'activate')).toEqual([{ op: 'activate', sheet: 'Model (2)' }]);
+    expect(progress.at(-1)).toBe(1);
+    expect([...progress].sort((a, b) => a - b)).toEqual(progress);
+  });
+
   it('selectCell activates the named sheet (quoted names included) and rejects an address without a sheet', async () => {
     const wb = installFakeExcel(["Bob's data"]);
     await createExcelActions().selectCell("'Bob''s data'!C17");

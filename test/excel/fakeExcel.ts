@@ -183,6 +183,8 @@ export function installFakeExcel(existingSheets: string[], existingTables: strin
             },
             load() {},
           },
+          // DATE(1904,1,1) as a 1900-system workbook answers it.
+          functions: { date: () => ({ value: 1462, load() {} }) },
         },
         sync: async () => {
           ops.push({ op: 'sync' });

@@ -287,6 +287,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
               setMapping(m);
               setConfirmed(false);
             }}
+            onEdit={() => setConfirmed(false)}
             onConfirm={() => {
               if (mapping && mappingGaps(mapping).length === 0) {
                 setConfirmed(true);

@@ -4,6 +4,7 @@ import { Button, MessageBar, MessageBarBody, ProgressBar, Text, makeStyles, toke
 import type { ColumnMapping, DetectedMapping } from '../core/intake/types';
 import type { DataSource } from './actions';
 import { MappingEditor } from './MappingEditor';
+import { MappingSummary } from './MappingSummary';
 import { PreviewTable } from './PreviewTable';
 import { SourcePicker, type SourceKind } from './SourcePicker';
 
@@ -30,6 +31,8 @@ export interface DataStepProps {
   readonly onPick: (kind: SourceKind, file?: File) => void;
   readonly onMappingChange: (mapping: ColumnMapping) => void;
   readonly onConfirm: () => void;
+  /** Reopens the confirmed columns for editing. */
+  readonly onEdit: () => void;
 }
 
 /** What must be mapped before the columns can be confirmed; empty when ready. */
@@ -62,10 +65,20 @@ export function DataStep(props: DataStepProps): ReactNode {
         </MessageBar>
       )}
       {source && (
+        <Text>
+          Read <strong>{source.label}</strong>: {rows.toLocaleString('en-US')} rows, {props.headers.length} columns.
+        </Text>
+      )}
+      {source && mapping && props.confirmed && (
         <>
-          <Text>
-            Read <strong>{source.label}</strong>: {rows.toLocaleString('en-US')} rows, {props.headers.length} columns.
-          </Text>
+          <MappingSummary headers={props.headers} mapping={mapping} blinded={props.blinded} />
+          <div>
+            <Button onClick={props.onEdit}>Change columns</Button>
+          </div>
+        </>
+      )}
+      {source && !props.confirmed && (
+        <>
           <PreviewTable
             headers={props.headers}
             cells={source.cells}
@@ -76,7 +89,7 @@ export function DataStep(props: DataStepProps): ReactNode {
           )}
         </>
       )}
-      {source && mapping && (
+      {source && mapping && !props.confirmed && (
         <>
           <h3 className={styles.subhead}>Which column is which?</h3>
           <MappingEditor
@@ -99,13 +112,9 @@ export function DataStep(props: DataStepProps): ReactNode {
               <MessageBarBody>{g}</MessageBarBody>
             </MessageBar>
           ))}
-          {props.confirmed ? (
-            <Text weight="semibold">Columns confirmed. Changing a column above asks you to confirm again.</Text>
-          ) : (
-            <Button appearance="primary" disabled={gaps.length > 0} onClick={props.onConfirm}>
-              Confirm columns
-            </Button>
-          )}
+          <Button appearance="primary" disabled={gaps.length > 0} onClick={props.onConfirm}>
+            Confirm columns
+          </Button>
         </>
       )}
     </div>

@@ -59,12 +59,16 @@ describe('data step', () => {
     expect(screen.getByText(/Column "USUBJID"/)).toBeTruthy();
   });
 
-  it('changing a dropdown asks for confirmation again, and the confirmed mapping is what the run uses', async () => {
+  it('confirmed columns fold into a summary; changing one asks for confirmation again, and the run uses them', async () => {
     const { actions } = fakeActions();
     const { engine, calls } = engineWith();
     render(<App actions={actions} engine={engine} />);
     await loadAndConfirm();
     expect(screen.queryByRole('button', { name: 'Confirm columns' })).toBeNull();
+    const summary = screen.getByLabelText('Confirmed columns');
+    expect(within(summary).getByText('USUBJID')).toBeTruthy();
+    expect(within(summary).queryByText('TRT01P')).toBeNull(); // blinded: the arm column is not listed
+    fireEvent.click(screen.getByRole('button', { name: 'Change columns' }));
     fireEvent.change(select(/^Site$/), { target: { value: '' } });
     expect(screen.getByRole('button', { name: 'Confirm columns' })).toBeTruthy();
     fireEvent.click(screen.getByRole('button', { name: 'Confirm columns' }));

@@ -77,6 +77,8 @@ interface SheetState {
   row: number;
   /** True when the row above `row` is blank (so a table or heading needs no extra spacing). */
   spaced: boolean;
+  /** Table ids on this sheet → the names their Excel tables got (unique in the workbook). */
+  readonly tableIds: Map<string, string>;
   readonly widths: number[];
 }
 
@@ -105,13 +107,15 @@ function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): num
     st.row += 1;
   }
   const headerRow = st.row;
+  const name = uniqueTableName(t.id, tableNames);
+  st.tableIds.set(t.id, name);
   const headers = uniqueHeaders(t.columns.map((c) => c.header));
   const width = t.columns.length;
   const rows = t.rows.map((r) => t.columns.map((c, j) => storedValue(r[j] ?? null, c.format)));
   // An Excel table needs at least one data row; an empty result gets one blank row.
   if (rows.length === 0) rows.push(new Array<null>(width).fill(null));
   st.ws.addTable({
-    name: uniqueTableName(t.id, tableNames),
+    name,
     ref: `A${headerRow}`,
     headerRow: true,
     totalsRow: false,
@@ -147,7 +151,7 @@ export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8
   const tableNames = new Set<string>();
   sheets.forEach((spec, k) => {
     const ws = wb.addWorksheet(names[k]!);
-    const st: SheetState = { ws, row: 3, spaced: true, widths: [] };
+    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [] };
     ws.getCell(1, 1).value = spec.title;
     ws.getCell(1, 1).font = TITLE_FONT;
     const tables = spec.blocks.filter((b) => b.kind === 'table').length;
@@ -163,7 +167,7 @@ export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8
       } else {
         writeParagraph(st, b.chart.title, HEADING_FONT, true);
         if (b.chart.sourceTable !== undefined) {
-          writeParagraph(st, CHART_NOTE_SOURCE(b.chart.sourceTable), null);
+          writeParagraph(st, CHART_NOTE_SOURCE(st.tableIds.get(b.chart.sourceTable) ?? b.chart.sourceTable), null);
         } else {
           writeParagraph(st, CHART_NOTE, null);
           writeTable(st, chartTable(b.chart), tableNames);

@@ -136,6 +136,16 @@ describe('writeWorkbook', () => {
     expect(row(top + 3)).toEqual([169, null, null, null, null]);
   });
 
+  it('points a chart drawn from a table to that table by the name its Excel table got', async () => {
+    const table = listing.blocks[2]!;
+    const chart = { kind: 'chart' as const, chart: { kind: 'bar' as const, id: 'C', title: 'Days off', xLabel: 'Subject', yLabel: 'Days', series: [], sourceTable: 'Listing' } };
+    const wb = await load(await writeWorkbook([{ name: 'One', title: 'T', blocks: [table] }, { name: 'Two', title: 'T', blocks: [table, chart] }]));
+    const ws = wb.getWorksheet('Two')!;
+    const notes: unknown[] = [];
+    ws.eachRow((row) => notes.push(row.getCell(1).value));
+    expect(notes).toContain('The chart itself is drawn in the Excel add-in and on the browser page; its numbers are in the table "Listing_2" on this sheet.');
+  });
+
   it('gives an empty table one blank row so the file stays valid', async () => {
     const sheet: SheetSpec = {
       name: 'Empty',

@@ -5,7 +5,15 @@ import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { STARTER_SCHEDULE } from '../../src/core/schedule';
 import type { AnalysisOutput } from '../../src/core/pipeline/types';
-import { baseName, createWebActions, scheduleMessage, splitAddress, STARTER_NAME } from '../../src/web/webActions';
+import ExcelJS from 'exceljs';
+import {
+  baseName,
+  createWebActions,
+  readDataFile,
+  scheduleMessage,
+  splitAddress,
+  STARTER_NAME,
+} from '../../src/web/webActions';
 
 // jsdom's File has no text(); Node's File (the same Web File API) does, and is what the page's code gets in a browser.
 const csv = (name: string, text: string): File => new NodeFile([text], name, { type: 'text/csv' }) as unknown as File;
@@ -27,6 +35,28 @@ describe('reading files on the page', () => {
       numericText: 'accept',
     });
     expect(actions.store.get().source).toBe(source);
+  });
+
+  it('reads the first sheet of an .xlsx file from its first used cell, with numbers as numbers', async () => {
+    const wb = new ExcelJS.Workbook();
+    const ws = wb.addWorksheet('Visits');
+    ws.getCell('B3').value = 'USUBJID';
+    ws.getCell('C3').value = 'AVAL';
+    ws.getCell('B4').value = 'K-1';
+    ws.getCell('C4').value = 61.5;
+    const bytes = new Uint8Array(await wb.xlsx.writeBuffer());
+    const file = new NodeFile([bytes], 'visits.xlsx') as unknown as File;
+    expect(await readDataFile(file)).toEqual({
+      label: 'visits.xlsx (sheet Visits)',
+      sheet: 'Visits',
+      topLeft: 'B3',
+      dateSystem: 1900,
+      cells: [
+        ['USUBJID', 'AVAL'],
+        ['K-1', 61.5],
+      ],
+      numericText: 'reject',
+    });
   });
 
   it('refuses to load without a file, with a message that says what to do', async () => {

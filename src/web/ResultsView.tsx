@@ -50,6 +50,7 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
         <SourceRowView
           source={state.source}
           highlight={state.highlight}
+          shownHeaders={state.shownHeaders}
           onClose={() => store.update({ highlight: null })}
         />
       )}

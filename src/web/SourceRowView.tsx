@@ -7,11 +7,18 @@ import type { HighlightedCell } from './resultStore';
 export interface SourceRowViewProps {
   readonly source: DataSource;
   readonly highlight: HighlightedCell;
+  /** Only these columns (and the cell's own) are shown; null shows all. A blinded run passes the columns it read. */
+  readonly shownHeaders?: readonly string[] | null;
   readonly onClose: () => void;
 }
 
-export function SourceRowView({ source, highlight, onClose }: SourceRowViewProps): ReactNode {
+export function SourceRowView({ source, highlight, shownHeaders = null, onClose }: SourceRowViewProps): ReactNode {
   const header = source.cells[0] ?? [];
+  const columns = header
+    .map((h, c) => ({ h, c }))
+    .filter(
+      ({ h, c }) => shownHeaders === null || c === highlight.colIndex || shownHeaders.includes(cellText(h).trim()),
+    );
   const first = Math.max(1, highlight.rowIndex - 1);
   const last = Math.min(source.cells.length - 1, highlight.rowIndex + 1);
   const rows: number[] = [];
@@ -28,7 +35,7 @@ export function SourceRowView({ source, highlight, onClose }: SourceRowViewProps
           <thead>
             <tr>
               <th scope="col">Row</th>
-              {header.map((h, c) => (
+              {columns.map(({ h, c }) => (
                 <th key={c} scope="col" className={c === highlight.colIndex ? 'hit' : undefined}>
                   {cellText(h)}
                 </th>
@@ -39,7 +46,7 @@ export function SourceRowView({ source, highlight, onClose }: SourceRowViewProps
             {rows.map((r) => (
               <tr key={r} className={r === highlight.rowIndex ? 'hit-row' : undefined}>
                 <th scope="row">{sheetRow(r)}</th>
-                {header.map((_, c) => (
+                {columns.map(({ c }) => (
                   <td key={c} className={r === highlight.rowIndex && c === highlight.colIndex ? 'hit' : undefined}>
                     {cellText(source.cells[r]?.[c])}
                   </td>
@@ -49,6 +56,9 @@ export function SourceRowView({ source, highlight, onClose }: SourceRowViewProps
           </tbody>
         </table>
       </div>
+      {columns.length < header.length && (
+        <p className="table-note">Only the columns this blinded run read are shown.</p>
+      )}
       <button type="button" className="plain-button" onClick={onClose}>
         Close
       </button>

@@ -18,11 +18,13 @@ export interface PageState {
   readonly highlight: HighlightedCell | null;
   /** A message about a cell address the page could not show, or null. */
   readonly notice: string | null;
+  /** The headers the last run read (a blinded run reads no arm column, so the page shows none); null shows all. */
+  readonly shownHeaders: readonly string[] | null;
 }
 
 /** A tiny observable holder, read by React through useSyncExternalStore. */
 export class ResultStore {
-  private state: PageState = { sheets: [], source: null, highlight: null, notice: null };
+  private state: PageState = { sheets: [], source: null, highlight: null, notice: null, shownHeaders: null };
   private readonly listeners = new Set<() => void>();
 
   readonly subscribe = (listener: () => void): (() => void) => {
@@ -36,6 +38,22 @@ export class ResultStore {
     this.state = { ...this.state, ...patch };
     for (const l of this.listeners) l();
   }
+}
+
+/**
+ * The headers a run read, from its results JSON (settings.mapping: role → header, covariates → headers), when the
+ * run was blinded; null otherwise (an unblinded run may show every column). Example: a blinded run with mapping
+ * { subject: 'USUBJID', value: 'AVAL', covariates: [] } gives ['USUBJID', 'AVAL'].
+ */
+export function blindedHeaders(json: Record<string, unknown>): string[] | null {
+  const settings = json.settings as { mode?: unknown; mapping?: Record<string, unknown> } | undefined;
+  if (settings?.mode !== 'blinded') return null;
+  const out: string[] = [];
+  for (const value of Object.values(settings.mapping ?? {})) {
+    if (typeof value === 'string') out.push(value);
+    else if (Array.isArray(value)) out.push(...value.filter((v): v is string => typeof v === 'string'));
+  }
+  return out;
 }
 
 /** The DOM id of a sheet's section on the page (letters, digits and "-" only). */

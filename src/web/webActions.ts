@@ -8,7 +8,7 @@ import { STARTER_SCHEDULE, parseCell, parseSchedule, starterScheduleCells } from
 import { readCsvText, readXlsxBuffer, uniqueSheetNames } from '../files';
 import type { DataSource, PaneActions, SavedSettings, ScheduleLoad, WrittenSheet } from '../taskpane/actions';
 import { downloadBlob } from './download';
-import { ResultStore, sheetDomId } from './resultStore';
+import { ResultStore, blindedHeaders, sheetDomId } from './resultStore';
 
 export const STARTER_NAME = 'Starter schedule';
 
@@ -97,7 +97,7 @@ export function createWebActions(store: ResultStore = new ResultStore()): WebAct
       onProgress?.(0.1);
       const source = await readDataFile(file);
       onProgress?.(1);
-      store.update({ source, highlight: null, notice: null });
+      store.update({ source, highlight: null, notice: null, shownHeaders: null });
       return source;
     },
 
@@ -129,7 +129,7 @@ export function createWebActions(store: ResultStore = new ResultStore()): WebAct
     async writeResults(output, onProgress) {
       const names = uniqueSheetNames(output.sheets.map((s) => s.name));
       const sheets = output.sheets.map((spec, i) => ({ name: names[i] ?? spec.name, spec }));
-      store.update({ sheets, highlight: null, notice: null });
+      store.update({ sheets, highlight: null, notice: null, shownHeaders: blindedHeaders(output.json) });
       onProgress?.(1);
       return sheets.map((s): WrittenSheet => ({ name: s.name, title: s.spec.title }));
     },

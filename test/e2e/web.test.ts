@@ -133,9 +133,15 @@ describe('the browser page with the invented demo trial', () => {
     const difference = results().locator('table[data-table-id="DifferenceByVisit"] tbody tr', { hasText: 'Week 48' });
     await expect(difference.count()).resolves.toBe(1);
     expect(await difference.innerText()).toContain('Active');
-    await expect(results().getByText(/Placebo/).count()).resolves.toBeGreaterThan(0);
+    await expect(
+      results()
+        .getByText(/Placebo/)
+        .count(),
+    ).resolves.toBeGreaterThan(0);
     // The pane's short headline states that difference too.
-    await pane().getByText(/^At Week 48, Active differed from Placebo by /).waitFor();
+    await pane()
+      .getByText(/^At Week 48, Active differed from Placebo by /)
+      .waitFor();
     await page.screenshot({ path: join(ARTIFACTS, 'page-unblinded.png'), fullPage: false });
     await results().locator('table[data-table-id="FixedEffects"]').scrollIntoViewIfNeeded();
     await page.screenshot({ path: join(ARTIFACTS, 'page-unblinded-model.png'), fullPage: false });
@@ -169,13 +175,24 @@ describe('the browser page with the invented demo trial', () => {
     await run();
     await expect(results().locator('table[data-table-id="ByVisit"] tr').count()).resolves.toBe(1 + 5);
     await expect(results().locator('table[data-table-id="DifferenceByVisit"]').count()).resolves.toBe(0);
-    await pane().getByText(/^Intraclass correlation /).waitFor();
+    await pane()
+      .getByText(/^Intraclass correlation /)
+      .waitFor();
+    // Going to a problem's cell shows its data row, but only the columns a blinded run read.
+    const link = pane()
+      .getByRole('button', { name: /^Go to cell / })
+      .first();
+    const address = ((await link.getAttribute('aria-label')) ?? '').replace('Go to cell ', '');
+    await link.click();
+    await results().getByText(`Cell ${address} in egfr-visits.csv`).waitFor();
     const text = await results().innerText();
     for (const arm of ['Placebo', 'Active', 'TRT01P']) expect(text).not.toContain(arm);
     await page.screenshot({ path: join(ARTIFACTS, 'page-blinded.png'), fullPage: false });
     // The pane scrolls inside the page: picture it from the Run step down (what the user sees after a run), and
     // separately at the height of its whole content.
-    await pane().locator('#step-run').evaluate((el) => el.scrollIntoView({ block: 'start' }));
+    await pane()
+      .locator('#step-run')
+      .evaluate((el) => el.scrollIntoView({ block: 'start' }));
     await pane().screenshot({ path: join(ARTIFACTS, 'pane-after-demo-run.png') });
     const height = await pane().evaluate((el) => el.scrollHeight);
     await page.setViewportSize({ width: 1280, height: Math.min(8000, height) });

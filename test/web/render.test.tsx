@@ -5,7 +5,8 @@ import type { ChartSpec, TableBlock } from '../../src/core/report/types';
 import { ChartView, colourGroup } from '../../src/web/ChartView';
 import { yAxisOf } from '../../src/web/SheetView';
 import { ResultsView } from '../../src/web/ResultsView';
-import { ResultStore } from '../../src/web/resultStore';
+import { blindedHeaders, ResultStore } from '../../src/web/resultStore';
+import { SourceRowView } from '../../src/web/SourceRowView';
 import { TableView } from '../../src/web/TableView';
 
 afterEach(cleanup);
@@ -182,5 +183,40 @@ describe('ResultsView', () => {
     expect(marked?.parentElement?.querySelector('th')?.textContent).toBe('3');
     fireEvent.click(screen.getByRole('button', { name: 'Close' }));
     expect(screen.queryByText('Cell visits!B3 in visits.csv')).toBeNull();
+  });
+});
+
+describe('go to cell after a blinded run', () => {
+  const source = {
+    label: 'visits.csv',
+    sheet: 'visits',
+    topLeft: 'A1',
+    dateSystem: 1900 as const,
+    cells: [
+      ['USUBJID', 'TRT01P', 'AVAL'],
+      ['K-1', 'Active', 'pending'],
+    ],
+  };
+
+  it('blindedHeaders lists the columns a blinded run read, and nothing limits an unblinded run', () => {
+    const mapping = { subject: 'USUBJID', value: 'AVAL', covariates: ['BASE'] };
+    expect(blindedHeaders({ settings: { mode: 'blinded', mapping } })).toEqual(['USUBJID', 'AVAL', 'BASE']);
+    expect(blindedHeaders({ settings: { mode: 'unblinded', mapping } })).toBeNull();
+    expect(blindedHeaders({})).toBeNull();
+  });
+
+  it('shows only the columns the run read, so no arm appears beside a blinded result', () => {
+    render(
+      <SourceRowView
+        source={source}
+        highlight={{ address: 'visits!C2', rowIndex: 1, colIndex: 2 }}
+        shownHeaders={['USUBJID', 'AVAL']}
+        onClose={() => undefined}
+      />,
+    );
+    expect(screen.getByText('pending')).toBeTruthy();
+    expect(screen.queryByText('Active')).toBeNull();
+    expect(screen.queryByText('TRT01P')).toBeNull();
+    expect(screen.getByText(/Only the columns this blinded run read are shown/)).toBeTruthy();
   });
 });

@@ -20,6 +20,7 @@ const useStyles = makeStyles({
   col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
   row: { display: 'flex', gap: tokens.spacingHorizontalS, alignItems: 'end', flexWrap: 'wrap' },
   grow: { flexGrow: 1, minWidth: '140px' },
+  hint: { margin: 0, color: tokens.colorNeutralForeground2 },
   file: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalXS },
 });
 
@@ -82,8 +83,13 @@ export function ScheduleStep(props: ScheduleStepProps): ReactNode {
       )}
       <div>
         <Button appearance="subtle" disabled={props.busy} onClick={props.onStarter}>
-          {props.allowFile ? 'Use a starter schedule to edit' : 'Write a starter schedule sheet'}
+          {props.allowFile ? 'Use the starter schedule' : 'Write a starter schedule sheet'}
         </Button>
+        <Text as="p" size={200} className={styles.hint}>
+          {props.allowFile
+            ? 'A starting point: it is also saved as a CSV file that you can edit and load above.'
+            : 'Adds a sheet with a starter schedule that you can edit, then choose it above.'}
+        </Text>
       </div>
       {props.busy && <Spinner size="tiny" label="Reading the schedule…" />}
       {props.result && !props.result.ok && (

@@ -52,17 +52,18 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
   const cutoffOk = settings.cutoff === '' || isIsoDate(settings.cutoff);
   return (
     <div className={styles.col}>
-      <RadioGroup
-        aria-label="Who may see the results"
-        value={settings.mode}
-        onChange={(_, data) => {
-          if (data.value === 'unblinded') setAsking(true);
-          else set({ mode: 'blinded' });
-        }}
-      >
-        <Radio value="blinded" label="Blinded: pooled results, no arms (default)" />
-        <Radio value="unblinded" label="Unblinded: results by treatment arm" />
-      </RadioGroup>
+      <Field label="Who may see the results">
+        <RadioGroup
+          value={settings.mode}
+          onChange={(_, data) => {
+            if (data.value === 'unblinded') setAsking(true);
+            else set({ mode: 'blinded' });
+          }}
+        >
+          <Radio value="blinded" label="Blinded: pooled results, no arms (default)" />
+          <Radio value="unblinded" label="Unblinded: results by treatment arm" />
+        </RadioGroup>
+      </Field>
       {settings.mode === 'unblinded' && (
         <Text className={styles.unblinded}>Unblinded mode is on. Results show treatment arms.</Text>
       )}

@@ -1,6 +1,8 @@
 import ExcelJS from 'exceljs';
+import JSZip from 'jszip';
 import type { CellValue, DateSystem } from '../core/intake/types';
 import { columnLetters } from './cellAddress';
+import { workbookDateSystem } from './dateSystem';
 import { FileFormatError } from './errors';
 
 /** A sheet read from an .xlsx file: its name, the address of its first used cell, its date system and its cells. */
@@ -51,7 +53,9 @@ function plainValue(v: ExcelJS.CellValue, system: DateSystem): CellValue {
  */
 export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: string): Promise<XlsxSheet> {
   const wb = new ExcelJS.Workbook();
+  let system: DateSystem;
   try {
+    system = await workbookDateSystem(await JSZip.loadAsync(buf));
     await wb.xlsx.load(buf as unknown as Parameters<typeof wb.xlsx.load>[0]);
   } catch (e) {
     throw new FileFormatError(`The file is not a readable .xlsx workbook (${e instanceof Error ? e.message : String(e)}).`);
@@ -62,7 +66,9 @@ export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: 
     const which = sheetName === undefined ? 'any worksheet' : `a sheet named "${sheetName}"`;
     throw new FileFormatError(`The workbook has no ${which}; its sheets are: ${sheetNames.join(', ') || '(none)'}.`);
   }
-  const system: DateSystem = wb.properties.date1904 ? 1904 : 1900;
+  // exceljs turned date cells into Dates by its own reading of the flag (it accepts only "1"); undoing that with the
+  // same reading gives back the cell's stored serial, which is a serial in the workbook's own system.
+  const exceljsSystem: DateSystem = wb.properties.date1904 ? 1904 : 1900;
   let minRow = Infinity;
   let maxRow = 0;
   let minCol = Infinity;
@@ -70,7 +76,7 @@ export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: 
   const found: { r: number; c: number; v: CellValue }[] = [];
   ws.eachRow({ includeEmpty: false }, (row, r) => {
     row.eachCell({ includeEmpty: false }, (cell, c) => {
-      const v = plainValue(cell.value, system);
+      const v = plainValue(cell.value, exceljsSystem);
       if (v === null || v === '') return;
       found.push({ r, c, v });
       minRow = Math.min(minRow, r);

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
+import JSZip from 'jszip';
 import { readXlsxBuffer } from '../../src/files/readXlsx';
 import { FileFormatError } from '../../src/files/errors';
 
@@ -57,6 +58,33 @@ describe('readXlsxBuffer', () => {
     expect(read.dateSystem).toBe(1904);
     // Exact identity (ECMA-376 Part 1, §18.17.4.1): 1904 serial = 1900 serial − 1462.
     expect(read.cells[1]).toEqual([serial1900(2025, 1, 6) - 1462]);
+  });
+
+  /** Rewrites the date1904 attribute of xl/workbook.xml, as another program might spell it. */
+  async function respellDate1904(buf: Uint8Array, spelling: string): Promise<Uint8Array> {
+    const zip = await JSZip.loadAsync(buf);
+    const xml = await zip.file('xl/workbook.xml')!.async('string');
+    expect(xml).toMatch(/date1904="1"/); // the writer did put a flag there to respell
+    const changed = xml.replace(/date1904="1"/, `date1904="${spelling}"`);
+    zip.file('xl/workbook.xml', changed);
+    return zip.generateAsync({ type: 'uint8array' });
+  }
+
+  it('recognises every legal xsd:boolean spelling of the 1904 flag, not only "1" (regression: "true" read as 1900)', async () => {
+    const built = await workbook((wb) => {
+      wb.properties.date1904 = true;
+      const ws = wb.addWorksheet('S');
+      ws.addRow(['date', 'plain']);
+      ws.addRow([new Date(Date.UTC(2025, 0, 6)), 7]);
+    });
+    // W3C XML Schema Part 2, boolean: the lexical forms are true, false, 1 and 0 (from memory); ECMA-376 Part 1
+    // types workbookPr@date1904 as xsd:boolean. The stored serial must come back unchanged in every case.
+    const stored = serial1900(2025, 1, 6) - 1462; // exact identity (ECMA-376 Part 1, §18.17.4.1): 1904 = 1900 − 1462
+    for (const [spelling, system] of [['true', 1904], [' true ', 1904], ['1', 1904], ['false', 1900], ['0', 1900]] as const) {
+      const read = await readXlsxBuffer(await respellDate1904(built, spelling));
+      expect(read.dateSystem, spelling).toBe(system);
+      expect(read.cells[1], spelling).toEqual([stored, 7]);
+    }
   });
 
   it('picks a sheet by name and lists the sheets when the name does not exist', async () => {

@@ -96,7 +96,12 @@ export function estimateRatio(st: SufficientStats, method: FitMethod): RatioEsti
   if (!opt.converged) {
     return { status: 'failed', message: 'The optimiser did not converge within its iteration limit.', iterations: evals, point: pt };
   }
-  return { status: 'converged', message: 'Converged.', iterations: evals, point: pt };
+  return {
+    status: 'converged',
+    message: 'The likelihood has its maximum inside the allowed range: both the between- and the within-patient variance are positive.',
+    iterations: evals,
+    point: pt,
+  };
 }
 
 function argMin(v: readonly number[]): number {

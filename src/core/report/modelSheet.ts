@@ -7,7 +7,7 @@
 import type { Mode } from '../intake/types';
 import type { ContrastResult, ModelFit } from '../model/types';
 import { CAUTIONS, UNBLINDED_CAUTION } from './cautions';
-import { FIT_STATUS_WORDS, modelSummaryText } from './modelText';
+import { fitVerdict, modelSummaryText } from './modelText';
 import type { Block, ChartSeries, NumberFormat, SheetCell, SheetSpec, TableColumn } from './types';
 
 export interface ObservedVisitMean {
@@ -136,7 +136,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
       ['Log-likelihood', cell(fit.logLik), fit.method === 'reml' ? 'restricted log-likelihood, constants included' : 'constants included'],
       ['AIC', cell(fit.aic), `−2 × log-likelihood + 2k, k = ${fit.nParameters} (fixed effects + 2 variances)`],
       ['BIC', cell(fit.bic), `−2 × log-likelihood + k × log(N), N = ${fit.bicN}${fit.method === 'reml' ? ' (measurements − fixed effects)' : ' (measurements)'}`],
-      ['Verdict', null, `${FIT_STATUS_WORDS[fit.status]}. ${fit.message}`],
+      ['Verdict', null, fitVerdict(fit)],
     ],
   });
   blocks.push({

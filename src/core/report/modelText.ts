@@ -9,6 +9,19 @@ export const FIT_STATUS_WORDS: Readonly<Record<FitStatus, string>> = {
   failed: 'Did not converge — do not use these estimates',
 };
 
+/**
+ * The verdict line of the fit-statistics table: the status word, then the engine's message when it says something the
+ * word does not (never "Converged. Converged."). Example: a converged fit -> "Converged. The likelihood has its
+ * maximum inside the allowed range: ...".
+ */
+export function fitVerdict(fit: Pick<ModelFit, 'status' | 'message'>): string {
+  const word = FIT_STATUS_WORDS[fit.status];
+  const norm = (s: string): string => s.toLowerCase().replace(/[^a-z]+/g, ' ').trim();
+  const msg = fit.message.trim();
+  if (msg === '' || norm(msg) === norm(word) || norm(word).startsWith(norm(msg))) return `${word}.`;
+  return `${word}. ${msg}`;
+}
+
 const UNIT_WORDS = { month: 'month', week: 'week', day: 'day' } as const;
 
 /** A number for a sentence: 1 decimal from 100 up, 2 from 1 up, else 3 significant digits; "n/a" when not finite. */

@@ -3,7 +3,8 @@ import { fitRandomIntercept, type FitOptions, type ModelData, type ModelFit } fr
 import { CAUTIONS, UNBLINDED_CAUTION } from '../../../src/core/report/cautions';
 import { modelJson } from '../../../src/core/report/modelJson';
 import { ModelReportError, modelSheets, type ModelSheetContext } from '../../../src/core/report/modelSheet';
-import { num, pPhrase } from '../../../src/core/report/modelText';
+import { fitVerdict, num, pPhrase } from '../../../src/core/report/modelText';
+import { formatCell } from '../../../src/core/report/formats';
 import type { TableBlock } from '../../../src/core/report/types';
 import { normals, seeded } from '../model/helpers';
 
@@ -99,6 +100,33 @@ describe('modelSheets', () => {
     const first = sheets[0]!.blocks[0]!;
     expect(first.kind === 'paragraph' ? first.text : '').toMatch(/intraclass correlation is 0\.\d+/);
     expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'FitStatistics', 'FitCounts', 'Trajectories', 'ObservedMeans']);
+  });
+
+  it('the verdict row gives the status word once, then what the engine adds ("Converged. Converged." never appears)', () => {
+    const fitStats = tables(modelSheets(fit, ctx('unblinded', false))).find((t) => t.id === 'FitStatistics')!;
+    const verdict = fitStats.rows.find((r) => r[0] === 'Verdict')![2] as string;
+    expect(verdict).toMatch(/^Converged\. The likelihood has its maximum inside the allowed range/);
+    expect(verdict).not.toMatch(/Converged\.\s+Converged/);
+    expect(fitVerdict({ status: 'converged', message: 'Converged.' })).toBe('Converged.');
+    expect(fitVerdict({ status: 'failed', message: 'The optimiser did not converge within its iteration limit.' })).toBe(
+      'Did not converge — do not use these estimates. The optimiser did not converge within its iteration limit.',
+    );
+  });
+
+  it('the counts table uses the integer format, so pages and sheets show "30", not "30.0000"', () => {
+    const counts = tables(modelSheets(fit, ctx('unblinded', false))).find((t) => t.id === 'FitCounts')!;
+    expect(counts.columns.map((c) => c.format)).toEqual(['text', 'integer']);
+    const patients = counts.rows.find((r) => r[0] === 'Patients')!;
+    expect(formatCell(patients[1] ?? null, counts.columns[1]!.format)).toBe('30');
+  });
+
+  it('in blinded mode the opening paragraph says nothing by arm: no treatment difference, no slope difference', () => {
+    const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
+    const first = modelSheets(blind, { observed: [], mode: 'blinded', perSubject: false, subjectIds: [] })[0]!.blocks[0]!;
+    const text = first.kind === 'paragraph' ? first.text : '';
+    expect(text).toContain('pooled over arms');
+    expect(text).not.toMatch(/differed|treatment|arm ×|arm,/);
+    expect(text).toMatch(/changed by -?\d/);
   });
 
   it('number phrasing: 1 decimal from 100, 2 from 1, 3 significant below; p below 0.0001 as "< 0.0001"', () => {

@@ -4,11 +4,14 @@ import { fileURLToPath } from 'node:url';
 import { existsSync, readFileSync } from 'node:fs';
 import { homedir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
+import webpack from 'webpack';
 import HtmlWebpackPlugin from 'html-webpack-plugin';
 import CopyWebpackPlugin from 'copy-webpack-plugin';
 
 const root = dirname(fileURLToPath(import.meta.url));
 const PORT = 3000;
+/** The version written into each run's analysis record (src/taskpane/version.ts). */
+const VERSION = JSON.parse(readFileSync(join(root, 'package.json'), 'utf8')).version;
 
 /**
  * HTTPS options from the Office development certificates (office-addin-dev-certs creates them in
@@ -71,6 +74,7 @@ export default async (env, argv) => {
     },
     performance: { hints: false },
     plugins: [
+      new webpack.DefinePlugin({ __LONGIPANE_VERSION__: JSON.stringify(VERSION) }),
       new HtmlWebpackPlugin({
         filename: 'taskpane.html',
         template: './src/excel/taskpane.html',

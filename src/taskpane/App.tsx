@@ -29,6 +29,7 @@ import { ScheduleStep } from './ScheduleStep';
 import { SettingsStep } from './SettingsStep';
 import type { SourceKind } from './SourcePicker';
 import { StepSection } from './StepSection';
+import { PANE_VERSION } from './version';
 
 const useStyles = makeStyles({
   root: {
@@ -77,6 +78,8 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
 
   const [stage, setStage] = useState<Stage | null>(null);
   const [cancelling, setCancelling] = useState(false);
+  /** How far the writing stage has got (0 to 1), from the host's progress reports. */
+  const [writeFraction, setWriteFraction] = useState(0);
   const [outcome, setOutcome] = useState<RunOutcome | null>(null);
   /** What the shown results were computed from, to say when the choices have changed since. */
   const [ranWith, setRanWith] = useState<string | null>(null);
@@ -204,7 +207,10 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
         ? { ...settings, referenceArm: arms[0] ?? '' }
         : settings;
     try {
-      const run = toAnalysisSettings(source, mapping, scheduleResult.schedule, effective, new Date().toISOString());
+      const run = {
+        ...toAnalysisSettings(source, mapping, scheduleResult.schedule, effective, new Date().toISOString()),
+        toolVersion: PANE_VERSION,
+      };
       const output = await engine.runAnalysis(source.cells, run, {
         onStage,
         signal: ctl.signal,
@@ -220,7 +226,8 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
         );
       } else {
         onStage('writing');
-        const written = await actions.writeResults(output);
+        setWriteFraction(0);
+        const written = await actions.writeResults(output, (f) => setWriteFraction(f));
         setOutcome({
           kind: 'done',
           written,
@@ -315,6 +322,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
           <RunStep
             blockers={blockers}
             stage={stage}
+            stageFraction={stage === 'writing' ? writeFraction : null}
             cancelling={cancelling}
             onRun={() => void onRun()}
             onCancel={onCancel}

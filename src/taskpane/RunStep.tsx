@@ -27,14 +27,17 @@ export interface RunStepProps {
   readonly blockers: readonly string[];
   /** The stage now running, or null when idle. */
   readonly stage: Stage | null;
+  /** How far the running stage has got (0 to 1) when the host reports it (writing does), else null. */
+  readonly stageFraction?: number | null;
   readonly cancelling: boolean;
   readonly onRun: () => void;
   readonly onCancel: () => void;
 }
 
-export function RunStep({ blockers, stage, cancelling, onRun, onCancel }: RunStepProps): ReactNode {
+export function RunStep({ blockers, stage, stageFraction = null, cancelling, onRun, onCancel }: RunStepProps): ReactNode {
   const styles = useStyles();
   const index = stage === null ? -1 : STAGES.indexOf(stage);
+  const within = stageFraction === null ? 0.5 : Math.min(1, Math.max(0, stageFraction));
   return (
     <div className={styles.col}>
       {blockers.map((b) => (
@@ -54,7 +57,7 @@ export function RunStep({ blockers, stage, cancelling, onRun, onCancel }: RunSte
       </div>
       {stage !== null && (
         <>
-          <ProgressBar value={(index + 0.5) / STAGES.length} thickness="large" aria-label="Run progress" />
+          <ProgressBar value={(index + within) / STAGES.length} thickness="large" aria-label="Run progress" />
           <ol className={styles.stages} aria-label="Run stages">
             {STAGES.map((s, i) => (
               <li key={s} className={i < index ? styles.done : i === index ? styles.now : styles.later}>

@@ -1,7 +1,12 @@
 /**
  * End to end: the built browser page (dist/) in Debian's Chromium, driven with playwright-core. Loads the invented
- * demo trial, runs unblinded and blinded, checks what the page shows, that it asks nothing of any other address, and
- * saves screenshots (test-artifacts/, and docs/pane-demo.png for the README).
+ * demo trial, walks the pane with the keyboard, runs unblinded and blinded, checks what the page shows, that it asks
+ * nothing of any other address, and saves screenshots.
+ *
+ * Screenshots always go to test-artifacts/ (ignored by git). The committed pictures in docs/ (pane-demo.png for the
+ * README, page-results.png) are refreshed only when the environment variable LONGIPANE_UPDATE_DOCS=1 is set:
+ *   LONGIPANE_UPDATE_DOCS=1 npx vitest run test/e2e
+ * so that an ordinary `npm test` (and CI) never changes tracked files.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { execFileSync } from 'node:child_process';
@@ -17,6 +22,14 @@ const DIST = resolve(ROOT, 'dist');
 const ARTIFACTS = resolve(ROOT, 'test-artifacts');
 const DEMO_VISITS = resolve(ROOT, 'demo/egfr-visits.csv');
 const DEMO_SCHEDULE = resolve(ROOT, 'demo/egfr-schedule.csv');
+const DOCS = resolve(ROOT, 'docs');
+/** Refresh the committed screenshots in docs/ only on request (see the file comment). */
+const UPDATE_DOCS = process.env.LONGIPANE_UPDATE_DOCS === '1';
+
+/** Copies a screenshot from test-artifacts/ into docs/ when asked to (LONGIPANE_UPDATE_DOCS=1). */
+function publish(artifact: string, docName: string): void {
+  if (UPDATE_DOCS) copyFileSync(join(ARTIFACTS, artifact), join(DOCS, docName));
+}
 
 const TYPES: Record<string, string> = {
   '.html': 'text/html; charset=utf-8',
@@ -104,20 +117,86 @@ afterAll(async () => {
 const pane = (): ReturnType<Page['locator']> => page.locator('.pane');
 const results = (): ReturnType<Page['locator']> => page.locator('.results-area');
 
-async function run(): Promise<void> {
-  await pane().getByRole('button', { name: 'Run the analysis' }).click();
+/** Waits until the run has written its sheets (the results step lists them). */
+async function finished(): Promise<void> {
   await pane().getByRole('heading', { name: 'Sheets written' }).waitFor({ timeout: 120_000 });
 }
+
+async function run(): Promise<void> {
+  await pane().getByRole('button', { name: 'Run the analysis' }).click();
+  await finished();
+}
+
+/** The accessible name and role of the element that has keyboard focus (tag and text as a fallback). */
+async function focused(): Promise<{ tag: string; text: string; disabled: boolean }> {
+  return page.evaluate(() => {
+    const el = document.activeElement as HTMLElement | null;
+    return {
+      tag: el?.tagName.toLowerCase() ?? '',
+      text: (el?.getAttribute('aria-label') ?? el?.textContent ?? '').trim(),
+      disabled: (el as HTMLButtonElement | null)?.disabled === true,
+    };
+  });
+}
+
+/** Starts recording every text the pane's live status region shows (read back with `statusTexts`). */
+async function recordStatus(): Promise<void> {
+  await page.evaluate(() => {
+    const region = document.querySelector('.pane [role="status"]');
+    const w = window as unknown as { statusTexts: string[] };
+    w.statusTexts = [];
+    if (region === null) return;
+    new MutationObserver(() => w.statusTexts.push(region.textContent ?? '')).observe(region, {
+      childList: true,
+      characterData: true,
+      subtree: true,
+    });
+  });
+}
+
+const statusTexts = (): Promise<string[]> =>
+  page.evaluate(() => (window as unknown as { statusTexts?: string[] }).statusTexts ?? []);
 
 describe('the browser page with the invented demo trial', () => {
   it('reads the demo data, proposes the CDISC columns, and reads the demo schedule', async () => {
     await pane().getByLabel('Visit data file (CSV or Excel .xlsx)').setInputFiles(DEMO_VISITS);
     await pane().getByText('Which column is which?').waitFor();
-    expect(await pane().getByLabel('Patient', { exact: true }).inputValue()).toBe('0'); // USUBJID, first column
-    expect(await pane().getByLabel('Measured value', { exact: true }).inputValue()).toBe('6'); // AVAL
+    expect(await pane().getByRole('combobox', { name: 'Patient', exact: true }).inputValue()).toBe('0'); // USUBJID, first column
+    expect(await pane().getByRole('combobox', { name: 'Measured value', exact: true }).inputValue()).toBe('6'); // AVAL
     await pane().getByRole('button', { name: 'Confirm columns' }).click();
     await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
     await pane().getByRole('region', { name: 'Visit schedule' }).getByText('Week 48').waitFor();
+  });
+
+  it('every control of the pane has an accessible name, and the settings are found by role and name', async () => {
+    // The accessibility tree of the pane: a control without a name shows as its role alone ("- combobox").
+    const tree = await pane().ariaSnapshot();
+    const nameless = tree
+      .split('\n')
+      .filter((line) => /^\s*- (button|combobox|textbox|spinbutton|checkbox|radio|link|slider)( \[[^\]]*\])*:?$/.test(line));
+    expect(nameless).toEqual([]);
+    const controls: [Parameters<Page['getByRole']>[0], string][] = [
+      ['button', 'Visit data file (CSV or Excel .xlsx)'],
+      ['button', 'Schedule file (CSV)'],
+      ['button', 'Use the starter schedule'],
+      ['button', 'Change columns'],
+      ['radiogroup', 'Who may see the results'],
+      ['radio', 'Blinded: pooled results, no arms (default)'],
+      ['radio', 'Unblinded: results by treatment arm'],
+      ['textbox', 'Data cut-off date'],
+      ['combobox', 'Time unit for slopes'],
+      ['combobox', 'Degrees of freedom'],
+      ['combobox', 'Estimation method'],
+      ['spinbutton', 'Confidence level (%)'],
+      ['checkbox', 'Use only records matched to a planned visit in the model'],
+      ['checkbox', "Add a sheet with each patient's estimated intercept"],
+      ['button', 'Run the analysis'],
+    ];
+    for (const [role, name] of controls) {
+      await expect(pane().getByRole(role, { name, exact: true }).count(), `${role} "${name}"`).resolves.toBe(1);
+    }
+    // The run's progress and messages are announced politely by a status region.
+    await expect(pane().getByRole('status').getAttribute('aria-live')).resolves.toBe('polite');
   });
 
   it('an unblinded run, after confirming, shows visit timing by visit and the treatment difference', async () => {
@@ -125,8 +204,30 @@ describe('the browser page with the invented demo trial', () => {
     const dialog = page.getByRole('alertdialog');
     await expect(dialog.getByText(/unblinded statistician/).isVisible()).resolves.toBe(true);
     await dialog.getByRole('button', { name: /switch to unblinded/ }).click();
-    await pane().getByLabel('Reference arm (compared against)').selectOption('Placebo');
-    await run();
+    await pane().getByRole('combobox', { name: 'Reference arm (compared against)' }).selectOption('Placebo');
+    // Keyboard only from here: Tab from the reference arm to the run button, then Enter starts the run.
+    await pane().getByRole('combobox', { name: 'Reference arm (compared against)' }).focus();
+    let tabs = 0;
+    for (; tabs < 20 && (await focused()).text !== 'Run the analysis'; tabs++) await page.keyboard.press('Tab');
+    expect(await focused()).toEqual({ tag: 'button', text: 'Run the analysis', disabled: false });
+    expect(tabs).toBeGreaterThan(1); // the settings below the arm were passed on the way
+    await recordStatus();
+    await page.keyboard.press('Enter');
+    await finished();
+    // The live region said each stage in turn, and then that the run was done.
+    const said = await statusTexts();
+    const stages = [
+      'Reading and checking the data',
+      'Checking visit timing against the schedule',
+      'Fitting the mixed model',
+      'Writing the result sheets',
+    ];
+    const at = stages.map((s) => said.findIndex((t) => t.startsWith(s)));
+    expect(at.every((i) => i >= 0), said.join(' | ')).toBe(true);
+    expect([...at].sort((a, b) => a - b)).toEqual(at);
+    expect(said.at(-1)).toMatch(/^Finished: \d+ result sheets written\.$/);
+    // After the run, keyboard focus is on the results heading, so the next Tab lands in the results.
+    expect((await focused()).text).toContain('Results');
     // The visit-timing table by visit: a header row and one row per scheduled visit of the demo schedule (5).
     await expect(results().locator('table[data-table-id="ByVisit"] tr').count()).resolves.toBe(1 + 5);
     // The model's treatment difference at the last visit, Active against the chosen reference Placebo.
@@ -146,6 +247,45 @@ describe('the browser page with the invented demo trial', () => {
     await results().locator('table[data-table-id="FixedEffects"]').scrollIntoViewIfNeeded();
     await page.screenshot({ path: join(ARTIFACTS, 'page-unblinded-model.png'), fullPage: false });
   }, 180_000);
+
+  it('counts show as whole numbers on the page (regression: "Patients 240.0000" in the fit counts)', async () => {
+    const counts = results().locator('table[data-table-id="FitCounts"] tbody tr');
+    await expect(counts.count()).resolves.toBeGreaterThan(0);
+    const patients = counts.filter({ hasText: 'Patients' }).locator('td').nth(1);
+    // 240 invented patients in the demo trial (demo/README.md); an integer column shows no decimals.
+    await expect(patients.innerText()).resolves.toBe('240');
+    for (const text of await counts.locator('td:nth-child(2)').allInnerTexts()) expect(text).toMatch(/^\d+$/);
+  });
+
+  it("the analysis record names the program version from package.json (regression: it said 'unknown')", async () => {
+    const version = (JSON.parse(readFileSync(resolve(ROOT, 'package.json'), 'utf8')) as { version: string }).version;
+    const row = results().locator('table[data-table-id="RunFacts"] tbody tr', { hasText: 'Program version' });
+    await expect(row.locator('td').nth(1).innerText()).resolves.toBe(version);
+  });
+
+  it('the model sheet shows its tables and the trajectory chart (picture for docs/page-results.png)', async () => {
+    const model = results().locator('section.sheet', { has: page.locator('table[data-table-id="FixedEffects"]') });
+    const chart = model.locator('figure.chart', { has: page.locator('svg[role="img"]') });
+    await expect(chart.count()).resolves.toBe(1);
+    // One picture from the sheet's title down to the chart: the viewport is made tall enough to hold all of it.
+    const span = await model.evaluate((el) => {
+      const fig = el.querySelector('figure.chart');
+      return fig === null ? 0 : fig.getBoundingClientRect().bottom - el.getBoundingClientRect().top;
+    });
+    expect(span).toBeGreaterThan(0);
+    await page.setViewportSize({ width: 1280, height: Math.min(4000, Math.ceil(span) + 80) });
+    await model.evaluate((el) => el.scrollIntoView({ block: 'start' }));
+    const box = await model.boundingBox();
+    expect(box).not.toBeNull();
+    if (box !== null) {
+      await page.screenshot({
+        path: join(ARTIFACTS, 'page-results.png'),
+        clip: { x: box.x, y: box.y, width: box.width, height: Math.min(box.height, span + 16) },
+      });
+    }
+    await page.setViewportSize({ width: 1280, height: 900 });
+    publish('page-results.png', 'page-results.png');
+  }, 120_000);
 
   it('a problem link shows the data row of its cell, and the report downloads as an .xlsx file', async () => {
     const links = pane().getByRole('button', { name: /^Go to cell / });
@@ -198,7 +338,7 @@ describe('the browser page with the invented demo trial', () => {
     await page.setViewportSize({ width: 1280, height: Math.min(8000, height) });
     await pane().screenshot({ path: join(ARTIFACTS, 'pane-whole.png') });
     await page.setViewportSize({ width: 1280, height: 900 });
-    copyFileSync(join(ARTIFACTS, 'pane-after-demo-run.png'), resolve(ROOT, 'docs/pane-demo.png'));
+    publish('pane-after-demo-run.png', 'pane-demo.png');
   }, 180_000);
 
   it('the page made no request to any address but the local server, and raised no script error', () => {

@@ -1,7 +1,7 @@
 // @vitest-environment jsdom
 import './jsdomSetup';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
+import { act, cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { detectMapping } from '../../src/core/intake';
 import type { AnalysisSettings, RunHooks } from '../../src/core/pipeline/types';
 import { UNBLINDED_CAUTION } from '../../src/core/report/cautions';
@@ -281,6 +281,42 @@ describe('run step', () => {
     expect(screen.getByRole('button', { name: 'Run the analysis' })).toHaveProperty('disabled', true);
     expect(screen.getByText('Read the visit data first (step 1).')).toBeTruthy();
     expect(screen.getByText('Choose a visit schedule (step 2).')).toBeTruthy();
+  });
+
+  it('the run settings name the program version, so the analysis record says which build made it', async () => {
+    const { actions } = fakeActions();
+    const { engine, calls } = engineWith();
+    render(<App actions={actions} engine={engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await screen.findByText(/Sheets written/);
+    // Without the webpack build no version is defined; the record then says so instead of "unknown".
+    expect(calls[0]?.toolVersion).toBe('development build');
+  });
+
+  it('the progress bar follows the host through the writing stage', async () => {
+    const { actions, spies } = fakeActions();
+    let report: (f: number) => void = () => undefined;
+    let finish: () => void = () => undefined;
+    spies.writeResults.mockImplementation(
+      (_output: unknown, onProgress?: (f: number) => void) =>
+        new Promise((resolve) => {
+          report = onProgress ?? report;
+          finish = () => resolve([{ name: 'Model', title: 'Mixed model' }]);
+        }),
+    );
+    render(<App actions={actions} engine={engineWith().engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    const bar = await screen.findByRole('progressbar', { name: 'Run progress' });
+    await waitFor(() => expect(spies.writeResults).toHaveBeenCalledTimes(1));
+    // Writing is the last of four stages: half of it written puts the bar at (3 + 0.5) / 4 (exact arithmetic).
+    act(() => report(0.5));
+    expect(Number(bar.getAttribute('aria-valuenow'))).toBeCloseTo(3.5 / 4, 12);
+    act(() => report(1));
+    expect(Number(bar.getAttribute('aria-valuenow'))).toBeCloseTo(1, 12);
+    act(() => finish());
+    await screen.findByText(/Sheets written/);
   });
 
   it('progress is announced in a live region', async () => {

@@ -129,6 +129,26 @@ describe('TableView', () => {
     expect(screen.getByRole('table', { name: 'Visit timing by visit' })).toBeTruthy();
   });
 
+  it("shows an 'integer' column without decimals, right-aligned (regression: 'Patients 240.0000')", () => {
+    const counts: TableBlock = {
+      kind: 'table',
+      id: 'FitCounts',
+      caption: 'Data used and work done',
+      columns: [
+        { header: 'Item', format: 'text' },
+        { header: 'Count', format: 'integer' },
+      ],
+      rows: [
+        ['Patients', 240],
+        ['Measurements', 916],
+      ],
+    };
+    const { container } = render(<TableView table={counts} />);
+    const cells = [...container.querySelectorAll('tbody td.num')].map((td) => td.textContent);
+    expect(cells).toEqual(['240', '916']);
+    expect(screen.queryByText(/240\./)).toBeNull();
+  });
+
   it('shows a long table folded to its first rows, with a button that shows them all', () => {
     const rows = Array.from({ length: 30 }, (_, i) => [`V${i + 1}`, 0.5, 0.5]);
     render(<TableView table={{ ...table, rows }} />);

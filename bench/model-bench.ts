@@ -47,9 +47,23 @@ export function benchData(rows: number, seed = 2026): ModelData {
   return { y, time, subject, nSubjects, armIndex, arms: ['Placebo', 'Drug'], covariates: [] };
 }
 
-/** One OLS pass: X'X (lower triangle) and X'y for [1, arm, time, arm·time], then a Cholesky solve. Returns β. */
+/** The same data with a numeric baseline covariate (each patient's invented baseline value, constant within patient). */
+export function withBaseline(d: ModelData, seed = 7): ModelData {
+  const u = seeded(seed);
+  const base = new Float64Array(d.nSubjects);
+  for (let i = 0; i < base.length; i++) base[i] = 40 + 40 * u();
+  const values = new Float64Array(d.y.length);
+  for (let r = 0; r < values.length; r++) values[r] = base[d.subject[r]!]!;
+  return { ...d, covariates: [{ name: 'Baseline', kind: 'numeric', values }] };
+}
+
+/**
+ * One OLS pass: X'X (lower triangle) and X'y for [1, arm, time, arm·time] and any numeric covariates of `d`, then a
+ * Cholesky solve. Returns β.
+ */
 export function olsPass(d: ModelData): Float64Array {
-  const p = 4;
+  const covs = d.covariates.flatMap((c) => (c.kind === 'numeric' ? [c.values] : []));
+  const p = 4 + covs.length;
   const xtx = new Float64Array(p * p);
   const xty = new Float64Array(p);
   const x = new Float64Array(p);
@@ -62,6 +76,7 @@ export function olsPass(d: ModelData): Float64Array {
     x[1] = a;
     x[2] = t;
     x[3] = a * t;
+    for (let k = 0; k < covs.length; k++) x[4 + k] = covs[k]![r]!;
     const yr = y[r]!;
     for (let i = 0; i < p; i++) {
       const xi = x[i]!;
@@ -114,7 +129,9 @@ const visits = [85, 169, 253, 337].map((day) => ({ label: `Week ${(day - 1) / 7}
 export async function runModelBench(rows: number): Promise<BenchEntry[]> {
   const warm = benchData(5_000, 1);
   fitRandomIntercept(warm, { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: visits });
+  fitRandomIntercept(withBaseline(warm), { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: visits });
   olsPass(warm);
+  olsPass(withBaseline(warm));
   const data = benchData(rows);
   const entries: BenchEntry[] = [];
   const ols = best(3, () => olsPass(data));
@@ -124,5 +141,12 @@ export async function runModelBench(rows: number): Promise<BenchEntry[]> {
     if (fit.value.status === 'failed') throw new Error(`benchmark fit failed: ${fit.value.message}`);
     entries.push({ name, rows: data.y.length, seconds: fit.seconds, baselineSeconds: ols.seconds, ratio: fit.seconds / ols.seconds, peakMB: peakMB() });
   }
+  // With a numeric baseline covariate, against OLS over the same five columns.
+  const dataCov = withBaseline(data);
+  const olsCov = best(3, () => olsPass(dataCov));
+  const optionsCov: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: visits };
+  const fitCov = best(3, () => fitRandomIntercept(dataCov, optionsCov));
+  if (fitCov.value.status === 'failed') throw new Error(`benchmark fit failed: ${fitCov.value.message}`);
+  entries.push({ name: 'model fit + covariate, KR', rows: dataCov.y.length, seconds: fitCov.seconds, baselineSeconds: olsCov.seconds, ratio: fitCov.seconds / olsCov.seconds, peakMB: peakMB() });
   return entries;
 }

@@ -193,36 +193,8 @@ function assembleFromArmSums(
   const p = design.p;
   const G = design.nArms;
   const nSubjectsIn = count.length;
-  const xtx = new Float64Array(p * p);
-  const xty = new Float64Array(p);
-  const set = (i: number, j: number, v: number): void => {
-    xtx[i * p + j] = v;
-    xtx[j * p + i] = v;
-  };
+  const { xtx, xty } = armCrossProducts(design, g5);
   const tc = design.timeCol;
-  const tot = new Float64Array(5);
-  for (let g = 0; g < G; g++) for (let k = 0; k < 5; k++) tot[k] = tot[k]! + g5[5 * g + k]!;
-  set(0, 0, tot[0]!);
-  set(0, tc, tot[1]!);
-  set(tc, tc, tot[2]!);
-  xty[0] = tot[3]!;
-  xty[tc] = tot[4]!;
-  if (design.armCol >= 0) {
-    for (let g = 1; g < G; g++) {
-      const a = design.armCol + g - 1;
-      const at = design.armTimeCol + g - 1;
-      const o = 5 * g;
-      set(a, 0, g5[o]!);
-      set(a, a, g5[o]!);
-      set(a, tc, g5[o + 1]!);
-      set(a, at, g5[o + 1]!);
-      set(at, 0, g5[o + 1]!);
-      set(at, tc, g5[o + 2]!);
-      set(at, at, g5[o + 2]!);
-      xty[a] = g5[o + 3]!;
-      xty[at] = g5[o + 4]!;
-    }
-  }
   // Pool by (cluster size k, arm g): s_i = n_i e_0 + T_i e_time (+ n_i e_arm + T_i e_armTime for g > 0), so S_k, c_k
   // need only Σn², ΣnT, ΣT², Σn t, ΣT t, Σt² and the count per (k, g).
   const { slot, sizes, nSubjects } = sizeSlots(count);
@@ -290,4 +262,45 @@ function assembleFromArmSums(
     return count[s]! * level + tsum[s]! * slope;
   };
   return { p, nObs, nSubjects, xtx, xty, yty, tMin, tMax, count, ysum, xbSum, sizes, m, S, c, q };
+}
+
+/**
+ * The intercept / arm / time / arm × time block of X'X and X'y from the per-arm sums g5 = (n, Σt, Σt², Σy, Σty) per
+ * arm (0/1 arm indicators, so a² = a and products of different arms' indicators vanish). Other columns stay zero.
+ * Cost O(arms + p²). Example: one arm (blinded) with sums (2, 1, 1, 5, 3) -> X'X = [[2, 1], [1, 1]], X'y = [5, 3].
+ */
+export function armCrossProducts(design: Design, g5: Float64Array): { xtx: Float64Array; xty: Float64Array } {
+  const p = design.p;
+  const G = design.nArms;
+  const xtx = new Float64Array(p * p);
+  const xty = new Float64Array(p);
+  const set = (i: number, j: number, v: number): void => {
+    xtx[i * p + j] = v;
+    xtx[j * p + i] = v;
+  };
+  const tc = design.timeCol;
+  const tot = new Float64Array(5);
+  for (let g = 0; g < G; g++) for (let k = 0; k < 5; k++) tot[k] = tot[k]! + g5[5 * g + k]!;
+  set(0, 0, tot[0]!);
+  set(0, tc, tot[1]!);
+  set(tc, tc, tot[2]!);
+  xty[0] = tot[3]!;
+  xty[tc] = tot[4]!;
+  if (design.armCol >= 0) {
+    for (let g = 1; g < G; g++) {
+      const a = design.armCol + g - 1;
+      const at = design.armTimeCol + g - 1;
+      const o = 5 * g;
+      set(a, 0, g5[o]!);
+      set(a, a, g5[o]!);
+      set(a, tc, g5[o + 1]!);
+      set(a, at, g5[o + 1]!);
+      set(at, 0, g5[o + 1]!);
+      set(at, tc, g5[o + 2]!);
+      set(at, at, g5[o + 2]!);
+      xty[a] = g5[o + 3]!;
+      xty[at] = g5[o + 4]!;
+    }
+  }
+  return { xtx, xty };
 }

@@ -15,6 +15,7 @@ import { matMul } from './dense';
 import { checkRank } from './pivotedCholesky';
 import { conditionalResiduals, subjectEffects } from './subjects';
 import { sufficientStatsFast } from './armSumsPass';
+import { sufficientStatsCovariates } from './covariatePass';
 import { sufficientStats, type SufficientStats } from './sufficient';
 import { trajectories } from './trajectories';
 import { validateModelRows, validateModelShape } from './validate';
@@ -154,14 +155,17 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
 }
 
 /**
- * The one pass over the rows: the fast pass when the design has no covariates (its sanity checks — every row counted
- * in a valid arm, every subject in one arm, finite totals — stand in for a row-by-row validation), else a row-by-row
- * validation and the general pass.
+ * The one pass over the rows: the fast pass when the design has no covariates, or numeric covariates only with each
+ * subject's rows together (their sanity checks — every row counted in a valid arm, every subject in one arm, finite
+ * totals — stand in for a row-by-row validation); otherwise a row-by-row validation and the general pass.
  */
 function dataPass(data: ModelData, design: Design): SufficientStats {
   if (design.timeCol >= 0 && design.p === 2 * design.nArms) {
     const fast = sufficientStatsFast(data.y, data.time, data.subject, data.nSubjects, data.armIndex, design);
     if (fast !== null && finiteStats(fast)) return fast;
+  } else if (design.timeCol >= 0) {
+    const fast = sufficientStatsCovariates(data, design);
+    if (fast !== null) return fast;
   }
   validateModelRows(data);
   return sufficientStats(data.y, data.subject, data.nSubjects, design, data.time);

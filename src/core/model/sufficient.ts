@@ -76,6 +76,22 @@ export function sufficientStats(y: Float64Array, subject: Int32Array, nSubjectsI
       if (t > tMax) tMax = t;
     }
   }
+  return { p, nObs: n, xtx, xty, yty, tMin, tMax, count, ysum, ...poolBySize(p, count, ysum, xsum) };
+}
+
+/**
+ * Pools the per-subject sums by cluster size: from n_i (count), t_i (ysum) and s_i (xsum, subject-major, p per
+ * subject) it forms, per distinct size k, m_k, S_k = Σ s_i s_i', c_k = Σ s_i t_i and q_k = Σ t_i², plus s_i'β on demand.
+ * Only the lower triangle is accumulated, skipping zero entries of s_i (arm indicators). Cost O(subjects p²).
+ * Example: one subject with n = 3, t = 6, s = [3] -> sizes [3], m [1], S [9], c [18], q [36].
+ */
+export function poolBySize(
+  p: number,
+  count: Int32Array,
+  ysum: Float64Array,
+  xsum: Float64Array,
+): Pick<SufficientStats, 'nSubjects' | 'sizes' | 'm' | 'S' | 'c' | 'q' | 'xbSum'> {
+  const nSubjectsIn = count.length;
   const { slot, sizes, nSubjects } = sizeSlots(count);
   const K = sizes.length;
   const m = new Float64Array(K);
@@ -105,7 +121,7 @@ export function sufficientStats(y: Float64Array, subject: Int32Array, nSubjectsI
     for (let j = 0; j < p; j++) f += xsum[s * p + j]! * beta[j]!;
     return f;
   };
-  return { p, nObs: n, nSubjects, xtx, xty, yty, tMin, tMax, count, ysum, xbSum, sizes, m, S, c, q };
+  return { nSubjects, sizes, m, S, c, q, xbSum };
 }
 
 /** Distinct cluster sizes in order of first appearance, a size → slot table, and the number of non-empty subjects. */

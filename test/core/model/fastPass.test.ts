@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import type { ModelData } from '../../../src/core/model';
+import { fitRandomIntercept, type ModelData } from '../../../src/core/model';
 import { buildDesign } from '../../../src/core/model/design';
 import { sufficientStatsFast } from '../../../src/core/model/armSumsPass';
+import { sufficientStatsCovariates } from '../../../src/core/model/covariatePass';
 import { sufficientStats, type SufficientStats } from '../../../src/core/model/sufficient';
 import { normals, seeded } from './helpers';
 
@@ -64,5 +65,77 @@ describe('the fast data pass equals the general one (exact identity, rounding as
     const dd = { ...d, armIndex: arm };
     const design = buildDesign(dd, false);
     expect(sufficientStatsFast(dd.y, dd.time, dd.subject, dd.nSubjects, dd.armIndex, design)).toBeNull();
+  });
+});
+
+describe('the covariate pass equals the general one (exact identity, rounding aside)', () => {
+  /** Invented: the three-arm data plus a per-subject baseline and a row-level numeric covariate. */
+  function withCovariates(d: ModelData, q: 1 | 2): ModelData {
+    const u = seeded(5);
+    const base = Array.from({ length: d.nSubjects }, () => 40 + 40 * u());
+    const covariates: ModelData['covariates'] = [
+      { name: 'Baseline', kind: 'numeric', values: Float64Array.from(d.subject, (s) => base[s]!) },
+      { name: 'Weight', kind: 'numeric', values: Float64Array.from(d.y, () => 60 + 30 * u()) },
+    ];
+    return { ...d, covariates: covariates.slice(0, q) };
+  }
+  for (const q of [1, 2] as const) {
+    for (const blinded of [false, true]) {
+      it(`${q} numeric covariate${q > 1 ? 's' : ''}, ${blinded ? 'blinded (no arm terms)' : 'three arms'}, rows grouped by subject`, () => {
+        const d0 = withCovariates(data(false), q);
+        const d = blinded ? { ...d0, armIndex: null, arms: [] } : d0;
+        const design = buildDesign(d, false);
+        const fast = sufficientStatsCovariates(d, design);
+        expect(fast).not.toBeNull();
+        expectSame(fast!, sufficientStats(d.y, d.subject, d.nSubjects, design, d.time));
+      });
+    }
+  }
+  it('returns null for rows not grouped by subject, a subject in two arms, a non-finite value or a categorical covariate', () => {
+    const grouped = withCovariates(data(false), 1);
+    const shuffled = withCovariates(data(true), 1);
+    expect(sufficientStatsCovariates(shuffled, buildDesign(shuffled, false))).toBeNull();
+    const arm = Int32Array.from(grouped.armIndex!);
+    arm[1] = (arm[0]! + 1) % 3; // subject 0 has at least two rows (seeded data): its second row changes arm
+    expect(grouped.subject[1]).toBe(grouped.subject[0]);
+    const twoArms = { ...grouped, armIndex: arm };
+    expect(sufficientStatsCovariates(twoArms, buildDesign(twoArms, false))).toBeNull();
+    const y = Float64Array.from(grouped.y);
+    y[7] = NaN;
+    const missing = { ...grouped, y };
+    expect(sufficientStatsCovariates(missing, buildDesign(missing, false))).toBeNull();
+    const cat: ModelData = { ...grouped, covariates: [{ name: 'Region', kind: 'categorical', values: Array.from(grouped.y, (_, i) => (i % 2 === 0 ? 'N' : 'S')), levels: ['N', 'S'] }] };
+    expect(sufficientStatsCovariates(cat, buildDesign(cat, false))).toBeNull();
+  });
+  it('the fit is the same whichever pass runs: grouped rows (covariate pass) and shuffled rows (general pass)', () => {
+    const d = withCovariates(data(false), 2);
+    const u = seeded(17);
+    const perm = Array.from(d.y, (_, i) => i).sort(() => u() - 0.5);
+    const pick = <T extends Float64Array | Int32Array>(a: T): T => a.map((_, i) => a[perm[i]!]!) as T;
+    const shuffled: ModelData = {
+      ...d,
+      y: pick(d.y),
+      time: pick(d.time),
+      subject: pick(d.subject),
+      armIndex: pick(d.armIndex!),
+      covariates: d.covariates.map((c) => (c.kind === 'numeric' ? { ...c, values: pick(c.values) } : c)),
+    };
+    expect(sufficientStatsCovariates(shuffled, buildDesign(shuffled, false))).toBeNull(); // so the general pass runs
+    const opts = { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [] } as const;
+    const a = fitRandomIntercept(d, opts);
+    const b = fitRandomIntercept(shuffled, opts);
+    // 1e-8 relative: same sufficient statistics up to summation order, then the same optimiser.
+    a.fixedEffects.forEach((fe, j) => {
+      expect(Math.abs(fe.estimate - b.fixedEffects[j]!.estimate)).toBeLessThan(1e-8 * Math.max(1, Math.abs(fe.estimate)));
+      expect(Math.abs(fe.se - b.fixedEffects[j]!.se)).toBeLessThan(1e-8 * fe.se);
+    });
+  });
+  it('a missing value with a covariate still gets the row-by-row message naming the observation', () => {
+    const d = withCovariates(data(false), 1);
+    const y = Float64Array.from(d.y);
+    y[7] = NaN;
+    expect(() => fitRandomIntercept({ ...d, y }, { method: 'reml', dfMethod: 'residual', level: 0.95, timeUnit: 'month', contrastDays: [] })).toThrow(
+      /observation 8 is not a finite number/,
+    );
   });
 });

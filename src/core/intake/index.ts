@@ -27,3 +27,4 @@ export {
 } from './dates';
 export { ERROR_LITERALS, isBlankCell, isErrorCell, cellText, readTextCell, parsePlainDecimal } from './cellText';
 export { IntakeUsageError } from './errors';
+export { isArmHeader } from './armColumns';

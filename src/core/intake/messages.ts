@@ -67,6 +67,8 @@ export function renderMessage(m: MessageInput): string {
       return 'No column is mapped to the value: the visit-timing checks can run, but every row is left out of the model.';
     case 'no-arm-column':
       return 'Unblinded mode needs a column mapped to the arm.';
+    case 'arm-column-blinded':
+      return `Column ${quoted(m.value)} names the treatment arm, so a blinded run cannot read it (here as the ${role}); unmap it, or use unblinded mode if you are allowed to see results by arm.`;
     case 'duplicate-role':
       return `Column ${quoted(m.value)} is mapped to more than one role (${m.context ?? ''}); a column can play one role only.`;
     case 'column-outside-range':

@@ -5,6 +5,7 @@
 import { columnLetters, MAX_COLUMN_INDEX, MAX_ROW, parseCell } from './cellAddress';
 import { cellText } from './cellText';
 import { checkMapping, effectiveMapping } from './checkMapping';
+import { checkBlindedColumns } from './armColumns';
 import { planCovariate, type CovariatePlan } from './covariatePlan';
 import { detectMapping } from './detect';
 import { IntakeUsageError } from './errors';
@@ -61,6 +62,7 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
   const mode = options.mode;
   const mapping = effectiveMapping(options.mapping ?? detectMapping(headers, mode).mapping, mode);
   checkMapping(mapping, headers, mode, issues);
+  if (mode === 'blinded') checkBlindedColumns(mapping, headers, issues);
   if (issues.hasErrors) return { ok: false, issues: issues.items };
 
   const accept = options.numericText === 'accept';

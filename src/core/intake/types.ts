@@ -65,6 +65,7 @@ export type IssueCode =
   | 'no-time-column' // neither a date nor a study-day column
   | 'no-value-column'
   | 'no-arm-column' // unblinded mode without an arm column
+  | 'arm-column-blinded' // blinded mode, but a column naming the arm is mapped to another role (SPEC §2)
   | 'duplicate-role' // one column mapped to two roles (a mapping outside the range is 'column-outside-range')
   | 'subject-in-two-arms'
   | 'too-few-subjects-per-arm'

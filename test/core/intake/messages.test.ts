@@ -8,6 +8,7 @@ const ALL: Record<IssueCode, true> = {
   'no-time-column': true,
   'no-value-column': true,
   'no-arm-column': true,
+  'arm-column-blinded': true,
   'duplicate-role': true,
   'subject-in-two-arms': true,
   'too-few-subjects-per-arm': true,

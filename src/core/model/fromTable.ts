@@ -1,6 +1,7 @@
 /**
  * fitFromTable: builds the model's columns from an intake table and fits (SPEC §3, §5). A row enters when
- * include[i] === 1, table.usableModel[i] === 1 and studyDays[i] is finite; time = (study day − 1)/unit (unit = 30.4375
+ * include[i] === 1, table.usableModel[i] === 1, studyDays[i] is finite and the row has a subject (subjectIndex ≥ 0, true
+ * of every usable row); nothing else is checked here (the caller's include mask carries any further choice); time = (study day − 1)/unit (unit = 30.4375
  * days for a month, 7 for a week, 1 for a day); subjects are renumbered in order of first appearance; in unblinded
  * mode the arms present among the rows are ordered with the reference arm first (the given one, else the first in the
  * table's order); categorical covariates keep only the levels present among the rows, in the table's level order.

@@ -47,8 +47,8 @@ const methodWords = (fit: ModelFit): string =>
 
 /**
  * The paragraph that opens the model sheet: what was fitted, on how many patients and measurements, then the treatment
- * difference at the last scheduled visit (unblinded) or the ICC and the two sources of variation (blinded), and the
- * fit verdict. Example (blinded): "A random-intercept linear mixed model ... intraclass correlation 0.62 ...".
+ * difference at the last scheduled visit (unblinded) or the overall change over time (blinded), the two sources of
+ * variation with the ICC, the fit verdict and a pointer to the cautions that follow. Example (blinded): "A random-intercept linear mixed model ... intraclass correlation 0.62 ...".
  */
 export function modelSummaryText(fit: ModelFit, mode: Mode): string {
   const unit = UNIT_WORDS[fit.timeUnit];
@@ -61,7 +61,7 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
   let text =
     `A random-intercept linear mixed model, ${methodWords(fit)}, regressed ${what}${covs > 0 ? ', adjusted for the chosen covariates' : ''}, ` +
     `with each patient's own level as a random intercept. It used ${fit.nObservations} measurements from ${fit.nSubjects} patients. `;
-  if (fit.status === 'failed') return text + `The fit did not converge: ${fit.message}`;
+  if (fit.status === 'failed') return text + `The fit did not converge: ${fit.message} Read the cautions below.`;
   if (armed) {
     const last = lastVisitEffects(fit);
     for (const te of last) {
@@ -81,7 +81,8 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
     `Patients differ from one another with a standard deviation of ${num(Math.sqrt(v.subject))} and measurements within a patient vary with a standard deviation of ${num(Math.sqrt(v.residual))}; ` +
     `the intraclass correlation is ${num(v.icc)} (${pct}% confidence interval ${num(v.iccLower)} to ${num(v.iccUpper)}), ` +
     `the share of the total variation that lies between patients. `;
-  text += `Fit: ${FIT_STATUS_WORDS[fit.status].toLowerCase()}.`;
+  text += `Fit: ${FIT_STATUS_WORDS[fit.status].toLowerCase()}. `;
+  text += 'Read this with the cautions below: an interim look is not a final analysis, and repeated looks inflate the chance of a false-positive finding.';
   return text;
 }
 

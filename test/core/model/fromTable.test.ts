@@ -56,6 +56,10 @@ describe('fitFromTable builds the model columns from the intake table', () => {
     expect(d.y.length).toBe(24 - 3);
     expect(Array.from(d.time.slice(0, 3))).toEqual([84 / 7, 168 / 7, 252 / 7]); // first row excluded; P01 days 85, 169, 253
     expect(d.subjectIds).toEqual(['P01', 'P02', 'P03', 'P04', 'P05', 'P06']);
+    // Exactly the documented rows, in table order: all but row 0 (not included), 5 (not usable) and 10 (no study day).
+    const kept = Array.from({ length: 24 }, (_, i) => i).filter((i) => i !== 0 && i !== 5 && i !== 10);
+    expect(Array.from(d.y)).toEqual(kept.map((i) => t.value[i]!));
+    expect(Array.from(d.time)).toEqual(kept.map((i) => (t.studyDay[i]! - 1) / 7));
   });
   it('puts the chosen reference arm first and codes the arm index against it', () => {
     const d = modelDataFromTable(t, days, include, 'week', 'Placebo');

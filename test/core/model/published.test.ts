@@ -12,6 +12,13 @@ const opts = (method: 'reml' | 'ml'): FitOptions => ({
 });
 
 // Reference values are printed to 3–5 significant figures; each tolerance is half a unit in the last printed place.
+// Where they come from: the data are Devore (2000) and Davies (1947). The REML fits of the rail data (SDs 24.805 and
+// 4.0208, logLik −61.0885 REML and −64.28 ML) are printed in Pinheiro & Bates (2000, Mixed-Effects Models in S and
+// S-PLUS, ch. 1 — from memory); the dyestuff ANOVA (between mean square 11271.5, within 2451.25) in Davies (1947,
+// from memory). Because balanced REML equals the ANOVA estimators (Searle, Casella & McCulloch 1992, exact identity),
+// the variances and the SE of the mean, √(MSB/N), also follow by hand from the data: rails MSB 1862.1, MSW 16.1667 ->
+// 615.31, 16.167, SE 10.171; dyestuff -> 1764.05, 2451.25, SE 19.383. The log-likelihoods are from memory, and the
+// likelihood formula itself is checked against a dense n x n evaluation in denseCheck.test.ts.
 describe('one-way random-effects fits reproduce published examples', () => {
   it('rails (Devore 2000): REML between SD 24.805, within SD 4.0208, mean 66.5 (SE 10.171), logLik −61.0885', () => {
     const f = fitRandomIntercept(oneWay(RAILS), opts('reml'));

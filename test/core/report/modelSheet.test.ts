@@ -50,6 +50,7 @@ describe('modelSheets', () => {
     const last = fit.treatmentEffects.find((t) => t.label === 'Week 48')!;
     expect(text).toContain('At Week 48 (study day 337) the mean of Drug differed from Placebo');
     expect(text).toContain(`by ${num(last.estimate)} (95% confidence interval ${num(last.lower)} to ${num(last.upper)}; ${pPhrase(last.p)})`);
+    expect(text).toMatch(/cautions below: an interim look is not a final analysis/);
   });
 
   it('carries every caution, and the unblinded caution in unblinded mode only', () => {

@@ -3,7 +3,8 @@
  * - σ²_u and σ²: Satterthwaite's scaled chi-square intervals (Satterthwaite 1946; Searle, Casella & McCulloch 1992):
  *   ν_r = 2θ_r²/W_rr with W the inverse expected information, interval [ν θ/χ²(1−α/2; ν), ν θ/χ²(α/2; ν)].
  *   In balanced one-way data W_22 = 2σ⁴/(N − a) exactly, so the σ² interval is the exact chi-square interval
- *   SSW/χ²(·; N − a). At the boundary σ²_u = 0 the subject interval is [0, z √W_11] (normal z, original scale).
+ *   SSW/χ²(·; N − a). At the boundary σ²_u = 0 the subject interval is [0, U], U = z √W_11 (normal z, original scale,
+ *   W_11 from the unrestricted information), and, unless the data are balanced one-way, the ICC interval [0, U/(U + σ²)].
  * - ICC = σ²_u/(σ²_u + σ²): in a balanced one-way layout (intercept only, equal cluster sizes) the exact F-based
  *   interval (Searle 1971, Linear Models): F = MSB/MSW, F_L = F / F(1−α/2; a−1, a(n−1)),
  *   F_U = F / F(α/2; a−1, a(n−1)), ICC_L = (F_L − 1)/(F_L + n − 1), ICC_U = (F_U − 1)/(F_U + n − 1), clipped to [0, 1].
@@ -59,8 +60,8 @@ export function varianceIntervals(
     iccMethod = 'ICC: exact F-based interval for balanced one-way data (Searle 1971)';
   } else if (atBoundary) {
     iccLower = 0;
-    iccUpper = Math.min(1, (z * Math.sqrt(Math.max(Wfull[0]!, 0))) / s2);
-    iccMethod = 'ICC: Wald interval on the original scale at the zero boundary';
+    iccUpper = subjectUpper / (subjectUpper + s2);
+    iccMethod = 'ICC: at the zero boundary, from 0 to the ICC implied by the upper limit of the between-patient variance';
   } else {
     [iccLower, iccUpper] = logitWaldIccInterval(s2u, s2, W, level);
     iccMethod = `ICC: Wald interval on the logit scale (delta method); ${LOGIT_WALD_VS_EXACT}`;

@@ -133,4 +133,17 @@ describe('contrasts, trajectories and fit statistics', () => {
     expect(f.message).toMatch(/more than one measurement/);
     expect(f.variance.subject).toBe(0);
   });
+
+  it('unbalanced data at the zero boundary: the ICC interval runs from 0 to the ICC of the between-patient upper limit', () => {
+    // Invented one-way data with equal group means (5.5) and unequal group sizes, so the REML between-patient variance
+    // is 0 and the balanced exact interval does not apply; exact identity ICC_U = U/(U + σ²) for the upper limit U.
+    const f = fitRandomIntercept(oneWay([[1, 10], [2, 9, 5.5], [3, 8], [4, 7, 5.5, 5.5]]), oneWayOpts);
+    expect(f.status).toBe('boundary');
+    const v = f.variance;
+    expect(v.iccLower).toBe(0);
+    expect(v.subjectUpper).toBeGreaterThan(0);
+    expect(v.iccUpper).toBeCloseTo(v.subjectUpper / (v.subjectUpper + v.residual), 12); // same expression, rounding only
+    expect(v.iccUpper).toBeLessThan(1);
+    expect(v.intervalMethod).toMatch(/zero boundary/);
+  });
 });

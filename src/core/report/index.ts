@@ -1,6 +1,6 @@
 /** Results → sheet specs and JSON: plain tables, formats, chart specs, the visit-timing reports and the analysis record. */
 export * from './types';
-export { CAUTIONS, INVENTED_DATA_NOTE, UNBLINDED_CAUTION } from './cautions';
+export { CAUTIONS, INVENTED_DATA_NOTE, UNBLINDED_CAUTION, cautionBlocks } from './cautions';
 export { EXCEL_FORMAT_CODES, formatCell } from './formats';
 export { HashUsageError, Sha256, sha256Hex } from './sha256';
 export { CellFingerprint, fingerprintCells, serialiseCell } from './fingerprint';

@@ -6,7 +6,7 @@
  */
 import type { Mode } from '../intake/types';
 import type { ContrastResult, ModelFit } from '../model/types';
-import { CAUTIONS, UNBLINDED_CAUTION } from './cautions';
+import { cautionBlocks } from './cautions';
 import { fitVerdict, modelSummaryText } from './modelText';
 import type { Block, ChartSeries, NumberFormat, SheetCell, SheetSpec, TableColumn } from './types';
 
@@ -44,9 +44,6 @@ const para = (text: string, style: 'normal' | 'caution' | 'heading' = 'normal'):
 const cell = (x: number): SheetCell => (Number.isFinite(x) ? x : null);
 const UNIT = { month: 'month', week: 'week', day: 'day' } as const;
 
-function cautionBlocks(mode: Mode): Block[] {
-  return [...CAUTIONS.map((c) => para(c, 'caution')), ...(mode === 'unblinded' ? [para(UNBLINDED_CAUTION, 'caution')] : [])];
-}
 
 function inferenceColumns(level: number): TableColumn[] {
   const pct = `${Math.round(level * 1000) / 10}%`;

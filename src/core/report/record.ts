@@ -1,6 +1,6 @@
 import type { ColumnMapping, Mode } from '../intake/types';
 import type { ScheduleVisit } from '../schedule/types';
-import { CAUTIONS } from './cautions';
+import { cautionBlocks } from './cautions';
 import type { Block, SheetSpec, TableColumn } from './types';
 
 /** One row left out of one use, as the analysis record lists it. */
@@ -84,7 +84,7 @@ const heading = (text: string): Block => ({ kind: 'paragraph', text, style: 'hea
 export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
   const rowsOut = new Set(input.excluded.map((e) => e.row)).size;
   const blocks: Block[] = [
-    ...CAUTIONS.map((text): Block => ({ kind: 'paragraph', text, style: 'caution' })),
+    ...cautionBlocks(input.mode),
     heading('This run'),
     {
       kind: 'table',

@@ -1,5 +1,5 @@
 import { STATUS_WORDS } from '../schedule/types';
-import { CAUTIONS, UNBLINDED_CAUTION } from './cautions';
+import { cautionBlocks } from './cautions';
 import { DUE_WORDS } from './timingTypes';
 import { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWords';
 
@@ -59,8 +59,7 @@ function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[
  */
 export function timingSheets(summary: TimingSummary): SheetSpec[] {
   const unblinded = summary.byArm !== null;
-  const cautions = [...CAUTIONS.map((t) => para(t, 'caution')), ...(unblinded ? [para(UNBLINDED_CAUTION, 'caution')] : [])];
-  const plainCautions = CAUTIONS.map((t) => para(t, 'caution'));
+  const cautions = cautionBlocks(unblinded ? 'unblinded' : 'blinded');
 
   const timing: Block[] = [...cautions, para(timingSummaryText(summary)), para(ON_TIME_RATE_NOTE), para('By visit', 'heading')];
   timing.push(visitTable('ByVisit', 'Scheduled visits by visit', summary.byVisit, false));
@@ -131,7 +130,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
   const when = summary.dated ? 'date' : 'study day';
   const withSite = summary.bySite !== null;
   const deviations: Block[] = [
-    ...plainCautions,
+    ...cautions,
     para(
       `${cutoffPhrase(summary)}: every early, late or missed scheduled visit, and every extra or repeat record, for follow-up. ` +
         `Days off = actual ${when} − target ${when} (negative = early). ` +
@@ -169,7 +168,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
   ];
 
   const due: Block[] = [
-    ...plainCautions,
+    ...cautions,
     para(
       `${cutoffPhrase(summary)}: each subject still in follow-up (no record yet of the final scheduled visit) with their next scheduled visit that has no record. ` +
         'Days until target is negative when the target has passed. "Overdue": the window closed before the cut-off; "Window open now": the cut-off falls inside the window; "Coming up": the window opens later.',

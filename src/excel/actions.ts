@@ -10,6 +10,7 @@ import type { DataSource, PaneActions, ScheduleLoad, WrittenSheet } from '../tas
 import { rangeAddress, splitAddress } from './address';
 import { probeDateSystem } from './dateSystem';
 import { ExcelAdapterError, explain } from './errors';
+import { supportsExcelApi } from './features';
 import { FORMAT_CODES, TEXT_FORMAT } from './formatCodes';
 import { readRange } from './readRange';
 import { renderSheet } from './renderSheet';
@@ -18,6 +19,10 @@ import { uniqueSheetName, uniqueTableName } from './sheetNames';
 
 /** The wanted name of the starter schedule sheet. */
 export const STARTER_SHEET_NAME = 'Visit schedule';
+
+/** What the starter sheet's cell checks say when a value breaks them (ExcelApi 1.8 and later). */
+export const STARTER_DAY_RULE = 'A target study day is a whole number other than 0 (study days have no day 0).';
+export const STARTER_ALLOWANCE_RULE = 'Days allowed early or late is a whole number, 0 or more.';
 
 /** One line per blocking schedule problem, with its cell: "Visit schedule!B4: The target day must be ...". */
 export function scheduleMessage(issues: readonly ScheduleIssue[]): string {
@@ -54,6 +59,17 @@ async function writeStarterSchedule(): Promise<string> {
     range.values = cells;
     const table = ws.tables.add(range, true);
     table.name = uniqueTableName('Schedule', tables.items.map((t) => t.name));
+    if (supportsExcelApi('1.8')) {
+      // Data validation (ExcelApi 1.8) stops a fraction or a day 0 as it is typed; without it, reading the schedule
+      // still reports each bad cell with its address.
+      const body = cells.length - 1;
+      const day = ws.getRange(rangeAddress(1, 1, body, 1)).dataValidation;
+      day.rule = { wholeNumber: { formula1: 0, operator: 'NotEqualTo' } };
+      day.errorAlert = { showAlert: true, style: 'Stop', title: 'Target study day', message: STARTER_DAY_RULE };
+      const allowed = ws.getRange(rangeAddress(1, 2, body, 2)).dataValidation;
+      allowed.rule = { wholeNumber: { formula1: 0, operator: 'GreaterThanOrEqualTo' } };
+      allowed.errorAlert = { showAlert: true, style: 'Stop', title: 'Days allowed', message: STARTER_ALLOWANCE_RULE };
+    }
     range.format.autofitColumns();
     ws.activate();
     await context.sync();

@@ -14,3 +14,4 @@ export type { RenderOptions } from './renderSheet';
 export { loadSavedSettings, parseSaved, saveSettings, SETTINGS_KEY } from './settings';
 export { legalSheetName, MAX_SHEET_NAME_LENGTH, uniqueSheetName, uniqueTableName } from './sheetNames';
 export { halvePatch, planWrites } from './writePlan';
+export { MINIMUM_EXCEL_API, supportsExcelApi } from './features';

@@ -16,6 +16,7 @@ export type Op =
   | { readonly op: 'table'; readonly sheet: string; readonly address: string; readonly hasHeaders: boolean; name?: string }
   | { readonly op: 'chart'; readonly sheet: string; readonly type: string; readonly address: string; readonly by: string; readonly chart: FakeChart }
   | { readonly op: 'freezeRows'; readonly sheet: string; readonly value: number }
+  | { readonly op: 'validation'; readonly sheet: string; readonly address: string; readonly key: string; readonly value: unknown }
   | { readonly op: 'activate'; readonly sheet: string }
   | { readonly op: 'sync' };
 
@@ -103,6 +104,12 @@ export function installFakeExcel(existingSheets: string[], existingTables: strin
         autofitColumns() {},
       },
       select() {},
+      dataValidation: new Proxy({} as Record<string, unknown>, {
+        set(_t, key, value) {
+          ops.push({ op: 'validation', sheet, address, key: String(key), value });
+          return true;
+        },
+      }),
     };
   };
 

@@ -15,6 +15,15 @@ describe('distribution quantiles match printed handbook tables', () => {
     expect(Math.abs(fQuantile(0.95, 2, 10) - 4.103)).toBeLessThan(5e-4);
     expect(Math.abs(fQuantile(0.95, 3, 20) - 3.098)).toBeLessThan(5e-4);
   });
+  it('the lower and upper chi-square points used by the variance intervals: χ²(0.025; 10) = 3.247, χ²(0.975; 10) = 20.483', () => {
+    // Abramowitz & Stegun 1964 Table 26.8 (values from memory), 3 decimals printed: tolerance half a unit, 5e-4.
+    expect(Math.abs(chiSquareQuantile(0.025, 10) - 3.247)).toBeLessThan(5e-4);
+    expect(Math.abs(chiSquareQuantile(0.975, 10) - 20.483)).toBeLessThan(5e-4);
+  });
+  it('exact identity used by the balanced ICC interval: the lower F point is the reciprocal of the swapped upper one', () => {
+    // F(α; d1, d2) = 1/F(1 − α; d2, d1); 1e-9 allows for the iterative inverse of the incomplete beta.
+    expect(fQuantile(0.025, 5, 12)).toBeCloseTo(1 / fQuantile(0.975, 12, 5), 9);
+  });
   it('tail probabilities invert the quantiles (exact identity; 1e-9 allows for the iterative inverse)', () => {
     expect(tTwoSided(tQuantile(0.975, 7), 7)).toBeCloseTo(0.05, 9);
     expect(fUpper(fQuantile(0.95, 3, 20), 3, 20)).toBeCloseTo(0.05, 9);

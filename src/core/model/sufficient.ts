@@ -32,8 +32,9 @@ export interface SufficientStats {
 }
 
 /**
- * Computes the sufficient statistics in one pass over the rows and one over the subjects. The row loop allocates
- * nothing and accumulates only the lower triangle of X'X, skipping zero entries (arm indicators).
+ * Computes the sufficient statistics in one pass over the rows (any design, rows in any order) and one over the
+ * subjects. The row loop allocates nothing, tracks the time range and accumulates only the lower triangle of X'X,
+ * skipping zero entries (arm and level indicators).
  * Cost O(n p²) for the rows, O(subjects p²) for the pooling; memory O(subjects p).
  * Example: y = [1, 2, 3], one subject, intercept only -> xtx [3], xty [6], yty 14, sizes [3], S [9], c [18], q [36].
  */
@@ -48,8 +49,15 @@ export function sufficientStats(y: Float64Array, subject: Int32Array, nSubjectsI
   const x = new Float64Array(p);
   const fill = design.fillRow;
   let yty = 0;
+  let tMin = Infinity;
+  let tMax = -Infinity;
   for (let r = 0; r < n; r++) {
     fill(r, x);
+    if (time !== undefined) {
+      const t = time[r]!;
+      if (t < tMin) tMin = t;
+      if (t > tMax) tMax = t;
+    }
     const yr = y[r]!;
     const s = subject[r]!;
     const off = s * p;
@@ -67,15 +75,6 @@ export function sufficientStats(y: Float64Array, subject: Int32Array, nSubjectsI
   }
   for (let i = 0; i < p; i++) for (let j = 0; j < i; j++) xtx[j * p + i] = xtx[i * p + j]!;
 
-  let tMin = Infinity;
-  let tMax = -Infinity;
-  if (time !== undefined) {
-    for (let r = 0; r < n; r++) {
-      const t = time[r]!;
-      if (t < tMin) tMin = t;
-      if (t > tMax) tMax = t;
-    }
-  }
   return { p, nObs: n, xtx, xty, yty, tMin, tMax, count, ysum, ...poolBySize(p, count, ysum, xsum) };
 }
 

@@ -14,6 +14,16 @@ export interface TableViewProps {
 
 const NUMERIC = new Set(['integer', 'decimal1', 'decimal2', 'decimal3', 'decimal4', 'decimal6', 'percent1', 'pvalue']);
 
+/** Text columns at least this wide (in characters, TableColumn.width) wrap their cells instead of running off. */
+const WRAP_FROM_WIDTH = 40;
+
+/** The class of a column's cells: numbers right-aligned, wide text wrapped, the rest as they are. */
+function cellClass(column: TableBlock['columns'][number]): string | undefined {
+  if (NUMERIC.has(column.format)) return 'num';
+  if (column.format === 'text' && (column.width ?? 0) >= WRAP_FROM_WIDTH) return 'wrap';
+  return undefined;
+}
+
 export function TableView({ table, maxRows = 200, previewRows = 12 }: TableViewProps): ReactNode {
   const long = table.rows.length > 2 * previewRows;
   const [open, setOpen] = useState(!long);
@@ -26,7 +36,7 @@ export function TableView({ table, maxRows = 200, previewRows = 12 }: TableViewP
         <thead>
           <tr>
             {table.columns.map((c, i) => (
-              <th key={i} scope="col" className={NUMERIC.has(c.format) ? 'num' : undefined}>
+              <th key={i} scope="col" className={cellClass(c)}>
                 {c.header}
               </th>
             ))}
@@ -36,7 +46,7 @@ export function TableView({ table, maxRows = 200, previewRows = 12 }: TableViewP
           {rows.map((row, r) => (
             <tr key={r}>
               {table.columns.map((c, i) => (
-                <td key={i} className={NUMERIC.has(c.format) ? 'num' : undefined}>
+                <td key={i} className={cellClass(c)}>
                   {formatCell(row[i] ?? null, c.format)}
                 </td>
               ))}

@@ -149,6 +149,22 @@ describe('TableView', () => {
     expect(screen.queryByText(/240\./)).toBeNull();
   });
 
+  it('wraps the cells of a wide text column (width 40 or more) and leaves narrow ones and numbers on one line', () => {
+    const notes: TableBlock = {
+      kind: 'table',
+      id: 'FitStatistics',
+      caption: 'Fit statistics',
+      columns: [
+        { header: 'Item', format: 'text', width: 24 },
+        { header: 'Value', format: 'decimal3' },
+        { header: 'Note', format: 'text', width: 60 },
+      ],
+      rows: [['Verdict', null, 'Converged. A sentence long enough to need more than one line on a narrow page.']],
+    };
+    const { container } = render(<TableView table={notes} />);
+    expect([...container.querySelectorAll('tbody td')].map((td) => td.className)).toEqual(['', 'num', 'wrap']);
+  });
+
   it('shows a long table folded to its first rows, with a button that shows them all', () => {
     const rows = Array.from({ length: 30 }, (_, i) => [`V${i + 1}`, 0.5, 0.5]);
     render(<TableView table={{ ...table, rows }} />);

@@ -1,6 +1,6 @@
-/** Step 4: start the run, follow it through its stages, and stop it if needed. */
+/** Step 4: start the run, follow it through its stages, and stop it if needed (until the sheets are being written). */
 import type { ReactNode } from 'react';
-import { Button, MessageBar, MessageBarBody, ProgressBar, makeStyles, tokens } from '@fluentui/react-components';
+import { Button, MessageBar, MessageBarBody, ProgressBar, Text, makeStyles, tokens } from '@fluentui/react-components';
 import type { Stage } from '../core/pipeline/types';
 
 const useStyles = makeStyles({
@@ -49,7 +49,7 @@ export function RunStep({ blockers, stage, stageFraction = null, cancelling, onR
         <Button appearance="primary" disabled={blockers.length > 0 || stage !== null} onClick={onRun}>
           Run the analysis
         </Button>
-        {stage !== null && (
+        {stage !== null && stage !== 'writing' && (
           <Button onClick={onCancel} disabled={cancelling}>
             {cancelling ? 'Stopping…' : 'Cancel'}
           </Button>
@@ -58,6 +58,9 @@ export function RunStep({ blockers, stage, stageFraction = null, cancelling, onR
       {stage !== null && (
         <>
           <ProgressBar value={(index + within) / STAGES.length} thickness="large" aria-label="Run progress" />
+          {stage === 'writing' && (
+            <Text size={200}>The result sheets are being written; this last step cannot be stopped part-way.</Text>
+          )}
           <ol className={styles.stages} aria-label="Run stages">
             {STAGES.map((s, i) => (
               <li key={s} className={i < index ? styles.done : i === index ? styles.now : styles.later}>

@@ -294,7 +294,7 @@ describe('run step', () => {
     expect(calls[0]?.toolVersion).toBe('development build');
   });
 
-  it('the progress bar follows the host through the writing stage', async () => {
+  it('the progress bar follows the host through the writing stage, where Cancel is no longer offered', async () => {
     const { actions, spies } = fakeActions();
     let report: (f: number) => void = () => undefined;
     let finish: () => void = () => undefined;
@@ -311,6 +311,9 @@ describe('run step', () => {
     const bar = await screen.findByRole('progressbar', { name: 'Run progress' });
     await waitFor(() => expect(spies.writeResults).toHaveBeenCalledTimes(1));
     // Writing is the last of four stages: half of it written puts the bar at (3 + 0.5) / 4 (exact arithmetic).
+    // Sheets half written cannot be taken back, so the pane stops offering Cancel and says why.
+    expect(screen.queryByRole('button', { name: 'Cancel' })).toBeNull();
+    expect(screen.getByText(/cannot be stopped part-way/)).toBeTruthy();
     act(() => report(0.5));
     expect(Number(bar.getAttribute('aria-valuenow'))).toBeCloseTo(3.5 / 4, 12);
     act(() => report(1));

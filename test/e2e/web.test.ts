@@ -154,6 +154,14 @@ async function recordStatus(): Promise<void> {
   });
 }
 
+/** Lines of the pane's accessibility tree for controls without an accessible name (shown as the role alone). */
+async function namelessControls(): Promise<string[]> {
+  const tree = await pane().ariaSnapshot();
+  return tree
+    .split('\n')
+    .filter((line) => /^\s*- (button|combobox|textbox|spinbutton|checkbox|radio|link|slider)( \[[^\]]*\])*:?$/.test(line));
+}
+
 const statusTexts = (): Promise<string[]> =>
   page.evaluate(() => (window as unknown as { statusTexts?: string[] }).statusTexts ?? []);
 
@@ -170,11 +178,7 @@ describe('the browser page with the invented demo trial', () => {
 
   it('every control of the pane has an accessible name, and the settings are found by role and name', async () => {
     // The accessibility tree of the pane: a control without a name shows as its role alone ("- combobox").
-    const tree = await pane().ariaSnapshot();
-    const nameless = tree
-      .split('\n')
-      .filter((line) => /^\s*- (button|combobox|textbox|spinbutton|checkbox|radio|link|slider)( \[[^\]]*\])*:?$/.test(line));
-    expect(nameless).toEqual([]);
+    await expect(namelessControls()).resolves.toEqual([]);
     const controls: [Parameters<Page['getByRole']>[0], string][] = [
       ['button', 'Visit data file (CSV or Excel .xlsx)'],
       ['button', 'Schedule file (CSV)'],
@@ -327,6 +331,8 @@ describe('the browser page with the invented demo trial', () => {
     await results().getByText(`Cell ${address} in egfr-visits.csv`).waitFor();
     const text = await results().innerText();
     for (const arm of ['Placebo', 'Active', 'TRT01P']) expect(text).not.toContain(arm);
+    // The results step's links (sheets, problem cells) have accessible names too.
+    await expect(namelessControls()).resolves.toEqual([]);
     await page.screenshot({ path: join(ARTIFACTS, 'page-blinded.png'), fullPage: false });
     // The pane scrolls inside the page: picture it from the Run step down (what the user sees after a run), and
     // separately at the height of its whole content.

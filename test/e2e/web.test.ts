@@ -15,6 +15,7 @@ import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import { extname, join, normalize, resolve, sep } from 'node:path';
+import ExcelJS from 'exceljs';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 
 const ROOT = process.cwd();
@@ -307,6 +308,20 @@ describe('the browser page with the invented demo trial', () => {
     const saved = join(ARTIFACTS, 'demo-report.xlsx');
     await download.saveAs(saved);
     expect(readFileSync(saved).subarray(0, 2).toString('latin1')).toBe('PK'); // an .xlsx is a ZIP (ECMA-376 Part 2)
+    // The workbook holds exactly the sheets the pane lists as written, and its counts carry the integer format "0".
+    const listed = (await pane().getByRole('list', { name: 'Sheets written' }).getByRole('listitem').allInnerTexts()).map(
+      (t) => t.split(':')[0]?.trim() ?? '',
+    );
+    const book = new ExcelJS.Workbook();
+    await book.xlsx.readFile(saved);
+    expect(book.worksheets.map((w) => w.name)).toEqual(listed);
+    const model = book.getWorksheet('Model results');
+    let patients: ExcelJS.Cell | undefined;
+    model?.eachRow((row) => {
+      if (row.getCell(1).value === 'Patients') patients = row.getCell(2);
+    });
+    expect(patients?.value).toBe(240); // 240 invented patients in the demo trial (demo/README.md)
+    expect(patients?.numFmt).toBe('0');
   }, 120_000);
 
   it('a blinded run shows no arm anywhere in the results', async () => {

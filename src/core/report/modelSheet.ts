@@ -1,8 +1,9 @@
 /**
  * The model's sheets (SPEC §5, §6): "Model results" opens with a plain-language paragraph and the cautions, then
- * tables of fixed effects, treatment differences by visit, slope differences, variance components and ICC, fit
- * statistics with the convergence verdict, predicted trajectories beside observed means (with a chart spec); and, on
- * request, "Per patient" with each patient's random intercept.
+ * tables of fixed effects, treatment differences by visit, slope differences, variance components and ICC, how well
+ * the model fits with the convergence verdict, predicted trajectories beside observed means (with a chart spec); and,
+ * on request, "Per patient" with each patient's random intercept. In blinded mode no text outside the cautions speaks
+ * of arms: captions, column headers and the per-patient explanation use pooled wording and the arm column is left out.
  */
 import type { Mode } from '../intake/types';
 import type { ContrastResult, ModelFit } from '../model/types';
@@ -75,7 +76,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   blocks.push({
     kind: 'table',
     id: 'FixedEffects',
-    caption: `Fixed effects (time in ${unit}s; arm terms compare each arm with ${fit.arms[0] ?? 'the reference arm'})`,
+    caption: unblinded ? `Fixed effects (time in ${unit}s; arm terms compare each arm with ${fit.arms[0]!})` : `Fixed effects (time in ${unit}s)`,
     columns: [col('Term', 'text', 28), ...inferenceColumns(fit.level)],
     rows: fit.fixedEffects.map((f) => [f.term, ...inferenceCells(f)]),
   });
@@ -124,8 +125,8 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
 
   blocks.push({
     kind: 'table',
-    id: 'FitStatistics',
-    caption: 'Fit statistics and convergence verdict',
+    id: 'ModelFit',
+    caption: 'How well the model fits, and whether the fit converged',
     columns: [col('Item', 'text', 24), col('Value', 'decimal3'), col('Note', 'text', 60)],
     rows: [
       ['Estimation', null, fit.method === 'reml' ? 'Restricted maximum likelihood (REML)' : 'Maximum likelihood'],
@@ -152,16 +153,20 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   blocks.push(...trajectoryBlocks(fit, context, unit, pct));
 
   const sheets: SheetSpec[] = [{ name: MODEL_SHEET_NAMES.results, title: 'Random-intercept model', blocks }];
-  if (context.perSubject) sheets.push(perPatientSheet(fit, context.mode));
+  if (context.perSubject) sheets.push(perPatientSheet(fit, context.mode, unblinded));
   return sheets;
 }
 
 function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: string, pct: string): Block[] {
   if (fit.trajectories.length === 0) return [];
   const label = (arm: string | null): string => (arm === null ? 'All patients' : arm);
+  // The arm column appears only in unblinded mode; blinded tables hold the pooled rows without it.
+  const withArm = context.mode === 'unblinded';
+  const armCol: TableColumn[] = withArm ? [col('Arm', 'text', 16)] : [];
+  const armCell = (arm: string | null): SheetCell[] => (withArm ? [label(arm)] : []);
   const rows: SheetCell[][] = [];
   for (const tr of fit.trajectories) {
-    tr.day.forEach((d, g) => rows.push([label(tr.arm), Math.round(d * 10) / 10, cell(tr.time[g]!), cell(tr.mean[g]!), cell(tr.lower[g]!), cell(tr.upper[g]!)]));
+    tr.day.forEach((d, g) => rows.push([...armCell(tr.arm), Math.round(d * 10) / 10, cell(tr.time[g]!), cell(tr.mean[g]!), cell(tr.lower[g]!), cell(tr.upper[g]!)]));
   }
   const observed = context.observed.filter((o) => (context.mode === 'unblinded' ? true : o.arm === null));
   const series: ChartSeries[] = [];
@@ -178,15 +183,15 @@ function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: strin
       kind: 'table',
       id: 'Trajectories',
       caption: `Predicted mean over time with ${pct} pointwise intervals (covariates at their averages)`,
-      columns: [col('Arm', 'text', 16), col('Study day', 'decimal1'), col(`Time (${unit}s)`, 'decimal2'), col('Predicted mean', 'decimal3'), col(`Lower ${pct} limit`, 'decimal3'), col(`Upper ${pct} limit`, 'decimal3')],
+      columns: [...armCol, col('Study day', 'decimal1'), col(`Time (${unit}s)`, 'decimal2'), col('Predicted mean', 'decimal3'), col(`Lower ${pct} limit`, 'decimal3'), col(`Upper ${pct} limit`, 'decimal3')],
       rows,
     },
     {
       kind: 'table',
       id: 'ObservedMeans',
       caption: 'Observed mean at each scheduled visit',
-      columns: [col('Arm', 'text', 16), col('Visit', 'text', 14), col('Study day', 'integer'), col('Observed mean', 'decimal3'), col('Patients', 'integer')],
-      rows: observed.map((o) => [label(o.arm), o.label, o.day, cell(o.mean), o.n]),
+      columns: [...armCol, col('Visit', 'text', 14), col('Study day', 'integer'), col('Observed mean', 'decimal3'), col('Patients', 'integer')],
+      rows: observed.map((o) => [...armCell(o.arm), o.label, o.day, cell(o.mean), o.n]),
     },
     {
       kind: 'chart',
@@ -195,13 +200,14 @@ function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: strin
   ];
 }
 
-function perPatientSheet(fit: ModelFit, mode: Mode): SheetSpec {
+function perPatientSheet(fit: ModelFit, mode: Mode, unblinded: boolean): SheetSpec {
+  const reference = unblinded ? 'the average for their arm and visit times' : 'the average of all patients at their visit times';
   return {
     name: MODEL_SHEET_NAMES.perPatient,
     title: 'Per-patient random intercepts',
     blocks: [
       para(
-        `Each patient's random intercept is the model's best prediction of how far that patient's level lies above (positive) or below (negative) the average for their arm and visit times, shrunk toward zero when the patient has few measurements. ${fit.subjects.length} patients.`,
+        `Each patient's random intercept is the model's best prediction of how far that patient's level lies above (positive) or below (negative) ${reference}, shrunk toward zero when the patient has few measurements. ${fit.subjects.length} patients.`,
       ),
       ...cautionBlocks(mode),
       {

@@ -10,7 +10,7 @@ export const FIT_STATUS_WORDS: Readonly<Record<FitStatus, string>> = {
 };
 
 /**
- * The verdict line of the fit-statistics table: the status word, then the engine's message when it says something the
+ * The verdict line of the model-fit table: the status word, then the engine's message when it says something the
  * word does not (never "Converged. Converged."). Example: a converged fit -> "Converged. The likelihood has its
  * maximum inside the allowed range: ...".
  */
@@ -56,7 +56,7 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
   const armed = mode === 'unblinded' && fit.terms.some((t) => t.kind === 'arm');
   const what = armed
     ? `the outcome on arm, time (in ${unit}s from the actual visit day) and arm × time`
-    : 'the outcome on time (in ' + unit + 's from the actual visit day), pooled over arms';
+    : `the outcome on time (in ${unit}s from the actual visit day), pooled over all patients`;
   const covs = fit.terms.filter((t) => t.kind === 'covariate').length;
   let text =
     `A random-intercept linear mixed model, ${methodWords(fit)}, regressed ${what}${covs > 0 ? ', adjusted for the chosen covariates' : ''}, ` +

@@ -62,9 +62,9 @@ describe('modelSheets', () => {
     expect(texts('blinded')).toEqual([...CAUTIONS, ...CAUTIONS]);
   });
 
-  it('has the fixed-effects, by-visit, slope, variance, fit-statistics, trajectory and observed tables with consistent shapes', () => {
+  it('has the fixed-effects, by-visit, slope, variance, model-fit, trajectory and observed tables with consistent shapes', () => {
     const ts = tables(modelSheets(fit, ctx('unblinded', false)));
-    expect(ts.map((t) => t.id)).toEqual(['FixedEffects', 'DifferenceByVisit', 'SlopeDifference', 'VarianceICC', 'FitStatistics', 'FitCounts', 'Trajectories', 'ObservedMeans']);
+    expect(ts.map((t) => t.id)).toEqual(['FixedEffects', 'DifferenceByVisit', 'SlopeDifference', 'VarianceICC', 'ModelFit', 'FitCounts', 'Trajectories', 'ObservedMeans']);
     for (const t of ts) {
       expect(t.id).toMatch(/^[A-Za-z0-9]+$/);
       for (const r of t.rows) expect(r.length).toBe(t.columns.length);
@@ -100,11 +100,11 @@ describe('modelSheets', () => {
     expect(all).not.toContain('Placebo');
     const first = sheets[0]!.blocks[0]!;
     expect(first.kind === 'paragraph' ? first.text : '').toMatch(/intraclass correlation is 0\.\d+/);
-    expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'FitStatistics', 'FitCounts', 'Trajectories', 'ObservedMeans']);
+    expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'ModelFit', 'FitCounts', 'Trajectories', 'ObservedMeans']);
   });
 
   it('the verdict row gives the status word once, then what the engine adds ("Converged. Converged." never appears)', () => {
-    const fitStats = tables(modelSheets(fit, ctx('unblinded', false))).find((t) => t.id === 'FitStatistics')!;
+    const fitStats = tables(modelSheets(fit, ctx('unblinded', false))).find((t) => t.id === 'ModelFit')!;
     const verdict = fitStats.rows.find((r) => r[0] === 'Verdict')![2] as string;
     expect(verdict).toMatch(/^Converged\. The likelihood has its maximum inside the allowed range/);
     expect(verdict).not.toMatch(/Converged\.\s+Converged/);
@@ -125,14 +125,57 @@ describe('modelSheets', () => {
     const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
     const first = modelSheets(blind, { observed: [], mode: 'blinded', perSubject: false, subjectIds: [] })[0]!.blocks[0]!;
     const text = first.kind === 'paragraph' ? first.text : '';
-    expect(text).toContain('pooled over arms');
-    expect(text).not.toMatch(/differed|treatment|arm ×|arm,/);
+    expect(text).toContain('pooled over all patients');
+    expect(text).not.toMatch(/differed|treatment|\barms?\b/i);
     expect(text).toMatch(/changed by -?\d/);
   });
 
   it('number phrasing: 1 decimal from 100, 2 from 1, 3 significant below; p below 0.0001 as "< 0.0001"', () => {
     expect([num(123.456), num(-2.345), num(0.012345), num(NaN)]).toEqual(['123.5', '-2.35', '0.0123', 'n/a']);
     expect([pPhrase(0.00001), pPhrase(0.01234)]).toEqual(['p < 0.0001', 'p = 0.0123']);
+  });
+
+  it('in blinded mode no text outside the cautions speaks of arms: sheet titles, paragraphs, captions, headers, cells and chart', () => {
+    const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
+    const blindObserved = visits.map((v) => ({ ...v, arm: null, mean: 55, n: 30 }));
+    const sheets = modelSheets(blind, { observed: blindObserved, mode: 'blinded', perSubject: true, subjectIds: [] });
+    expect(sheets.map((s) => s.name)).toEqual(['Model results', 'Per patient']);
+    const texts: string[] = [];
+    for (const sh of sheets) {
+      texts.push(sh.name, sh.title);
+      for (const b of sh.blocks) {
+        if (b.kind === 'paragraph') {
+          if (b.style !== 'caution') texts.push(b.text);
+        } else if (b.kind === 'table') {
+          texts.push(b.id, b.caption, ...b.columns.map((c) => c.header));
+          for (const r of b.rows) for (const c of r) if (typeof c === 'string') texts.push(c);
+        } else {
+          const c = b.chart;
+          texts.push(c.id, c.title, c.xLabel, c.yLabel, ...c.series.map((x) => x.name));
+        }
+      }
+    }
+    const armWord = /\barms?\b/i;
+    expect(texts.filter((t) => armWord.test(t))).toEqual([]);
+    // The cautions are the only text excepted; the check itself can fail (the unblinded sheets do speak of arms).
+    const unblindedTexts = modelSheets(fit, ctx('unblinded', true)).flatMap((sh) =>
+      sh.blocks.flatMap((b) => (b.kind === 'paragraph' && b.style !== 'caution' ? [b.text] : b.kind === 'table' ? [b.caption, ...b.columns.map((c) => c.header)] : [])),
+    );
+    expect(unblindedTexts.filter((t) => armWord.test(t)).length).toBeGreaterThan(0);
+  });
+
+  it('in blinded mode the trajectory and observed-mean tables hold the pooled rows without an arm column', () => {
+    const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
+    const ts = tables(modelSheets(blind, { observed: visits.map((v) => ({ ...v, arm: null, mean: 55, n: 30 })), mode: 'blinded', perSubject: false, subjectIds: [] }));
+    const traj = ts.find((t) => t.id === 'Trajectories')!;
+    const obs = ts.find((t) => t.id === 'ObservedMeans')!;
+    expect(traj.columns[0]!.header).toBe('Study day');
+    expect(traj.rows.length).toBe(blind.trajectories[0]!.day.length);
+    expect(obs.columns.map((c) => c.header)).toEqual(['Visit', 'Study day', 'Observed mean', 'Patients']);
+    expect(obs.rows[0]).toEqual(['Week 12', 85, 55, 30]);
+    const unblindedObs = tables(modelSheets(fit, ctx('unblinded', false))).find((t) => t.id === 'ObservedMeans')!;
+    expect(unblindedObs.columns[0]!.header).toBe('Arm');
+    expect(unblindedObs.rows[0]![0]).toBe('Placebo');
   });
 
   it('refuses a blinded report of a fit with arms (ModelReportError), so arms never leak into blinded sheets', () => {

@@ -259,11 +259,16 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
       let n = 0;
       for (let k = 0; k < d.y.length; k++) {
         if (d.subject[k] !== i) continue;
+        // Absolute 1e-8 on residuals of order 1–10 (y up to about 95): the same quantity by two exact routes, whose
+        // rounding differences are about 2e-14 here; 1e-8 sits far above that rounding (the dense route solves with
+        // X'V⁻¹X of condition number about 1.6e6) and far below any formula error, which would show at order 1.
         expect(Math.abs(fit.residuals![k]! - (r.get(k, 0) - u))).toBeLessThan(1e-8);
         resSum += fit.residuals![k]!;
         n++;
       }
       expect(fit.subjects[i]!.n).toBe(n);
+      // Absolute 5e-10 (toBeCloseTo, 9 digits): the mean of the same n ≤ 5 residuals summed in a possibly different
+      // order, so only rounding of order 1e-15 separates the two.
       expect(fit.subjects[i]!.meanResidual).toBeCloseTo(resSum / n, 9);
     }
   });

@@ -14,23 +14,32 @@ function msbMsw(groups: readonly (readonly number[])[]): { msb: number; msw: num
   return { msb: ssb / (a - 1), msw: ssw / (a * (n - 1)), a, n };
 }
 
+/** |actual − expected| ≤ tol · |expected|: a relative check for values whose size varies (8 to 24000 here). */
+function expectRelClose(actual: number, expected: number, tol: number): void {
+  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(tol * Math.abs(expected));
+}
+
 describe('variance-component intervals', () => {
   for (const [name, groups] of [['rails (Devore 2000)', RAILS], ['dyestuff (Davies 1947)', DYESTUFF]] as const) {
     it(`${name}: the within-patient interval is the exact chi-square interval SSW/χ²(N − a) (Searle 1971, exact identity)`, () => {
       const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
       const { msw, a, n } = msbMsw(groups);
       const nu = a * (n - 1);
-      // Relative 1e-9: in balanced data W_22 = 2σ⁴/(N − a) exactly, so only rounding separates the two.
-      expect(v.residualLower).toBeCloseTo((nu * msw) / chiSquareQuantile(0.975, nu), 6);
-      expect(v.residualUpper).toBeCloseTo((nu * msw) / chiSquareQuantile(0.025, nu), 6);
+      // Relative 1e-9: in balanced data W_22 = 2σ⁴/(N − a) exactly and the REML σ² equals MSW at the optimum, so only
+      // the optimiser's stopping rule on log γ (about 1e-12, carried into σ² at that relative size) and rounding
+      // separate the two; both limits are about 1e-13 relative apart on these data.
+      expectRelClose(v.residualLower, (nu * msw) / chiSquareQuantile(0.975, nu), 1e-9);
+      expectRelClose(v.residualUpper, (nu * msw) / chiSquareQuantile(0.025, nu), 1e-9);
     });
     it(`${name}: the between-patient interval uses Satterthwaite's df for (MSB − MSW)/n (Satterthwaite 1946, exact identity)`, () => {
       const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
       const { msb, msw, a, n } = msbMsw(groups);
       const s2u = (msb - msw) / n;
       const nu = (msb - msw) ** 2 / (msb ** 2 / (a - 1) + msw ** 2 / (a * (n - 1)));
-      expect(v.subjectLower).toBeCloseTo((nu * s2u) / chiSquareQuantile(0.975, nu), 6);
-      expect(v.subjectUpper).toBeCloseTo((nu * s2u) / chiSquareQuantile(0.025, nu), 6);
+      // Relative 1e-9, for the same reason as above: the REML σ²_u equals (MSB − MSW)/n at the optimum, so only the
+      // stopping rule on log γ and rounding separate the two (about 1e-13 relative on these data).
+      expectRelClose(v.subjectLower, (nu * s2u) / chiSquareQuantile(0.975, nu), 1e-9);
+      expectRelClose(v.subjectUpper, (nu * s2u) / chiSquareQuantile(0.025, nu), 1e-9);
     });
   }
   it('rails (Devore 2000): the within-patient interval 8.313 to 44.05 would be 7.26 to 35.99 by a log-scale Wald interval', () => {
@@ -64,7 +73,7 @@ function twoArm(): ModelData {
   return { y: Float64Array.from(y), time: Float64Array.from(time), subject: Int32Array.from(subject), nSubjects: 40, armIndex: Int32Array.from(arm), arms: ['Placebo', 'Drug'], covariates: [] };
 }
 
-describe('contrasts, trajectories and fit statistics', () => {
+describe('contrasts, trajectories, AIC and BIC', () => {
   const d = twoArm();
   const opts: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.9, timeUnit: 'month', contrastDays: [{ label: 'Week 12', day: 85 }, { label: 'Week 48', day: 337 }] };
   const fit = fitRandomIntercept(d, opts);
@@ -73,7 +82,8 @@ describe('contrasts, trajectories and fit statistics', () => {
     const b = fit.fixedEffects;
     for (const te of fit.treatmentEffects) {
       expect(te.time).toBe((te.day - 1) / 30.4375);
-      expect(te.estimate).toBeCloseTo(b[1]!.estimate + te.time * b[3]!.estimate, 10); // exact identity
+      // Exact identities; absolute 5e-11 (10 digits) on values of order 1–10 leaves only a few products' rounding.
+      expect(te.estimate).toBeCloseTo(b[1]!.estimate + te.time * b[3]!.estimate, 10);
       // The interval is estimate ± t(0.95; df)·SE at level 0.9.
       expect(te.upper - te.estimate).toBeCloseTo(tQuantile(0.95, te.df) * te.se, 10);
     }
@@ -86,6 +96,8 @@ describe('contrasts, trajectories and fit statistics', () => {
     expect(ref!.arm).toBe('Placebo');
     expect(drug!.arm).toBe('Drug');
     const b = fit.fixedEffects;
+    // Exact identities; absolute 5e-10 (9 digits) on means of order 60 and days up to about 340: rounding of a few
+    // products and sums only (about 340 · 2.2e-16 ≈ 1e-13).
     ref!.time.forEach((t, g) => {
       expect(ref!.mean[g]).toBeCloseTo(b[0]!.estimate + t * b[2]!.estimate, 9);
       expect(drug!.mean[g]! - ref!.mean[g]!).toBeCloseTo(b[1]!.estimate + t * b[3]!.estimate, 9);
@@ -102,6 +114,7 @@ describe('contrasts, trajectories and fit statistics', () => {
     const p = fit.fixedEffects.length;
     expect(fit.nParameters).toBe(p + 2);
     expect(fit.bicN).toBe(d.y.length - p);
+    // Same formula by hand; absolute 5e-11 (10 digits) on criteria of order 1000 leaves only rounding (about 1e-13).
     expect(fit.aic).toBeCloseTo(-2 * fit.logLik + 2 * (p + 2), 10);
     expect(fit.bic).toBeCloseTo(-2 * fit.logLik + (p + 2) * Math.log(d.y.length - p), 10);
     const ml = fitRandomIntercept(d, { ...opts, method: 'ml' });
@@ -122,6 +135,8 @@ describe('contrasts, trajectories and fit statistics', () => {
     expect(fit.subjects.length).toBe(40);
     for (const s of fit.subjects) {
       const raw = s.blup + s.meanResidual; // (t_i − s_i'β)/n_i
+      // û_i = n_iγ/(1 + n_iγ) · ē_i with a factor below 1, so the inequality is strict in exact arithmetic; the absolute
+      // 1e-12 slack only absorbs rounding in sums of n_i ≤ 5 values of order 60 (about 60 · 5 · 2.2e-16 ≈ 7e-14).
       expect(Math.abs(s.blup)).toBeLessThanOrEqual(Math.abs(raw) + 1e-12);
     }
   });

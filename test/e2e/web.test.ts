@@ -155,6 +155,10 @@ async function recordStatus(): Promise<void> {
   });
 }
 
+/** The pane's width (350 px, as a task pane in Excel) and how wide its content is: equal when nothing runs off sideways. */
+const paneWidths = (): Promise<{ client: number; scroll: number }> =>
+  pane().evaluate((el) => ({ client: el.clientWidth, scroll: el.scrollWidth }));
+
 /** Lines of the pane's accessibility tree for controls without an accessible name (shown as the role alone). */
 async function namelessControls(): Promise<string[]> {
   const tree = await pane().ariaSnapshot();
@@ -175,6 +179,10 @@ describe('the browser page with the invented demo trial', () => {
     await pane().getByRole('button', { name: 'Confirm columns' }).click();
     await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
     await pane().getByRole('region', { name: 'Visit schedule' }).getByText('Week 48').waitFor();
+    // The pane keeps to its task-pane width: wide previews scroll inside their own region, not the pane.
+    const { client, scroll } = await paneWidths();
+    expect(client).toBeLessThanOrEqual(350);
+    expect(scroll).toBe(client);
   });
 
   it('every control of the pane has an accessible name, and the settings are found by role and name', async () => {
@@ -346,8 +354,10 @@ describe('the browser page with the invented demo trial', () => {
     await results().getByText(`Cell ${address} in egfr-visits.csv`).waitFor();
     const text = await results().innerText();
     for (const arm of ['Placebo', 'Active', 'TRT01P']) expect(text).not.toContain(arm);
-    // The results step's links (sheets, problem cells) have accessible names too.
+    // The results step's links (sheets, problem cells) have accessible names too, and fit the pane's width.
     await expect(namelessControls()).resolves.toEqual([]);
+    const { client, scroll } = await paneWidths();
+    expect(scroll).toBe(client);
     await page.screenshot({ path: join(ARTIFACTS, 'page-blinded.png'), fullPage: false });
     // The pane scrolls inside the page: picture it from the Run step down (what the user sees after a run), and
     // separately at the height of its whole content.

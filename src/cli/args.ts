@@ -1,4 +1,5 @@
 /** Command-line argument parsing for `longipane analyze` (no library: a dozen flags do not need one). */
+import { resolve } from 'node:path';
 import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
 
 /** Misuse of the command line: the message says what was wrong; main prints it and exits with code 2. */
@@ -45,6 +46,19 @@ export function isIsoDate(text: string): boolean {
   return t.getUTCFullYear() === y && t.getUTCMonth() === mo - 1 && t.getUTCDate() === d;
 }
 
+/** Output files must be new names: never an input (the source is never modified) and not each other; --out must be
+ * an .xlsx file, since that is what is written there. */
+function checkOutputs(inputs: readonly [string, string][], outputs: readonly [string, string | undefined][]): void {
+  const seen = new Map<string, string>(inputs.map(([flag, path]) => [resolve(path), flag]));
+  for (const [flag, path] of outputs) {
+    if (path === undefined) continue;
+    if (flag === 'out' && !/\.xlsx$/i.test(path)) throw new UsageError(`--out must name an .xlsx file (the report is a workbook); got "${path}".`);
+    const clash = seen.get(resolve(path));
+    if (clash !== undefined) throw new UsageError(`--${flag} "${path}" is the same file as --${clash}; give the output a new name.`);
+    seen.set(resolve(path), flag);
+  }
+}
+
 /**
  * Parses the arguments after `analyze`. Flags take their value as the next argument or after "=" (`--level=0.9`);
  * --map and --covariate may repeat.
@@ -82,6 +96,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
   const schedule = one('schedule');
   if (data === undefined) throw new UsageError('--data FILE is required (a .csv or .xlsx file of visits).');
   if (schedule === undefined) throw new UsageError('--schedule FILE is required (a CSV with header visit,target_day,days_before,days_after).');
+  checkOutputs([['data', data], ['schedule', schedule]], [['out', one('out')], ['json', one('json')]]);
   const cutoff = one('cutoff');
   if (cutoff !== undefined && !isIsoDate(cutoff)) throw new UsageError(`--cutoff must be a real date written YYYY-MM-DD; got "${cutoff}".`);
   const levelText = one('level') ?? '0.95';

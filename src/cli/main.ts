@@ -10,7 +10,7 @@ import { FileFormatError, writeWorkbook } from '../files';
 import pkg from '../../package.json';
 import { HELP_TEXT, parseAnalyzeArgs, UsageError } from './args';
 import type { AnalyzeArgs } from './args';
-import { writeFileAtomic } from './atomicWrite';
+import { OutputWriteError, writeFilesAtomic } from './atomicWrite';
 import { buildMapping } from './mapping';
 import { readDataFile, readScheduleFile } from './readInputs';
 
@@ -109,17 +109,12 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     if (firstPerCell.length > WARNINGS_SHOWN) io.out(`  … and ${firstPerCell.length - WARNINGS_SHOWN} more.`);
   }
   printSummary(output.json, io);
-  // Build every output in memory first, so a failure leaves no file half-written.
-  const xlsx = args.out === undefined ? null : await writeWorkbook(output.sheets);
-  const jsonText = args.json === undefined ? null : `${JSON.stringify(output.json, null, 2)}\n`;
-  if (xlsx !== null && args.out !== undefined) {
-    await writeFileAtomic(args.out, xlsx);
-    io.out(`Wrote ${args.out}`);
-  }
-  if (jsonText !== null && args.json !== undefined) {
-    await writeFileAtomic(args.json, jsonText);
-    io.out(`Wrote ${args.json}`);
-  }
+  // Build every output in memory first, then write all or nothing, so a failure leaves no file half-written.
+  const files: { target: string; data: Uint8Array | string }[] = [];
+  if (args.out !== undefined) files.push({ target: args.out, data: await writeWorkbook(output.sheets) });
+  if (args.json !== undefined) files.push({ target: args.json, data: `${JSON.stringify(output.json, null, 2)}\n` });
+  await writeFilesAtomic(files);
+  for (const f of files) io.out(`Wrote ${f.target}`);
   if (args.out === undefined && args.json === undefined) io.out('Nothing written: give --out FILE.xlsx and/or --json FILE.json to save the results.');
   return 0;
 }
@@ -150,7 +145,7 @@ export async function main(argv: readonly string[], io: CliOutput = processConso
       io.err('Run `longipane help` for the options.');
       return 2;
     }
-    if (e instanceof FileFormatError || e instanceof IntakeUsageError || e instanceof PipelineUsageError) {
+    if (e instanceof FileFormatError || e instanceof IntakeUsageError || e instanceof PipelineUsageError || e instanceof OutputWriteError) {
       io.err(`longipane: ${e.message}`);
       return 2;
     }

@@ -4,7 +4,7 @@ import { MAX_COLUMN_INDEX, MAX_ROW } from '../core/intake';
 import type { CellValue, DateSystem } from '../core/intake/types';
 import { parseSchedule } from '../core/schedule';
 import type { ScheduleVisit } from '../core/schedule/types';
-import { columnLetters, readCsvText, readXlsxBuffer } from '../files';
+import { columnLetters, decodeCsvBytes, FileFormatError, readCsvText, readXlsxBuffer } from '../files';
 import { UsageError } from './args';
 
 /** The data file as cells, with where they came from (for cell addresses and the analysis record). */
@@ -45,7 +45,8 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
   const bytes = await readBytes(path, 'data file');
   if (ext === '.csv' || ext === '.txt') {
     if (sheet !== undefined) throw new UsageError('--sheet applies to .xlsx files only.');
-    const cells = readCsvText(new TextDecoder('utf-8').decode(bytes));
+    const cells = readCsvText(decodeCsvBytes(bytes, path));
+    if (cells.length === 0) throw new FileFormatError(`"${path}" is empty: it needs a header row and one row per visit.`);
     // Every problem and result refers to a worksheet cell, so the file must fit on one worksheet.
     if (cells.length > MAX_ROW || (cells[0]?.length ?? 0) > MAX_COLUMN_INDEX + 1) {
       throw new UsageError(
@@ -74,7 +75,8 @@ export async function readScheduleFile(
   path: string,
 ): Promise<{ readonly ok: true; readonly schedule: readonly ScheduleVisit[]; readonly warnings: readonly string[] } | { readonly ok: false; readonly errors: readonly string[] }> {
   const bytes = await readBytes(path, 'schedule file');
-  const cells = readCsvText(new TextDecoder('utf-8').decode(bytes));
+  const cells = readCsvText(decodeCsvBytes(bytes, path));
+  if (cells.length === 0) throw new FileFormatError(`The schedule "${path}" is empty: it needs the header visit,target_day,days_before,days_after and one row per visit.`);
   const parsed = parseSchedule(cells, basename(path, extname(path)), 'A1');
   const line = (i: { cell: string | null; message: string }): string => (i.cell === null ? i.message : `${i.cell}: ${i.message}`);
   if (!parsed.ok) return { ok: false, errors: parsed.issues.filter((i) => i.severity === 'error').map(line) };

@@ -5,3 +5,4 @@ export type { XlsxSheet } from './readXlsx';
 export { writeWorkbook, CHART_NOTE } from './writeWorkbook';
 export { uniqueSheetNames, uniqueTableName, MAX_SHEET_NAME } from './sheetNames';
 export { columnLetters } from './cellAddress';
+export { decodeCsvBytes } from './decodeText';

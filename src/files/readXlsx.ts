@@ -16,6 +16,9 @@ export interface XlsxSheet {
 }
 
 const MS_PER_DAY = 86_400_000;
+/** First bytes of a zip archive (every .xlsx is one) and of an OLE2 compound file (the older .xls format). */
+const ZIP_MAGIC = [0x50, 0x4b, 0x03, 0x04] as const;
+const OLE2_MAGIC = [0xd0, 0xcf, 0x11, 0xe0] as const;
 /** Days from 1899-12-30 (serial 0 of the 1900 system) to 1970-01-01 (ECMA-376 Part 1, §18.17.4.1). */
 const UNIX_EPOCH_SERIAL_1900 = 25_569;
 /** 1904-system serial 0 is 1904-01-01, which is 1900-system serial 1462 (ECMA-376 Part 1, §18.17.4.1). */
@@ -52,6 +55,13 @@ function plainValue(v: ExcelJS.CellValue, system: DateSystem): CellValue {
  * @throws FileFormatError when the bytes are not an .xlsx workbook, the named sheet does not exist, or it is empty.
  */
 export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: string): Promise<XlsxSheet> {
+  const head = new Uint8Array(buf instanceof ArrayBuffer ? buf : buf.buffer, buf instanceof ArrayBuffer ? 0 : buf.byteOffset, Math.min(4, buf.byteLength));
+  if (OLE2_MAGIC.every((b, k) => head[k] === b)) {
+    throw new FileFormatError('The file is an older .xls workbook, not .xlsx; save it as .xlsx (Excel Workbook) or as CSV.');
+  }
+  if (!ZIP_MAGIC.every((b, k) => head[k] === b)) {
+    throw new FileFormatError('The file is not an .xlsx workbook: an .xlsx file is a zip archive and this one is not. If it holds CSV text, give it the .csv extension.');
+  }
   const wb = new ExcelJS.Workbook();
   let system: DateSystem;
   try {

@@ -296,7 +296,7 @@ describe('longipane analyze when something is wrong', () => {
     await writeFile(join(d, 'schedule.csv'), SCHEDULE);
     const r = await run('analyze', '--data', join(d, 'visits.csv'), '--schedule', join(d, 'schedule.csv'), '--json', join(d, 'results.json'));
     expect(r.code).toBe(2);
-    expect(r.err.join('\n')).toMatch(/cannot write/);
+    expect(r.err.join('\n')).toMatch(/Cannot write ".*results\.json": a folder of that name is in the way\. Nothing was written\./);
     expect((await readdir(d)).sort()).toEqual(['results.json', 'schedule.csv', 'visits.csv']);
   });
 
@@ -340,5 +340,120 @@ describe('longipane analyze when something is wrong', () => {
     const r = await run('help');
     expect(r.code).toBe(0);
     expect(r.out.join('\n')).toMatch(/longipane analyze --data FILE --schedule FILE/);
+  });
+});
+
+describe('longipane analyze used carelessly (each case a bug found by trying it)', () => {
+  let d: string;
+  beforeAll(async () => {
+    d = join(dir, 'careless');
+    await mkdir(d, { recursive: true });
+    await writeFile(join(d, 'schedule.csv'), SCHEDULE);
+  });
+  const analyze = (data: string, ...more: string[]): Promise<Run> =>
+    run('analyze', '--data', join(d, data), '--schedule', join(d, 'schedule.csv'), ...more);
+
+  it('an empty data file or schedule is named as empty and exits with 2 (regression: "the header row is empty")', async () => {
+    await writeFile(join(d, 'empty.csv'), '');
+    const r = await analyze('empty.csv');
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/empty\.csv" is empty: it needs a header row/);
+    await writeFile(join(d, 'visits.csv'), SMALL);
+    await writeFile(join(d, 'blank-schedule.csv'), '\n\n');
+    const s = await run('analyze', '--data', join(d, 'visits.csv'), '--schedule', join(d, 'blank-schedule.csv'));
+    expect(s.code).toBe(2);
+    expect(s.err.join('\n')).toMatch(/The schedule ".*blank-schedule\.csv" is empty/);
+  });
+
+  it('a binary file or a workbook renamed .csv is called what it is (regression: "no column is mapped to the subject")', async () => {
+    await writeFile(join(d, 'binary.csv'), Uint8Array.of(0x7f, 0x45, 0x4c, 0x46, 0x02, 0x01, 0x00, 0x00, 0x2c, 0x0a));
+    const bin = await analyze('binary.csv');
+    expect(bin.code).toBe(2);
+    expect(bin.err.join('\n')).toMatch(/binary\.csv" is not CSV text: it holds binary data \(a zero byte at byte 7\)/);
+    const wb = new ExcelJS.Workbook();
+    wb.addWorksheet('S').addRow(['USUBJID']);
+    await writeFile(join(d, 'workbook.csv'), new Uint8Array(await wb.xlsx.writeBuffer()));
+    const zip = await analyze('workbook.csv');
+    expect(zip.code).toBe(2);
+    expect(zip.err.join('\n')).toMatch(/workbook\.csv" is a zip archive such as an \.xlsx workbook, not CSV text/);
+  });
+
+  it('a text file named .xlsx gets a plain message without library internals (regression: a zip library’s web link)', async () => {
+    await writeFile(join(d, 'text.xlsx'), SMALL);
+    const r = await analyze('text.xlsx');
+    expect(r.code).toBe(2);
+    expect(r.err).toEqual([
+      'longipane: The file is not an .xlsx workbook: an .xlsx file is a zip archive and this one is not. If it holds CSV text, give it the .csv extension.',
+    ]);
+  });
+
+  it('a CSV saved in the Windows-1252 code page keeps its accented site name (regression: replacement characters)', async () => {
+    const latin1 = Uint8Array.from([...SMALL.replaceAll('Lindale', 'M\u00fchlfeld')].map((ch) => ch.charCodeAt(0)));
+    await writeFile(join(d, 'latin1.csv'), latin1);
+    const r = await analyze('latin1.csv', '--json', join(d, 'latin1.json'));
+    expect(r.code).toBe(0);
+    const text = await readFile(join(d, 'latin1.json'), 'utf8');
+    expect(text).toContain('M\u00fchlfeld');
+    expect(text).not.toContain('\ufffd');
+  });
+
+  it('--out naming the data file is refused and the data are left as they were (regression: the source was replaced)', async () => {
+    await writeFile(join(d, 'own.xlsx'), 'not really a workbook');
+    const r = await run('analyze', '--data', join(d, 'own.xlsx'), '--schedule', join(d, 'schedule.csv'), '--out', join(d, 'own.xlsx'));
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/--out ".*own\.xlsx" is the same file as --data/);
+    expect(await readFile(join(d, 'own.xlsx'), 'utf8')).toBe('not really a workbook');
+  });
+
+  it('when the JSON cannot be written the report is not written either (regression: half the outputs were left)', async () => {
+    const o = join(d, 'half');
+    await mkdir(o, { recursive: true });
+    await writeFile(join(o, 'taken'), 'a file where a folder is needed');
+    await writeFile(join(d, 'visits.csv'), SMALL);
+    const r = await analyze('visits.csv', '--out', join(o, 'report.xlsx'), '--json', join(o, 'taken', 'results.json'));
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/Cannot write ".*results\.json": a part of the path is a file, not a folder/);
+    expect(await readdir(o)).toEqual(['taken']);
+  });
+
+  it('a --reference-arm not in the data still fits the model with the first arm and says so (regression: model not fitted, "..")', async () => {
+    await writeFile(join(d, 'visits.csv'), SMALL);
+    const r = await analyze('visits.csv', '--unblinded', '--reference-arm', 'Plaecbo', '--json', join(d, 'ref.json'));
+    expect(r.code).toBe(0);
+    expect(r.out.join('\n')).toMatch(/Note: The reference arm "Plaecbo" is not among the arms in the data \("Placebo", "Active"\); "Placebo"/);
+    const json = await readJson(join(d, 'ref.json'));
+    expect(json.model?.arms).toEqual(['Placebo', 'Active']);
+    expect(r.out.join('\n')).not.toMatch(/\.\./);
+  });
+
+  it('semicolons, Windows line endings, a byte-order mark and a quoted line break give the same results as a plain CSV', async () => {
+    await writeFile(join(d, 'plain.csv'), SMALL);
+    const base = await analyze('plain.csv', '--json', join(d, 'plain.json'));
+    expect(base.code).toBe(0);
+    const want = await readJson(join(d, 'plain.json'));
+    const variants: [string, string][] = [
+      ['semicolon.csv', SMALL.replaceAll(',', ';')],
+      ['crlf.csv', SMALL.replaceAll('\n', '\r\n')],
+      ['bom.csv', `\ufeff${SMALL}`],
+      // RFC 4180 §2.6: a quoted field may hold a line break; it stays one record, so row numbers count records.
+      ['quoted.csv', SMALL.replace('P-01,Lindale,Placebo,Baseline', 'P-01,"Lin\ndale",Placebo,Baseline')],
+    ];
+    for (const [name, text] of variants) {
+      await writeFile(join(d, name), text);
+      const r = await analyze(name, '--json', join(d, `${name}.json`));
+      expect(r.code, name).toBe(0);
+      const got = await readJson(join(d, `${name}.json`));
+      expect(got.visits.counts, name).toEqual(want.visits.counts);
+      expect(got.input.excluded.map((e) => `${e.cell.replace(/^.*!/, '')} ${e.use}`), name).toEqual(want.input.excluded.map((e) => `${e.cell.replace(/^.*!/, '')} ${e.use}`));
+    }
+  });
+
+  it('three arms in unblinded mode fit one model with the chosen reference first', async () => {
+    const three = SMALL.replace(/P-06,Corvale,Active/g, 'P-06,Corvale,Boost').replace(/P-05,Lindale,Placebo/g, 'P-05,Lindale,Boost');
+    await writeFile(join(d, 'three.csv'), three);
+    const r = await analyze('three.csv', '--unblinded', '--reference-arm', 'Active', '--json', join(d, 'three.json'));
+    const json = await readJson(join(d, 'three.json'));
+    expect(r.code).toBe(0);
+    expect(json.model?.arms).toEqual(['Active', 'Placebo', 'Boost']);
   });
 });

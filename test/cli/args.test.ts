@@ -48,6 +48,17 @@ describe('parseAnalyzeArgs', () => {
     for (const [argv, message] of bad) expect(() => parseAnalyzeArgs(argv)).toThrow(message);
     expect(() => parseAnalyzeArgs([])).toThrow(UsageError);
   });
+
+  it('refuses an output that would overwrite an input or the other output, and an --out that is not .xlsx (regression: --out could replace the data file)', () => {
+    const bad: [string[], RegExp][] = [
+      [['--data', 'v.xlsx', '--schedule', 's.csv', '--out', './v.xlsx'], /--out "\.\/v\.xlsx" is the same file as --data/],
+      [[...BASE, '--json', 's.csv'], /--json "s\.csv" is the same file as --schedule/],
+      [[...BASE, '--out', 'r.xlsx', '--json', 'r.xlsx'], /--json "r\.xlsx" is the same file as --out/],
+      [[...BASE, '--out', 'report.csv'], /--out must name an \.xlsx file/],
+    ];
+    for (const [argv, message] of bad) expect(() => parseAnalyzeArgs(argv)).toThrow(message);
+    expect(parseAnalyzeArgs([...BASE, '--out', 'R.XLSX', '--json', 'r.json'])).toMatchObject({ out: 'R.XLSX', json: 'r.json' });
+  });
 });
 
 describe('isIsoDate', () => {

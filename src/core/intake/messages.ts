@@ -122,7 +122,7 @@ export function renderMessage(m: MessageInput): string {
     case 'after-cutoff':
       return `${at}the record is dated after the data cut-off, so it is ${left}.`;
     case 'model-not-fitted':
-      return `The model could not be fitted${m.context === undefined ? '' : `: ${m.context}`}. The visit-timing results stand.`;
+      return `The model could not be fitted${m.context === undefined ? '' : `: ${m.context.replace(/\.+$/, '')}`}. The visit-timing results stand.`;
     case 'bad-covariate':
       return `${at}covariate ${quoted(m.context ?? '')} is treated as categorical because this cell holds the text ${quoted(m.value)}; make every cell a number to use it as a numeric covariate.`;
   }

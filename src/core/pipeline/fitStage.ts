@@ -27,7 +27,10 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
   const include = modelRows(table, timing, settings.scheduledOnly);
   const notes: string[] = [];
   const unblinded = settings.mode === 'unblinded';
-  if (unblinded && settings.referenceArm !== undefined && !table.arms.includes(settings.referenceArm)) {
+  // A chosen reference arm that is not in the data falls back to the first arm (as the note says), so it must not
+  // reach the engine, which would refuse it and leave the model unfitted.
+  const referenceArm = settings.referenceArm !== undefined && table.arms.includes(settings.referenceArm) ? settings.referenceArm : undefined;
+  if (unblinded && settings.referenceArm !== undefined && referenceArm === undefined) {
     notes.push(
       `The reference arm "${settings.referenceArm}" is not among the arms in the data (${table.arms.map((a) => `"${a}"`).join(', ')}); "${table.arms[0] ?? ''}", the first arm in the data, serves as the reference instead.`,
     );
@@ -43,13 +46,13 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
         timeUnit: settings.timeUnit,
         contrastDays: contrastDays(settings.schedule),
         residuals: settings.perSubject,
-        ...(settings.referenceArm === undefined ? {} : { referenceArm: settings.referenceArm }),
+        ...(referenceArm === undefined ? {} : { referenceArm }),
       });
     } catch (e) {
       if (!(e instanceof ModelInputError || e instanceof RankDeficiencyError)) throw e;
       note = e.message;
     }
   }
-  const arms = unblinded ? (fit?.arms ?? orderedArms(table.arms, settings.referenceArm)) : [];
+  const arms = unblinded ? (fit?.arms ?? orderedArms(table.arms, referenceArm)) : [];
   return { fit, note, arms, means: observedMeans(table, timing, settings.schedule, include, arms), notes };
 }

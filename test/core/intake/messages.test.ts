@@ -67,3 +67,10 @@ describe('renderMessage', () => {
     );
   });
 });
+
+describe('renderMessage punctuation', () => {
+  it('model-not-fitted ends its reason with one full stop even when the reason has its own (regression: "..")', () => {
+    const m = renderMessage({ code: 'model-not-fitted', role: 'value', value: '', cell: null, use: 'model', context: 'Model input: one subject only.' });
+    expect(m).toBe('The model could not be fitted: Model input: one subject only. The visit-timing results stand.');
+  });
+});

@@ -138,7 +138,7 @@ describe('runAnalysis', () => {
     expect((unblinded.json.settings as { referenceArm: unknown }).referenceArm).toBe('Y');
   });
 
-  it('says so in the notes when the chosen reference arm is not in the data, and uses the first arm instead', async () => {
+  it('says so in the notes when the chosen reference arm is not in the data, and fits the model with the first arm instead (regression: the model was left unfitted)', async () => {
     const out = await runAnalysis(CELLS, {
       ...SETTINGS,
       mode: 'unblinded',
@@ -148,5 +148,7 @@ describe('runAnalysis', () => {
     if (!out.ok) throw new Error('run failed');
     expect(out.json.notes).toEqual([expect.stringMatching(/^The reference arm "Z" is not among the arms in the data \("X", "Y"\); "X"/)]);
     expect((out.json.settings as { referenceArm: unknown }).referenceArm).toBe('X');
+    expect(out.json.modelNote).toBeNull();
+    expect((out.json.model as { arms: unknown } | null)?.arms).toEqual(['X', 'Y']);
   });
 });

@@ -9,18 +9,9 @@
  * than a noisy neighbour on a shared machine.
  */
 import { fitRandomIntercept, type FitOptions, type ModelData } from '../src/core/model';
+import { mulberry32 as seeded } from '../scripts/random';
 import type { BenchEntry } from './types';
 
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** Invented eGFR-like data: rows/5 patients x 5 visits, arms alternating, time in months. */
 export function benchData(rows: number, seed = 2026): ModelData {

@@ -3,23 +3,13 @@
  * Nothing here describes a real trial, site or person. Run with `npm run demo:data`; the output is committed.
  *
  * The generator is seeded (mulberry32, a small public-domain 32-bit generator), so the files are the same on every
- * run. It is exported so that the benchmark can make large data sets of the same shape.
+ * run (scripts/random.ts). The generator of rows is exported so that the benchmark can make large data sets of the same shape.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { mulberry32 } from './random';
 
-/** mulberry32: returns a function giving uniform numbers in [0, 1) from a 32-bit seed. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** A standard normal draw by the Box–Muller transform (Box & Muller, 1958). */
 function normal(rand: () => number): number {

@@ -1,17 +1,8 @@
 /** Test helpers for the model engine: a seeded generator and small data builders. */
 import type { ModelData } from '../../../src/core/model';
 
-/** Mulberry32, a small seeded uniform generator (common practice for reproducible tests). */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Mulberry32, a small seeded uniform generator (common practice for reproducible tests); one copy in scripts/random.ts. */
+export { mulberry32 as seeded } from '../../../scripts/random';
 
 /** Standard normal draws by Box–Muller from a uniform generator. */
 export function normals(u: () => number): () => number {

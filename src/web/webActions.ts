@@ -27,7 +27,9 @@ export function baseName(name: string): string {
 /** Reads a picked file into a block of cells: CSV as text (intake reads numbers from text), XLSX's first sheet. */
 export async function readDataFile(file: File): Promise<DataSource> {
   if (isXlsx(file.name)) {
-    const sheet = await readXlsxBuffer(await file.arrayBuffer());
+    // A byte view rather than the bare ArrayBuffer: readers that test `instanceof ArrayBuffer` can then not be misled
+    // by a buffer from another realm (a worker, a frame, or the test environment's own File).
+    const sheet = await readXlsxBuffer(new Uint8Array(await file.arrayBuffer()));
     return {
       label: `${file.name} (sheet ${sheet.sheet})`,
       sheet: sheet.sheet,

@@ -372,6 +372,23 @@ describe('the browser page with the invented demo trial', () => {
     publish('pane-after-demo-run.png', 'pane-demo.png');
   }, 180_000);
 
+  it('reads the same visits from an .xlsx workbook in the browser, with numbers kept as numbers', async () => {
+    // The demo CSV written into a workbook (exceljs): a header row and 920 data rows, AVAL as numbers.
+    const lines = readFileSync(DEMO_VISITS, 'utf8').trim().split(/\r?\n/);
+    const book = new ExcelJS.Workbook();
+    const sheet = book.addWorksheet('Visits');
+    lines.forEach((line, i) =>
+      sheet.addRow(line.split(',').map((v, j) => (i > 0 && j === 6 && v !== '' && Number.isFinite(Number(v)) ? Number(v) : v))),
+    );
+    const path = join(ARTIFACTS, 'egfr-visits.xlsx');
+    await book.xlsx.writeFile(path);
+    await pane().getByLabel('Visit data file (CSV or Excel .xlsx)').setInputFiles(path);
+    await pane()
+      .getByText(/^Read egfr-visits\.xlsx \(sheet Visits\): 920 rows\./)
+      .waitFor();
+    expect(await pane().getByRole('combobox', { name: 'Measured value', exact: true }).inputValue()).toBe('6');
+  });
+
   it('the page made no request to any address but the local server, and raised no script error', () => {
     const local = (url: string): boolean =>
       url.startsWith(`${base}/`) || url.startsWith('blob:') || url.startsWith('data:');

@@ -159,9 +159,10 @@ async function recordStatus(): Promise<void> {
 const paneWidths = (): Promise<{ client: number; scroll: number }> =>
   pane().evaluate((el) => ({ client: el.clientWidth, scroll: el.scrollWidth }));
 
-/** Lines of the pane's accessibility tree for controls without an accessible name (shown as the role alone). */
-async function namelessControls(): Promise<string[]> {
-  const tree = await pane().ariaSnapshot();
+/** Lines of an area's accessibility tree (the pane by default) for controls without an accessible name (shown as
+ * the role alone). */
+async function namelessControls(area: ReturnType<Page['locator']> = pane()): Promise<string[]> {
+  const tree = await area.ariaSnapshot();
   return tree
     .split('\n')
     .filter((line) => /^\s*- (button|combobox|textbox|spinbutton|checkbox|radio|link|slider)( \[[^\]]*\])*:?$/.test(line));
@@ -354,8 +355,10 @@ describe('the browser page with the invented demo trial', () => {
     await results().getByText(`Cell ${address} in egfr-visits.csv`).waitFor();
     const text = await results().innerText();
     for (const arm of ['Placebo', 'Active', 'TRT01P']) expect(text).not.toContain(arm);
-    // The results step's links (sheets, problem cells) have accessible names too, and fit the pane's width.
+    // The results step's links (sheets, problem cells) have accessible names too, and fit the pane's width; so do
+    // the controls of the results beside the pane (download, sheet links, "show all rows").
     await expect(namelessControls()).resolves.toEqual([]);
+    await expect(namelessControls(results())).resolves.toEqual([]);
     const { client, scroll } = await paneWidths();
     expect(scroll).toBe(client);
     await page.screenshot({ path: join(ARTIFACTS, 'page-blinded.png'), fullPage: false });

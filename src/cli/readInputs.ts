@@ -1,10 +1,10 @@
 import { readFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
-import { MAX_COLUMN_INDEX, MAX_ROW } from '../core/intake';
+import { columnLetters, MAX_COLUMN_INDEX, MAX_ROW, parseCell } from '../core/intake';
 import type { CellValue, DateSystem } from '../core/intake/types';
 import { parseSchedule } from '../core/schedule';
 import type { ScheduleVisit } from '../core/schedule/types';
-import { columnLetters, decodeCsvBytes, FileFormatError, readCsvText, readXlsxBuffer } from '../files';
+import { decodeCsvBytes, FileFormatError, readCsvText, readXlsxBuffer } from '../files';
 import { UsageError } from './args';
 
 /** The data file as cells, with where they came from (for cell addresses and the analysis record). */
@@ -20,12 +20,10 @@ export interface DataInput {
 
 /** The A1 range a grid covers from its top-left cell, e.g. "A1:G921" (for the analysis record's input label). */
 function rangeOf(topLeft: string, cells: readonly (readonly CellValue[])[]): string {
-  const m = /^([A-Z]+)(\d+)$/.exec(topLeft);
-  if (!m || cells.length === 0) return topLeft;
-  let col = 0;
-  for (const ch of m[1]!) col = col * 26 + (ch.charCodeAt(0) - 64);
+  if (cells.length === 0) return topLeft;
+  const { row, col } = parseCell(topLeft);
   const width = cells.reduce((w, r) => Math.max(w, r.length), 1);
-  return `${topLeft}:${columnLetters(col + width - 1)}${Number(m[2]) + cells.length - 1}`;
+  return `${topLeft}:${columnLetters(col + width - 1)}${row + cells.length - 1}`;
 }
 
 async function readBytes(path: string, what: string): Promise<Buffer> {

@@ -4,5 +4,4 @@ export { readXlsxBuffer } from './readXlsx';
 export type { XlsxSheet } from './readXlsx';
 export { writeWorkbook, CHART_NOTE } from './writeWorkbook';
 export { uniqueSheetNames, uniqueTableName, MAX_SHEET_NAME } from './sheetNames';
-export { columnLetters } from './cellAddress';
 export { decodeCsvBytes } from './decodeText';

@@ -1,7 +1,7 @@
 import ExcelJS from 'exceljs';
 import JSZip from 'jszip';
 import type { CellValue, DateSystem } from '../core/intake/types';
-import { columnLetters } from './cellAddress';
+import { columnLetters } from '../core/intake/cellAddress';
 import { workbookDateSystem } from './dateSystem';
 import { FileFormatError } from './errors';
 
@@ -100,5 +100,5 @@ export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: 
     new Array<CellValue>(maxCol - minCol + 1).fill(null),
   );
   for (const { r, c, v } of found) cells[r - minRow]![c - minCol] = v;
-  return { sheet: ws.name, topLeft: `${columnLetters(minCol)}${minRow}`, dateSystem: system, cells, sheetNames };
+  return { sheet: ws.name, topLeft: `${columnLetters(minCol - 1)}${minRow}`, dateSystem: system, cells, sheetNames };
 }

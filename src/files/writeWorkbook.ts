@@ -108,6 +108,7 @@ function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): num
   }
   const headerRow = st.row;
   const name = uniqueTableName(t.id, tableNames);
+  tableNames.add(name);
   st.tableIds.set(t.id, name);
   const headers = uniqueHeaders(t.columns.map((c) => c.header));
   const width = t.columns.length;

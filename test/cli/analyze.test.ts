@@ -187,7 +187,7 @@ describe('longipane analyze on a small CSV with CDISC headers and no --map', () 
     const names = wb.worksheets.map((w) => w.name);
     expect(names).toEqual(['Visit timing', 'Visit deviations', 'Visits due', 'Model results', 'Analysis record']);
     const timingTables = wb.getWorksheet('Visit timing')!.getTables().map((t) => (t as unknown as { table: { name: string } }).table.name);
-    expect(timingTables).toEqual(expect.arrayContaining(['ByVisit', 'BySite']));
+    expect(timingTables).toEqual(expect.arrayContaining(['LP_ByVisit', 'LP_BySite'])); // the same names the add-in gives
     expect(wb.getWorksheet('Visit deviations')!.getTables()).toHaveLength(1);
   });
 

@@ -1,6 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { uniqueSheetNames, uniqueTableName } from '../../src/files/sheetNames';
-import { columnLetters } from '../../src/files/cellAddress';
+import { uniqueTableName as excelTableName, uniqueSheetName } from '../../src/excel/sheetNames';
+
+// Excel's naming rules are a fact of the trade (common practice): at most 31 characters, none of \ / ? * : [ ], no
+// apostrophe at either end, "History" reserved, names compared without regard to case.
 
 describe('uniqueSheetNames', () => {
   it('replaces the characters Excel forbids in sheet names (\\ / ? * : [ ]) and cuts names to 31 characters', () => {
@@ -29,19 +32,25 @@ describe('uniqueSheetNames', () => {
 });
 
 describe('uniqueTableName', () => {
-  it('keeps letters, digits and underscores, avoids names that read as cell references, and de-duplicates', () => {
-    const used = new Set<string>();
-    expect(uniqueTableName('ByVisit', used)).toBe('ByVisit');
-    expect(uniqueTableName('byvisit', used)).toBe('byvisit_2');
-    expect(uniqueTableName('AB12', used)).toBe('T_AB12');
-    expect(uniqueTableName('R1C1', used)).toBe('T_R1C1');
-    expect(uniqueTableName('9 lives', used)).toBe('T_9_lives');
+  it('prefixes ids so no name reads as a cell reference, keeps letters, digits and underscores, and de-duplicates', () => {
+    expect(uniqueTableName('ByVisit', [])).toBe('LP_ByVisit');
+    expect(uniqueTableName('byvisit', ['LP_ByVisit'])).toBe('LP_byvisit_2');
+    expect(uniqueTableName('AB12', [])).toBe('LP_AB12');
+    expect(uniqueTableName('R1C1', [])).toBe('LP_R1C1');
+    expect(uniqueTableName('9 lives', [])).toBe('LP_9_lives');
   });
 });
 
-describe('columnLetters', () => {
-  it('numbers columns A..Z, AA.. as in A1 references (ECMA-376 Part 1, §18.3.1.4)', () => {
-    // Exact identity: 26 letters per place, bijective base 26; XFD is column 16384, Excel's last (common practice).
-    expect([1, 26, 27, 52, 53, 702, 703, 16384].map(columnLetters)).toEqual(['A', 'Z', 'AA', 'AZ', 'BA', 'ZZ', 'AAA', 'XFD']);
+describe('one naming rule for the file writer and the add-in', () => {
+  it('the .xlsx writer and the Excel add-in give the same sheet and table names (both use src/core/report/sheetNames.ts)', () => {
+    const wanted = ['Visit timing', 'visit timing', 'a/b', 'History', 'x'.repeat(40)];
+    const taken: string[] = [];
+    const oneByOne = wanted.map((w) => {
+      const n = uniqueSheetName(w, taken);
+      taken.push(n);
+      return n;
+    });
+    expect(uniqueSheetNames(wanted)).toEqual(oneByOne);
+    expect(uniqueTableName('By visit', ['lp_by_visit'])).toBe(excelTableName('By visit', ['lp_by_visit']));
   });
 });

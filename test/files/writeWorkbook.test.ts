@@ -68,7 +68,7 @@ describe('writeWorkbook', () => {
     expect(ws.getCell('A5').value).toBeNull();
     expect(ws.getCell('A6').value).toBe('Deviation listing');
     expect(ws.getCell('A7').value).toBe('Subject');
-    expect(tablesOf(ws)).toEqual([{ name: 'Listing', ref: 'A7:D10', headers: ['Subject', 'Visit date', 'Days off', 'p'] }]);
+    expect(tablesOf(ws)).toEqual([{ name: 'LP_Listing', ref: 'A7:D10', headers: ['Subject', 'Visit date', 'Days off', 'p'] }]);
   });
 
   it('applies the number-format codes of report/formats.ts and leaves non-finite numbers blank', async () => {
@@ -99,7 +99,7 @@ describe('writeWorkbook', () => {
     ];
     const wb = await load(await writeWorkbook(sheets));
     expect(wb.worksheets.map((w) => w.name)).toEqual(['Model- arms-time-', 'model- arms-time- (2)']);
-    expect(tablesOf(wb.worksheets[1]!)[0]!.name).toBe('Listing_2');
+    expect(tablesOf(wb.worksheets[1]!)[0]!.name).toBe('LP_Listing_2');
   });
 
   it('writes a chart as a note and its data table, since the file format writer cannot draw native charts', async () => {
@@ -143,7 +143,7 @@ describe('writeWorkbook', () => {
     const ws = wb.getWorksheet('Two')!;
     const notes: unknown[] = [];
     ws.eachRow((row) => notes.push(row.getCell(1).value));
-    expect(notes).toContain('The chart itself is drawn in the Excel add-in and on the browser page; its numbers are in the table "Listing_2" on this sheet.');
+    expect(notes).toContain('The chart itself is drawn in the Excel add-in and on the browser page; its numbers are in the table "LP_Listing_2" on this sheet.');
   });
 
   it('gives an empty table one blank row so the file stays valid', async () => {

@@ -22,3 +22,4 @@ export { MODEL_SHEET_NAMES, ModelReportError, modelSheets } from './modelSheet';
 export type { ModelSheetContext, ObservedVisitMean } from './modelSheet';
 export { modelJson } from './modelJson';
 export { FIT_STATUS_WORDS, modelSummaryText } from './modelText';
+export { MAX_SHEET_NAME_LENGTH, legalSheetName, uniqueSheetName, uniqueSheetNames, uniqueTableName } from './sheetNames';

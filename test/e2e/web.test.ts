@@ -128,13 +128,14 @@ async function run(): Promise<void> {
   await finished();
 }
 
-/** The accessible name and role of the element that has keyboard focus (tag and text as a fallback). */
+/** The element that has keyboard focus: its tag, its name (aria-label, else its label, else its text), disabled. */
 async function focused(): Promise<{ tag: string; text: string; disabled: boolean }> {
   return page.evaluate(() => {
-    const el = document.activeElement as HTMLElement | null;
+    const el = document.activeElement as (HTMLElement & { labels?: NodeListOf<HTMLLabelElement> | null }) | null;
+    const label = el?.labels?.[0]?.textContent ?? null;
     return {
       tag: el?.tagName.toLowerCase() ?? '',
-      text: (el?.getAttribute('aria-label') ?? el?.textContent ?? '').trim(),
+      text: (el?.getAttribute('aria-label') ?? label ?? el?.textContent ?? '').trim(),
       disabled: (el as HTMLButtonElement | null)?.disabled === true,
     };
   });
@@ -211,6 +212,27 @@ describe('the browser page with the invented demo trial', () => {
     }
     // The run's progress and messages are announced politely by a status region.
     await expect(pane().getByRole('status').getAttribute('aria-live')).resolves.toBe('polite');
+    // Tab from the first control of the pane reaches every step's controls in reading order, each with a name,
+    // and arrives at the run button.
+    await pane().getByLabel('Visit data file (CSV or Excel .xlsx)').focus();
+    const stops: string[] = [];
+    for (let i = 0; i < 80 && stops.at(-1) !== 'Run the analysis'; i++) {
+      await page.keyboard.press('Tab');
+      stops.push((await focused()).text);
+    }
+    expect(stops.filter((name) => name === '')).toEqual([]);
+    const order = [
+      'Change columns',
+      'Use the starter schedule',
+      'Data cut-off date',
+      'Time unit for slopes',
+      'Degrees of freedom',
+      'Estimation method',
+      'Confidence level (%)',
+      'Run the analysis',
+    ].map((name) => stops.indexOf(name));
+    expect(order.every((i) => i >= 0), stops.join(' | ')).toBe(true);
+    expect([...order].sort((a, b) => a - b)).toEqual(order);
   });
 
   it('an unblinded run, after confirming, shows visit timing by visit and the treatment difference', async () => {

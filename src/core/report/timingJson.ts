@@ -5,22 +5,8 @@ import type { DueStatus, TimingSummary, VisitSummaryRow } from './timingTypes';
 /** A date in the JSON: ISO 8601 text (YYYY-MM-DD) for dated data, a study day for study-day data, or null. */
 export type JsonDay = string | number | null;
 
-export interface VisitJson {
-  readonly arm?: string;
-  readonly visit: string;
-  readonly targetDay: number;
-  readonly expected: number;
-  readonly onTime: number;
-  readonly early: number;
-  readonly late: number;
-  readonly missed: number;
-  readonly notYetDue: number;
-  readonly due: number;
-  readonly onTimeRate: number | null;
-  readonly medianDeviation: number | null;
-  readonly minDeviation: number | null;
-  readonly maxDeviation: number | null;
-}
+/** One row of `byVisit` / `byArm`: the visit summary row itself, with `arm` (by-arm table only) moved first. */
+export type VisitJson = VisitSummaryRow;
 
 /**
  * The `visits` section of the results JSON. Keys are camelCase and stable:
@@ -57,22 +43,7 @@ export interface VisitsJson {
 /** Builds the `visits` JSON section from the timing summary (see VisitsJson for the keys). O(listed lines). */
 export function timingJson(summary: TimingSummary): VisitsJson {
   const day = (d: number | null): JsonDay => (d === null ? null : summary.dated ? isoDate(d) : d);
-  const visit = (r: VisitSummaryRow): VisitJson => ({
-    ...(r.arm !== undefined ? { arm: r.arm } : {}),
-    visit: r.visit,
-    targetDay: r.targetDay,
-    expected: r.expected,
-    onTime: r.onTime,
-    early: r.early,
-    late: r.late,
-    missed: r.missed,
-    notYetDue: r.notYetDue,
-    due: r.due,
-    onTimeRate: r.onTimeRate,
-    medianDeviation: r.medianDeviation,
-    minDeviation: r.minDeviation,
-    maxDeviation: r.maxDeviation,
-  });
+  const visit = ({ arm, ...rest }: VisitSummaryRow): VisitJson => ({ ...(arm !== undefined ? { arm } : {}), ...rest });
   const c = summary.counts;
   return {
     timeScale: summary.dated ? 'date' : 'studyDay',

@@ -1,8 +1,9 @@
 /**
  * The manifest asks for ExcelApi 1.7 (manifest.xml, Requirements). This test reads the adapter's source with the
  * TypeScript compiler and the platform's own type declarations (@types/office-js marks each member with the
- * requirement set that brought it, "[Api set: ExcelApi 1.8]"), and checks that every Excel API member src/excel uses
- * is in ExcelApi 1.7 or older, or sits inside `if (supportsExcelApi('x.y'))` with x.y at least its set.
+ * requirement set that brought it, "[Api set: ExcelApi 1.8]", and each parameter added later on its @param line), and
+ * checks that every Excel API member src/excel uses, with the arguments it passes, is in ExcelApi 1.7 or older, or
+ * sits inside `if (supportsExcelApi('x.y'))` with x.y at least its set.
  */
 import { describe, expect, it } from 'vitest';
 import { readdirSync } from 'node:fs';
@@ -53,16 +54,30 @@ function excelApiUses(): Use[] {
     if (!source.fileName.startsWith(EXCEL_DIR)) continue;
     const visit = (node: ts.Node): void => {
       if (ts.isPropertyAccessExpression(node)) {
-        const declaration = checker.getSymbolAtLocation(node.name)?.declarations?.[0];
+        // For a call, the overload actually chosen (getUsedRange(valuesOnly) came later than getUsedRange()).
+        const call = ts.isCallExpression(node.parent) && node.parent.expression === node ? node.parent : undefined;
+        const declaration =
+          (call !== undefined ? checker.getResolvedSignature(call)?.declaration : undefined) ??
+          checker.getSymbolAtLocation(node.name)?.declarations?.[0];
         const file = declaration?.getSourceFile();
         if (declaration !== undefined && file !== undefined && file.fileName.includes('@types/office-js')) {
           const doc = file.text.slice(declaration.getFullStart(), declaration.getStart());
-          const sets = [...doc.matchAll(/\[Api set: ExcelApi (1\.\d+)/g)].map((m) => minor(m[1] ?? '1.0'));
+          // The member's own set is on a line of its own; a parameter added later says so on its @param line,
+          // and counts when the call passes that argument.
+          const own = doc
+            .split('\n')
+            .filter((l) => !l.includes('@param'))
+            .flatMap((l) => [...l.matchAll(/\[Api set: ExcelApi (1\.\d+)/g)].map((m) => minor(m[1] ?? '1.0')));
+          const params = ts.isFunctionLike(declaration) ? declaration.parameters.map((p) => p.name.getText()) : [];
+          const passed = [...doc.matchAll(/@param (\w+)[^\n]*\[Api set: ExcelApi (1\.\d+)/g)]
+            .filter((m) => (call?.arguments.length ?? 0) > params.indexOf(m[1] ?? '') && params.includes(m[1] ?? ''))
+            .map((m) => minor(m[2] ?? '1.0'));
+          const sets = own.length > 0 ? [Math.min(...own), ...passed] : passed;
           if (sets.length > 0) {
             const line = source.getLineAndCharacterOfPosition(node.getStart()).line + 1;
             uses.push({
               member: node.name.text,
-              set: Math.min(...sets),
+              set: Math.max(...sets),
               guard: guardOf(node),
               where: `${source.fileName.slice(EXCEL_DIR.length + 1)}:${line}`,
             });
@@ -87,6 +102,8 @@ describe('Excel API level of the adapter', () => {
     expect(setOf('freezePanes')).toBe(7);
     expect(setOf('settings')).toBe(4);
     expect(setOf('getSelectedRange')).toBe(1);
+    // getUsedRange(true), values only, is the ExcelApi 1.2 overload (the plain one is 1.1): overloads are told apart.
+    expect(setOf('getUsedRange')).toBe(2);
     expect(uses.length).toBeGreaterThan(40);
   });
 

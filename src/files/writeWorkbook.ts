@@ -15,6 +15,19 @@ const CAUTION_FONT: Partial<ExcelJS.Font> = { bold: true, italic: true, color: {
 const MIN_WIDTH = 8;
 const MAX_WIDTH = 60;
 
+/** One style object per number format, shared by every cell of that format: exceljs recognises a style object it has
+ * seen before and skips building and comparing its XML, which per cell cost a good part of writing a long listing.
+ * Shared objects are never changed after they are made (no font or fill is set on table data cells). */
+const FORMAT_STYLES = new Map<NumberFormat, Partial<ExcelJS.Style>>();
+function formatStyle(format: NumberFormat): Partial<ExcelJS.Style> {
+  let style = FORMAT_STYLES.get(format);
+  if (style === undefined) {
+    style = Object.freeze({ numFmt: EXCEL_FORMAT_CODES[format] }) as Partial<ExcelJS.Style>;
+    FORMAT_STYLES.set(format, style);
+  }
+  return style;
+}
+
 /** A table cell as exceljs should store it: text stays a string (never a formula), non-finite numbers become blank. */
 function storedValue(v: SheetCell, format: NumberFormat): string | number | null {
   if (v === null) return null;
@@ -125,8 +138,8 @@ function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): num
     rows,
   });
   t.columns.forEach((c, j) => {
-    const code = EXCEL_FORMAT_CODES[c.format];
-    for (let i = 0; i < rows.length; i++) st.ws.getCell(headerRow + 1 + i, j + 1).numFmt = code;
+    const style = formatStyle(c.format);
+    for (let i = 0; i < rows.length; i++) st.ws.getCell(headerRow + 1 + i, j + 1).style = style;
     const wanted = Math.min(MAX_WIDTH, Math.max(MIN_WIDTH, c.width ?? 0, (headers[j] ?? '').length + 3));
     st.widths[j] = Math.max(st.widths[j] ?? 0, wanted);
   });

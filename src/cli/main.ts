@@ -53,7 +53,7 @@ function printSummary(json: Record<string, unknown>, io: CliOutput): void {
   const line = countsLine(visits.counts);
   if (line !== null) io.out(`Visits: ${line}.`);
   if (model && typeof model.summary === 'string') io.out(`Model: ${model.summary}`);
-  else if (typeof json.modelNote === 'string') io.out(`Model: not fitted (${json.modelNote}).`);
+  else if (typeof json.modelNote === 'string') io.out(`Model: not fitted (${json.modelNote.replace(/\.+$/, '')}).`);
 }
 
 async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promise<number> {

@@ -72,6 +72,10 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
 export async function readScheduleFile(
   path: string,
 ): Promise<{ readonly ok: true; readonly schedule: readonly ScheduleVisit[]; readonly warnings: readonly string[] } | { readonly ok: false; readonly errors: readonly string[] }> {
+  const ext = extname(path).toLowerCase();
+  if (ext !== '.csv' && ext !== '.txt') {
+    throw new UsageError(`--schedule must be a CSV file with the header visit,target_day,days_before,days_after; got "${path}". Save the schedule sheet as CSV.`);
+  }
   const bytes = await readBytes(path, 'schedule file');
   const cells = readCsvText(decodeCsvBytes(bytes, path));
   if (cells.length === 0) throw new FileFormatError(`The schedule "${path}" is empty: it needs the header visit,target_day,days_before,days_after and one row per visit.`);

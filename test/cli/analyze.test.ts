@@ -456,4 +456,20 @@ describe('longipane analyze used carelessly (each case a bug found by trying it)
     expect(r.code).toBe(0);
     expect(json.model?.arms).toEqual(['Active', 'Placebo', 'Boost']);
   });
+
+  it('a schedule that is not a CSV file is refused by name (regression: "needs a heading row" for an .xlsx schedule)', async () => {
+    await writeFile(join(d, 'visits.csv'), SMALL);
+    await writeFile(join(d, 'schedule.xlsx'), 'anything');
+    const r = await run('analyze', '--data', join(d, 'visits.csv'), '--schedule', join(d, 'schedule.xlsx'));
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/--schedule must be a CSV file with the header visit,target_day,days_before,days_after/);
+  });
+
+  it('the reason a model was not fitted ends with one full stop inside its brackets (regression: ".).")', async () => {
+    await writeFile(join(d, 'two.csv'), 'USUBJID,ADT,AVAL\nA,2025-01-06,3\nB,2025-01-07,4\n');
+    const r = await analyze('two.csv');
+    expect(r.code).toBe(0);
+    const line = r.out.find((l) => l.startsWith('Model: not fitted ('));
+    expect(line).toMatch(/^Model: not fitted \([^)]*[^.]\)\.$/);
+  });
 });

@@ -1,6 +1,6 @@
 /** Step 3: cut-off date, blinded or unblinded, reference arm, time unit, degrees of freedom, method, confidence level. */
 import type { ReactNode } from 'react';
-import { useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import {
   Checkbox,
   Field,
@@ -48,12 +48,22 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
   const [asking, setAsking] = useState(false);
   const [levelText, setLevelText] = useState(String(Math.round(settings.level * 1000) / 10));
   const set = (patch: Partial<PaneSettings>): void => onChange({ ...settings, ...patch });
+  // When the unblinding question closes, keyboard focus goes back to the chosen mode instead of the page's top.
+  const modesId = useId();
+  const wasAsking = useRef(false);
+  useEffect(() => {
+    if (wasAsking.current && !asking) {
+      document.getElementById(modesId)?.querySelector<HTMLInputElement>('input:checked')?.focus();
+    }
+    wasAsking.current = asking;
+  }, [asking, settings.mode, modesId]);
   const levelNumber = Number(levelText) / 100;
   const cutoffOk = settings.cutoff === '' || isIsoDate(settings.cutoff);
   return (
     <div className={styles.col}>
       <Field label="Who may see the results">
         <RadioGroup
+          id={modesId}
           value={settings.mode}
           onChange={(_, data) => {
             if (data.value === 'unblinded') setAsking(true);

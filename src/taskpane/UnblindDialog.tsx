@@ -1,5 +1,9 @@
-/** The confirmation that stands between blinded and unblinded mode: it says who may see results by arm. */
+/**
+ * The confirmation that stands between blinded and unblinded mode: it says who may see results by arm. Keyboard focus
+ * starts on "Stay blinded", so pressing Enter at once keeps the safe choice.
+ */
 import type { ReactNode } from 'react';
+import { useEffect, useId } from 'react';
 import {
   Button,
   Dialog,
@@ -18,6 +22,10 @@ export interface UnblindDialogProps {
 }
 
 export function UnblindDialog({ open, onConfirm, onCancel }: UnblindDialogProps): ReactNode {
+  const stayId = useId();
+  useEffect(() => {
+    if (open) document.getElementById(stayId)?.focus();
+  }, [open, stayId]);
   return (
     <Dialog open={open} modalType="alert" onOpenChange={(_, data) => (data.open ? undefined : onCancel())}>
       <DialogSurface aria-describedby="unblind-text">
@@ -28,7 +36,9 @@ export function UnblindDialog({ open, onConfirm, onCancel }: UnblindDialogProps)
             <Button appearance="primary" onClick={onConfirm}>
               Yes, switch to unblinded
             </Button>
-            <Button onClick={onCancel}>Stay blinded</Button>
+            <Button onClick={onCancel} id={stayId}>
+              Stay blinded
+            </Button>
           </DialogActions>
         </DialogBody>
       </DialogSurface>

@@ -236,10 +236,27 @@ describe('the browser page with the invented demo trial', () => {
   });
 
   it('an unblinded run, after confirming, shows visit timing by visit and the treatment difference', async () => {
-    await pane().getByText('Unblinded: results by treatment arm').click();
+    // By keyboard: the arrow key on the mode radios asks first; focus starts on the safe answer, Escape keeps the
+    // pane blinded and puts focus back on the mode; the second time, Shift+Tab and Enter confirm.
+    const blinded = pane().getByRole('radio', { name: /^Blinded/ });
     const dialog = page.getByRole('alertdialog');
+    await blinded.focus();
+    await page.keyboard.press('ArrowDown');
+    await dialog.waitFor();
     await expect(dialog.getByText(/unblinded statistician/).isVisible()).resolves.toBe(true);
-    await dialog.getByRole('button', { name: /switch to unblinded/ }).click();
+    expect((await focused()).text).toBe('Stay blinded');
+    await page.keyboard.press('Escape');
+    await dialog.waitFor({ state: 'detached' });
+    expect(await blinded.isChecked()).toBe(true);
+    expect((await focused()).text).toBe('Blinded: pooled results, no arms (default)');
+    await page.keyboard.press('ArrowDown');
+    await dialog.waitFor();
+    await page.keyboard.press('Shift+Tab');
+    expect((await focused()).text).toBe('Yes, switch to unblinded');
+    await page.keyboard.press('Enter');
+    await dialog.waitFor({ state: 'detached' });
+    expect(await pane().getByRole('radio', { name: /^Unblinded/ }).isChecked()).toBe(true);
+    expect((await focused()).text).toBe('Unblinded: results by treatment arm');
     await pane().getByRole('combobox', { name: 'Reference arm (compared against)' }).selectOption('Placebo');
     // Keyboard only from here: Tab from the reference arm to the run button, then Enter starts the run.
     await pane().getByRole('combobox', { name: 'Reference arm (compared against)' }).focus();

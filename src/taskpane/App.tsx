@@ -250,6 +250,16 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
     }
   };
 
+  // Confirming the columns removes the button that had focus, and so does "Change columns": send keyboard focus on
+  // to the next step's heading, or to the first column choice, instead of letting it fall to the top of the page.
+  const focusAfterConfirm = useRef<'next' | 'columns' | null>(null);
+  useEffect(() => {
+    const target = focusAfterConfirm.current;
+    focusAfterConfirm.current = null;
+    if (target === 'next') document.getElementById('step-schedule-title')?.focus();
+    if (target === 'columns') document.querySelector<HTMLElement>('#step-data select')?.focus();
+  }, [confirmed]);
+
   // When a run ends, take keyboard focus to the results so the next Tab lands on them.
   useEffect(() => {
     if (outcome !== null) document.getElementById('step-results-title')?.focus();
@@ -294,9 +304,13 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
               setMapping(m);
               setConfirmed(false);
             }}
-            onEdit={() => setConfirmed(false)}
+            onEdit={() => {
+              focusAfterConfirm.current = 'columns';
+              setConfirmed(false);
+            }}
             onConfirm={() => {
               if (mapping && mappingGaps(mapping).length === 0) {
+                focusAfterConfirm.current = 'next';
                 setConfirmed(true);
                 setStatus('Columns confirmed.');
               }

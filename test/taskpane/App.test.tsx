@@ -77,6 +77,17 @@ describe('data step', () => {
     expect(calls[0]?.mapping).toEqual({ subject: 0, date: 4, reference: 5, visit: 3, value: 6, covariates: [] });
   });
 
+  it('keyboard focus moves on when the columns are confirmed, and back to the first column choice on "Change columns"', async () => {
+    const { actions } = fakeActions();
+    render(<App actions={actions} engine={engineWith().engine} />);
+    fireEvent.click(screen.getByRole('button', { name: 'Use the selected cells' }));
+    await screen.findByText(/Which column is which/);
+    fireEvent.click(screen.getByRole('button', { name: 'Confirm columns' }));
+    expect(document.activeElement).toBe(screen.getByRole('heading', { name: /Visit schedule/ }));
+    fireEvent.click(screen.getByRole('button', { name: 'Change columns' }));
+    expect(document.activeElement).toBe(select('Patient'));
+  });
+
   it('a host that fails to read shows the reason instead of crashing', async () => {
     const { actions, spies } = fakeActions();
     spies.loadData.mockRejectedValueOnce(new Error('The selection is a single cell.'));

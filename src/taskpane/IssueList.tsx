@@ -1,6 +1,6 @@
 /** The problems found in the data, each with its cell address as a link that selects the cell. */
 import type { ReactNode } from 'react';
-import { useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import { Button, Link, makeStyles, tokens } from '@fluentui/react-components';
 import type { Issue } from '../core/intake/types';
 
@@ -46,11 +46,22 @@ export function IssueList({ issues, onSelect, limit = 50 }: IssueListProps): Rea
   const styles = useStyles();
   const [all, setAll] = useState(false);
   const shown = all ? issues : issues.slice(0, limit);
+  // "Show all" disappears once pressed: keyboard focus goes to the first problem it revealed.
+  const firstNewId = useId();
+  const revealed = useRef(false);
+  useEffect(() => {
+    if (all && revealed.current) document.getElementById(firstNewId)?.focus();
+    revealed.current = false;
+  }, [all, firstNewId]);
   return (
     <>
       <ul className={styles.list} aria-label="Problems found in the data">
         {shown.map((issue, i) => (
-          <li key={i} className={styles.item}>
+          <li
+            key={i}
+            className={styles.item}
+            {...(all && i === limit ? { id: firstNewId, tabIndex: -1 } : {})}
+          >
             <div className={styles.top}>
               <span className={`${styles.tag} ${issue.severity === 'error' ? styles.error : styles.warning}`}>
                 {effect(issue)}
@@ -71,7 +82,14 @@ export function IssueList({ issues, onSelect, limit = 50 }: IssueListProps): Rea
         ))}
       </ul>
       {!all && issues.length > limit && (
-        <Button appearance="subtle" size="small" onClick={() => setAll(true)}>
+        <Button
+          appearance="subtle"
+          size="small"
+          onClick={() => {
+            revealed.current = true;
+            setAll(true);
+          }}
+        >
           Show all {issues.length} problems
         </Button>
       )}

@@ -1,6 +1,6 @@
 /** A TableBlock as an HTML table, cells formatted by the shared formatCell; long tables show their first rows. */
 import type { ReactNode } from 'react';
-import { useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import type { TableBlock } from '../core/report/types';
 import { formatCell } from '../core/report/formats';
 
@@ -27,10 +27,17 @@ function cellClass(column: TableBlock['columns'][number]): string | undefined {
 export function TableView({ table, maxRows = 200, previewRows = 12 }: TableViewProps): ReactNode {
   const long = table.rows.length > 2 * previewRows;
   const [open, setOpen] = useState(!long);
+  // "Show all" disappears once pressed: keyboard focus goes to the table's scrolling region, not the page's top.
+  const regionId = useId();
+  const opened = useRef(false);
+  useEffect(() => {
+    if (open && opened.current) document.getElementById(regionId)?.focus();
+    opened.current = false;
+  }, [open, regionId]);
   const limit = open ? maxRows : Math.min(previewRows, maxRows);
   const rows = table.rows.slice(0, limit);
   return (
-    <div className="table-wrap" role="region" aria-label={table.caption} tabIndex={0}>
+    <div className="table-wrap" role="region" aria-label={table.caption} tabIndex={0} id={regionId}>
       <table className="sheet-table" data-table-id={table.id}>
         <caption>{table.caption}</caption>
         <thead>
@@ -55,7 +62,14 @@ export function TableView({ table, maxRows = 200, previewRows = 12 }: TableViewP
         </tbody>
       </table>
       {!open && (
-        <button type="button" className="plain-button" onClick={() => setOpen(true)}>
+        <button
+          type="button"
+          className="plain-button"
+          onClick={() => {
+            opened.current = true;
+            setOpen(true);
+          }}
+        >
           Show all {table.rows.length.toLocaleString('en-US')} rows
         </button>
       )}

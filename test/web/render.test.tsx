@@ -165,12 +165,14 @@ describe('TableView', () => {
     expect([...container.querySelectorAll('tbody td')].map((td) => td.className)).toEqual(['', 'num', 'wrap']);
   });
 
-  it('shows a long table folded to its first rows, with a button that shows them all', () => {
+  it('shows a long table folded to its first rows, with a button that shows them all and leaves focus on the table', () => {
     const rows = Array.from({ length: 30 }, (_, i) => [`V${i + 1}`, 0.5, 0.5]);
     render(<TableView table={{ ...table, rows }} />);
     expect(screen.getAllByRole('row')).toHaveLength(1 + 12);
     fireEvent.click(screen.getByRole('button', { name: 'Show all 30 rows' }));
     expect(screen.getAllByRole('row')).toHaveLength(1 + 30);
+    // The button is gone; keyboard focus is on the table's region instead of falling to the page's top.
+    expect(document.activeElement).toBe(screen.getByRole('region', { name: 'Visit timing by visit' }));
   });
 
   it('shows at most maxRows rows and says the download has them all', () => {

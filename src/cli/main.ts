@@ -14,6 +14,9 @@ import { OutputWriteError, writeFilesAtomic } from './atomicWrite';
 import { buildMapping } from './mapping';
 import { readDataFile, readScheduleFile } from './readInputs';
 
+/** Errors that --map can cure: a role with no column. */
+const MAPPING_CODES: ReadonlySet<string> = new Set(['no-subject-column', 'no-time-column', 'no-value-column', 'no-arm-column']);
+
 /** How many warnings are listed one by one before "… and N more". */
 const WARNINGS_SHOWN = 5;
 
@@ -96,6 +99,10 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     io.err(`The data "${args.data}" cannot be analysed:`);
     for (const e of errors) io.err(`  ${where(e)}`);
     if (errors.length === 0) io.err('  The run stopped without a reason given.');
+    if (errors.some((e) => MAPPING_CODES.has(e.code))) {
+      const shown = headers.slice(0, 20).map((h) => `"${h}"`).join(', ');
+      io.err(`  Name the columns with --map role=Header (roles: subject, date, studyDay, reference, visit, value, arm, site); the headers are: ${shown}${headers.length > 20 ? ', …' : ''}.`);
+    }
     return 1;
   }
   if (warnings.length > 0) {

@@ -472,4 +472,11 @@ describe('longipane analyze used carelessly (each case a bug found by trying it)
     const line = r.out.find((l) => l.startsWith('Model: not fitted ('));
     expect(line).toMatch(/^Model: not fitted \([^)]*[^.]\)\.$/);
   });
+
+  it('when no column is recognised as the subject or date, the message says how to name them and lists the headers', async () => {
+    await writeFile(join(d, 'unknown.csv'), 'Colour,Weight\nred,3\n');
+    const r = await analyze('unknown.csv');
+    expect(r.code).toBe(1);
+    expect(r.err.join('\n')).toMatch(/Name the columns with --map role=Header .*; the headers are: "Colour", "Weight"\./);
+  });
 });

@@ -289,7 +289,7 @@ describe('longipane analyze when something is wrong', () => {
     expect((await readdir(d)).sort()).toEqual(['bad.csv', 'report.xlsx', 'schedule.csv']);
   });
 
-  it('removes its temporary file when the final rename fails, and says which file could not be written', async () => {
+  it('writes nothing, leaves no temporary file and names the output when a folder of that name is in the way', async () => {
     const d = join(dir, 'blocked');
     await mkdir(join(d, 'results.json'), { recursive: true }); // a folder where the JSON file should go
     await writeFile(join(d, 'visits.csv'), SMALL);

@@ -21,7 +21,7 @@ describe('writeFileAtomic', () => {
     expect(await readdir(join(dir, 'a', 'b'))).toEqual(['out.json']);
   });
 
-  it('leaves the target as it was and no temporary file behind when the rename fails', async () => {
+  it('leaves the target as it was and no temporary file behind when the target cannot be replaced', async () => {
     const d = join(dir, 'blocked');
     await mkdir(join(d, 'out.xlsx', 'inner'), { recursive: true });
     await writeFile(join(d, 'out.xlsx', 'inner', 'keep.txt'), 'kept');

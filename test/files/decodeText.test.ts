@@ -21,4 +21,20 @@ describe('decodeCsvBytes', () => {
     expect(() => decodeCsvBytes(Uint8Array.of(0x50, 0x4b, 0x03, 0x04, 0x14), 'c.csv')).toThrow(/"c\.csv" is a zip archive/);
     expect(() => decodeCsvBytes(Uint8Array.of(0x61, 0x2c, 0x00, 0x62), 'd.csv')).toThrow(/"d\.csv" is not CSV text: it holds binary data \(a zero byte at byte 3\)/);
   });
+
+  it('reads UTF-16 text with its byte-order mark, as a spreadsheet saves "Unicode text", tab-separated', () => {
+    const text = '\ufeffUSUBJID\tAVAL\nM\u00fc-1\t3\n';
+    const le = new Uint8Array(text.length * 2);
+    for (let i = 0; i < text.length; i++) {
+      le[2 * i] = text.charCodeAt(i) & 0xff; // little-endian code units (exact: all characters here are in the BMP)
+      le[2 * i + 1] = text.charCodeAt(i) >> 8;
+    }
+    const be = le.map((_, i) => le[i % 2 === 0 ? i + 1 : i - 1]!);
+    for (const bytes of [le, be]) {
+      expect(readCsvText(decodeCsvBytes(bytes, 'u.txt'))).toEqual([
+        ['USUBJID', 'AVAL'],
+        ['M\u00fc-1', '3'],
+      ]);
+    }
+  });
 });

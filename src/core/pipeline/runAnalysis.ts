@@ -5,7 +5,7 @@ import { summarizeTiming } from '../report/summarizeTiming';
 import { timingJson } from '../report/timingJson';
 import { timingSheets } from '../report/timingSheets';
 import type { SheetSpec } from '../report/types';
-import { classifyVisits, computeStudyDays, dayNumberFromIso, NO_STATUS } from '../schedule';
+import { classifyVisits, computeStudyDays, dayNumberFromIso, isoDate, NO_STATUS } from '../schedule';
 import { PipelineUsageError } from './errors';
 import { excludedRows } from './excludedRows';
 import { fitStage } from './fitStage';
@@ -67,6 +67,16 @@ export async function runAnalysis(
   const cutoff = table.timeKind === 'date' ? cutoffDay : undefined;
   if (cutoffDay !== undefined && cutoff === undefined) {
     notes.push(`The cut-off ${settings.cutoff ?? ''} is a calendar date, but the data carry study days only; each subject's last record serves as the cut-off instead.`);
+  }
+  if (cutoff !== undefined) {
+    // A cut-off typed a year or a decade too late turns every open window into a missed visit; say how far it lies
+    // beyond the data so the reader can tell.
+    let latest = -Infinity;
+    for (let i = 0; i < table.date.length; i++) if (table.usableTiming[i] === 1 && table.date[i]! > latest) latest = table.date[i]!;
+    if (Number.isFinite(latest) && Math.floor(cutoff) > Math.floor(latest)) {
+      const gap = Math.floor(cutoff) - Math.floor(latest);
+      notes.push(`The cut-off ${settings.cutoff ?? ''} is ${gap} day${gap === 1 ? '' : 's'} after the latest visit date in the data (${isoDate(latest)}); every visit whose window closed before it without a record counts as missed.`);
+    }
   }
   const days = computeStudyDays(table, settings.schedule, place);
   const timing = classifyVisits(table, days, settings.schedule, { place, ...(cutoff === undefined ? {} : { cutoff }) });

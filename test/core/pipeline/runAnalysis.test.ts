@@ -146,9 +146,22 @@ describe('runAnalysis', () => {
       mapping: { subject: 0, site: 1, arm: 2, visit: 3, date: 4, value: 5, covariates: [] },
     });
     if (!out.ok) throw new Error('run failed');
-    expect(out.json.notes).toEqual([expect.stringMatching(/^The reference arm "Z" is not among the arms in the data \("X", "Y"\); "X"/)]);
+    expect(out.json.notes).toContainEqual(expect.stringMatching(/^The reference arm "Z" is not among the arms in the data \("X", "Y"\); "X"/));
     expect((out.json.settings as { referenceArm: unknown }).referenceArm).toBe('X');
     expect(out.json.modelNote).toBeNull();
     expect((out.json.model as { arms: unknown } | null)?.arms).toEqual(['X', 'Y']);
+  });
+
+  it('notes how many days a given cut-off lies after the latest visit date, since a mistyped year makes every open window missed', async () => {
+    // CELLS' latest date is serial 45722 = 2025-03-06 (1900 system; 45658 = 2025-01-01, ECMA-376 Part 1 §18.17.4,
+    // plus 64 days by hand count: 31 in January, 28 in February, 5 in March). 2025-03-31 is 25 days later.
+    const out = await runAnalysis(CELLS, SETTINGS);
+    if (!out.ok) throw new Error('run failed');
+    expect(out.json.notes).toEqual([
+      'The cut-off 2025-03-31 is 25 days after the latest visit date in the data (2025-03-06); every visit whose window closed before it without a record counts as missed.',
+    ]);
+    const onTheDay = await runAnalysis(CELLS, { ...SETTINGS, cutoff: '2025-03-06' });
+    if (!onTheDay.ok) throw new Error('run failed');
+    expect(onTheDay.json.notes).toEqual([]);
   });
 });

@@ -2,6 +2,7 @@
 import type { ReactNode } from 'react';
 import { useState, useSyncExternalStore } from 'react';
 import { INVENTED_DATA_NOTE } from '../core/report/cautions';
+import { isDemoSource } from './demoData';
 import { downloadReport, reportFileName } from './download';
 import type { ResultStore } from './resultStore';
 import { sheetDomId } from './resultStore';
@@ -36,6 +37,7 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
           </button>
         )}
       </header>
+      {isDemoSource(state.source) && <p className="small">{INVENTED_DATA_NOTE}</p>}
       {error !== null && (
         <p className="error" role="alert">
           {error}
@@ -61,7 +63,6 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
             here.
           </p>
           <p>Everything runs inside this page: no file leaves your computer.</p>
-          <p className="small">{INVENTED_DATA_NOTE}</p>
         </div>
       ) : (
         <>

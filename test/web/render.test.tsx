@@ -4,6 +4,8 @@ import { act, cleanup, fireEvent, render, screen } from '@testing-library/react'
 import type { ChartSpec, TableBlock } from '../../src/core/report/types';
 import { ChartView, colourGroup } from '../../src/web/ChartView';
 import { yAxisOf } from '../../src/web/SheetView';
+import { INVENTED_DATA_NOTE } from '../../src/core/report/cautions';
+import { isDemoSource } from '../../src/web/demoData';
 import { ResultsView } from '../../src/web/ResultsView';
 import { blindedHeaders, ResultStore } from '../../src/web/resultStore';
 import { SourceRowView } from '../../src/web/SourceRowView';
@@ -152,8 +154,8 @@ describe('TableView', () => {
   it('wraps the cells of a wide text column (width 40 or more) and leaves narrow ones and numbers on one line', () => {
     const notes: TableBlock = {
       kind: 'table',
-      id: 'FitStatistics',
-      caption: 'Fit statistics',
+      id: 'ModelFit',
+      caption: 'How well the model fits',
       columns: [
         { header: 'Item', format: 'text', width: 24 },
         { header: 'Value', format: 'decimal3' },
@@ -221,6 +223,34 @@ describe('ResultsView', () => {
     expect(marked?.parentElement?.querySelector('th')?.textContent).toBe('3');
     fireEvent.click(screen.getByRole('button', { name: 'Close' }));
     expect(screen.queryByText('Cell visits!B3 in visits.csv')).toBeNull();
+  });
+});
+
+describe('the invented-data note', () => {
+  const sourceNamed = (label: string): Parameters<typeof isDemoSource>[0] => ({
+    label,
+    sheet: 'Visits',
+    topLeft: 'A1',
+    dateSystem: 1900,
+    cells: [['USUBJID']],
+  });
+
+  it('isDemoSource recognises the bundled demo file as CSV or as a workbook, and nothing else', () => {
+    expect(isDemoSource(sourceNamed('egfr-visits.csv'))).toBe(true);
+    expect(isDemoSource(sourceNamed('egfr-visits.xlsx (sheet Visits)'))).toBe(true);
+    expect(isDemoSource(sourceNamed('visits.csv'))).toBe(false);
+    expect(isDemoSource(sourceNamed('my-egfr-visits.csv'))).toBe(false);
+    expect(isDemoSource(null)).toBe(false);
+  });
+
+  it('is shown only while the loaded data are the bundled demo, not before a file is loaded or for the user\'s own file', () => {
+    const store = new ResultStore();
+    render(<ResultsView store={store} />);
+    expect(screen.queryByText(INVENTED_DATA_NOTE)).toBeNull();
+    act(() => store.update({ source: sourceNamed('trial-visits.csv') }));
+    expect(screen.queryByText(INVENTED_DATA_NOTE)).toBeNull();
+    act(() => store.update({ source: sourceNamed('egfr-visits.csv') }));
+    expect(screen.getByText(INVENTED_DATA_NOTE)).toBeTruthy();
   });
 });
 

@@ -55,7 +55,8 @@ function plainValue(v: ExcelJS.CellValue, system: DateSystem): CellValue {
  * @throws FileFormatError when the bytes are not an .xlsx workbook, the named sheet does not exist, or it is empty.
  */
 export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: string): Promise<XlsxSheet> {
-  const head = new Uint8Array(buf instanceof ArrayBuffer ? buf : buf.buffer, buf instanceof ArrayBuffer ? 0 : buf.byteOffset, Math.min(4, buf.byteLength));
+  // ArrayBuffer.isView rather than instanceof: a buffer made in another realm (a worker, a test DOM) fails instanceof.
+  const head = ArrayBuffer.isView(buf) ? new Uint8Array(buf.buffer, buf.byteOffset, Math.min(4, buf.byteLength)) : new Uint8Array(buf, 0, Math.min(4, buf.byteLength));
   if (OLE2_MAGIC.every((b, k) => head[k] === b)) {
     throw new FileFormatError('The file is an older .xls workbook, not .xlsx; save it as .xlsx (Excel Workbook) or as CSV.');
   }

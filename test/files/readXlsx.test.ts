@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
 import JSZip from 'jszip';
+import { runInNewContext } from 'node:vm';
 import { readXlsxBuffer } from '../../src/files/readXlsx';
 import { FileFormatError } from '../../src/files/errors';
 
@@ -85,6 +86,17 @@ describe('readXlsxBuffer', () => {
       expect(read.dateSystem, spelling).toBe(system);
       expect(read.cells[1], spelling).toEqual([stored, 7]);
     }
+  });
+
+  it('reads a workbook handed over as a byte view into a larger buffer, or as an ArrayBuffer made in another realm (regression: the zip check used instanceof)', async () => {
+    const bytes = await workbook((wb) => wb.addWorksheet('S').addRow(['id']));
+    const padded = new Uint8Array(bytes.length + 8);
+    padded.set(bytes, 8);
+    expect((await readXlsxBuffer(new Uint8Array(padded.buffer, 8, bytes.length))).cells).toEqual([['id']]);
+    const foreign = runInNewContext(`new ArrayBuffer(${bytes.length})`) as ArrayBuffer;
+    expect(foreign instanceof ArrayBuffer).toBe(false); // it really is from another realm
+    new Uint8Array(foreign).set(bytes);
+    expect((await readXlsxBuffer(foreign)).cells).toEqual([['id']]);
   });
 
   it('picks a sheet by name and lists the sheets when the name does not exist', async () => {

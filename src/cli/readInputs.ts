@@ -36,6 +36,17 @@ async function readBytes(path: string, what: string): Promise<Buffer> {
   }
 }
 
+/** The cells of a CSV file; a file that cannot be read as CSV is named in the message. */
+function csvCells(bytes: Uint8Array, path: string): CellValue[][] {
+  const text = decodeCsvBytes(bytes, path);
+  try {
+    return readCsvText(text);
+  } catch (e) {
+    if (e instanceof FileFormatError) throw new FileFormatError(`"${path}": ${e.message}`);
+    throw e;
+  }
+}
+
 /** Reads --data: a .csv file (sheet name = the file name without extension, as a spreadsheet program shows it) or
  * one worksheet of an .xlsx file. */
 export async function readDataFile(path: string, sheet: string | undefined): Promise<DataInput> {
@@ -43,7 +54,7 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
   const bytes = await readBytes(path, 'data file');
   if (ext === '.csv' || ext === '.txt') {
     if (sheet !== undefined) throw new UsageError('--sheet applies to .xlsx files only.');
-    const cells = readCsvText(decodeCsvBytes(bytes, path));
+    const cells = csvCells(bytes, path);
     if (cells.length === 0) throw new FileFormatError(`"${path}" is empty: it needs a header row and one row per visit.`);
     // Every problem and result refers to a worksheet cell, so the file must fit on one worksheet.
     if (cells.length > MAX_ROW || (cells[0]?.length ?? 0) > MAX_COLUMN_INDEX + 1) {
@@ -77,7 +88,7 @@ export async function readScheduleFile(
     throw new UsageError(`--schedule must be a CSV file with the header visit,target_day,days_before,days_after; got "${path}". Save the schedule sheet as CSV.`);
   }
   const bytes = await readBytes(path, 'schedule file');
-  const cells = readCsvText(decodeCsvBytes(bytes, path));
+  const cells = csvCells(bytes, path);
   if (cells.length === 0) throw new FileFormatError(`The schedule "${path}" is empty: it needs the header visit,target_day,days_before,days_after and one row per visit.`);
   const parsed = parseSchedule(cells, basename(path, extname(path)), 'A1');
   const line = (i: { cell: string | null; message: string }): string => (i.cell === null ? i.message : `${i.cell}: ${i.message}`);

@@ -1,5 +1,6 @@
 import Papa from 'papaparse';
 import type { CellValue } from '../core/intake/types';
+import { columnLetters } from '../core/intake/cellAddress';
 import { FileFormatError } from './errors';
 
 /** The delimiter used in the header line: whichever of comma, semicolon and tab occurs most often outside quotes
@@ -34,8 +35,13 @@ export function readCsvText(text: string): CellValue[][] {
   const parsed = Papa.parse<string[]>(body, { header: false, dynamicTyping: false, skipEmptyLines: false, delimiter });
   const quoteError = parsed.errors.find((e) => e.type === 'Quotes');
   if (quoteError) {
-    const line = quoteError.row === undefined ? '' : ` (data row ${quoteError.row + 1})`;
-    throw new FileFormatError(`The CSV text has a quoted field that never closes${line}: ${quoteError.message}`);
+    // Papa's row is the 0-based record index, header included, so the worksheet row is one more; the open field is
+    // the last one the record got.
+    const record = quoteError.row === undefined ? undefined : parsed.data[quoteError.row];
+    const at = quoteError.row === undefined || record === undefined ? '' : ` at cell ${columnLetters(Math.max(0, record.length - 1))}${quoteError.row + 1}`;
+    throw new FileFormatError(
+      `The CSV text has a quoted field that never closes${at}: a field that opens with a double quote must close with one (a quote inside it is written twice, "").`,
+    );
   }
   const rows: string[][] = parsed.data.map((r) => r.map((f) => String(f)));
   while (rows.length > 0 && rows[rows.length - 1]!.every((f) => f.trim() === '')) rows.pop();

@@ -479,4 +479,11 @@ describe('longipane analyze used carelessly (each case a bug found by trying it)
     expect(r.code).toBe(1);
     expect(r.err.join('\n')).toMatch(/Name the columns with --map role=Header .*; the headers are: "Colour", "Weight"\./);
   });
+
+  it('a quoted field that never closes is named by file and cell (regression: "data row 2" for the first data row)', async () => {
+    await writeFile(join(d, 'quote.csv'), 'USUBJID,ADT,AVAL\nA,2025-01-06,"3\nB,2025-01-07,4\n');
+    const r = await analyze('quote.csv');
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/quote\.csv": The CSV text has a quoted field that never closes at cell C2: /);
+  });
 });

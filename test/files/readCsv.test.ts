@@ -54,5 +54,8 @@ describe('readCsvText', () => {
 
   it('throws a FileFormatError for a quoted field that never closes', () => {
     expect(() => readCsvText('a,b\n"open,1\n2,3\n')).toThrow(FileFormatError);
+    // Regression: the message said "data row 2" for the first data row; it now names the worksheet cell (A2).
+    expect(() => readCsvText('a,b\n"open,1\n2,3\n')).toThrow(/quoted field that never closes at cell A2: /);
+    expect(() => readCsvText('a,b\n1,2\n3,"x\n')).toThrow(/never closes at cell B3: /);
   });
 });

@@ -16,6 +16,7 @@ import {
 import type { ColumnMapping, DetectedMapping } from '../core/intake/types';
 import type { Stage } from '../core/pipeline/types';
 import type { DataSource, PaneActions, SavedSettings, ScheduleLoad, ScheduleSource } from './actions';
+import { blindedConflicts } from './blinding';
 import { distinctValues, headersOf } from './cells';
 import { DataStep, mappingGaps } from './DataStep';
 import { CORE_ENGINE, type PaneEngine } from './engine';
@@ -171,14 +172,17 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
     await loadSchedule(name);
   };
 
+  const blinded = settings.mode === 'blinded';
+  // The arm values are read only in unblinded mode (SPEC §2): a blinded pane never looks inside an arm column.
   const arms = useMemo(
-    () => (source && mapping?.arm !== undefined ? distinctValues(source.cells, mapping.arm) : []),
-    [source, mapping],
+    () => (!blinded && source && mapping?.arm !== undefined ? distinctValues(source.cells, mapping.arm) : []),
+    [blinded, source, mapping],
   );
 
   const blockers: string[] = [];
   if (!source || !mapping) blockers.push('Read the visit data first (step 1).');
   else if (!confirmed) blockers.push('Confirm the columns (step 1).');
+  else if (blinded) blockers.push(...blindedConflicts(mapping, headers).map((c) => `${c} Change the columns (step 1).`));
   if (!scheduleResult?.ok) blockers.push('Choose a visit schedule (step 2).');
   if (settings.cutoff !== '' && !isIsoDate(settings.cutoff))
     blockers.push('The cut-off date is not a valid date (step 3).');
@@ -295,7 +299,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
             headers={headers}
             mapping={mapping}
             reasons={reasons}
-            blinded={settings.mode === 'blinded'}
+            blinded={blinded}
             suggestions={suggestions}
             notes={notes}
             confirmed={confirmed}
@@ -309,7 +313,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
               setConfirmed(false);
             }}
             onConfirm={() => {
-              if (mapping && mappingGaps(mapping).length === 0) {
+              if (mapping && mappingGaps(mapping, blinded, headers).length === 0) {
                 focusAfterConfirm.current = 'next';
                 setConfirmed(true);
                 setStatus('Columns confirmed.');

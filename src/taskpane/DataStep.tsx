@@ -3,6 +3,7 @@ import type { ReactNode } from 'react';
 import { Button, MessageBar, MessageBarBody, ProgressBar, Text, makeStyles, tokens } from '@fluentui/react-components';
 import type { ColumnMapping, DetectedMapping } from '../core/intake/types';
 import type { DataSource } from './actions';
+import { blindedConflicts, hiddenWhileBlinded } from './blinding';
 import { MappingEditor } from './MappingEditor';
 import { MappingSummary } from './MappingSummary';
 import { PreviewTable } from './PreviewTable';
@@ -35,12 +36,16 @@ export interface DataStepProps {
   readonly onEdit: () => void;
 }
 
-/** What must be mapped before the columns can be confirmed; empty when ready. */
-export function mappingGaps(mapping: ColumnMapping): string[] {
+/**
+ * What must be mapped before the columns can be confirmed; empty when ready. With `blinded` and the headers, also
+ * every arm-like column given a role other than the arm (SPEC §2).
+ */
+export function mappingGaps(mapping: ColumnMapping, blinded = false, headers: readonly string[] = []): string[] {
   const gaps: string[] = [];
   if (mapping.subject === undefined) gaps.push('Choose the patient column.');
   if (mapping.date === undefined && mapping.studyDay === undefined)
     gaps.push('Choose a visit date or a study day column.');
+  if (blinded) gaps.push(...blindedConflicts(mapping, headers));
   return gaps;
 }
 
@@ -48,7 +53,8 @@ export function DataStep(props: DataStepProps): ReactNode {
   const styles = useStyles();
   const { source, mapping } = props;
   const rows = source ? Math.max(0, source.cells.length - 1) : 0;
-  const gaps = mapping ? mappingGaps(mapping) : [];
+  const gaps = mapping ? mappingGaps(mapping, props.blinded, props.headers) : [];
+  const hidden = props.blinded ? hiddenWhileBlinded(props.headers, mapping) : [];
   return (
     <div className={styles.col}>
       <SourcePicker kinds={props.kinds} busy={props.loading !== null} onPick={props.onPick} />
@@ -79,13 +85,12 @@ export function DataStep(props: DataStepProps): ReactNode {
       )}
       {source && !props.confirmed && (
         <>
-          <PreviewTable
-            headers={props.headers}
-            cells={source.cells}
-            hiddenColumn={props.blinded ? (mapping?.arm ?? null) : null}
-          />
-          {props.blinded && mapping?.arm !== undefined && (
-            <Text size={200}>The treatment-arm column is hidden while blinded.</Text>
+          <PreviewTable headers={props.headers} cells={source.cells} hiddenColumns={hidden} />
+          {hidden.length > 0 && (
+            <Text size={200}>
+              Treatment-arm columns are not shown or used while blinded:{' '}
+              {hidden.map((c) => props.headers[c] ?? '').join(', ')}.
+            </Text>
           )}
         </>
       )}

@@ -2,6 +2,7 @@
 import type { ReactNode } from 'react';
 import { Checkbox, Field, Select, makeStyles, tokens } from '@fluentui/react-components';
 import type { ColumnMapping, DetectedMapping } from '../core/intake/types';
+import { armLikeColumns } from './blinding';
 import { ROLES } from './roles';
 import { roleOfColumn, setRole, toggleCovariate } from './mapping';
 
@@ -21,7 +22,10 @@ export interface MappingEditorProps {
   readonly headers: readonly string[];
   readonly mapping: ColumnMapping;
   readonly reasons: DetectedMapping['reasons'];
-  /** Blinded mode: the arm dropdown is shown but marked as not read. */
+  /**
+   * Blinded mode: the arm dropdown is shown but marked as not read, and a column whose header names an arm is offered
+   * for no other role (one already given a role stays visible, marked, so it can be taken off).
+   */
   readonly blinded: boolean;
   /** Columns detection suggests as covariates (e.g. a baseline value); marked, never ticked for the user. */
   readonly suggestions: readonly number[];
@@ -37,12 +41,17 @@ export function MappingEditor({
   onChange,
 }: MappingEditorProps): ReactNode {
   const styles = useStyles();
+  const armLike = new Set(blinded ? armLikeColumns(headers) : []);
   const free = headers
     .map((_, i) => i)
     .filter((i) => {
       const role = roleOfColumn(mapping, i);
-      return role === null || role === 'covariate';
+      if (role === 'covariate') return true;
+      return role === null && !armLike.has(i);
     });
+  /** The label of a column in a list; an arm-like column still chosen while blinded says it must go. */
+  const columnLabel = (i: number): string =>
+    armLike.has(i) ? `${headers[i] ?? ''} (names an arm: not allowed while blinded)` : (headers[i] ?? '');
   return (
     <div className={styles.list}>
       {ROLES.map(({ role, label, help }) => {
@@ -67,11 +76,17 @@ export function MappingEditor({
               data-role={role}
             >
               <option value="">(no column)</option>
-              {headers.map((h, i) => (
-                <option key={i} value={String(i)}>
-                  {h}
-                </option>
-              ))}
+              {headers.map((h, i) =>
+                role === 'arm' ? (
+                  <option key={i} value={String(i)}>
+                    {h}
+                  </option>
+                ) : armLike.has(i) && i !== chosen ? null : (
+                  <option key={i} value={String(i)}>
+                    {columnLabel(i)}
+                  </option>
+                ),
+              )}
             </Select>
           </Field>
         );
@@ -84,7 +99,7 @@ export function MappingEditor({
           free.map((i) => (
             <Checkbox
               key={i}
-              label={suggestions.includes(i) ? `${headers[i] ?? ''} (suggested)` : (headers[i] ?? '')}
+              label={suggestions.includes(i) ? `${columnLabel(i)} (suggested)` : columnLabel(i)}
               checked={mapping.covariates.includes(i)}
               onChange={(_, data) => onChange(toggleCovariate(mapping, i, data.checked === true))}
             />

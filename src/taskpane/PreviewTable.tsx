@@ -27,13 +27,14 @@ export interface PreviewTableProps {
   readonly cells: readonly (readonly CellValue[])[];
   /** How many data rows to show (default 5). */
   readonly rows?: number;
-  /** A column whose values are not shown (the arm column while blinded). */
-  readonly hiddenColumn?: number | null;
+  /** Columns whose values are not shown and not read (every arm-like column while blinded). */
+  readonly hiddenColumns?: readonly number[];
 }
 
-export function PreviewTable({ headers, cells, rows = 5, hiddenColumn = null }: PreviewTableProps): ReactNode {
+export function PreviewTable({ headers, cells, rows = 5, hiddenColumns = [] }: PreviewTableProps): ReactNode {
   const styles = useStyles();
   const body = cells.slice(1, 1 + rows);
+  const hidden = new Set(hiddenColumns);
   return (
     <div className={styles.wrap} tabIndex={0} role="region" aria-label="Preview of the first rows">
       <table className={styles.table}>
@@ -51,7 +52,7 @@ export function PreviewTable({ headers, cells, rows = 5, hiddenColumn = null }: 
             <tr key={r}>
               {headers.map((_, c) => (
                 <td key={c} className={styles.td}>
-                  {c === hiddenColumn ? <span className={styles.hidden}>hidden</span> : cellText(row[c])}
+                  {hidden.has(c) ? <span className={styles.hidden}>hidden</span> : cellText(row[c])}
                 </td>
               ))}
             </tr>

@@ -416,14 +416,13 @@ describe('longipane analyze used carelessly (each case a bug found by trying it)
     expect(await readdir(o)).toEqual(['taken']);
   });
 
-  it('a --reference-arm not in the data still fits the model with the first arm and says so (regression: model not fitted, "..")', async () => {
+  it('a --reference-arm not in the data (a typo) stops the run with the arms there and writes nothing (regression: model not fitted, "..")', async () => {
     await writeFile(join(d, 'visits.csv'), SMALL);
     const r = await analyze('visits.csv', '--unblinded', '--reference-arm', 'Plaecbo', '--json', join(d, 'ref.json'));
-    expect(r.code).toBe(0);
-    expect(r.out.join('\n')).toMatch(/Note: The reference arm "Plaecbo" is not among the arms in the data \("Placebo", "Active"\); "Placebo"/);
-    const json = await readJson(join(d, 'ref.json'));
-    expect(json.model?.arms).toEqual(['Placebo', 'Active']);
-    expect(r.out.join('\n')).not.toMatch(/\.\./);
+    expect(r.code).toBe(1);
+    expect(r.err.join('\n')).toMatch(/The reference arm "Plaecbo" is not among the arms in the data \("Placebo", "Active"\)/);
+    expect(r.err.join('\n')).not.toMatch(/\.\./);
+    expect(await readdir(d)).not.toContain('ref.json');
   });
 
   it('semicolons, Windows line endings, a byte-order mark and a quoted line break give the same results as a plain CSV', async () => {

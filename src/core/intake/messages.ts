@@ -77,6 +77,8 @@ export function renderMessage(m: MessageInput): string {
       return `${at}subject ${quoted(m.context ?? '')} is in arm ${quoted(m.value)} here but in ${m.other === undefined ? 'another arm' : `arm ${quoted(m.other)}`} elsewhere; a subject must stay in one arm.`;
     case 'too-few-subjects-per-arm':
       return `Arm ${quoted(m.value)} has ${m.context ?? 'fewer than two'} subject(s) with usable rows; unblinded mode needs at least two subjects in every arm.`;
+    case 'unknown-reference-arm':
+      return `The reference arm ${quoted(m.value)} is not among the arms in the data (${m.context ?? ''}); choose one of them, since the reference arm decides the sign of every treatment difference.`;
     case 'too-few-arms':
       return `Unblinded mode needs at least two arms; the usable rows have ${m.context ?? 'fewer'}.`;
     case 'no-usable-rows':

@@ -85,6 +85,7 @@ export type IssueCode =
   | 'column-outside-range' // a mapping points at a column the range does not have
   | 'partial-date' // an ISO 8601 date with only a year or a year and month, e.g. "2025-03"
   | 'not-finite' // a number that is not finite (NaN or infinite) in a numeric role
+  | 'unknown-reference-arm' // unblinded mode: the chosen reference arm is not among the data's arms
   | 'too-few-arms' // unblinded mode with fewer than two arms among usable rows
   | 'reference-date-differs' // a row's reference date differs from the one first given for its subject
   // Raised by later layers and passed on in the run's one issue list (src/core/pipeline):

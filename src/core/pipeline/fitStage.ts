@@ -19,7 +19,7 @@ export interface FitStage {
 
 /**
  * The fitting stage: fitFromTable on the rows modelRows picks (all valid rows, or only each scheduled visit's record),
- * with contrasts at every scheduled visit's target day after the first (baseline) visit, and the observed means per
+ * with contrasts at every scheduled visit's target day (the issue's default; at a baseline on day 1 it is the arm term itself), and the observed means per
  * scheduled visit (by arm in unblinded mode). A design the engine refuses (no usable rows, one subject, not of full
  * rank) is a property of the data: fit null and the engine's reason as `note`. Cost: O(rows) plus the engine's pass.
  */
@@ -27,14 +27,8 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
   const include = modelRows(table, timing, settings.scheduledOnly);
   const notes: string[] = [];
   const unblinded = settings.mode === 'unblinded';
-  // A chosen reference arm that is not in the data falls back to the first arm (as the note says), so it must not
-  // reach the engine, which would refuse it and leave the model unfitted.
-  const referenceArm = settings.referenceArm !== undefined && table.arms.includes(settings.referenceArm) ? settings.referenceArm : undefined;
-  if (unblinded && settings.referenceArm !== undefined && referenceArm === undefined) {
-    notes.push(
-      `The reference arm "${settings.referenceArm}" is not among the arms in the data (${table.arms.map((a) => `"${a}"`).join(', ')}); "${table.arms[0] ?? ''}", the first arm in the data, serves as the reference instead.`,
-    );
-  }
+  // runAnalysis has already refused a reference arm that is not in the data (unknownReferenceArm).
+  const referenceArm = unblinded ? settings.referenceArm : undefined;
   let fit: ModelFit | null = null;
   let note: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
   if (note === null) {

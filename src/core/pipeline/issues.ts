@@ -39,3 +39,24 @@ export function modelNotFitted(reason: string): Issue {
     message: renderMessage({ code: 'model-not-fitted', role: null, value: '', cell: null, use: null, context: reason }),
   };
 }
+
+/**
+ * Unblinded mode with a chosen reference arm that is not among the data's arms: a blocking error (a silent fallback
+ * to another arm would flip the sign of every treatment difference). Null when there is nothing to say.
+ * @example unknownReferenceArm(['Placebo', 'Active'], { mode: 'unblinded', referenceArm: 'Plaecbo' })?.code // 'unknown-reference-arm'
+ */
+export function unknownReferenceArm(arms: readonly string[], settings: { readonly mode: string; readonly referenceArm?: string }): Issue | null {
+  if (settings.mode !== 'unblinded' || settings.referenceArm === undefined || arms.includes(settings.referenceArm)) return null;
+  const value = settings.referenceArm;
+  const context = arms.map((a) => `"${a}"`).join(', ');
+  return {
+    code: 'unknown-reference-arm',
+    severity: 'error',
+    cell: null,
+    row: null,
+    role: 'arm',
+    value,
+    use: 'model',
+    message: renderMessage({ code: 'unknown-reference-arm', role: 'arm', value, cell: null, use: 'model', context }),
+  };
+}

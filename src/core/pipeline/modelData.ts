@@ -26,7 +26,7 @@ export function orderedArms(arms: readonly string[], referenceArm: string | unde
 /** Contrast days: each scheduled visit's target day except the first (baseline) visit, in order of target day. */
 export function contrastDays(schedule: readonly ScheduleVisit[]): ContrastDay[] {
   const sorted = [...schedule].sort((a, b) => a.targetDay - b.targetDay);
-  return sorted.slice(1).map((v) => ({ label: v.label, day: v.targetDay }));
+  return sorted.map((v) => ({ label: v.label, day: v.targetDay }));
 }
 
 /** Observed mean of the value at one scheduled visit (pooled, or for one arm). */

@@ -9,7 +9,7 @@ import { classifyVisits, computeStudyDays, dayNumberFromIso, isoDate, NO_STATUS 
 import { PipelineUsageError } from './errors';
 import { excludedRows } from './excludedRows';
 import { fitStage } from './fitStage';
-import { fromScheduleIssues, modelNotFitted } from './issues';
+import { fromScheduleIssues, modelNotFitted, unknownReferenceArm } from './issues';
 import { modelOutputs, recordSheet } from './reportParts';
 import { resultsJson } from './resultsJson';
 import type { AnalysisOutput, AnalysisSettings, RunHooks, Stage } from './types';
@@ -60,6 +60,8 @@ export async function runAnalysis(
   });
   if (!read.ok) return { ok: false, issues: read.issues };
   const table = read.table;
+  const wrongReference = unknownReferenceArm(table.arms, settings);
+  if (wrongReference !== null) return { ok: false, issues: [...read.issues, wrongReference] };
 
   if (!(await enter('windowing'))) return CANCELLED;
   const notes: string[] = [];

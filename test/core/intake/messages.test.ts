@@ -29,6 +29,7 @@ const ALL: Record<IssueCode, true> = {
   'partial-date': true,
   'not-finite': true,
   'too-few-arms': true,
+  'unknown-reference-arm': true,
   'reference-date-differs': true,
   'no-reference-date': true,
   'no-baseline-record': true,

@@ -43,8 +43,11 @@ describe('model rows, contrasts and observed means', () => {
     expect(orderedArms(['B', 'A'], 'Z')).toEqual(['B', 'A']);
   });
 
-  it('contrastDays are the target days of every scheduled visit after the first, in order of target day', () => {
-    expect(contrastDays(SCHEDULE)).toEqual([{ label: 'Week 4', day: 29 }]);
+  it('contrastDays are the target days of every scheduled visit, baseline included, in order of target day', () => {
+    expect(contrastDays(SCHEDULE)).toEqual([
+      { label: 'Baseline', day: 1 },
+      { label: 'Week 4', day: 29 },
+    ]);
   });
 
   it('observedMeans average each subject’s matched record per visit, by arm when arms are given', () => {

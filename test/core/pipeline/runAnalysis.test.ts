@@ -138,18 +138,19 @@ describe('runAnalysis', () => {
     expect((unblinded.json.settings as { referenceArm: unknown }).referenceArm).toBe('Y');
   });
 
-  it('says so in the notes when the chosen reference arm is not in the data, and fits the model with the first arm instead (regression: the model was left unfitted)', async () => {
+  it('refuses a chosen reference arm that is not in the data, naming the arms there (a silent fallback would flip the sign of every difference)', async () => {
     const out = await runAnalysis(CELLS, {
       ...SETTINGS,
       mode: 'unblinded',
       referenceArm: 'Z',
       mapping: { subject: 0, site: 1, arm: 2, visit: 3, date: 4, value: 5, covariates: [] },
     });
-    if (!out.ok) throw new Error('run failed');
-    expect(out.json.notes).toContainEqual(expect.stringMatching(/^The reference arm "Z" is not among the arms in the data \("X", "Y"\); "X"/));
-    expect((out.json.settings as { referenceArm: unknown }).referenceArm).toBe('X');
-    expect(out.json.modelNote).toBeNull();
-    expect((out.json.model as { arms: unknown } | null)?.arms).toEqual(['X', 'Y']);
+    expect(out.ok).toBe(false);
+    const issue = out.issues.find((i) => i.code === 'unknown-reference-arm');
+    expect(issue).toMatchObject({ severity: 'error', role: 'arm', value: 'Z' });
+    expect(issue?.message).toBe(
+      'The reference arm "Z" is not among the arms in the data ("X", "Y"); choose one of them, since the reference arm decides the sign of every treatment difference.',
+    );
   });
 
   it('notes how many days a given cut-off lies after the latest visit date, since a mistyped year makes every open window missed', async () => {

@@ -3,7 +3,7 @@ import { detectMapping, IntakeUsageError } from '../core/intake';
 import type { Issue } from '../core/intake/types';
 import { PipelineUsageError, runAnalysis } from '../core/pipeline';
 import type { AnalysisSettings } from '../core/pipeline/types';
-import { UNBLINDED_CAUTION } from '../core/report/cautions';
+import { CAUTIONS, UNBLINDED_CAUTION } from '../core/report/cautions';
 import { STATUS_WORDS } from '../core/schedule/types';
 import type { VisitStatus } from '../core/schedule/types';
 import { FileFormatError, writeWorkbook } from '../files';
@@ -116,6 +116,8 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     if (firstPerCell.length > WARNINGS_SHOWN) io.out(`  … and ${firstPerCell.length - WARNINGS_SHOWN} more.`);
   }
   printSummary(output.json, io);
+  // The cautions of SPEC §2 go with every result, on the terminal as on every sheet.
+  for (const c of CAUTIONS) io.out(`Caution: ${c}`);
   // Build every output in memory first, then write all or nothing, so a failure leaves no file half-written.
   const files: { target: string; data: Uint8Array | string }[] = [];
   if (args.out !== undefined) files.push({ target: args.out, data: await writeWorkbook(output.sheets) });

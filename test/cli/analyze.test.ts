@@ -5,7 +5,7 @@ import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../../src/cli/main';
 import type { CliOutput } from '../../src/cli/main';
-import { UNBLINDED_CAUTION } from '../../src/core/report/cautions';
+import { CAUTIONS, UNBLINDED_CAUTION } from '../../src/core/report/cautions';
 
 const DEMO_DATA = join(__dirname, '..', '..', 'demo', 'egfr-visits.csv');
 const DEMO_SCHEDULE = join(__dirname, '..', '..', 'demo', 'egfr-schedule.csv');
@@ -42,6 +42,7 @@ async function loadXlsx(path: string): Promise<ExcelJS.Workbook> {
 /** The parts of the results JSON these tests read (schema: README.md, "Results JSON"). */
 interface Results {
   tool: { name: string; version: string };
+  cautions: string[];
   input: { label: string; excluded: { row: number; cell: string; use: string; reason: string }[]; fingerprint: string };
   settings: { mode: string; referenceArm: string | null; mapping: Record<string, unknown> } & Record<string, unknown>;
   visits: { counts: Record<string, number>; byArm?: unknown };
@@ -128,6 +129,11 @@ describe('longipane analyze on the invented demo trial', () => {
     expect(m.variance.residualLower).toBeLessThan(16);
     expect(m.variance.residualUpper).toBeGreaterThan(16);
     expect(result.out.some((l) => l.startsWith('Model: A random-intercept'))).toBe(true);
+  });
+
+  it('carries the cautions of SPEC §2 in the JSON and on the terminal (the unblinded caution too in unblinded mode)', () => {
+    expect(json.cautions).toEqual([...CAUTIONS, UNBLINDED_CAUTION]);
+    for (const c of CAUTIONS) expect(result.out).toContain(`Caution: ${c}`);
   });
 
   it('names the tool, its version, the input fingerprint and the settings in the JSON', () => {

@@ -1,5 +1,6 @@
 import type { ColumnMapping, Issue, IntakeTable } from '../intake/types';
 import type { VisitsJson } from '../report/timingJson';
+import { CAUTIONS, UNBLINDED_CAUTION } from '../report/cautions';
 import { isoDate } from '../schedule/dates';
 import type { CutoffRule } from '../schedule/types';
 import type { AnalysisSettings, ExcludedRow } from './types';
@@ -45,6 +46,7 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
   const unblinded = s.mode === 'unblinded';
   return {
     tool: { name: 'longipane', version: s.toolVersion ?? 'unknown' },
+    cautions: s.mode === 'unblinded' ? [...CAUTIONS, UNBLINDED_CAUTION] : [...CAUTIONS],
     input: {
       label: s.inputLabel,
       sheet: s.sheet,

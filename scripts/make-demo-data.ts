@@ -17,10 +17,8 @@ function normal(rand: () => number): number {
   return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
 }
 
-export const SITES = [
-  'Harrowmere', 'Quillon Bay', 'Castrel', 'Ondervale', 'Pellingford', 'Wyndle Cross',
-  'Marrowick', 'Tessaly Point', 'Brackenholt', 'Silverrun', 'Ostmere', 'Fennick Green',
-] as const;
+/** Invented sites, numbered rather than named so that no name can be mistaken for a real place or hospital. */
+export const SITES = Array.from({ length: 12 }, (_, k) => `Site ${String(k + 1).padStart(2, '0')}`);
 
 export const SCHEDULE = [
   { visit: 'Baseline', targetDay: 1, before: 3, after: 3 },

@@ -5,9 +5,9 @@ import { writeWorkbook } from '../../src/files/writeWorkbook';
 import { readTable } from '../../src/core/intake';
 
 const CSV = '\uFEFFUSUBJID,SITEID,TRT01P,AVISIT,ADT,RANDDT,AVAL\r\n' +
-  'K-01,Harrowmere,Placebo,Baseline,2025-01-06,2025-01-06,55.5\r\n' +
-  'K-01,Harrowmere,Placebo,Week 12,2025-03-31,2025-01-06,-1.25e1\r\n' +
-  '007,Castrel,Active,Baseline,2025-02-30,2025-01-10,pending\r\n';
+  'K-01,Site 01,Placebo,Baseline,2025-01-06,2025-01-06,55.5\r\n' +
+  'K-01,Site 01,Placebo,Week 12,2025-03-31,2025-01-06,-1.25e1\r\n' +
+  '007,Site 03,Active,Baseline,2025-02-30,2025-01-10,pending\r\n';
 
 describe('CSV → cells → intake', () => {
   it('reads CSV text as cells and intake (numericText accept) gives typed columns with cell addresses', () => {

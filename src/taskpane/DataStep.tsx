@@ -8,11 +8,12 @@ import { MappingEditor } from './MappingEditor';
 import { MappingSummary } from './MappingSummary';
 import { PreviewTable } from './PreviewTable';
 import { SourcePicker, type SourceKind } from './SourcePicker';
+import { stackStyle, subheadStyle } from './paneStyles';
 
 const useStyles = makeStyles({
-  col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
+  col: stackStyle,
   notes: { margin: 0, paddingLeft: '18px', fontSize: tokens.fontSizeBase200, color: tokens.colorNeutralForeground2 },
-  subhead: { margin: 0, fontSize: tokens.fontSizeBase300, fontWeight: tokens.fontWeightSemibold },
+  subhead: subheadStyle,
 });
 
 export interface DataStepProps {

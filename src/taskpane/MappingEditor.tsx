@@ -5,9 +5,10 @@ import type { ColumnMapping, DetectedMapping } from '../core/intake/types';
 import { armLikeColumns } from './blinding';
 import { ROLES } from './roles';
 import { roleOfColumn, setRole, toggleCovariate } from './mapping';
+import { stackStyle } from './paneStyles';
 
 const useStyles = makeStyles({
-  list: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
+  list: stackStyle,
   fieldset: {
     border: `1px solid ${tokens.colorNeutralStroke2}`,
     borderRadius: tokens.borderRadiusMedium,

@@ -3,23 +3,14 @@ import type { ReactNode } from 'react';
 import { makeStyles, tokens } from '@fluentui/react-components';
 import type { CellValue } from '../core/intake/types';
 import { cellText } from './cells';
+import { tableCellStyle, tableFrameStyle, tableHeadStyle } from './paneStyles';
 
 const useStyles = makeStyles({
-  wrap: {
-    overflowX: 'auto',
-    maxWidth: '100%',
-    border: `1px solid ${tokens.colorNeutralStroke2}`,
-    borderRadius: tokens.borderRadiusMedium,
-  },
+  wrap: { ...tableFrameStyle, overflowX: 'auto', maxWidth: '100%' },
   table: { borderCollapse: 'collapse', fontSize: tokens.fontSizeBase200, whiteSpace: 'nowrap' },
-  th: {
-    textAlign: 'left',
-    padding: '2px 6px',
-    backgroundColor: tokens.colorNeutralBackground3,
-    fontWeight: tokens.fontWeightSemibold,
-  },
+  th: { ...tableHeadStyle, fontWeight: tokens.fontWeightSemibold },
   hidden: { color: tokens.colorNeutralForeground3, fontStyle: 'italic' },
-  td: { padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
+  td: tableCellStyle,
 });
 
 export interface PreviewTableProps {

@@ -7,15 +7,15 @@ import {
   MessageBarTitle,
   Text,
   makeStyles,
-  tokens,
 } from '@fluentui/react-components';
 import { CautionList } from './CautionList';
 import { IssueList } from './IssueList';
 import type { RunOutcome } from './outcome';
+import { stackStyle, subheadStyle } from './paneStyles';
 
 const useStyles = makeStyles({
-  col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
-  subhead: { margin: 0, fontSize: tokens.fontSizeBase300, fontWeight: tokens.fontWeightSemibold },
+  col: stackStyle,
+  subhead: subheadStyle,
   sheets: { margin: 0, padding: 0, listStyleType: 'none', display: 'flex', flexDirection: 'column', gap: '4px' },
   headline: { margin: 0, paddingLeft: '18px', display: 'flex', flexDirection: 'column', gap: '2px' },
 });

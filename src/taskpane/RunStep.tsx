@@ -2,9 +2,10 @@
 import type { ReactNode } from 'react';
 import { Button, MessageBar, MessageBarBody, ProgressBar, Text, makeStyles, tokens } from '@fluentui/react-components';
 import type { Stage } from '../core/pipeline/types';
+import { stackStyle } from './paneStyles';
 
 const useStyles = makeStyles({
-  col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
+  col: stackStyle,
   row: { display: 'flex', gap: tokens.spacingHorizontalS },
   stages: { listStyleType: 'none', margin: 0, padding: 0, display: 'flex', flexDirection: 'column', gap: '2px' },
   done: { color: tokens.colorPaletteGreenForeground1 },

@@ -15,9 +15,10 @@ import {
 } from '@fluentui/react-components';
 import type { ScheduleLoad, ScheduleSource } from './actions';
 import { ScheduleTable } from './ScheduleTable';
+import { stackStyle } from './paneStyles';
 
 const useStyles = makeStyles({
-  col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
+  col: stackStyle,
   row: { display: 'flex', gap: tokens.spacingHorizontalS, alignItems: 'end', flexWrap: 'wrap' },
   grow: { flexGrow: 1, minWidth: '140px' },
   hint: { margin: 0, color: tokens.colorNeutralForeground2 },

@@ -2,24 +2,14 @@
 import type { ReactNode } from 'react';
 import { makeStyles, tokens } from '@fluentui/react-components';
 import type { ScheduleVisit } from '../core/schedule/types';
+import { tableCellStyle, tableFrameStyle, tableHeadStyle } from './paneStyles';
 
 const useStyles = makeStyles({
-  wrap: {
-    maxHeight: '220px',
-    overflowY: 'auto',
-    border: `1px solid ${tokens.colorNeutralStroke2}`,
-    borderRadius: tokens.borderRadiusMedium,
-  },
+  wrap: { ...tableFrameStyle, maxHeight: '220px', overflowY: 'auto' },
   table: { borderCollapse: 'collapse', width: '100%', fontSize: tokens.fontSizeBase200 },
-  th: {
-    textAlign: 'left',
-    padding: '2px 6px',
-    backgroundColor: tokens.colorNeutralBackground3,
-    position: 'sticky',
-    top: 0,
-  },
-  num: { textAlign: 'right', padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
-  td: { padding: '2px 6px', borderTop: `1px solid ${tokens.colorNeutralStroke2}` },
+  th: { ...tableHeadStyle, position: 'sticky', top: 0 },
+  num: { ...tableCellStyle, textAlign: 'right' },
+  td: tableCellStyle,
 });
 
 export function ScheduleTable({ visits }: { readonly visits: readonly ScheduleVisit[] }): ReactNode {

@@ -12,17 +12,18 @@ import {
   makeStyles,
   tokens,
 } from '@fluentui/react-components';
-import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
+import { DAYS_PER_UNIT, type DfMethod, type FitMethod, type TimeUnit } from '../core/pipeline/types';
 import { isIsoDate, isLevel, type PaneSettings } from './paneSettings';
 import { UnblindDialog } from './UnblindDialog';
+import { stackStyle } from './paneStyles';
 
 const useStyles = makeStyles({
-  col: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalS },
+  col: stackStyle,
   unblinded: { color: tokens.colorPaletteRedForeground1, fontWeight: tokens.fontWeightSemibold },
 });
 
 const TIME_UNITS: readonly { value: TimeUnit; label: string }[] = [
-  { value: 'month', label: 'Months (30.4375 days)' },
+  { value: 'month', label: `Months (${DAYS_PER_UNIT.month} days)` },
   { value: 'week', label: 'Weeks' },
   { value: 'day', label: 'Days' },
 ];

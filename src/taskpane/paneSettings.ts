@@ -1,22 +1,17 @@
 /** The settings the pane edits, their defaults, what is remembered, and the run settings they produce. */
-import type { ColumnMapping, Mode } from '../core/intake/types';
-import type { AnalysisSettings, DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
+import type { ColumnMapping } from '../core/intake/types';
+import type { AnalysisSettings } from '../core/pipeline/types';
 import type { ScheduleVisit } from '../core/schedule/types';
 import type { DataSource, SavedSettings } from './actions';
 import { withoutArm } from './mapping';
 
-export interface PaneSettings {
-  readonly mode: Mode;
+/** The run settings the pane edits, taken from the core's AnalysisSettings, with the two optional ones made plain text. */
+export interface PaneSettings
+  extends Pick<AnalysisSettings, 'mode' | 'timeUnit' | 'dfMethod' | 'method' | 'level' | 'scheduledOnly' | 'perSubject'> {
   /** '' means the first arm in the data. */
   readonly referenceArm: string;
   /** ISO date; '' means the latest date in the data. */
   readonly cutoff: string;
-  readonly timeUnit: TimeUnit;
-  readonly dfMethod: DfMethod;
-  readonly method: FitMethod;
-  readonly level: number;
-  readonly scheduledOnly: boolean;
-  readonly perSubject: boolean;
 }
 
 /** Blinded by default (SPEC §2); REML with Kenward–Roger and 95% intervals (SPEC §5). */

@@ -1,4 +1,5 @@
 import type { Mode } from '../intake/types';
+import { para } from './blockParts';
 import type { Block } from './types';
 
 /** The cautions of SPEC §2, shown on every output sheet, in one place so every front end shows the same words. */
@@ -21,5 +22,5 @@ export const INVENTED_DATA_NOTE = 'The demo data are invented for illustration; 
  */
 export function cautionBlocks(mode: Mode): Block[] {
   const texts = mode === 'unblinded' ? [...CAUTIONS, UNBLINDED_CAUTION] : CAUTIONS;
-  return texts.map((text): Block => ({ kind: 'paragraph', text, style: 'caution' }));
+  return texts.map((text) => para(text, 'caution'));
 }

@@ -9,7 +9,8 @@ import type { Mode } from '../intake/types';
 import type { ContrastResult, ModelFit } from '../model/types';
 import { cautionBlocks } from './cautions';
 import { fitVerdict, modelSummaryText } from './modelText';
-import type { Block, ChartSeries, NumberFormat, SheetCell, SheetSpec, TableColumn } from './types';
+import { cell, col, levelPercent, para } from './blockParts';
+import type { Block, ChartSeries, SheetCell, SheetSpec, TableColumn } from './types';
 
 export interface ObservedVisitMean {
   readonly label: string;
@@ -39,15 +40,10 @@ export class ModelReportError extends Error {
 /** Sheet names of the model output (front ends make them unique in the workbook). */
 export const MODEL_SHEET_NAMES = { results: 'Model results', perPatient: 'Per patient' } as const;
 
-const col = (header: string, format: NumberFormat, width?: number): TableColumn => (width === undefined ? { header, format } : { header, format, width });
-const para = (text: string, style: 'normal' | 'caution' | 'heading' = 'normal'): Block => ({ kind: 'paragraph', text, style });
-/** Non-finite numbers become empty cells. */
-const cell = (x: number): SheetCell => (Number.isFinite(x) ? x : null);
 const UNIT = { month: 'month', week: 'week', day: 'day' } as const;
 
-
 function inferenceColumns(level: number): TableColumn[] {
-  const pct = `${Math.round(level * 1000) / 10}%`;
+  const pct = levelPercent(level);
   return [
     col('Estimate', 'decimal4'),
     col('Standard error', 'decimal4'),
@@ -109,7 +105,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   }
 
   const v = fit.variance;
-  const pct = `${Math.round(fit.level * 1000) / 10}%`;
+  const pct = levelPercent(fit.level);
   blocks.push({
     kind: 'table',
     id: 'VarianceICC',

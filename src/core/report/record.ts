@@ -1,7 +1,8 @@
 import type { ColumnMapping, Mode } from '../intake/types';
 import type { ScheduleVisit } from '../schedule/types';
 import { cautionBlocks } from './cautions';
-import type { Block, SheetSpec, TableColumn } from './types';
+import { col, heading } from './blockParts';
+import type { Block, SheetSpec } from './types';
 
 /** One row left out of one use, as the analysis record lists it. */
 export interface RecordExclusion {
@@ -72,8 +73,6 @@ export function mappingLines(mapping: ColumnMapping, headers: readonly string[])
 }
 
 const USE_WORDS: Readonly<Record<RecordExclusion['use'], string>> = { timing: 'Visit timing', model: 'Model' };
-const col = (header: string, format: TableColumn['format'], width?: number): TableColumn => (width === undefined ? { header, format } : { header, format, width });
-const heading = (text: string): Block => ({ kind: 'paragraph', text, style: 'heading' });
 
 /**
  * The analysis-record sheet (SPEC §6): what was read (input label and SHA-256 fingerprint of its values), row counts,

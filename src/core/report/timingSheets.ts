@@ -1,4 +1,5 @@
 import { STATUS_WORDS } from '../schedule/types';
+import { col, para } from './blockParts';
 import { cautionBlocks } from './cautions';
 import { DUE_WORDS } from './timingTypes';
 import { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWords';
@@ -6,13 +7,10 @@ import { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWord
 /** The sentences live in timingWords.ts; re-exported here for callers that import them with the sheets. */
 export { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText };
 import type { TimingSummary, VisitSummaryRow } from './timingTypes';
-import type { Block, NumberFormat, SheetCell, SheetSpec, TableColumn } from './types';
+import type { Block, NumberFormat, SheetCell, SheetSpec } from './types';
 
 /** Sheet names of the visit-timing reports (front ends make them unique in the workbook). */
 export const TIMING_SHEET_NAMES = { timing: 'Visit timing', deviations: 'Visit deviations', due: 'Visits due' } as const;
-
-const col = (header: string, format: NumberFormat, width?: number): TableColumn => (width === undefined ? { header, format } : { header, format, width });
-const para = (text: string, style: 'normal' | 'caution' | 'heading' = 'normal'): Block => ({ kind: 'paragraph', text, style });
 
 function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[], withArm: boolean): Block {
   const columns = [

@@ -122,13 +122,10 @@ export interface SubjectEffect {
   readonly meanResidual: number;
 }
 
-export interface ModelFit {
+/** A fitted model; it repeats the options that shape its output (method, df method, level, time unit). */
+export interface ModelFit extends Pick<FitOptions, 'method' | 'dfMethod' | 'level' | 'timeUnit'> {
   readonly status: FitStatus;
   readonly message: string;
-  readonly method: FitMethod;
-  readonly dfMethod: DfMethod;
-  readonly level: number;
-  readonly timeUnit: TimeUnit;
   readonly nSubjects: number;
   readonly nObservations: number;
   readonly terms: readonly Term[];

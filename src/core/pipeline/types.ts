@@ -1,11 +1,11 @@
 /** Settings and output of one analysis run, shared by the command line, the browser page and the add-in. */
 import type { ColumnMapping, DateSystem, Issue, Mode } from '../intake/types';
 import type { ScheduleVisit } from '../schedule/types';
+import type { DfMethod, FitMethod, TimeUnit } from '../model/types';
 import type { SheetSpec } from '../report/types';
 
-export type TimeUnit = 'month' | 'week' | 'day';
-export type DfMethod = 'kenward-roger' | 'satterthwaite' | 'residual';
-export type FitMethod = 'reml' | 'ml';
+/** The model's own choices, handed on under the same names for the front ends. */
+export type { DfMethod, FitMethod, TimeUnit };
 
 /** Days per time unit (SPEC §3): a month is 30.4375 days (365.25 / 12, common practice). */
 export const DAYS_PER_UNIT: Readonly<Record<TimeUnit, number>> = { month: 30.4375, week: 7, day: 1 };

@@ -93,6 +93,33 @@ interface SheetState {
   /** Table ids on this sheet → the names their Excel tables got (unique in the workbook). */
   readonly tableIds: Map<string, string>;
   readonly widths: number[];
+  /** Rows of wrapped paragraphs and their text, laid out once the column widths are known. */
+  readonly wraps: { readonly row: number; readonly text: string }[];
+}
+
+/** Widths of columns no table sets (Excel's default is about 8.43 characters). */
+const DEFAULT_COLUMN_WIDTH = 8.43;
+/** Excel's largest row height in points, and the height of one line of the default 11-point font. */
+const MAX_ROW_HEIGHT = 409;
+const LINE_HEIGHT = 15;
+
+/**
+ * Lays each long paragraph over a merged, wrapped area from column A across the sheet's text width (the widest table,
+ * at least 6 and at most 12 columns), with a row height that fits it, so a reader never scrolls sideways to read a
+ * sentence. Lines are estimated from the characters that fit the area's width (column width counts characters of the
+ * default font; 1.1 allows for proportional text). Short paragraphs that fit in the area stay on one line.
+ */
+function wrapParagraphs(st: SheetState): void {
+  const columns = Math.min(12, Math.max(6, st.widths.length));
+  let chars = 0;
+  for (let j = 0; j < columns; j++) chars += st.widths[j] ?? DEFAULT_COLUMN_WIDTH;
+  for (const { row, text } of st.wraps) {
+    st.ws.mergeCells(row, 1, row, columns);
+    const cell = st.ws.getCell(row, 1);
+    cell.alignment = { wrapText: true, vertical: 'top' };
+    const lines = Math.max(1, Math.ceil(text.length / (chars * 1.1)));
+    if (lines > 1) st.ws.getRow(row).height = Math.min(MAX_ROW_HEIGHT, lines * LINE_HEIGHT);
+  }
 }
 
 /** A blank row before a heading or table that follows text, so blocks stand apart. */
@@ -107,6 +134,7 @@ function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font
   const cell = st.ws.getCell(st.row, 1);
   cell.value = text;
   if (font) cell.font = font;
+  if (!heading) st.wraps.push({ row: st.row, text });
   st.row += 1;
   st.spaced = false;
 }
@@ -150,7 +178,7 @@ function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): num
 
 /**
  * Renders sheet specs into an .xlsx workbook (ECMA-376) and returns its bytes. Per sheet: a title row, then each
- * block in order — paragraphs on consecutive rows (cautions in bold italic), headings and tables set apart by a blank row, tables as real Excel tables with header row, filter
+ * block in order — paragraphs on consecutive rows, each merged and wrapped across the sheet's text width (cautions in bold italic), headings and tables set apart by a blank row, tables as real Excel tables with header row, filter
  * buttons, number formats from EXCEL_FORMAT_CODES and column widths, and for each chart a note plus the chart's data
  * table (exceljs cannot draw native charts). A sheet that is one big table gets its header frozen. Text is always
  * stored as a string cell, never as a formula: a subject id "=1+1" stays the text "=1+1". Sheet names are made
@@ -165,7 +193,7 @@ export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8
   const tableNames = new Set<string>();
   sheets.forEach((spec, k) => {
     const ws = wb.addWorksheet(names[k]!);
-    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [] };
+    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [], wraps: [] };
     ws.getCell(1, 1).value = spec.title;
     ws.getCell(1, 1).font = TITLE_FONT;
     const tables = spec.blocks.filter((b) => b.kind === 'table').length;
@@ -191,6 +219,7 @@ export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8
     st.widths.forEach((w, j) => {
       if (w > 0) ws.getColumn(j + 1).width = w;
     });
+    wrapParagraphs(st);
     if (frozenAt > 0) ws.views = [{ state: 'frozen', xSplit: 0, ySplit: frozenAt, topLeftCell: `A${frozenAt + 1}` }];
   });
   const out = await wb.xlsx.writeBuffer();

@@ -156,3 +156,46 @@ describe('writeWorkbook', () => {
     expect(tablesOf(wb.getWorksheet('Empty')!)[0]!.ref).toBe('A4:A5');
   });
 });
+
+describe('writeWorkbook lays long sentences out to be read without scrolling sideways', () => {
+  const long = 'An invented sentence that is much longer than one row of the sheet can show, repeated. '.repeat(6);
+  const spec: SheetSpec = {
+    name: 'Wrapped',
+    title: 'Wrapping',
+    blocks: [
+      { kind: 'paragraph', text: CAUTIONS[0]!, style: 'caution' },
+      { kind: 'paragraph', text: 'Short note.' },
+      { kind: 'paragraph', text: long },
+      { kind: 'paragraph', text: 'A heading', style: 'heading' },
+      {
+        kind: 'table',
+        id: 'Eight',
+        caption: 'Eight columns',
+        columns: Array.from({ length: 8 }, (_, j) => ({ header: `Column ${j + 1}`, format: 'integer' as const, width: 10 })),
+        rows: [[1, 2, 3, 4, 5, 6, 7, 8]],
+      },
+    ],
+  };
+
+  it('merges each paragraph across the widest table and wraps it; headings stay single cells', async () => {
+    const ws = (await load(await writeWorkbook([spec]))).getWorksheet('Wrapped')!;
+    for (const row of [3, 4, 5]) {
+      expect(ws.getCell(row, 1).alignment).toMatchObject({ wrapText: true, vertical: 'top' });
+      expect(ws.getCell(row, 8).isMerged, `row ${row}`).toBe(true);
+      expect(ws.getCell(row, 9).isMerged, `row ${row}`).toBe(false);
+    }
+    const headingRow = 7;
+    expect(ws.getCell(headingRow, 1).value).toBe('A heading');
+    expect(ws.getCell(headingRow, 2).isMerged).toBe(false);
+  });
+
+  it('gives a long paragraph a taller row, lines estimated from the characters that fit the merged width', async () => {
+    const ws = (await load(await writeWorkbook([spec]))).getWorksheet('Wrapped')!;
+    // 8 columns × 10 characters × 1.1 = 88 characters a line; the long text is 6 × 87 = 522 characters → 6 lines of
+    // 15 points (arithmetic on the rule in wrapParagraphs).
+    expect(long.length).toBe(522);
+    expect(ws.getRow(5).height).toBe(6 * 15);
+    expect(ws.getRow(4).height ?? 15).toBe(15);
+    expect(ws.getCell(5, 1).value).toBe(long);
+  });
+});

@@ -5,6 +5,8 @@
 import type { DateSystem } from '../core/intake/types';
 import type { ChartSpec, NumberFormat, SheetCell, SheetSpec } from '../core/report/types';
 import { FORMAT_CODES, GENERAL_FORMAT, TEXT_FORMAT } from './formatCodes';
+import type { WrapArea } from './wrapAreas';
+import { planWrapAreas, textColumns } from './wrapAreas';
 
 /** A value as written: text, a number, or "" for an empty cell. */
 export type WrittenValue = string | number;
@@ -58,6 +60,8 @@ export interface SheetLayout {
   readonly columnWidths: readonly number[];
   /** Rows to freeze at the top (the title row, or through the header of a sheet's single table near the top). */
   readonly freezeRows: number;
+  /** Normal and caution paragraphs: merged, wrapped areas from column A with a row height that fits the text. */
+  readonly wrapAreas: readonly WrapArea[];
 }
 
 /** Day numbers in specs count 1899-12-30 as 0; a 1904-system workbook counts 1904-01-01 as 0, 1462 days later. */
@@ -159,8 +163,11 @@ function chartType(spec: ChartSpec): ChartPlan['type'] {
  * Lays a sheet out top to bottom from column A: the title (row 1), then each block followed by a blank row;
  * paragraphs take one row; a table takes a caption row, its header and its rows; a chart writes its numbers as a
  * small table with the chart beside it. Numbers in 'date' columns are shifted into the workbook's date system.
- * Cost O(cells). Example: a spec with one paragraph and a 2-row table → patches at rows 0, 2, 4, 5, 6 and one
- * table at row 5 with 3 rows.
+ * Normal and caution paragraphs (not the title or headings) get a wrap area across the sheet's text width (the
+ * widest table's columns, 6 to 12); columns of that width without a planned width get the default of 12 characters,
+ * so the row height estimated from the widths holds. Cost O(cells).
+ * Example: a spec with one paragraph and a 2-row table → patches at rows 0, 2, 4, 5, 6, one table at row 5 with
+ * 3 rows, and one wrap area at row 2 across 6 columns.
  */
 export function layoutSheet(spec: SheetSpec, dateSystem: DateSystem): SheetLayout {
   const patches: CellPatch[] = [textPatch(0, spec.title, 'title')];
@@ -171,11 +178,13 @@ export function layoutSheet(spec: SheetSpec, dateSystem: DateSystem): SheetLayou
     while (widths.length <= column) widths.push(0);
     widths[column] = Math.max(widths[column] ?? 0, Math.min(60, chars));
   };
+  const paragraphs: { row: number; characters: number }[] = [];
   let row = 2;
   for (const block of spec.blocks) {
     if (block.kind === 'paragraph') {
       const style = block.style === 'caution' ? 'caution' : block.style === 'heading' ? 'heading' : 'normal';
       patches.push(textPatch(row, block.text, style));
+      if (style !== 'heading') paragraphs.push({ row, characters: block.text.length });
       row += 2;
     } else if (block.kind === 'table') {
       patches.push(textPatch(row, block.caption, 'caption'));
@@ -205,6 +214,9 @@ export function layoutSheet(spec: SheetSpec, dateSystem: DateSystem): SheetLayou
       row += Math.max(1 + rowCount, CHART_ROWS) + 1;
     }
   }
+  const textWidth = textColumns(tables.map((t) => t.columnCount));
+  if (paragraphs.length > 0) for (let j = 0; j < textWidth; j++) if ((widths[j] ?? 0) === 0) widen(j, DEFAULT_WIDTH);
+  const wrapAreas = paragraphs.length > 0 ? planWrapAreas(paragraphs, textWidth, widths) : [];
   const only = tables.length === 1 ? tables[0] : undefined;
-  return { patches, tables, charts, columnWidths: widths, freezeRows: only !== undefined && only.row <= 10 ? only.row + 1 : 1 };
+  return { patches, tables, charts, columnWidths: widths, freezeRows: only !== undefined && only.row <= 10 ? only.row + 1 : 1, wrapAreas };
 }

@@ -1,7 +1,8 @@
 /**
- * Renders a SheetSpec into a new worksheet: title, paragraphs, real tables with number formats, native charts, column
- * widths and frozen rows. Never writes into an existing sheet. Every text cell gets the text format "@" before its
- * value is written, so user text such as "=1+1" stays text and never becomes a formula.
+ * Renders a SheetSpec into a new worksheet: title, paragraphs (merged and wrapped across the text width), real tables
+ * with number formats, native charts, column widths and frozen rows. Never writes into an existing sheet. Every text
+ * cell gets the text format "@" before its value is written, so user text such as "=1+1" stays text and never becomes
+ * a formula.
  */
 import type { DateSystem } from '../core/intake/types';
 import type { SheetSpec } from '../core/report/types';
@@ -106,7 +107,10 @@ function addChart(ws: Excel.Worksheet, plan: ChartPlan, name: string): void {
   chart.setPosition(rangeAddress(plan.from.row, plan.from.column, 1, 1), rangeAddress(plan.to.row, plan.to.column, 1, 1));
 }
 
-/** Turns the written cells into tables, adds the charts, sets widths and frozen rows, in one request. */
+/**
+ * Turns the written cells into tables, adds the charts, sets widths and frozen rows, and merges and wraps each
+ * paragraph's area (after its value is in the top-left cell, which keeps its value and its "@" format), in one request.
+ */
 async function finish(sheet: string, layout: SheetLayout): Promise<void> {
   await Excel.run(async (context) => {
     const all = context.workbook.tables;
@@ -124,6 +128,13 @@ async function finish(sheet: string, layout: SheetLayout): Promise<void> {
     layout.columnWidths.forEach((chars, j) => {
       if (chars > 0) ws.getRange(rangeAddress(0, j, 1, 1)).format.columnWidth = chars * POINTS_PER_CHARACTER;
     });
+    for (const a of layout.wrapAreas) {
+      const area = ws.getRange(rangeAddress(a.row, 0, 1, a.columnCount));
+      area.merge(false);
+      area.format.wrapText = true;
+      area.format.verticalAlignment = 'Top';
+      area.format.rowHeight = a.heightPoints;
+    }
     ws.freezePanes.freezeRows(layout.freezeRows);
     await context.sync();
   });
@@ -132,7 +143,7 @@ async function finish(sheet: string, layout: SheetLayout): Promise<void> {
 /**
  * Renders `spec` into a new worksheet named after spec.name (made legal and unique) and returns the name it got.
  * Requests: one to add the sheet, one per write group (planned from the byte and cell budgets, split further if the
- * host refuses one for its size), one to add tables, charts, widths and frozen rows. Cost O(cells).
+ * host refuses one for its size), one to add tables, charts, widths, frozen rows and paragraph wrapping. Cost O(cells).
  * Example: a 3-table model sheet of a few hundred cells → 3 requests.
  */
 export async function renderSheet(spec: SheetSpec, options: RenderOptions): Promise<WrittenSheet> {
@@ -151,7 +162,7 @@ export async function renderSheet(spec: SheetSpec, options: RenderOptions): Prom
     await finish(name, layout);
   } catch (error) {
     throw new ExcelAdapterError(
-      `The cells of sheet "${name}" were written, but its tables or charts could not be added: ${error instanceof Error ? error.message : String(error)}`,
+      `The cells of sheet "${name}" were written, but its tables, charts or paragraph wrapping could not be added: ${error instanceof Error ? error.message : String(error)}`,
       { cause: error },
     );
   }

@@ -104,6 +104,8 @@ describe('Excel API level of the adapter', () => {
     expect(setOf('getSelectedRange')).toBe(1);
     // getUsedRange(true), values only, is the ExcelApi 1.2 overload (the plain one is 1.1): overloads are told apart.
     expect(setOf('getUsedRange')).toBe(2);
+    // Paragraph wrapping: merge and rowHeight came with ExcelApi 1.2, wrapText and verticalAlignment with 1.1.
+    expect([setOf('merge'), setOf('rowHeight'), setOf('wrapText'), setOf('verticalAlignment')]).toEqual([2, 2, 1, 1]);
     expect(uses.length).toBeGreaterThan(40);
   });
 

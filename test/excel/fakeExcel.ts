@@ -13,6 +13,8 @@ export type Op =
   | { readonly op: 'values'; readonly sheet: string; readonly address: string; readonly value: unknown[][] }
   | { readonly op: 'font'; readonly sheet: string; readonly address: string; readonly key: string; readonly value: unknown }
   | { readonly op: 'columnWidth'; readonly sheet: string; readonly address: string; readonly value: number }
+  | { readonly op: 'merge'; readonly sheet: string; readonly address: string; readonly across: boolean | undefined }
+  | { readonly op: 'format'; readonly sheet: string; readonly address: string; readonly key: 'wrapText' | 'verticalAlignment' | 'rowHeight'; readonly value: unknown }
   | { readonly op: 'table'; readonly sheet: string; readonly address: string; readonly hasHeaders: boolean; name?: string }
   | { readonly op: 'chart'; readonly sheet: string; readonly type: string; readonly address: string; readonly by: string; readonly chart: FakeChart }
   | { readonly op: 'freezeRows'; readonly sheet: string; readonly value: number }
@@ -101,7 +103,19 @@ export function installFakeExcel(existingSheets: string[], existingTables: strin
         set columnWidth(v: number) {
           ops.push({ op: 'columnWidth', sheet, address, value: v });
         },
+        set wrapText(v: boolean) {
+          ops.push({ op: 'format', sheet, address, key: 'wrapText', value: v });
+        },
+        set verticalAlignment(v: string) {
+          ops.push({ op: 'format', sheet, address, key: 'verticalAlignment', value: v });
+        },
+        set rowHeight(v: number) {
+          ops.push({ op: 'format', sheet, address, key: 'rowHeight', value: v });
+        },
         autofitColumns() {},
+      },
+      merge(across?: boolean) {
+        ops.push({ op: 'merge', sheet, address, across });
       },
       select() {},
       dataValidation: new Proxy({} as Record<string, unknown>, {

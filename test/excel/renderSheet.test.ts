@@ -147,6 +147,49 @@ describe('renderSheet', () => {
     expect(ofKind(wb.ops, 'columnWidth').find((o) => o.address === 'B1')?.value).toBe(70);
   });
 
+  it('merges and wraps each normal and caution paragraph across the widest table, after writing its text as text', async () => {
+    const wb = installFakeExcel([]);
+    const long = 'Invented demo data: the interim look used half the planned visits, so estimates may move. '.repeat(4).trim();
+    const columns = ['Site', 'Arm', 'Week', 'n', 'Mean', 'SD', 'Low', 'High'].map((header) => ({ header, format: 'decimal1' as const }));
+    const spec: SheetSpec = {
+      name: 'Results',
+      title: 'Results (invented demo data)',
+      blocks: [
+        { kind: 'paragraph', text: 'What the model says', style: 'heading' },
+        { kind: 'paragraph', text: long, style: 'caution' },
+        { kind: 'table', id: 'BySite', caption: 'By site', columns, rows: [[1, 2, 3, 4, 5, 6, 7, 8]] },
+      ],
+    };
+    await renderSheet(spec, { dateSystem: 1900 });
+    // The caution is on row 5 (title 1, heading 3); its area spans the table's 8 columns, A to H.
+    expect(ofKind(wb.ops, 'merge')).toEqual([{ op: 'merge', sheet: 'Results', address: 'A5:H5', across: false }]);
+    const format = ofKind(wb.ops, 'format').filter((o) => o.address === 'A5:H5');
+    // 8 columns × 12 characters = 96; the caution's 359 characters / 105.6 → 4 lines of 15 points.
+    expect(long.length).toBe(359);
+    expect(format.map((o) => [o.key, o.value])).toEqual([
+      ['wrapText', true],
+      ['verticalAlignment', 'Top'],
+      ['rowHeight', 60],
+    ]);
+    // The text went in as text ("@" first, then the value) before the area was merged around it; the merge writes
+    // no values or formats of its own, so the top-left cell keeps both.
+    const textFormat = wb.ops.findIndex((o) => o.op === 'numberFormat' && o.address === 'A5');
+    const value = wb.ops.findIndex((o) => o.op === 'values' && o.address === 'A5');
+    const merge = wb.ops.findIndex((o) => o.op === 'merge');
+    expect(ofKind(wb.ops, 'numberFormat').find((o) => o.address === 'A5')?.value).toEqual([['@']]);
+    expect(textFormat).toBeGreaterThanOrEqual(0);
+    expect(textFormat).toBeLessThan(value);
+    expect(value).toBeLessThan(merge);
+    expect(wb.ops.some((o) => (o.op === 'values' || o.op === 'numberFormat') && o.address === 'A5:H5')).toBe(false);
+    expect(wb.cells.get('Results!A5')).toBe(long);
+    // The title and the heading stay single cells, unwrapped.
+    expect(wb.ops.some((o) => 'address' in o && /^A[13]:/.test(o.address))).toBe(false);
+    // Still three requests: the wrapping rides in the request that adds tables and widths.
+    expect(wb.runs()).toBe(3);
+    const lastRunStart = wb.ops.map((o) => o.op).lastIndexOf('sync', wb.ops.length - 2);
+    expect(merge).toBeGreaterThan(lastRunStart);
+  });
+
   it('writes a 30,000-row table in several requests, halving any the host refuses for its size', async () => {
     const rows = Array.from({ length: 30_000 }, (_, i) => [`S${i}`, i * 0.5]);
     const big: SheetSpec = { name: 'Listing', title: 'Listing', blocks: [{ kind: 'table', id: 'List', caption: 'All rows', columns: [{ header: 'Subject', format: 'text' }, { header: 'x', format: 'decimal1' }], rows }] };

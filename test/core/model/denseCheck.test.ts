@@ -9,7 +9,7 @@ import { buildDesign } from '../../../src/core/model/design';
 import { informationPieces } from '../../../src/core/model/information';
 import { profileAt } from '../../../src/core/model/likelihood';
 import { sufficientStats } from '../../../src/core/model/sufficient';
-import { normals, seeded } from './helpers';
+import { fitOptions, normals, seeded } from './helpers';
 
 /** Invented unbalanced data: 9 subjects with 1–5 visits, 2 arms, a numeric and a 3-level categorical covariate. */
 function smallData(): ModelData {
@@ -119,7 +119,7 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
   }
 
   it('the optimum is stationary: the finite-difference derivative in log γ is ≈ 0', () => {
-    const fit = fitRandomIntercept(d, { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [] });
+    const fit = fitRandomIntercept(d, fitOptions());
     expect(fit.status).toBe('converged');
     const gamma = fit.variance.subject / fit.variance.residual;
     const h = 1e-4;
@@ -198,7 +198,7 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
   });
 
   it('fixed-effect SEs equal √diag((X\'V⁻¹X)⁻¹) from dense matrices (Satterthwaite: unadjusted covariance)', () => {
-    const fit = fitRandomIntercept(d, { method: 'reml', dfMethod: 'satterthwaite', level: 0.95, timeUnit: 'month', contrastDays: [] });
+    const fit = fitRandomIntercept(d, fitOptions({ dfMethod: 'satterthwaite' }));
     const X = denseX(d);
     const Vi = inverse(denseV(d, fit.variance.subject, fit.variance.residual));
     const Phi = inverse(X.transpose().mmul(Vi).mmul(X));
@@ -209,7 +209,7 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
   });
 
   it('Kenward–Roger SEs equal √diag(Φ_A) and the df equal 2(LΦL\')²/(g\'Wg) with g from finite differences of dense Φ(θ)', () => {
-    const fit = fitRandomIntercept(d, { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [] });
+    const fit = fitRandomIntercept(d, fitOptions());
     const X = denseX(d);
     const p = X.columns;
     const th = [fit.variance.subject, fit.variance.residual];
@@ -243,7 +243,7 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
   });
 
   it('BLUPs equal σ²_u Z\'V⁻¹(y − Xβ̂) and residuals equal y − Xβ̂ − Zû from dense matrices (Henderson 1975)', () => {
-    const fit = fitRandomIntercept(d, { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [], residuals: true });
+    const fit = fitRandomIntercept(d, fitOptions({ residuals: true }));
     const X = denseX(d);
     const Vi = inverse(denseV(d, fit.variance.subject, fit.variance.residual));
     const beta = Matrix.columnVector(fit.fixedEffects.map((f) => f.estimate));

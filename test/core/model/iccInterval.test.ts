@@ -3,15 +3,15 @@
  * Searle's (1971) exact F-based interval is known, to state how far the general method is from the exact one.
  */
 import { describe, expect, it } from 'vitest';
-import { fitRandomIntercept, type FitOptions } from '../../../src/core/model';
+import { fitRandomIntercept } from '../../../src/core/model';
 import { buildDesign } from '../../../src/core/model/design';
 import { informationPieces, inverseInformation } from '../../../src/core/model/information';
 import { profileAt } from '../../../src/core/model/likelihood';
 import { sufficientStats } from '../../../src/core/model/sufficient';
 import { LOGIT_WALD_VS_EXACT, logitWaldIccInterval } from '../../../src/core/model/varianceIntervals';
-import { DYESTUFF, oneWay, RAILS } from './helpers';
+import { DYESTUFF, oneWay, oneWayOptions, RAILS } from './helpers';
 
-const opts: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [], design: 'intercept-only' };
+const opts = oneWayOptions();
 
 /** The general (unbalanced-data) interval forced onto a balanced data set: W from the REML fit's expected information. */
 function forcedLogitWald(groups: readonly (readonly number[])[]): { exact: [number, number]; wald: [number, number] } {

@@ -1,19 +1,9 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { fitRandomIntercept, type FitOptions } from '../../../src/core/model';
-import { oneWay } from './helpers';
+import { fitRandomIntercept } from '../../../src/core/model';
+import { balancedAnova, oneWay, oneWayOptions } from './helpers';
 
-const opts: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [], design: 'intercept-only' };
-
-function anova(groups: readonly (readonly number[])[]): { msb: number; msw: number; n: number } {
-  const a = groups.length;
-  const n = groups[0]!.length;
-  const means = groups.map((g) => g.reduce((s, v) => s + v, 0) / n);
-  const grand = means.reduce((s, v) => s + v, 0) / a;
-  const ssb = n * means.reduce((s, m) => s + (m - grand) ** 2, 0);
-  const ssw = groups.reduce((s, g, i) => s + g.reduce((t, v) => t + (v - means[i]!) ** 2, 0), 0);
-  return { msb: ssb / (a - 1), msw: ssw / (a * (n - 1)), n };
-}
+const opts = oneWayOptions();
 
 describe('balanced one-way REML equals the ANOVA estimators (Searle, Casella & McCulloch 1992)', () => {
   it('exact identity: σ²_u = (MSB − MSW)/n and σ² = MSW when MSB > MSW, otherwise the boundary σ²_u = 0', () => {
@@ -22,7 +12,7 @@ describe('balanced one-way REML equals the ANOVA estimators (Searle, Casella & M
       .chain(({ a, n }) => fc.array(fc.array(fc.double({ min: -100, max: 100, noNaN: true }), { minLength: n, maxLength: n }), { minLength: a, maxLength: a }));
     fc.assert(
       fc.property(groupsArb, (groups) => {
-        const { msb, msw, n } = anova(groups);
+        const { msb, msw, n } = balancedAnova(groups);
         fc.pre(msw > 1e-6 && Math.abs(msb - msw) > 1e-6 * msw);
         const f = fitRandomIntercept(oneWay(groups), opts);
         // Tolerance 1e-6 relative to the total variance: the optimiser stops when log γ is known to ~1e-10, and the

@@ -5,7 +5,7 @@
 import { Matrix, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { fitRandomIntercept, fUpper, type DfMethod, type ModelData } from '../../../src/core/model';
-import { normals, seeded } from './helpers';
+import { fitOptions, normals, seeded } from './helpers';
 
 const TIMES = [0, 1, 2, 3];
 
@@ -80,7 +80,7 @@ describe('Kenward–Roger and Satterthwaite reproduce exact tests in balanced de
     const d3 = balanced(3, 4, 5);
     const n3 = d3.y.length;
     const s3 = d3.nSubjects;
-    const fit = fitRandomIntercept(d3, { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [] });
+    const fit = fitRandomIntercept(d3, fitOptions());
     expect(fit.status).toBe('converged');
     // Exact F: subject dummies + common slope (reduced) vs subject dummies + arm-specific slopes (full), by OLS.
     const rowsFull: number[][] = [];

@@ -3,15 +3,17 @@
  * of Kenward & Roger (1997, Biometrics 53:983–997, sections 2–3 — section numbers from memory), and compared with the
  * engine's pooled-by-cluster-size code. Nothing from src/ is used here except the public fitRandomIntercept (for the
  * REML estimates of the two variances and the output under test) and the t quantile of the public API; the design
- * matrix, Σ, Φ, P_r, Q_rs, the expected information, Φ_A and the E/V moment-matching df are all built in this file.
+ * matrix is built in this file, and Σ, Φ, P_r, Q_rs, the expected information, Φ_A and the E/V moment-matching df in
+ * the test helper denseKenwardRoger (helpers.ts), which uses nothing from src/ either.
  *
  * Data (invented, from the kidney-function scenario): 10 patients with 1–5 visits (34 rows, unequal cluster sizes,
  * jittered visit days), 5 on each arm but with different visit counts, and a numeric baseline covariate, so the design
  * is unbalanced and the engine takes its general data pass.
  */
-import { Matrix, inverse } from 'ml-matrix';
+import { Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { fitRandomIntercept, tQuantile, type ModelData } from '../../../src/core/model';
+import { denseKenwardRoger, fitOptions } from './helpers';
 
 // [patient, arm (0 = Placebo, 1 = Drug), study day, baseline eGFR, eGFR] — invented values.
 const ROWS: readonly (readonly [number, number, number, number, number])[] = [
@@ -46,63 +48,17 @@ interface DenseKR {
   lambda: number;
 }
 
-/**
- * Dense Kenward–Roger for one contrast row L at (σ²_u, σ²): Σ = σ²_u ZZ' + σ² I, Σ_1 = ZZ', Σ_2 = I,
- * Φ = (X'Σ⁻¹X)⁻¹, P_r = −X'Σ⁻¹Σ_rΣ⁻¹X, Q_rs = X'Σ⁻¹Σ_rΣ⁻¹Σ_sΣ⁻¹X, W = inverse of the expected REML information
- * ½ tr(ΠΣ_rΠΣ_s) with Π = Σ⁻¹ − Σ⁻¹XΦX'Σ⁻¹, Φ_A = Φ + 2Φ{Σ W_rs (Q_rs − P_rΦP_s)}Φ (no R_rs: Σ is linear in θ);
- * Θ = L'(LΦL')⁻¹L, A1 = Σ W_rs tr(ΘΦP_rΦ) tr(ΘΦP_sΦ), A2 = Σ W_rs tr(ΘΦP_rΦΘΦP_sΦ), then B, g, c1–c3, E = 1/(1 − A2/ℓ), V,
- * ρ = V/(2E²), m = 4 + (ℓ + 2)/(ℓρ − 1), λ = m/(E(m − 2)). The general-ℓ formulas are used as printed (ℓ = 1),
- * not the engine's one-row simplification.
- */
+/** The dense evaluation (denseKenwardRoger in helpers.ts) for one contrast row l: estimate, adjusted SE, df and λ. */
 function denseKR(X: Matrix, y: Matrix, subj: Int32Array, s2u: number, s2: number, L: Matrix): DenseKR {
-  const n = X.rows;
-  const S1 = new Matrix(n, n);
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) S1.set(i, j, subj[i] === subj[j] ? 1 : 0);
-  const S2 = Matrix.eye(n);
-  const Sigma = S1.clone().mul(s2u).add(S2.clone().mul(s2));
-  const Si = inverse(Sigma);
-  const Xt = X.transpose();
-  const Phi = inverse(Xt.mmul(Si).mmul(X));
-  const beta = Phi.mmul(Xt).mmul(Si).mmul(y);
-  const Sr = [S1, S2];
-  const P = Sr.map((Sk) => Xt.mmul(Si).mmul(Sk).mmul(Si).mmul(X).mul(-1));
-  const Q = (r: number, s: number): Matrix => Xt.mmul(Si).mmul(Sr[r]!).mmul(Si).mmul(Sr[s]!).mmul(Si).mmul(X);
-  const Pi = Si.clone().sub(Si.mmul(X).mmul(Phi).mmul(Xt).mmul(Si));
-  const info = new Matrix(2, 2);
-  for (let r = 0; r < 2; r++) for (let s = 0; s < 2; s++) info.set(r, s, 0.5 * Pi.mmul(Sr[r]!).mmul(Pi).mmul(Sr[s]!).trace());
-  const W = inverse(info);
-  const inner = Matrix.zeros(X.columns, X.columns);
-  for (let r = 0; r < 2; r++) for (let s = 0; s < 2; s++) inner.add(Q(r, s).sub(P[r]!.mmul(Phi).mmul(P[s]!)).mul(W.get(r, s)));
-  const PhiA = Phi.clone().add(Phi.mmul(inner).mmul(Phi).mul(2));
-  const ell = L.rows;
-  const Theta = L.transpose().mmul(inverse(L.mmul(Phi).mmul(L.transpose()))).mmul(L);
-  let A1 = 0;
-  let A2 = 0;
-  for (let r = 0; r < 2; r++) {
-    for (let s = 0; s < 2; s++) {
-      const Mr = Theta.mmul(Phi).mmul(P[r]!).mmul(Phi);
-      const Ms = Theta.mmul(Phi).mmul(P[s]!).mmul(Phi);
-      A1 += W.get(r, s) * Mr.trace() * Ms.trace();
-      A2 += W.get(r, s) * Mr.mmul(Ms).trace();
-    }
-  }
-  const B = (A1 + 6 * A2) / (2 * ell);
-  const g = ((ell + 1) * A1 - (ell + 4) * A2) / ((ell + 2) * A2);
-  const den = 3 * ell + 2 * (1 - g);
-  const [c1, c2, c3] = [g / den, (ell - g) / den, (ell + 2 - g) / den];
-  const E = 1 / (1 - A2 / ell);
-  const V = (2 / ell) * ((1 + c1 * B) / ((1 - c2 * B) ** 2 * (1 - c3 * B)));
-  const rho = V / (2 * E * E);
-  const m = 4 + (ell + 2) / (ell * rho - 1);
-  const lambda = m / (E * (m - 2));
-  return { estimate: L.mmul(beta).get(0, 0), se: Math.sqrt(L.mmul(PhiA).mmul(L.transpose()).get(0, 0)), df: m, lambda };
+  const k = denseKenwardRoger(X, y, subj, s2u, s2, L);
+  return { estimate: L.mmul(k.beta).get(0, 0), se: Math.sqrt(L.mmul(k.phiA).mmul(L.transpose()).get(0, 0)), df: k.m, lambda: k.lambda };
 }
 
 /** Relative difference |a − b|/|b|. */
 const rel = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
 
 describe('Kenward–Roger: the pooled engine equals an independent dense evaluation of the published formulas', () => {
-  const fit = fitRandomIntercept(data, { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [{ label: 'Week 24', day: CONTRAST_DAY }] });
+  const fit = fitRandomIntercept(data, fitOptions({ contrastDays: [{ label: 'Week 24', day: CONTRAST_DAY }] }));
   // Design written out here in the documented order: intercept, arm Drug, time, time × Drug, baseline.
   const X = new Matrix(ROWS.map((r) => {
     const t = (r[2] - 1) / MONTH;
@@ -150,7 +106,7 @@ describe('Kenward–Roger: the pooled engine equals an independent dense evaluat
   });
 
   it('the adjustment is real here: every Kenward–Roger SE exceeds the unadjusted one, the time term\'s by about 0.9%', () => {
-    const sat = fitRandomIntercept(data, { method: 'reml', dfMethod: 'satterthwaite', level: 0.95, timeUnit: 'month', contrastDays: [] });
+    const sat = fitRandomIntercept(data, fitOptions({ dfMethod: 'satterthwaite' }));
     const ratio = fit.fixedEffects.map((fe, j) => fe.se / sat.fixedEffects[j]!.se - 1);
     for (const r of ratio) expect(r).toBeGreaterThan(0);
     // 0.5%: well above the 1e-8 agreement, so the comparisons above would catch a missing or halved adjustment.

@@ -1,18 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { chiSquareQuantile, fitRandomIntercept, tQuantile, type FitOptions, type ModelData } from '../../../src/core/model';
-import { DYESTUFF, normals, oneWay, RAILS, seeded } from './helpers';
+import { chiSquareQuantile, fitRandomIntercept, tQuantile, type ModelData } from '../../../src/core/model';
+import { balancedAnova, DYESTUFF, fitOptions, normals, oneWay, oneWayOptions, RAILS, seeded } from './helpers';
 
-const oneWayOpts: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: [], design: 'intercept-only' };
-
-function msbMsw(groups: readonly (readonly number[])[]): { msb: number; msw: number; a: number; n: number } {
-  const a = groups.length;
-  const n = groups[0]!.length;
-  const means = groups.map((g) => g.reduce((s, v) => s + v, 0) / n);
-  const grand = means.reduce((s, v) => s + v, 0) / a;
-  const ssb = n * means.reduce((s, m) => s + (m - grand) ** 2, 0);
-  const ssw = groups.reduce((s, g, i) => s + g.reduce((t, v) => t + (v - means[i]!) ** 2, 0), 0);
-  return { msb: ssb / (a - 1), msw: ssw / (a * (n - 1)), a, n };
-}
+const oneWayOpts = oneWayOptions();
 
 /** |actual − expected| ≤ tol · |expected|: a relative check for values whose size varies (8 to 24000 here). */
 function expectRelClose(actual: number, expected: number, tol: number): void {
@@ -23,7 +13,7 @@ describe('variance-component intervals', () => {
   for (const [name, groups] of [['rails (Devore 2000)', RAILS], ['dyestuff (Davies 1947)', DYESTUFF]] as const) {
     it(`${name}: the within-patient interval is the exact chi-square interval SSW/χ²(N − a) (Searle 1971, exact identity)`, () => {
       const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
-      const { msw, a, n } = msbMsw(groups);
+      const { msw, a, n } = balancedAnova(groups);
       const nu = a * (n - 1);
       // Relative 1e-9: in balanced data W_22 = 2σ⁴/(N − a) exactly and the REML σ² equals MSW at the optimum, so only
       // the optimiser's stopping rule on log γ (about 1e-12, carried into σ² at that relative size) and rounding
@@ -33,7 +23,7 @@ describe('variance-component intervals', () => {
     });
     it(`${name}: the between-patient interval uses Satterthwaite's df for (MSB − MSW)/n (Satterthwaite 1946, exact identity)`, () => {
       const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
-      const { msb, msw, a, n } = msbMsw(groups);
+      const { msb, msw, a, n } = balancedAnova(groups);
       const s2u = (msb - msw) / n;
       const nu = (msb - msw) ** 2 / (msb ** 2 / (a - 1) + msw ** 2 / (a * (n - 1)));
       // Relative 1e-9, for the same reason as above: the REML σ²_u equals (MSB − MSW)/n at the optimum, so only the
@@ -75,7 +65,7 @@ function twoArm(): ModelData {
 
 describe('contrasts, trajectories, AIC and BIC', () => {
   const d = twoArm();
-  const opts: FitOptions = { method: 'reml', dfMethod: 'kenward-roger', level: 0.9, timeUnit: 'month', contrastDays: [{ label: 'Week 12', day: 85 }, { label: 'Week 48', day: 337 }] };
+  const opts = fitOptions({ level: 0.9, contrastDays: [{ label: 'Week 12', day: 85 }, { label: 'Week 48', day: 337 }] });
   const fit = fitRandomIntercept(d, opts);
 
   it('the treatment difference at a day is the arm term plus time × the arm-by-time term, time = (day − 1)/30.4375', () => {

@@ -1,16 +1,7 @@
 import { Matrix, determinant, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import { fitRandomIntercept, type FitOptions } from '../../../src/core/model';
-import { DYESTUFF, oneWay, RAILS } from './helpers';
-
-const opts = (method: 'reml' | 'ml'): FitOptions => ({
-  method,
-  dfMethod: 'kenward-roger',
-  level: 0.95,
-  timeUnit: 'month',
-  contrastDays: [],
-  design: 'intercept-only',
-});
+import { fitRandomIntercept } from '../../../src/core/model';
+import { balancedAnova, DYESTUFF, oneWay, oneWayOptions, RAILS, type Anova } from './helpers';
 
 // Where the reference values come from.
 // - The data are printed in Devore (2000, Probability and Statistics for Engineering and the Sciences; the rails) and
@@ -28,19 +19,6 @@ const opts = (method: 'reml' | 'ml'): FitOptions => ({
 //   quoted in the titles were computed by that formula and are kept as a fixed record.
 // Tolerances: a quoted figure is checked to half a unit in its last printed place; a value computed in the test is
 // checked to a stated relative tolerance.
-
-interface Anova { readonly a: number; readonly n: number; readonly N: number; readonly grand: number; readonly msb: number; readonly msw: number }
-
-/** One-way ANOVA mean squares of balanced groups (exact arithmetic on the data). */
-function anova(groups: readonly (readonly number[])[]): Anova {
-  const a = groups.length;
-  const n = groups[0]!.length;
-  const means = groups.map((g) => g.reduce((s, v) => s + v, 0) / n);
-  const grand = means.reduce((s, v) => s + v, 0) / a;
-  const ssb = n * means.reduce((s, m) => s + (m - grand) ** 2, 0);
-  const ssw = groups.reduce((s, g, i) => s + g.reduce((t, v) => t + (v - means[i]!) ** 2, 0), 0);
-  return { a, n, N: a * n, grand, msb: ssb / (a - 1), msw: ssw / (a * (n - 1)) };
-}
 
 /**
  * The Gaussian log-likelihood of y = 1μ + Zu + e with V = σ²_u ZZ' + σ² I, written out densely (n x n) with ml-matrix,
@@ -135,8 +113,8 @@ describe('the test\'s own references', () => {
   });
   it('the ANOVA tables of the data: rails MSB 1862.1, MSW 16.1667; dyestuff MSB 11271.5, MSW 2451.25', () => {
     // Computed from the data; half a unit in the last quoted place.
-    const r = anova(RAILS);
-    const d = anova(DYESTUFF);
+    const r = balancedAnova(RAILS);
+    const d = balancedAnova(DYESTUFF);
     expect(Math.abs(r.msb - 1862.1)).toBeLessThan(5e-2);
     expect(Math.abs(r.msw - 16.1667)).toBeLessThan(5e-5);
     expect(Math.abs(d.msb - 11271.5)).toBeLessThan(5e-2);
@@ -146,8 +124,8 @@ describe('the test\'s own references', () => {
 
 describe('one-way random-effects fits reproduce the ANOVA identities and independent dense log-likelihoods', () => {
   it('rails (Devore 2000): REML between SD 24.805, within SD 4.0208, mean 66.5 (SE 10.171), logLik −61.0885', () => {
-    const t = anova(RAILS);
-    const f = fitRandomIntercept(oneWay(RAILS), opts('reml'));
+    const t = balancedAnova(RAILS);
+    const f = fitRandomIntercept(oneWay(RAILS), oneWayOptions('reml'));
     expect(f.status).toBe('converged');
     const s2u = (t.msb - t.msw) / t.n;
     // Relative 1e-9 against the identity: the optimiser's stopping rule on log γ (about 1e-12) plus rounding.
@@ -167,8 +145,8 @@ describe('one-way random-effects fits reproduce the ANOVA identities and indepen
     expect(Math.abs(f.logLik - dense)).toBeLessThan(1e-8);
   });
   it('rails (Devore 2000): ML logLik −64.2800 at the ML identity variances', () => {
-    const t = anova(RAILS);
-    const f = fitRandomIntercept(oneWay(RAILS), opts('ml'));
+    const t = balancedAnova(RAILS);
+    const f = fitRandomIntercept(oneWay(RAILS), oneWayOptions('ml'));
     const s2u = ((1 - 1 / t.a) * t.msb - t.msw) / t.n;
     relClose(f.variance.subject, s2u, 1e-9); // stopping rule on log γ plus rounding, as above
     relClose(f.variance.residual, t.msw, 1e-9);
@@ -177,8 +155,8 @@ describe('one-way random-effects fits reproduce the ANOVA identities and indepen
     expect(Math.abs(f.logLik - dense)).toBeLessThan(1e-8); // as above: stationary point, rounding only
   });
   it('dyestuff (Davies 1947): REML between 1764.05, within 2451.25, mean 1527.5 (SE 19.383), logLik −159.827', () => {
-    const t = anova(DYESTUFF);
-    const f = fitRandomIntercept(oneWay(DYESTUFF), opts('reml'));
+    const t = balancedAnova(DYESTUFF);
+    const f = fitRandomIntercept(oneWay(DYESTUFF), oneWayOptions('reml'));
     const s2u = (t.msb - t.msw) / t.n;
     relClose(f.variance.subject, s2u, 1e-9); // stopping rule on log γ plus rounding, as above
     relClose(f.variance.residual, t.msw, 1e-9);
@@ -193,8 +171,8 @@ describe('one-way random-effects fits reproduce the ANOVA identities and indepen
     expect(Math.abs(f.logLik - dense)).toBeLessThan(1e-7);
   });
   it('dyestuff (Davies 1947): ML between 1388.33 = ((1 − 1/a)·MSB − MSW)/n, logLik −163.664', () => {
-    const t = anova(DYESTUFF);
-    const f = fitRandomIntercept(oneWay(DYESTUFF), opts('ml'));
+    const t = balancedAnova(DYESTUFF);
+    const f = fitRandomIntercept(oneWay(DYESTUFF), oneWayOptions('ml'));
     const s2u = ((1 - 1 / t.a) * t.msb - t.msw) / t.n;
     expect(Math.abs(s2u - 1388.33)).toBeLessThan(5e-3);
     relClose(f.variance.subject, s2u, 1e-9); // stopping rule on log γ plus rounding, as above
@@ -208,8 +186,8 @@ describe('one-way random-effects fits reproduce the ANOVA identities and indepen
     ['dyestuff (Davies 1947)', DYESTUFF, [0.4185, 0.0838, 0.8479]],
   ] as const) {
     it(`${name}: the balanced one-way ICC interval is Searle's exact F-based one (Searle 1971): ${quoted[0]} (${quoted[1]}, ${quoted[2]})`, () => {
-      const t = anova(groups);
-      const v = fitRandomIntercept(oneWay(groups), opts('reml')).variance;
+      const t = balancedAnova(groups);
+      const v = fitRandomIntercept(oneWay(groups), oneWayOptions('reml')).variance;
       const [lower, upper] = iccLimits(t, 0.95);
       const icc = (t.msb - t.msw) / (t.msb + (t.n - 1) * t.msw);
       // Relative 1e-8 against the test's own computation: the stopping rule on log γ (~1e-12) in the ICC, and the
@@ -225,7 +203,7 @@ describe('one-way random-effects fits reproduce the ANOVA identities and indepen
     });
   }
   it('in balanced one-way data the intercept df is (subjects − 1) by Kenward–Roger (exact identity: the F test on group means)', () => {
-    const f = fitRandomIntercept(oneWay(RAILS), opts('reml'));
+    const f = fitRandomIntercept(oneWay(RAILS), oneWayOptions('reml'));
     expect(f.fixedEffects[0]!.df).toBeCloseTo(5, 8); // 1e-8: the optimiser's stopping rule leaves ~1e-12 in γ
   });
 });

@@ -54,7 +54,22 @@ export interface AppProps {
 }
 
 const messageOf = (e: unknown): string => (e instanceof Error ? e.message : String(e));
-const nextTick = (): Promise<void> => new Promise((resolve) => setTimeout(resolve, 0));
+/**
+ * Lets React render the stage just announced (so the status region says it) before the next stage starts: the next
+ * painted frame, then a macrotask. A bare setTimeout(0) let React fold two quick stages into one render, so a stage
+ * was never announced. A hidden pane paints no frames, hence the 50 ms fallback.
+ */
+const nextTick = (): Promise<void> =>
+  new Promise((resolve) => {
+    let done = false;
+    const finish = (): void => {
+      if (done) return;
+      done = true;
+      setTimeout(resolve, 0);
+    };
+    if (typeof requestAnimationFrame === 'function') requestAnimationFrame(finish);
+    setTimeout(finish, 50);
+  });
 
 export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
   const styles = useStyles();

@@ -28,6 +28,7 @@ describe('niceTicks', () => {
 
 describe('niceStep', () => {
   it('rounds up to 1, 2, 5 or 10 times the power of ten below the rough step', () => {
+    // Worked by hand from Heckbert's rule (Graphics Gems, 1990): the smallest of {1, 2, 5, 10} × 10^k at or above x.
     expect([niceStep(0.7), niceStep(1), niceStep(1.5), niceStep(3), niceStep(7), niceStep(230)]).toEqual([
       1, 1, 2, 5, 10, 500,
     ]);
@@ -35,6 +36,7 @@ describe('niceStep', () => {
 });
 
 describe('linearScale', () => {
+  // Exact arithmetic: s(x) = r0 + (x − d0)/(d1 − d0)·(r1 − r0); a zero-width domain maps to the middle of the range.
   it('maps the domain ends to the range ends, also when the range runs backwards (SVG y grows downwards)', () => {
     const s = linearScale(0, 10, 300, 20);
     expect(s(0)).toBe(300);

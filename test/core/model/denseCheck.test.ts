@@ -2,6 +2,7 @@
  * Internal cross-check: the fast, pooled-by-cluster-size computations against a direct dense n x n evaluation
  * (written here with ml-matrix) on small unbalanced data with covariates.
  */
+// Formulas: Harville 1977 (JASA 72:320–338) for the REML log-likelihood and its information; Kenward & Roger 1997 (Biometrics 53:983–997) for the adjusted covariance Φ_A.
 import { Matrix, determinant, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { fitRandomIntercept, type ModelData } from '../../../src/core/model';
@@ -192,6 +193,7 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
     for (let r = 0; r < 2; r++) {
       for (let s = 0; s < 2; s++) {
         const dense = 0.5 * trace(Vi.mmul(Vr[r]!).mmul(Vi).mmul(Vr[s]!));
+        // ML expected information (Searle, Casella & McCulloch 1992, from memory); 1e-9 relative: two exact routes, rounding only.
         expect(Math.abs(info[r * 2 + s]! - dense)).toBeLessThan(1e-9 * Math.abs(dense));
       }
     }
@@ -237,6 +239,7 @@ describe('the pooled computations equal a dense n x n evaluation', () => {
       });
       const gWg = W.get(0, 0) * g[0]! ** 2 + 2 * W.get(0, 1) * g[0]! * g[1]! + W.get(1, 1) * g[1]! ** 2;
       const df = (2 * Phi.get(j, j) ** 2) / gWg;
+      // For one row, Kenward & Roger's denominator df equals this Satterthwaite form (Kenward & Roger 1997, from memory).
       // 1e-5 relative: the central-difference gradient carries O(h²) ≈ 1e-10 relative error, amplified by cancellation.
       expect(Math.abs(fe.df - df)).toBeLessThan(1e-5 * df);
     }

@@ -32,6 +32,7 @@ describe('distribution quantiles match printed handbook tables', () => {
     expect(tTwoSided(2.5, 9)).toBeCloseTo(fUpper(6.25, 1, 9), 12);
   });
   it('an infinite df gives the normal limit and an impossible df gives NaN, not a throw', () => {
+    // 6 digits: the quantile is quoted to 6 decimals, so half a unit in the last place.
     expect(tQuantile(0.975, Infinity)).toBeCloseTo(1.959964, 6); // normal quantile, from memory
     expect(tQuantile(0.975, 0)).toBeNaN();
     expect(tTwoSided(1, -1)).toBeNaN();
@@ -44,6 +45,7 @@ describe('chi-square quantiles at large df', () => {
     for (const df of [10_001, 50_000, 400_000]) {
       for (const prob of [0.025, 0.975]) {
         const exact = jStat.chisquare.inv(prob, df);
+        // Wilson & Hilferty 1931 approximation (from memory); the reference is jStat's exact inversion; the error size is from memory and checked here.
         // 1e-7: the approximation's relative error at 10^4 df is ~4e-8 and shrinks like 1/df.
         expect(Math.abs(chiSquareQuantile(prob, df) - exact) / exact).toBeLessThan(1e-7);
       }

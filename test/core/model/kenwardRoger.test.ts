@@ -71,6 +71,7 @@ describe('Kenward–Roger and Satterthwaite reproduce exact tests in balanced de
     it(`${dfMethod}: within-subject terms (time, time × arm) have df = the within-subject residual df N − subjects − 2`, () => {
       const fit = fitRandomIntercept(d, { method: 'reml', dfMethod, level: 0.95, timeUnit: 'month', contrastDays });
       const within = N - nSub - 2;
+      // 1e-6: the REML optimum is found to about 1e-10 in log γ and the df is a smooth function of it.
       expect(fit.fixedEffects.find((f) => f.kind === 'time')!.df).toBeCloseTo(within, 6);
       expect(fit.slopeDifferences[0]!.df).toBeCloseTo(within, 6);
     });
@@ -100,6 +101,7 @@ describe('Kenward–Roger and Satterthwaite reproduce exact tests in balanced de
     const jt = fit.jointTest!;
     expect(jt.numDf).toBe(2);
     expect(jt.denDf).toBeCloseTo(den, 5); // 1e-5: m is a ratio of small differences of traces
+    // 1e-6: F and p depend smoothly on the estimated γ, found to about 1e-10; the least-squares route is rounding only.
     expect(jt.F).toBeCloseTo(F, 6);
     expect(jt.p).toBeCloseTo(fUpper(F, 2, den), 6);
   });
@@ -113,6 +115,7 @@ describe('Kenward–Roger and Satterthwaite reproduce exact tests in balanced de
     // Balanced: Φ_A = Φ for these within-subject contrasts, so all three Wald F values agree (rounding only).
     expect(sat.F).toBeCloseTo(kr.F, 8);
     expect(res.F).toBeCloseTo(kr.F, 8);
+    // 1e-5: a ratio of small differences of traces, so a little looser than the df above.
     expect(sat.denDf).toBeCloseTo(kr.denDf, 5);
     expect(res.denDf).toBe(d3.y.length - 6); // residual df: N − p with p = 6 fixed effects
   });

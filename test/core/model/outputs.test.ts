@@ -38,6 +38,7 @@ describe('variance-component intervals', () => {
     const v = fitRandomIntercept(oneWay(RAILS), oneWayOpts).variance;
     const wald = [v.residual * Math.exp(-1.959964 * Math.sqrt(2 / 12)), v.residual * Math.exp(1.959964 * Math.sqrt(2 / 12))];
     expect(Math.abs(v.residualLower - 8.313)).toBeLessThan(5e-4); // 194/χ²(0.975; 12), rounded to 3 decimals
+    // Bounds just above the worked ratios 0.87 and 0.82 (by hand from the exact and Wald limits).
     expect(wald[0]! / v.residualLower).toBeLessThan(0.9);
     expect(wald[1]! / v.residualUpper).toBeLessThan(0.85);
   });
@@ -71,6 +72,7 @@ describe('contrasts, trajectories, AIC and BIC', () => {
   it('the treatment difference at a day is the arm term plus time × the arm-by-time term, time = (day − 1)/30.4375', () => {
     const b = fit.fixedEffects;
     for (const te of fit.treatmentEffects) {
+      // 30.4375 = 365.25/12 days per month (common practice).
       expect(te.time).toBe((te.day - 1) / 30.4375);
       // Exact identities; absolute 5e-11 (10 digits) on values of order 1–10 leaves only a few products' rounding.
       expect(te.estimate).toBeCloseTo(b[1]!.estimate + te.time * b[3]!.estimate, 10);
@@ -104,6 +106,7 @@ describe('contrasts, trajectories, AIC and BIC', () => {
     const p = fit.fixedEffects.length;
     expect(fit.nParameters).toBe(p + 2);
     expect(fit.bicN).toBe(d.y.length - p);
+    // AIC = −2ℓ + 2k (Akaike 1974); BIC = −2ℓ + k·log N (Schwarz 1978), with N = n − p for REML (a common convention, from memory).
     // Same formula by hand; absolute 5e-11 (10 digits) on criteria of order 1000 leaves only rounding (about 1e-13).
     expect(fit.aic).toBeCloseTo(-2 * fit.logLik + 2 * (p + 2), 10);
     expect(fit.bic).toBeCloseTo(-2 * fit.logLik + (p + 2) * Math.log(d.y.length - p), 10);

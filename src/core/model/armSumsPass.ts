@@ -76,10 +76,11 @@ function contiguousPass(
   let cTT = 0;
   let cY = 0;
   let cTY = 0;
-  for (let r = 0; r < n; r++) {
-    const s = subject[r]!;
-    const g = armIndex === null ? 0 : armIndex[r]!;
-    if (s !== cur) {
+  // One step past the last row (r === n) flushes the last subject through the same code as every other.
+  for (let r = 0; r <= n; r++) {
+    const s = r < n ? subject[r]! : -1;
+    const g = r < n && armIndex !== null ? armIndex[r]! : 0;
+    if (s !== cur || r === n) {
       // Flush the finished subject (written inline: a closure over these locals would keep them on the heap).
       if (cur >= 0) {
         if (count[cur]! !== 0) return 'interleaved';
@@ -94,6 +95,7 @@ function contiguousPass(
         g5[o + 3] = g5[o + 3]! + cY;
         g5[o + 4] = g5[o + 4]! + cTY;
       }
+      if (r === n) break;
       if (!(s >= 0 && s < nSub) || !(g >= 0 && g < G)) return 'invalid';
       cur = s;
       curArm = g;
@@ -115,19 +117,6 @@ function contiguousPass(
     yty += yr * yr;
     if (t < tMin) tMin = t;
     if (t > tMax) tMax = t;
-  }
-  if (cur >= 0) {
-    if (count[cur]! !== 0) return 'interleaved';
-    count[cur] = cn;
-    ysum[cur] = cY;
-    tsum[cur] = cT;
-    subjArm[cur] = curArm;
-    const o = 5 * curArm;
-    g5[o] = g5[o]! + cn;
-    g5[o + 1] = g5[o + 1]! + cT;
-    g5[o + 2] = g5[o + 2]! + cTT;
-    g5[o + 3] = g5[o + 3]! + cY;
-    g5[o + 4] = g5[o + 4]! + cTY;
   }
   return { yty, tMin, tMax };
 }

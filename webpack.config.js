@@ -7,6 +7,7 @@ import { dirname, join, resolve } from 'node:path';
 import webpack from 'webpack';
 import HtmlWebpackPlugin from 'html-webpack-plugin';
 import CopyWebpackPlugin from 'copy-webpack-plugin';
+import MinimizerPlugin from 'minimizer-webpack-plugin';
 
 const root = dirname(fileURLToPath(import.meta.url));
 const PORT = 3000;
@@ -73,6 +74,13 @@ export default async (env, argv) => {
       ],
     },
     performance: { hints: false },
+    // Production minification by esbuild (already a dev dependency for the command line) instead of terser: about
+    // five times faster on these bundles, which keeps `npm test` (it builds) short. The pane and the page share one
+    // chunk of library code (React, Fluent UI, the engine), so it is minified once and cached once by the browser.
+    optimization: {
+      minimizer: [new MinimizerPlugin({ minify: { implementation: MinimizerPlugin.esbuildMinify, options: { target: 'es2020' } } })],
+      splitChunks: { chunks: 'all', name: 'shared', minChunks: 2 },
+    },
     plugins: [
       new webpack.DefinePlugin({ __LONGIPANE_VERSION__: JSON.stringify(VERSION) }),
       new HtmlWebpackPlugin({

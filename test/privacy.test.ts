@@ -66,6 +66,10 @@ const TEXT_ONLY_HOSTS: Readonly<Record<string, string>> = {
   'react.dev': "react's production error messages link to its error decoder; shown as text, not fetched",
   'github.com': 'links inside error messages and package metadata of exceljs dependencies',
   'stuk.github.io': "a link in jszip's error message about unreadable zip files",
+  'stuartk.com': "jszip's licence comment (kept by the minifier as a legal comment)",
+  'raw.github.com': "jszip's licence comment, pointing at its licence text",
+  'feross.org': 'licence comments of ieee754 and safe-buffer (exceljs dependencies)',
+  'aka.ms': "a link in a Fluent UI styling library's message about CSS shorthands; shown as text, not fetched",
 };
 
 describe('our own code makes no network request', () => {

@@ -1,5 +1,6 @@
 /**
- * End to end: the built browser page (dist/) in Debian's Chromium, driven with playwright-core. Loads the invented
+ * End to end: the built browser page (dist/) in headless Chromium (chosen by test/support/browser.ts), driven with
+ * playwright-core. Loads the invented
  * demo trial, walks the pane with the keyboard, runs unblinded and blinded, checks what the page shows, that it asks
  * nothing of any other address, and saves screenshots.
  *
@@ -9,14 +10,14 @@
  * so that an ordinary `npm test` (and CI) never changes tracked files.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { execFileSync } from 'node:child_process';
 import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import { extname, join, normalize, resolve, sep } from 'node:path';
 import ExcelJS from 'exceljs';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
+import { launchChromium } from '../support/browser';
 
 const ROOT = process.cwd();
 const DIST = resolve(ROOT, 'dist');
@@ -56,15 +57,6 @@ function serve(dir: string): Promise<Server> {
   return new Promise((ok) => server.listen(0, '127.0.0.1', () => ok(server)));
 }
 
-function chromiumPath(): string {
-  if (process.env.CHROMIUM_PATH) return process.env.CHROMIUM_PATH;
-  try {
-    return execFileSync('which', ['chromium'], { encoding: 'utf8' }).trim();
-  } catch {
-    return '/usr/bin/chromium';
-  }
-}
-
 let server: Server;
 let context: BrowserContext;
 let page: Page;
@@ -77,32 +69,11 @@ beforeAll(async () => {
   if (!existsSync(join(DIST, 'index.html'))) {
     throw new Error('dist/index.html is missing: build the page first with `npm run build` (this test serves dist/).');
   }
-  const executablePath = chromiumPath();
-  if (!existsSync(executablePath)) {
-    throw new Error(
-      `Chromium not found at ${executablePath}: install it with \`apt-get install -y --no-install-recommends chromium\`.`,
-    );
-  }
   mkdirSync(ARTIFACTS, { recursive: true });
   server = await serve(DIST);
   base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   profile = mkdtempSync(join(tmpdir(), 'longipane-e2e-'));
-  context = await chromium.launchPersistentContext(profile, {
-    executablePath,
-    headless: true,
-    acceptDownloads: true,
-    viewport: { width: 1280, height: 900 },
-    args: [
-      '--headless',
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-background-networking',
-      '--disable-quic',
-      '--no-first-run',
-      '--disable-component-update',
-      '--disable-sync',
-    ],
-  });
+  ({ context } = await launchChromium(profile));
   context.on('request', (r) => requests.push(r.url()));
   page = context.pages()[0] ?? (await context.newPage());
   page.on('pageerror', (e) => pageErrors.push(e.message));

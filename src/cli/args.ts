@@ -12,6 +12,8 @@ export interface AnalyzeArgs {
   readonly schedule: string;
   readonly sheet?: string;
   readonly cutoff?: string;
+  /** Data cut-off as a study day, for study-day data (no calendar dates). */
+  readonly cutoffDay?: number;
   readonly out?: string;
   readonly json?: string;
   /** role → header text, in the order given. */
@@ -27,7 +29,7 @@ export interface AnalyzeArgs {
   readonly perSubject: boolean;
 }
 
-const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate'] as const;
+const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate'] as const;
 const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-subject'] as const;
 type ValueFlag = (typeof VALUE_FLAGS)[number];
 type BooleanFlag = (typeof BOOLEAN_FLAGS)[number];
@@ -99,6 +101,12 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
   checkOutputs([['data', data], ['schedule', schedule]], [['out', one('out')], ['json', one('json')]]);
   const cutoff = one('cutoff');
   if (cutoff !== undefined && !isIsoDate(cutoff)) throw new UsageError(`--cutoff must be a real date written YYYY-MM-DD; got "${cutoff}".`);
+  const cutoffDayText = one('cutoff-day');
+  const cutoffDay = cutoffDayText === undefined ? undefined : Number(cutoffDayText);
+  if (cutoffDay !== undefined && (!/^\s*[+-]?\d+\s*$/.test(cutoffDayText!) || cutoffDay === 0 || Math.abs(cutoffDay) > 36_500)) {
+    throw new UsageError(`--cutoff-day must be a whole study day such as 365 (study days skip 0); got "${cutoffDayText}".`);
+  }
+  if (cutoff !== undefined && cutoffDay !== undefined) throw new UsageError('Give either --cutoff (a date, for dated data) or --cutoff-day (a study day, for study-day data), not both.');
   const levelText = one('level') ?? '0.95';
   const level = Number(levelText);
   if (!(level > 0 && level < 1)) throw new UsageError(`--level must be a number between 0 and 1, such as 0.95; got "${levelText}".`);
@@ -113,6 +121,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
   const optional = {
     ...(one('sheet') === undefined ? {} : { sheet: one('sheet')! }),
     ...(cutoff === undefined ? {} : { cutoff }),
+    ...(cutoffDay === undefined ? {} : { cutoffDay }),
     ...(one('out') === undefined ? {} : { out: one('out')! }),
     ...(one('json') === undefined ? {} : { json: one('json')! }),
     ...(referenceArm === undefined ? {} : { referenceArm }),
@@ -147,6 +156,8 @@ Input:
                           reference, visit, value, arm, site. Columns not given are detected from headers.
   --covariate Header      add a model covariate column (repeatable)
   --cutoff YYYY-MM-DD     data cut-off (default: the latest date in the data)
+  --cutoff-day N          data cut-off as a study day, for data with study days and no dates
+                          (default: each participant's own last record)
 
 Model:
   --unblinded             read the arm column and report treatment effects (unblinded staff only)

@@ -79,6 +79,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     ...(custom ? { mapping: buildMapping(detectMapping(headers, mode).mapping, headers, args.map, args.covariates) } : {}),
     schedule: schedule.schedule,
     ...(args.cutoff === undefined ? {} : { cutoff: args.cutoff }),
+    ...(args.cutoffDay === undefined ? {} : { cutoffDay: args.cutoffDay }),
     ...(args.referenceArm === undefined ? {} : { referenceArm: args.referenceArm }),
     timeUnit: args.timeUnit,
     dfMethod: args.df,

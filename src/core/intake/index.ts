@@ -28,3 +28,4 @@ export {
 export { ERROR_LITERALS, isBlankCell, isErrorCell, cellText, readTextCell, parsePlainDecimal } from './cellText';
 export { IntakeUsageError } from './errors';
 export { isArmHeader } from './armColumns';
+export { offsetOfStudyDay, studyDayOfOffset } from './dayOffset';

@@ -6,6 +6,7 @@
  * Cost: one O(n p²) pass over the observations, then O(K p² + p³) per likelihood evaluation (K distinct cluster
  * sizes); no n x n matrix is ever formed.
  */
+import { offsetOfStudyDay } from '../intake/dayOffset';
 import { buildDesign, type Design } from './design';
 import { RankDeficiencyError, ModelInputError } from './errors';
 import { estimateRatio } from './estimateRatio';
@@ -90,7 +91,7 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     for (let a = 1; a < design.nArms; a++) {
       const arm = data.arms[a]!;
       for (const cd of options.contrastDays) {
-        const time = (cd.day - 1) / unit;
+        const time = offsetOfStudyDay(cd.day) / unit;
         const l = new Float64Array(p);
         l[design.armCol + a - 1] = 1;
         l[design.armTimeCol + a - 1] = time;
@@ -116,7 +117,7 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   const bicN = options.method === 'reml' ? N - p : N;
   const logLik = pt.logLik;
   let tMax = st.tMax;
-  for (const cd of options.contrastDays) tMax = Math.max(tMax, (cd.day - 1) / unit);
+  for (const cd of options.contrastDays) tMax = Math.max(tMax, offsetOfStudyDay(cd.day) / unit);
   const tMin = Math.min(st.tMin, 0);
   // Per-subject BLUPs are produced on first access (SPEC §5: "on request") and then kept; the getter is enumerable,
   // so spreading, JSON and structured cloning see an ordinary array.

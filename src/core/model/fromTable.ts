@@ -1,7 +1,9 @@
 /**
  * fitFromTable: builds the model's columns from an intake table and fits (SPEC §3, §5). A row enters when
- * include[i] === 1, table.usableModel[i] === 1, studyDays[i] is finite and the row has a subject (subjectIndex ≥ 0, true
- * of every usable row); nothing else is checked here (the caller's include mask carries any further choice); time = (study day − 1)/unit (unit = 30.4375
+ * include[i] === 1, table.usableModel[i] === 1, offsets[i] is finite and the row has a subject (subjectIndex ≥ 0, true
+ * of every usable row); nothing else is checked here (the caller's include mask carries any further choice); time =
+ * calendar offset from the reference date / unit (offset = date − reference date, so study day 1 is time 0 and the
+ * day before the reference date is −1 day; unit = 30.4375
  * days for a month, 7 for a week, 1 for a day); subjects are renumbered in order of first appearance; in unblinded
  * mode the arms present among the rows are ordered with the reference arm first (the given one, else the first in the
  * table's order); categorical covariates keep only the levels present among the rows, in the table's level order.
@@ -12,14 +14,14 @@ import { ModelInputError } from './errors';
 import { DAYS_PER_TIME_UNIT, fitRandomIntercept } from './fit';
 import type { FitOptions, ModelData, ModelFit } from './types';
 
-/** Example: 3 subjects x 4 visits on study days 1, 85, 169, 253 with unit 'week' -> time 0, 12, 24, 36. */
-export function modelDataFromTable(table: IntakeTable, studyDays: Float64Array, include: Uint8Array, timeUnit: FitOptions['timeUnit'], referenceArm?: string): ModelData {
-  if (studyDays.length !== table.nRows || include.length !== table.nRows) {
-    throw new ModelInputError(`studyDays (${studyDays.length}) and include (${include.length}) must have one entry per table row (${table.nRows}).`);
+/** Example: 3 subjects x 4 visits at offsets 0, 84, 168, 252 (study days 1, 85, 169, 253) with unit 'week' -> time 0, 12, 24, 36. */
+export function modelDataFromTable(table: IntakeTable, offsets: Float64Array, include: Uint8Array, timeUnit: FitOptions['timeUnit'], referenceArm?: string): ModelData {
+  if (offsets.length !== table.nRows || include.length !== table.nRows) {
+    throw new ModelInputError(`offsets (${offsets.length}) and include (${include.length}) must have one entry per table row (${table.nRows}).`);
   }
   const picked: number[] = [];
   for (let i = 0; i < table.nRows; i++) {
-    if (include[i] === 1 && table.usableModel[i] === 1 && Number.isFinite(studyDays[i]!) && table.subjectIndex[i]! >= 0) picked.push(i);
+    if (include[i] === 1 && table.usableModel[i] === 1 && Number.isFinite(offsets[i]!) && table.subjectIndex[i]! >= 0) picked.push(i);
   }
   const n = picked.length;
   const unit = DAYS_PER_TIME_UNIT[timeUnit];
@@ -37,7 +39,7 @@ export function modelDataFromTable(table: IntakeTable, studyDays: Float64Array, 
       ids.push(table.subjectIds[s]!);
     }
     y[j] = table.value[i]!;
-    time[j] = (studyDays[i]! - 1) / unit;
+    time[j] = offsets[i]! / unit;
     subject[j] = k;
   });
   let armIndex: Int32Array | null = null;
@@ -68,8 +70,8 @@ export function modelDataFromTable(table: IntakeTable, studyDays: Float64Array, 
  * Fits the random-intercept model to the usable, included rows of an intake table. Throws ModelInputError when no row
  * qualifies or the reference arm is absent; RankDeficiencyError for a dependent design.
  */
-export function fitFromTable(table: IntakeTable, studyDays: Float64Array, include: Uint8Array, options: FitOptions & { referenceArm?: string }): ModelFit {
-  const data = modelDataFromTable(table, studyDays, include, options.timeUnit, options.referenceArm);
+export function fitFromTable(table: IntakeTable, offsets: Float64Array, include: Uint8Array, options: FitOptions & { referenceArm?: string }): ModelFit {
+  const data = modelDataFromTable(table, offsets, include, options.timeUnit, options.referenceArm);
   if (data.y.length === 0) throw new ModelInputError('no row has everything the model needs (value, study day, subject and, when unblinded, arm).');
   return fitRandomIntercept(data, options);
 }

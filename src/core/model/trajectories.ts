@@ -4,6 +4,7 @@
  * so the curve is the population-average prediction for an "average" patient of each arm.
  * Cost O(arms · grid · p²).
  */
+import { studyDayOfOffset } from '../intake/dayOffset';
 import type { Design } from './design';
 import { contrast, type InferenceContext } from './inference';
 import type { SufficientStats } from './sufficient';
@@ -39,7 +40,7 @@ export function trajectories(
       }
       const c = contrast(ctx, l);
       tr.time.push(t);
-      tr.day.push(1 + t * daysPerUnit);
+      tr.day.push(studyDayOfOffset(t * daysPerUnit));
       tr.mean.push(c.estimate);
       tr.lower.push(c.lower);
       tr.upper.push(c.upper);

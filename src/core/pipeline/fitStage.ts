@@ -33,7 +33,7 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
   let note: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
   if (note === null) {
     try {
-      fit = fitFromTable(table, days.studyDays, include, {
+      fit = fitFromTable(table, days.offsets, include, {
         method: settings.method,
         dfMethod: settings.dfMethod,
         level: settings.level,

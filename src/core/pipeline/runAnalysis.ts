@@ -47,6 +47,9 @@ export async function runAnalysis(
   if (settings.schedule.length === 0) throw new PipelineUsageError('the schedule has no visits', 'read it with parseSchedule and check ok first');
   const cutoffDay = settings.cutoff === undefined ? undefined : dayNumberFromIso(settings.cutoff);
   if (cutoffDay !== undefined && Number.isNaN(cutoffDay)) throw new PipelineUsageError('the cut-off must be a real date written YYYY-MM-DD', settings.cutoff ?? '');
+  if (settings.cutoffDay !== undefined && (!Number.isInteger(settings.cutoffDay) || settings.cutoffDay === 0)) {
+    throw new PipelineUsageError('the cut-off study day must be a whole number other than 0', String(settings.cutoffDay));
+  }
 
   if (!(await enter('reading'))) return CANCELLED;
   const place = { sheet: settings.sheet, topLeft: settings.topLeft };
@@ -65,12 +68,15 @@ export async function runAnalysis(
 
   if (!(await enter('windowing'))) return CANCELLED;
   const notes: string[] = [];
-  // A calendar cut-off applies to dated data; study-day data have no calendar to apply it to.
-  const cutoff = table.timeKind === 'date' ? cutoffDay : undefined;
-  if (cutoffDay !== undefined && cutoff === undefined) {
-    notes.push(`The cut-off ${settings.cutoff ?? ''} is a calendar date, but the data carry study days only; each subject's last record serves as the cut-off instead.`);
+  // A calendar cut-off applies to dated data; a study-day cut-off to study-day data.
+  const cutoff = table.timeKind === 'date' ? cutoffDay : settings.cutoffDay;
+  if (cutoffDay !== undefined && table.timeKind !== 'date') {
+    notes.push(`The cut-off ${settings.cutoff ?? ''} is a calendar date, but the data carry study days only; ${settings.cutoffDay === undefined ? "each participant's last record serves as the cut-off instead" : `the cut-off study day ${settings.cutoffDay} is used`}.`);
   }
-  if (cutoff !== undefined) {
+  if (settings.cutoffDay !== undefined && table.timeKind === 'date') {
+    notes.push(`The cut-off study day ${settings.cutoffDay} is ignored: the data carry calendar dates, so the cut-off is ${cutoffDay === undefined ? 'the latest date in the data' : `the date ${settings.cutoff ?? ''}`}.`);
+  }
+  if (cutoff !== undefined && table.timeKind === 'date') {
     // A cut-off typed a year or a decade too late turns every open window into a missed visit; say how far it lies
     // beyond the data so the reader can tell.
     let latest = -Infinity;

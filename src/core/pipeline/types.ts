@@ -20,6 +20,9 @@ export interface AnalysisSettings {
   readonly schedule: readonly ScheduleVisit[];
   /** Data cut-off as ISO date (YYYY-MM-DD); defaults to the latest date in the data. */
   readonly cutoff?: string;
+  /** Data cut-off as a study day (non-zero integer), for study-day data; defaults to each subject's own last record.
+   * Ignored, with a note, for dated data (a study day falls on a different date for each subject). */
+  readonly cutoffDay?: number;
   /** Unblinded mode: the reference arm; defaults to the first arm in order of appearance. */
   readonly referenceArm?: string;
   readonly timeUnit: TimeUnit;

@@ -1,4 +1,4 @@
-import { windowDates } from '../schedule/studyDay';
+import { windowDates, windowStudyDays } from '../schedule/studyDay';
 import { NO_STATUS, STATUS_CODE, STATUS_ORDER } from '../schedule/types';
 import type { DeviationRow, TimingInput } from './timingTypes';
 
@@ -8,7 +8,7 @@ const { early: EARLY, late: LATE, missed: MISSED, extra: EXTRA, repeat: REPEAT }
  * The deviation listing for follow-up (SPEC §4 c): every early, late and missed (subject, visit), and every extra and
  * repeat record, with the visit's target date, window dates, the actual date and the days off. Dated data give day
  * numbers (target and bounds from the subject's reference date, see windowDates); study-day data give study days (the
- * window bounds as target − before and target + after). Sorted by site, then subject (order of first appearance),
+ * study days of the window's calendar bounds, see windowStudyDays). Days off are calendar days. Sorted by site, then subject (order of first appearance),
  * then study day. `siteOf` names each subject's site ("" when no site column). Cost O(rows + slots + k log k) for k
  * listed lines.
  * Example: a Week 12 record on study day 95 (target 85, window 78–92) → daysOff 10, status "late".
@@ -20,8 +20,7 @@ export function listDeviations(input: TimingInput, siteOf: (subject: number) => 
   const lines: { row: DeviationRow; s: number; day: number }[] = [];
   const bounds = (s: number, v: number): { opens: number; target: number; closes: number } => {
     const vis = schedule[v]!;
-    if (dated) return windowDates(days.referenceDay[s]!, vis);
-    return { opens: vis.targetDay - vis.before, target: vis.targetDay, closes: vis.targetDay + vis.after };
+    return dated ? windowDates(days.referenceDay[s]!, vis) : windowStudyDays(vis);
   };
   const actual = (i: number): number => (dated ? table.date[i]! : days.studyDays[i]!);
 

@@ -5,14 +5,14 @@ import type { TimingInput, VisitSummaryRow } from './timingTypes';
  * The summary by scheduled visit (SPEC §4 a), one row per visit in order of target day, or per (group, visit) when
  * subjects are grouped (by arm). Counts come from the (subject, visit) statuses of subjects in timing; visits due =
  * expected − not yet due; on-time rate = on time / due; median, min and max deviation over the visits' own records
- * (on time, early, late). Cost O(subjects · visits + records · log records) for the medians.
+ * (on time, early, late), in calendar days (the classification's own deviations). Cost O(subjects · visits + records · log records) for the medians.
  * Example: 2 subjects, Week 12 on time (deviation −2) and late (+9) → expected 2, due 2, on-time rate 0.5, median 3.5.
  */
 export function summarizeByVisit(
   input: TimingInput,
   groups?: { readonly names: readonly string[]; readonly group: Int32Array },
 ): VisitSummaryRow[] {
-  const { schedule, timing, days } = input;
+  const { schedule, timing } = input;
   const V = timing.nVisits;
   const G = groups?.names.length ?? 1;
   const counts = new Float64Array(G * V * 5);
@@ -24,7 +24,7 @@ export function summarizeByVisit(
       const code = timing.slotStatus[s * V + v]!;
       counts[(g * V + v) * 5 + code]!++;
       const r = timing.slotRow[s * V + v]!;
-      if (r >= 0) devs[g * V + v]!.push(days.studyDays[r]! - schedule[v]!.targetDay);
+      if (r >= 0) devs[g * V + v]!.push(timing.rowDeviation[r]!);
     }
   }
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);

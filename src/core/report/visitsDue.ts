@@ -1,14 +1,12 @@
-import { windowDates } from '../schedule/studyDay';
+import { windowDates, windowOffsets, windowStudyDays } from '../schedule/studyDay';
 import type { DueRow, DueStatus, TimingInput } from './timingTypes';
-
-/** Calendar days from the reference date to a study day (day 1 → 0, day −1 → −1). */
-const offset = (day: number): number => (day > 0 ? day - 1 : day);
 
 /**
  * Upcoming and overdue visits as of the cut-off (SPEC §4 d). A subject is still in follow-up when no record is
  * matched to the final scheduled visit (the largest target day). For each such subject the next scheduled visit
  * without a record after the last visit that has one is listed with its window dates, the calendar days from the
- * cut-off to its target (negative = the target has passed) and a status: "overdue" when the window closed before the
+ * cut-off to its target (negative = the target has passed; calendar offsets, the same arithmetic as the
+ * classification) and a status: "overdue" when the window closed before the
  * cut-off, "windowOpen" when the cut-off falls inside the window (bounds included), else "comingUp". Dates are day
  * numbers for dated data and study days for study-day data (whose cut-off is the given study day, or else the
  * subject's own last record). Sorted by days until target (most overdue first), then subject order.
@@ -24,18 +22,15 @@ export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => s
   const rows: { row: DueRow; s: number }[] = [];
   for (let s = 0; s < timing.nSubjects; s++) {
     if (timing.subjectInTiming[s] !== 1 || timing.slotRow[s * V + last]! >= 0) continue;
-    const cut = timing.cutoffStudyDay[s]!;
+    const cut = timing.cutoffOffset[s]!;
     if (!Number.isFinite(cut)) continue;
     let k = V - 1;
     while (k > 0 && timing.slotRow[s * V + order[k - 1]!]! < 0) k--;
     const v = order[k]!;
     const vis = schedule[v]!;
-    const openDay = vis.targetDay - vis.before;
-    const closeDay = vis.targetDay + vis.after;
-    const status: DueStatus = closeDay < cut ? 'overdue' : openDay <= cut ? 'windowOpen' : 'comingUp';
-    const dates = dated
-      ? windowDates(days.referenceDay[s]!, vis)
-      : { opens: openDay, target: vis.targetDay, closes: closeDay };
+    const w = windowOffsets(vis);
+    const status: DueStatus = w.closes < cut ? 'overdue' : w.opens <= cut ? 'windowOpen' : 'comingUp';
+    const dates = dated ? windowDates(days.referenceDay[s]!, vis) : windowStudyDays(vis);
     rows.push({
       s,
       row: {
@@ -45,7 +40,7 @@ export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => s
         windowOpens: dates.opens,
         targetDate: dates.target,
         windowCloses: dates.closes,
-        daysUntilTarget: offset(vis.targetDay) - offset(cut),
+        daysUntilTarget: w.target - cut,
         status,
       },
     });

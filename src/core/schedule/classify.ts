@@ -2,7 +2,8 @@ import type { IntakeTable } from '../intake/types';
 import type { DataPlace } from './computeStudyDays';
 import { afterCutoffIssue, nearest, sortSegment } from './classifyParts';
 import { labelKey } from './labels';
-import { studyDay } from './studyDay';
+import { offsetOfStudyDay } from '../intake/dayOffset';
+import { windowOffsets } from './studyDay';
 import { NO_STATUS, STATUS_CODE, STATUS_ORDER } from './types';
 import type { CutoffRule, ScheduleIssue, ScheduleVisit, StatusCounts, StudyDays, VisitStatus, VisitTiming } from './types';
 
@@ -36,12 +37,14 @@ const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NO
  * day, then the earlier row). The others are "repeat" — except, when matching by nearest target day, those outside
  * that visit's window, which match no visit and are "extra".
  *
- * Status of a visit's record: on time when target − before ≤ day ≤ target + after (bounds included), else early or
- * late; its deviation is day − target (negative = early). A visit with no record is "missed" when its window's last
- * day (target + after) is before the cut-off's study day, else "not yet due".
+ * All arithmetic is in calendar offsets from the reference date (days.offsets; the target study day t sits at offset
+ * t − 1 for t ≥ 1 and t for t ≤ −1, see windowOffsets), so a window that crosses the reference date loses no day.
+ * Status of a visit's record: on time when target − before ≤ offset ≤ target + after (bounds included, all in
+ * offsets), else early or late; its deviation is offset − target offset in calendar days (negative = early). A visit
+ * with no record is "missed" when its window's last day is before the cut-off, else "not yet due".
  *
- * Cut-off. Dated data: options.cutoff (a day number), else the latest usable date; each subject's cut-off study day
- * is studyDay(cutoff, that subject's reference date); records dated after the cut-off are left out with an issue.
+ * Cut-off. Dated data: options.cutoff (a day number), else the latest usable date; each subject's cut-off offset
+ * is cutoff − that subject's reference date; records dated after the cut-off are left out with an issue.
  * Study-day data: options.cutoff as a study day for every subject when given (later records left out likewise); else
  * each subject's own last record, so a visit without a record is missed when the subject has a record after the
  * visit's window closes, and not yet due otherwise.
@@ -50,7 +53,8 @@ const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NO
  * NO_STATUS. Cost: O(rows · log visits) plus sorting each subject's records by day; memory O(rows + subjects · visits).
  *
  * Example: schedule [{Week 12, 85, 7, 7}], one subject with records on study days 80 and 93 (no labels) → day 80 is
- * the visit's record, on time with deviation −5; day 93 is outside the window, so it is extra.
+ * the visit's record, on time with deviation −5; day 93 is outside the window, so it is extra. With a baseline
+ * {Day 1, 1, 3, 3}, a record 3 calendar days before the reference date (study day −3, offset −3) is on time, −3 days.
  */
 export function classifyVisits(
   table: IntakeTable,
@@ -62,20 +66,21 @@ export function classifyVisits(
   const V = schedule.length;
   const S = table.subjectIds.length;
   if (V === 0) throw new ClassifyError('The visit schedule has no visits.');
-  if (days.studyDays.length !== n || days.referenceDay.length !== S) {
-    throw new ClassifyError(`Study days cover ${days.studyDays.length} rows and ${days.referenceDay.length} subjects; the table has ${n} rows and ${S} subjects.`);
+  if (days.offsets.length !== n || days.studyDays.length !== n || days.referenceDay.length !== S) {
+    throw new ClassifyError(`Study days cover ${days.offsets.length} rows and ${days.referenceDay.length} subjects; the table has ${n} rows and ${S} subjects.`);
   }
-  const sd = days.studyDays;
+  const sd = days.offsets;
   const subjectOf = table.subjectIndex;
   const dated = table.timeKind === 'date';
   const issues: ScheduleIssue[] = [];
 
   // Visits in order of target day, for nearest-target matching.
   const order = Array.from({ length: V }, (_, k) => k).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
-  const sortedTargets = Float64Array.from(order, (k) => schedule[k]!.targetDay);
-  const target = Float64Array.from(schedule, (v) => v.targetDay);
-  const open = Float64Array.from(schedule, (v) => v.targetDay - v.before);
-  const close = Float64Array.from(schedule, (v) => v.targetDay + v.after);
+  const windows = schedule.map(windowOffsets);
+  const sortedTargets = Float64Array.from(order, (k) => windows[k]!.target);
+  const target = Float64Array.from(windows, (w) => w.target);
+  const open = Float64Array.from(windows, (w) => w.opens);
+  const close = Float64Array.from(windows, (w) => w.closes);
   const byLabel = table.visit !== null;
   const labelIndex = new Map<string, number>();
   schedule.forEach((v, k) => {
@@ -101,7 +106,7 @@ export function classifyVisits(
     cutoffRule = 'latestDate';
   }
   const afterCutoff = (i: number): boolean =>
-    cutoff !== null && (dated ? table.date[i]! > cutoff : cutoffRule === 'given' && sd[i]! > cutoff);
+    cutoff !== null && (dated ? table.date[i]! > cutoff : cutoffRule === 'given' && sd[i]! > offsetOfStudyDay(cutoff));
 
   // Bucket usable rows by subject (counting sort), then sort each subject's rows by (day, row).
   const rowStatus = new Uint8Array(n).fill(NO_STATUS);
@@ -129,7 +134,7 @@ export function classifyVisits(
   const slotStatus = new Uint8Array(S * V).fill(NO_STATUS);
   const slotRow = new Int32Array(S * V).fill(-1);
   const subjectInTiming = new Uint8Array(S);
-  const cutoffStudyDay = new Float64Array(S).fill(NaN);
+  const cutoffOffset = new Float64Array(S).fill(NaN);
   const counts = new Float64Array(STATUS_ORDER.length);
 
   for (let s = 0; s < S; s++) {
@@ -138,11 +143,13 @@ export function classifyVisits(
     if (a === b) continue;
     subjectInTiming[s] = 1;
     const base = s * V;
-    cutoffStudyDay[s] = dated
+    cutoffOffset[s] = dated
       ? cutoff === null
         ? NaN
-        : studyDay(cutoff, days.referenceDay[s]!)
-      : cutoff ?? sd[idx[b - 1]!]!;
+        : cutoff - days.referenceDay[s]!
+      : cutoff === null
+        ? sd[idx[b - 1]!]!
+        : offsetOfStudyDay(cutoff);
     // First pass: candidate visit per record; keep the closest record per visit (earlier wins ties: rows are sorted).
     for (let j = a; j < b; j++) {
       const i = idx[j]!;
@@ -173,7 +180,7 @@ export function classifyVisits(
     // Statuses of scheduled visits.
     for (let v = 0; v < V; v++) {
       const r = slotRow[base + v]!;
-      const code = r >= 0 ? rowStatus[r]! : close[v]! < cutoffStudyDay[s]! ? MISSED : NOT_YET_DUE;
+      const code = r >= 0 ? rowStatus[r]! : close[v]! < cutoffOffset[s]! ? MISSED : NOT_YET_DUE;
       slotStatus[base + v] = code;
       if (r < 0) counts[code]!++;
     }
@@ -189,7 +196,7 @@ export function classifyVisits(
     slotStatus,
     slotRow,
     subjectInTiming,
-    cutoffStudyDay,
+    cutoffOffset,
     cutoff,
     cutoffRule,
     counts: countObject as StatusCounts,

@@ -1,6 +1,7 @@
 import type { IntakeTable } from '../intake/types';
 import { cellAddress } from './address';
 import { labelKey } from './labels';
+import { offsetOfStudyDay } from '../intake/dayOffset';
 import { studyDay } from './studyDay';
 import type { ScheduleIssue, ScheduleVisit, StudyDays } from './types';
 
@@ -12,9 +13,11 @@ export interface DataPlace {
 }
 
 /**
- * Study day of every row usable for visit timing (CDISC SDTM IG: date − reference + 1 on or after the reference,
- * date − reference before it; no day 0).
- * - Study-day data (table.timeKind 'studyDay'): the given study day is used as it is.
+ * Calendar offset (date − reference date, in days) and study day (CDISC SDTM IG: offset + 1 on or after the
+ * reference, the offset before it; no day 0) of every row usable for visit timing. Window arithmetic and model time
+ * use the offsets; study days are for display.
+ * - Study-day data (table.timeKind 'studyDay'): the given study day is used as it is, and its offset is day − 1 for
+ *   day ≥ 1, the day itself for day ≤ −1.
  * - Dated data with a reference-date column: the row's own reference date; when that cell is blank, the subject's
  *   first reference date found on another row.
  * - Dated data without one: the subject's baseline-visit date, i.e. the date of the subject's record of the schedule's
@@ -23,20 +26,24 @@ export interface DataPlace {
  *   the first visit is not on day 1 (e.g. a screening visit on day −14) day 1 is that many days after it.
  * A row whose study day cannot be computed gets NaN and an issue (the date cell's address and a plain reason); it is
  * left out of visit timing and of the model's time axis. Cost O(rows + subjects).
- * Example: a subject dated 45000, 45084, 45168 with no reference column → study days 1, 85, 169.
+ * Example: a subject dated 45000, 45084, 45168 with no reference column → study days 1, 85, 169, offsets 0, 84, 168.
  */
 export function computeStudyDays(table: IntakeTable, schedule: readonly ScheduleVisit[], place: DataPlace): StudyDays {
   const n = table.nRows;
   const nSubjects = table.subjectIds.length;
   const days = new Float64Array(n).fill(NaN);
+  const offsets = new Float64Array(n).fill(NaN);
   const refDay = new Float64Array(nSubjects).fill(NaN);
   const issues: ScheduleIssue[] = [];
 
   if (table.timeKind === 'studyDay') {
     for (let i = 0; i < n; i++) {
-      if (table.usableTiming[i] === 1 && table.subjectIndex[i]! >= 0) days[i] = table.studyDay[i]!;
+      if (table.usableTiming[i] === 1 && table.subjectIndex[i]! >= 0) {
+        days[i] = table.studyDay[i]!;
+        offsets[i] = offsetOfStudyDay(days[i]!);
+      }
     }
-    return { studyDays: days, referenceDay: refDay, issues };
+    return { studyDays: days, offsets, referenceDay: refDay, issues };
   }
 
   const usable = (i: number): boolean =>
@@ -61,7 +68,7 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
       if (Number.isNaN(refDay[s]!) || d < refDay[s]!) refDay[s] = d;
     }
     // The baseline record sits on the first visit's target day: shift to day 1 when that target is not 1.
-    const shift = first === null ? 0 : first.targetDay > 0 ? first.targetDay - 1 : first.targetDay;
+    const shift = first === null ? 0 : offsetOfStudyDay(first.targetDay);
     if (shift !== 0) for (let s = 0; s < nSubjects; s++) refDay[s] = refDay[s]! - shift;
   }
 
@@ -73,6 +80,7 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
     const ref = Number.isFinite(own) ? own : refDay[s]!;
     if (Number.isFinite(ref)) {
       days[i] = studyDay(table.date[i]!, ref);
+      offsets[i] = table.date[i]! - ref;
       continue;
     }
     const sheetRow = table.sheetRows[i]!;
@@ -89,5 +97,5 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
         : `Subject ${subject} has no record of the first scheduled visit (the baseline), so the study day of this visit cannot be computed; the row is left out of visit timing.`,
     });
   }
-  return { studyDays: days, referenceDay: refDay, issues };
+  return { studyDays: days, offsets, referenceDay: refDay, issues };
 }

@@ -3,7 +3,7 @@ export * from './types';
 export { cellAddress, columnLetters, parseCell } from './address';
 export { labelKey } from './labels';
 export { dayNumberFromIso, isoDate } from './dates';
-export { StudyDayError, dateForStudyDay, studyDay, windowDates } from './studyDay';
+export { StudyDayError, dateForStudyDay, studyDay, windowDates, windowOffsets, windowStudyDays, type WindowOffsets } from './studyDay';
 export { computeStudyDays } from './computeStudyDays';
 export type { DataPlace } from './computeStudyDays';
 export { parseSchedule } from './parseSchedule';

@@ -1,3 +1,4 @@
+import { windowOffsets } from './studyDay';
 import type { CellValue } from '../intake/types';
 import { cellAddress, parseCell } from './address';
 import { labelKey } from './labels';
@@ -118,8 +119,9 @@ export function parseSchedule(cells: readonly (readonly CellValue[])[], sheet: s
   for (let k = 1; k < visits.length; k++) {
     const p = widest!;
     const q = visits[k]!;
-    if (q.visit.targetDay + q.visit.after > p.visit.targetDay + p.visit.after) widest = q;
-    if (p.visit.targetDay + p.visit.after >= q.visit.targetDay - q.visit.before) {
+    // Compared in calendar offsets (windowOffsets), as windows are applied, so a window crossing day 1 is not off by one.
+    if (windowOffsets(q.visit).closes > windowOffsets(p.visit).closes) widest = q;
+    if (windowOffsets(p.visit).closes >= windowOffsets(q.visit).opens) {
       issues.push({
         code: 'schedule-overlap',
         severity: 'warning',

@@ -2,6 +2,7 @@
  * The study-day rule of the CDISC SDTM Implementation Guide (--DY variables): the reference date is day 1, the day
  * after it day 2, the day before it day −1; there is no day 0.
  */
+import { offsetOfStudyDay, studyDayOfOffset } from '../intake/dayOffset';
 
 /** Thrown when a study day of 0 (which does not exist) or a non-integer day is asked for. */
 export class StudyDayError extends Error {
@@ -32,21 +33,44 @@ export function dateForStudyDay(reference: number, day: number): number {
   return day > 0 ? reference + day - 1 : reference + day;
 }
 
+/** A visit window in calendar offsets from the reference date (see intake/dayOffset.ts), bounds included. */
+export interface WindowOffsets {
+  readonly opens: number;
+  readonly target: number;
+  readonly closes: number;
+}
+
 /**
- * The dates (day numbers) on which a visit window opens and closes for a subject. Windows are compared in study days
- * exactly as SPEC §4 writes them (target − before ≤ day ≤ target + after); when a bound falls on the non-existent day 0,
- * the window effectively opens on day 1 or closes on day −1, and those dates are returned. O(1).
- * Example: windowDates(45000, {targetDay: 85, before: 7, after: 7}) → {opens: 45077, target: 45084, closes: 45091}.
+ * The window of a scheduled visit in calendar offsets: the target study day t sits at offset t − 1 when t ≥ 1 and at
+ * t when t ≤ −1 (CDISC SDTM IG study-day rule), and the window runs `before` calendar days before it to `after` days
+ * after it, bounds included. So a window may cross the reference date with no day lost or added. O(1).
+ * Example: windowOffsets({targetDay: 1, before: 3, after: 3}) → {opens: −3, target: 0, closes: 3}.
+ */
+export function windowOffsets(visit: { readonly targetDay: number; readonly before: number; readonly after: number }): WindowOffsets {
+  const target = offsetOfStudyDay(visit.targetDay);
+  return { opens: target - visit.before, target, closes: target + visit.after };
+}
+
+/**
+ * The dates (day numbers) on which a visit window opens, is targeted and closes for a subject whose reference date is
+ * `reference`: the reference date plus the window's calendar offsets (windowOffsets). O(1).
+ * Example: windowDates(45000, {targetDay: 85, before: 7, after: 7}) → {opens: 45077, target: 45084, closes: 45091};
+ * windowDates(45000, {targetDay: 1, before: 3, after: 0}) → {opens: 44997, target: 45000, closes: 45000}.
  */
 export function windowDates(
   reference: number,
   visit: { readonly targetDay: number; readonly before: number; readonly after: number },
 ): { readonly opens: number; readonly target: number; readonly closes: number } {
-  const open = visit.targetDay - visit.before;
-  const close = visit.targetDay + visit.after;
-  return {
-    opens: dateForStudyDay(reference, open === 0 ? 1 : open),
-    target: dateForStudyDay(reference, visit.targetDay),
-    closes: dateForStudyDay(reference, close === 0 ? -1 : close),
-  };
+  const w = windowOffsets(visit);
+  return { opens: reference + w.opens, target: reference + w.target, closes: reference + w.closes };
+}
+
+/**
+ * The window's bounds as CDISC study days, for study-day data (which have no calendar): the study days of the
+ * window's calendar offsets. O(1).
+ * Example: windowStudyDays({targetDay: 1, before: 3, after: 3}) → {opens: −3, target: 1, closes: 4}.
+ */
+export function windowStudyDays(visit: { readonly targetDay: number; readonly before: number; readonly after: number }): WindowOffsets {
+  const w = windowOffsets(visit);
+  return { opens: studyDayOfOffset(w.opens), target: visit.targetDay, closes: studyDayOfOffset(w.closes) };
 }

@@ -73,10 +73,13 @@ export interface ParseScheduleResult {
   readonly issues: readonly ScheduleIssue[];
 }
 
-/** Study days per row and the day number used as each subject's day 1. */
+/** Calendar offsets and study days per row, and the day number used as each subject's reference date (day 1). */
 export interface StudyDays {
-  /** Study day per data row; NaN when the row cannot serve visit timing. */
+  /** Study day per data row (CDISC, no day 0; for display); NaN when the row cannot serve visit timing. */
   readonly studyDays: Float64Array;
+  /** Calendar days from the subject's reference date per data row (0 on the reference date, −1 the day before): what
+   * windows, deviations and model time are computed on. NaN when the row cannot serve visit timing. */
+  readonly offsets: Float64Array;
   /** Per subject (index into table.subjectIds): the reference date as a day number; NaN when unknown or when the
    * data carry study days only. */
   readonly referenceDay: Float64Array;
@@ -95,7 +98,8 @@ export interface VisitTiming {
   readonly rowStatus: Uint8Array;
   /** Per row: index of the scheduled visit the row is matched to, or -1 (extra or left out). */
   readonly rowVisit: Int32Array;
-  /** Per row: study day minus the matched visit's target day (on time, early, late, repeat), else NaN. */
+  /** Per row: calendar days from the matched visit's target (offset − target offset; on time, early, late, repeat),
+   * else NaN. Negative = early. */
   readonly rowDeviation: Float64Array;
   /** Per slot s = subject * nVisits + visit: status code (on time, early, late, missed, not yet due), NO_STATUS for
    * subjects with no usable record. */
@@ -104,8 +108,9 @@ export interface VisitTiming {
   readonly slotRow: Int32Array;
   /** Per subject: 1 when the subject takes part in visit timing (has at least one usable record). */
   readonly subjectInTiming: Uint8Array;
-  /** Per subject: the cut-off as a study day of that subject (NaN for subjects not in timing). */
-  readonly cutoffStudyDay: Float64Array;
+  /** Per subject: the cut-off as a calendar offset from that subject's reference date (NaN for subjects not in
+   * timing). */
+  readonly cutoffOffset: Float64Array;
   /** The cut-off as a day number (dated data) or a study day (study-day data with a given cut-off); null when each
    * subject's own last record serves. */
   readonly cutoff: number | null;

@@ -48,10 +48,11 @@ describe('fitFromTable builds the model columns from the intake table', () => {
   const t = table();
   const include = new Uint8Array(t.nRows).fill(1);
   include[0] = 0;
-  const days = Float64Array.from(t.studyDay);
+  // Calendar offsets from the reference date: study day d ≥ 1 is offset d − 1 (CDISC SDTM IG study-day rule).
+  const days = Float64Array.from(t.studyDay, (d) => d - 1);
   days[10] = NaN;
 
-  it('uses only rows that are included, usable for the model and have a finite study day; time = (day − 1)/7 in weeks', () => {
+  it('uses only rows that are included, usable for the model and have a finite offset; time = offset/7 in weeks (study day 1 is time 0)', () => {
     const d = modelDataFromTable(t, days, include, 'week', 'Placebo');
     expect(d.y.length).toBe(24 - 3);
     expect(Array.from(d.time.slice(0, 3))).toEqual([84 / 7, 168 / 7, 252 / 7]); // first row excluded; P01 days 85, 169, 253

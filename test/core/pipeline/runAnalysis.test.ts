@@ -93,7 +93,7 @@ describe('runAnalysis', () => {
     const cells: CellValue[][] = [['USUBJID', 'ADY', 'AVAL'], ['A', 1, 5], ['A', 29, 6], ['B', 1, 4], ['B', 30, 4.5], ['C', 1, 7], ['C', 57, 6]];
     const out = await runAnalysis(cells, SETTINGS);
     if (!out.ok) throw new Error('run failed');
-    expect(out.json.notes).toEqual(['The cut-off 2025-03-31 is a calendar date, but the data carry study days only; each subject\'s last record serves as the cut-off instead.']);
+    expect(out.json.notes).toEqual(['The cut-off 2025-03-31 is a calendar date, but the data carry study days only; each participant\'s last record serves as the cut-off instead.']);
     expect((out.json.settings as { cutoffRule: unknown }).cutoffRule).toBe('eachSubjectsLastRecord');
   });
 
@@ -164,5 +164,35 @@ describe('runAnalysis', () => {
     const onTheDay = await runAnalysis(CELLS, { ...SETTINGS, cutoff: '2025-03-06' });
     if (!onTheDay.ok) throw new Error('run failed');
     expect(onTheDay.json.notes).toEqual([]);
+  });
+});
+
+describe('runAnalysis with a cut-off given as a study day (study-day data)', () => {
+  // Invented: two subjects with study days only. Day 29's window is study days 26..32 (offsets 25..31).
+  const STUDY_DAY_CELLS: CellValue[][] = [
+    ['USUBJID', 'AVISIT', 'ADY', 'AVAL'],
+    ['A', 'Day 1', 1, 60],
+    ['A', 'Day 29', 29, 59],
+    ['B', 'Day 1', 1, 52],
+  ];
+  const base: AnalysisSettings = { ...SETTINGS, cutoff: undefined as unknown as string };
+  const { cutoff: _drop, ...noCutoff } = base;
+  const counts = async (extra: Partial<AnalysisSettings>): Promise<Record<string, number>> => {
+    const out = await runAnalysis(STUDY_DAY_CELLS, { ...noCutoff, ...extra });
+    if (!out.ok) throw new Error('run stopped');
+    return (out.json.visits as { counts: Record<string, number> }).counts;
+  };
+
+  it("without a cut-off, each participant's own last record serves: B's Day 29 is not yet due", async () => {
+    expect(await counts({})).toMatchObject({ onTime: 3, missed: 0, notYetDue: 3 });
+  });
+
+  it('a cut-off on study day 32 (the window closes that day) keeps Day 29 not yet due; study day 33 makes it missed', async () => {
+    expect(await counts({ cutoffDay: 32 })).toMatchObject({ missed: 0 });
+    expect(await counts({ cutoffDay: 33 })).toMatchObject({ missed: 1 });
+  });
+
+  it('refuses a cut-off study day of 0 (there is no study day 0) as misuse', async () => {
+    await expect(runAnalysis(STUDY_DAY_CELLS, { ...noCutoff, cutoffDay: 0 })).rejects.toThrow(PipelineUsageError);
   });
 });

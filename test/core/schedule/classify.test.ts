@@ -93,7 +93,7 @@ describe('classifyVisits around a dated cut-off', () => {
   const rows: RowSpec[] = [{ subject: 'E', time: REF, reference: REF }];
   it('a visit whose window closes on the cut-off day is not yet due; one day later it is missed', () => {
     const onClose = run(rows, { reference: true }, REF + 31);
-    expect(onClose.cutoffStudyDay[0]).toBe(32);
+    expect(onClose.cutoffOffset[0]).toBe(31); // calendar days from the reference date: study day 32
     expect(slotNames(onClose, 0)).toEqual(['onTime', 'notYetDue', 'notYetDue']);
     const dayAfter = run(rows, { reference: true }, REF + 32);
     expect(slotNames(dayAfter, 0)).toEqual(['onTime', 'missed', 'notYetDue']);

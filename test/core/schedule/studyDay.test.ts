@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { StudyDayError, dateForStudyDay, studyDay, windowDates } from '../../../src/core/schedule/studyDay';
+import { StudyDayError, dateForStudyDay, studyDay, windowDates, windowOffsets, windowStudyDays } from '../../../src/core/schedule/studyDay';
+import { offsetOfStudyDay, studyDayOfOffset } from '../../../src/core/intake/dayOffset';
 import { computeStudyDays } from '../../../src/core/schedule/computeStudyDays';
 import { dayNumberFromIso, isoDate } from '../../../src/core/schedule/dates';
 import { STARTER_SCHEDULE } from '../../../src/core/schedule/starter';
@@ -32,12 +33,37 @@ describe('studyDay (CDISC SDTM Implementation Guide, --DY rule)', () => {
     expect(() => dateForStudyDay(REF, 1.5)).toThrow(StudyDayError);
   });
 
-  it('windowDates gives the dates of the window bounds, moving a bound on day 0 to the nearest real day', () => {
+  it('windowDates counts a window in calendar days from the target date, across the reference date with no day 0 gap', () => {
+    // Target study day t sits t − 1 calendar days after the reference date when t ≥ 1, and at offset t when t ≤ −1
+    // (CDISC SDTM IG study-day rule); the allowance is in calendar days on either side (hand-worked).
     expect(windowDates(REF, { targetDay: 85, before: 7, after: 7 })).toEqual({ opens: REF + 77, target: REF + 84, closes: REF + 91 });
-    // target 1, 1 day before: bound day 0 does not exist, so the window opens on day 1 (the reference date).
-    expect(windowDates(REF, { targetDay: 1, before: 1, after: 0 }).opens).toBe(REF);
-    // target −1, 1 day after: bound day 0, so the window closes on day −1.
-    expect(windowDates(REF, { targetDay: -1, before: 0, after: 1 }).closes).toBe(REF - 1);
+    // Baseline on day 1 with 3 days allowed before: the window opens 3 calendar days before the reference date (study
+    // day −3), not 2 as a count in study days would give.
+    expect(windowDates(REF, { targetDay: 1, before: 3, after: 0 })).toEqual({ opens: REF - 3, target: REF, closes: REF });
+    // A screening visit on day −14 with 14 days after: the window closes at offset 0, the reference date itself.
+    expect(windowDates(REF, { targetDay: -14, before: 0, after: 14 })).toEqual({ opens: REF - 14, target: REF - 14, closes: REF });
+    // target −1, 1 day after: the window closes on the reference date (study day 1).
+    expect(windowDates(REF, { targetDay: -1, before: 0, after: 1 }).closes).toBe(REF);
+  });
+
+  it('windowOffsets and windowStudyDays: target day t at offset t − 1 (t ≥ 1) or t (t ≤ −1); study days skip 0', () => {
+    expect(windowOffsets({ targetDay: 1, before: 3, after: 3 })).toEqual({ opens: -3, target: 0, closes: 3 });
+    expect(windowStudyDays({ targetDay: 1, before: 3, after: 3 })).toEqual({ opens: -3, target: 1, closes: 4 });
+    expect(windowOffsets({ targetDay: -7, before: 2, after: 7 })).toEqual({ opens: -9, target: -7, closes: 0 });
+    expect(windowStudyDays({ targetDay: -7, before: 2, after: 7 })).toEqual({ opens: -9, target: -7, closes: 1 });
+  });
+
+  it('offsetOfStudyDay and studyDayOfOffset invert each other and skip study day 0 (exact identity)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: -5000, max: 5000 }), (o) => {
+        const day = studyDayOfOffset(o);
+        expect(day).not.toBe(0);
+        expect(offsetOfStudyDay(day)).toBe(o);
+        // and agrees with studyDay of a date o days after any reference
+        expect(day).toBe(studyDay(REF + o, REF));
+      }),
+    );
+    expect(offsetOfStudyDay(0)).toBeNaN();
   });
 
   it('isoDate and dayNumberFromIso use 1899-12-30 as day 0 (ECMA-376 Part 1 §18.17.4, 1900 date system)', () => {

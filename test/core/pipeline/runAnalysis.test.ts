@@ -175,8 +175,7 @@ describe('runAnalysis with a cut-off given as a study day (study-day data)', () 
     ['A', 'Day 29', 29, 59],
     ['B', 'Day 1', 1, 52],
   ];
-  const base: AnalysisSettings = { ...SETTINGS, cutoff: undefined as unknown as string };
-  const { cutoff: _drop, ...noCutoff } = base;
+  const noCutoff: AnalysisSettings = Object.fromEntries(Object.entries(SETTINGS).filter(([k]) => k !== 'cutoff')) as unknown as AnalysisSettings;
   const counts = async (extra: Partial<AnalysisSettings>): Promise<Record<string, number>> => {
     const out = await runAnalysis(STUDY_DAY_CELLS, { ...noCutoff, ...extra });
     if (!out.ok) throw new Error('run stopped');

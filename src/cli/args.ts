@@ -152,8 +152,10 @@ Input:
   --data FILE             visits, one row per assessment: a .csv file or an .xlsx workbook
   --sheet NAME            which worksheet of an .xlsx file (default: the first)
   --schedule FILE         CSV with header visit,target_day,days_before,days_after
-  --map role=Header       confirm a column's role (repeatable); roles: subject, date, studyDay,
-                          reference, visit, value, arm, site. Columns not given are detected from headers.
+  --map role=Header       confirm a column's role (repeatable); roles: subject (the participant), date,
+                          studyDay, reference, visit, value, arm, site, exit (the date the participant
+                          left the study), exitStatus, exitReason. Columns not given are detected from
+                          headers (CDISC names such as USUBJID, ADT, AVAL, EOSDT need no --map).
   --covariate Header      add a model covariate column (repeatable)
   --cutoff YYYY-MM-DD     data cut-off (default: the latest date in the data)
   --cutoff-day N          data cut-off as a study day, for data with study days and no dates

@@ -14,6 +14,10 @@ const ROLE_WORDS: Readonly<Record<string, SingleRole>> = {
   value: 'value',
   arm: 'arm',
   site: 'site',
+  exit: 'exit',
+  exitdate: 'exit',
+  exitstatus: 'exitStatus',
+  exitreason: 'exitReason',
 };
 
 const key = (s: string): string => s.replace(/[\s_-]+/g, '').toLowerCase();
@@ -45,7 +49,7 @@ export function buildMapping(
   for (const [word, header] of map) {
     const role = ROLE_WORDS[key(word)];
     if (role === undefined) {
-      throw new UsageError(`--map ${word}=${header}: unknown role "${word}"; roles are subject, date, studyDay, reference, visit, value, arm, site.`);
+      throw new UsageError(`--map ${word}=${header}: unknown role "${word}"; roles are subject, date, studyDay, reference, visit, value, arm, site, exit, exitStatus, exitReason.`);
     }
     if (header.toLowerCase() === 'none') delete m[role];
     else m[role] = headerIndex(headers, header, `--map ${word}=${header}`);

@@ -23,4 +23,11 @@ export const ROLES: readonly RoleInfo[] = [
   { role: 'value', label: 'Measured value', help: 'Needed for the model. A number.' },
   { role: 'arm', label: 'Treatment arm', help: 'Read only in unblinded mode.' },
   { role: 'site', label: 'Site', help: 'Optional. Gives the by-site report.' },
+  {
+    role: 'exit',
+    label: 'Exit date',
+    help: 'Optional. The date the participant left the study; later visits are not counted as missed.',
+  },
+  { role: 'exitStatus', label: 'End-of-study status', help: 'Optional. Carried into the list of participants who left.' },
+  { role: 'exitReason', label: 'Reason for leaving', help: 'Optional. Carried into the list of participants who left.' },
 ];

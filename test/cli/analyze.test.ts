@@ -108,8 +108,8 @@ describe('longipane analyze on the invented demo trial', () => {
     for (const c of ["'egfr-visits'!G42", "'egfr-visits'!A157", "'egfr-visits'!E304", "'egfr-visits'!G519"]) expect(cells).toContain(c);
   });
 
-  it('gives visit counts with exactly the seven status keys', () => {
-    expect(Object.keys(json.visits.counts).sort()).toEqual(['early', 'extra', 'late', 'missed', 'notYetDue', 'onTime', 'repeat']);
+  it('gives visit counts with exactly the eight status keys', () => {
+    expect(Object.keys(json.visits.counts).sort()).toEqual(['afterExit', 'early', 'extra', 'late', 'missed', 'notYetDue', 'onTime', 'repeat']);
   });
 
   it('fits the unblinded model, and its 95% intervals cover the values the invented data were generated from', () => {

@@ -58,7 +58,7 @@ export function detectMapping(headers: readonly string[], mode: Mode): DetectedM
 
   const mapping: { -readonly [K in MappableRole]?: number } = {};
   const reasons: { -readonly [K in MappableRole]?: string } = {};
-  const order: readonly MappableRole[] = ['subject', 'date', 'studyDay', 'reference', 'visit', 'value', 'arm', 'site'];
+  const order: readonly MappableRole[] = ['subject', 'date', 'studyDay', 'reference', 'visit', 'value', 'arm', 'site', 'exit', 'exitStatus', 'exitReason'];
   for (const role of order) {
     const s = chosen.get(role);
     if (s === undefined) continue;

@@ -53,6 +53,9 @@ const CDISC: Readonly<Record<string, Candidate>> = {
   trtsdt: { role: 'reference', score: 96, reason: 'TRTSDT is the CDISC date of first exposure to treatment' },
   rfstdtc: { role: 'reference', score: 92, reason: 'RFSTDTC is the CDISC subject reference start date' },
   aval: { role: 'value', score: 100, reason: 'AVAL is the CDISC analysis value' },
+  eosdt: { role: 'exit', score: 100, reason: 'EOSDT is the CDISC ADaM end of study date' },
+  eosstt: { role: 'exitStatus', score: 100, reason: 'EOSSTT is the CDISC ADaM end of study status' },
+  dcsreas: { role: 'exitReason', score: 100, reason: 'DCSREAS is the CDISC ADaM reason for discontinuation from study' },
 };
 
 /** CDISC names recognised but never mapped to a role. */
@@ -79,8 +82,17 @@ function plain(words: readonly string[], header: string): Candidate | null {
   const isRand = words.some((w) => w.startsWith('random') || w === 'rand');
   const dosing = has(words, 'dose', 'dosing', 'treatment', 'exposure') !== undefined;
   const isFirstDose = dosing && has(words, 'first', 'start') !== undefined;
+  const leaving = dosing ? undefined : has(words, 'exit', 'withdrawal', 'withdrawn', 'discontinuation', 'discontinued', 'dropout', 'termination', 'eos') ??
+    (has(words, 'end') !== undefined && has(words, 'study') !== undefined ? 'end of study' : undefined);
+  if (leaving !== undefined && date === undefined && has(words, 'reason') !== undefined) {
+    return { role: 'exitReason', score: 75, reason: `${q} names the reason for leaving the study` };
+  }
+  if (leaving !== undefined && date === undefined && has(words, 'status') !== undefined) {
+    return { role: 'exitStatus', score: 75, reason: `${q} names the end-of-study status` };
+  }
   if (date !== undefined) {
     if (has(words, 'birth', 'dob', 'death', 'consent') !== undefined) return null;
+    if (leaving !== undefined) return { role: 'exit', score: 80, reason: `${q} names the date the participant left the study ("${leaving}")` };
     if (isRand) return { role: 'reference', score: 80, reason: `${q} names the randomisation date` };
     if (isFirstDose) return { role: 'reference', score: 78, reason: `${q} names the first-dose date` };
     if (has(words, 'reference', 'ref') !== undefined) return { role: 'reference', score: 76, reason: `${q} names a reference date` };

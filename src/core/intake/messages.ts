@@ -27,6 +27,9 @@ const ROLE_WORDS: Readonly<Record<Role, string>> = {
   value: 'value',
   arm: 'arm',
   site: 'site',
+  exit: 'exit date',
+  exitStatus: 'end-of-study status',
+  exitReason: 'reason for leaving',
   covariate: 'covariate',
 };
 
@@ -115,6 +118,12 @@ export function renderMessage(m: MessageInput): string {
         : `${at}the ${role} holds the spreadsheet error value ${m.value}, so the row is ${left}.`;
     case 'reference-date-differs':
       return `${at}the reference date ${m.value} differs from ${m.other ?? 'the one'} given earlier for subject ${quoted(m.context ?? '')}; a subject has one reference date. The row is kept with its own reference date.`;
+    case 'bad-exit-date':
+      return `${at}${quoted(m.value)} is not a valid date, so it is not used as this participant's exit date; the row is kept.`;
+    case 'exit-date-differs':
+      return `${at}the exit date ${m.value} differs from ${m.other ?? 'another one'} given for participant ${quoted(m.context ?? '')}; a participant leaves once, so the latest date is used. The row is kept.`;
+    case 'after-exit':
+      return `${at}the record is dated after the participant's exit date${m.other === undefined ? '' : ` ${m.other}`} (data after the exit date); it is kept.`;
     case 'blank-arm':
       return `${at}the arm is blank, so the row is ${left}.`;
     case 'no-reference-date':

@@ -14,6 +14,7 @@ import { readRows } from './readRows';
 import { checkReference } from './checkReference';
 import type { CellValue, CovariateColumn, IntakeOptions, IntakeResult } from './types';
 import { checkArms } from './checkArms';
+import { readExit } from './readExit';
 
 const EMPTY_ROW: readonly CellValue[] = [];
 
@@ -78,6 +79,7 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
   const cols = readRows(cells, { mapping, plans, width, top, dateSystem: options.dateSystem, acceptText: accept, unblinded: mode === 'unblinded' }, issues);
   const arms = cols.arm === null ? [] : checkArms(cols.arm, cols.subjectIndex, cols.subjectIds, cols.usableTiming, mapping.arm!, issues);
   if (mapping.reference !== undefined) checkReference(cols.reference, cols.subjectIndex, cols.subjectIds, mapping.reference, issues);
+  const exit = readExit(cells, mapping, cols.subjectIndex, cols.subjectIds, options.dateSystem, issues);
   if (!cols.usableTiming.includes(1)) issues.range('no-usable-rows', 'error', null, '', null);
   else if (mapping.value !== undefined && !cols.usableModel.includes(1)) issues.range('no-usable-rows', 'warning', null, '', 'model');
   if (issues.hasErrors) return { ok: false, issues: issues.items };
@@ -89,5 +91,5 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
     return { name: p.name, kind: 'categorical', values, levels };
   });
   const { covariates: _raw, ...columns } = cols;
-  return { ok: true, issues: issues.items, table: { nRows, headers, mapping, mode, ...columns, arms, covariates } };
+  return { ok: true, issues: issues.items, table: { nRows, headers, mapping, mode, ...columns, arms, covariates, ...exit } };
 }

@@ -17,6 +17,9 @@ export type Role =
   | 'value'
   | 'arm'
   | 'site'
+  | 'exit'
+  | 'exitStatus'
+  | 'exitReason'
   | 'covariate';
 
 /** Which column (0-based index within the range) plays which role. `covariates` may be empty. */
@@ -29,6 +32,10 @@ export interface ColumnMapping {
   readonly value?: number;
   readonly arm?: number;
   readonly site?: number;
+  /** The date the participant left the study (ADaM EOSDT), its end-of-study status (EOSSTT) and reason (DCSREAS). */
+  readonly exit?: number;
+  readonly exitStatus?: number;
+  readonly exitReason?: number;
   readonly covariates: readonly number[];
 }
 
@@ -88,10 +95,13 @@ export type IssueCode =
   | 'unknown-reference-arm' // unblinded mode: the chosen reference arm is not among the data's arms
   | 'too-few-arms' // unblinded mode with fewer than two arms among usable rows
   | 'reference-date-differs' // a row's reference date differs from the one first given for its subject
+  | 'bad-exit-date' // an exit date that cannot be read (the row is kept; the participant's exit comes from other rows)
+  | 'exit-date-differs' // a participant's rows give two different exit dates (the latest is used)
   // Raised by later layers and passed on in the run's one issue list (src/core/pipeline):
   | 'no-reference-date' // schedule: a dated row whose subject has no reference date
   | 'no-baseline-record' // schedule: a dated row whose subject has no record of the first scheduled visit
   | 'after-cutoff' // schedule: a record dated after the data cut-off
+  | 'after-exit' // schedule: a record dated after the participant's exit date (kept)
   | 'model-not-fitted'; // pipeline: the model could not be fitted (the visit-timing results still stand)
 
 export interface Issue {
@@ -150,6 +160,11 @@ export interface IntakeTable {
   readonly arms: readonly string[];
   readonly site: readonly string[] | null;
   readonly covariates: readonly CovariateColumn[];
+  /** Per subject (index into subjectIds): the exit date as a day number (the latest one given), NaN when none. */
+  readonly subjectExit: Float64Array;
+  /** Per subject: end-of-study status and reason as given (first non-blank), "" when none; null when not mapped. */
+  readonly subjectExitStatus: readonly string[] | null;
+  readonly subjectExitReason: readonly string[] | null;
   /** 1 where the row can serve visit timing (subject and a valid date or study day). */
   readonly usableTiming: Uint8Array;
   /** 1 where the row can also serve the model (numeric value, arm in unblinded mode, covariates present). */

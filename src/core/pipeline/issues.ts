@@ -6,19 +6,26 @@ const ROLE_OF: Readonly<Partial<Record<ScheduleIssue['code'], Role>>> = {
   'no-reference-date': 'reference',
   'no-baseline-record': 'date',
   'after-cutoff': 'date',
+  'after-exit': 'date',
 };
 
 /**
  * The schedule layer's row issues as run issues. A row left out of visit timing has no study day, so it is left out
  * of the model as well: each becomes two issues, one per use, as intake reports its own timing exclusions.
- * Schedule-table issues (use null) are not row issues and are not passed on here.
+ * A row issue with use null (a record after the participant's exit date) is passed on once, as a warning that leaves
+ * the row in. Schedule-table issues have no data role and are not passed on here.
  */
 export function fromScheduleIssues(issues: readonly ScheduleIssue[]): Issue[] {
   const out: Issue[] = [];
   for (const i of issues) {
     const role = ROLE_OF[i.code];
-    if (role === undefined || i.use === null) continue;
+    if (role === undefined) continue;
     const code = i.code as Issue['code'];
+    if (i.use === null) {
+      // A kept row with a warning (data after the exit date): one issue, excluding the row from nothing.
+      out.push({ code, severity: i.severity, cell: i.cell, row: i.row, role, value: i.value, use: null, message: i.message });
+      continue;
+    }
     for (const use of ['timing', 'model'] as const) {
       out.push({ code, severity: i.severity, cell: i.cell, row: i.row, role, value: i.value, use, message: use === 'timing' ? i.message : renderMessage({ code, role, value: i.value, cell: i.cell, use }) });
     }

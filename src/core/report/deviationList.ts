@@ -1,6 +1,6 @@
 import { windowDates, windowStudyDays } from '../schedule/studyDay';
 import { NO_STATUS, STATUS_CODE, STATUS_ORDER } from '../schedule/types';
-import type { DeviationRow, TimingInput } from './timingTypes';
+import type { DeviationRow, LastRecord, TimingInput } from './timingTypes';
 
 const { early: EARLY, late: LATE, missed: MISSED, extra: EXTRA, repeat: REPEAT } = STATUS_CODE;
 
@@ -13,7 +13,7 @@ const { early: EARLY, late: LATE, missed: MISSED, extra: EXTRA, repeat: REPEAT }
  * listed lines.
  * Example: a Week 12 record on study day 95 (target 85, window 78–92) → daysOff 10, status "late".
  */
-export function listDeviations(input: TimingInput, siteOf: (subject: number) => string): DeviationRow[] {
+export function listDeviations(input: TimingInput, siteOf: (subject: number) => string, lastOf: (subject: number) => LastRecord): DeviationRow[] {
   const { table, schedule, days, timing } = input;
   const V = timing.nVisits;
   const dated = table.timeKind === 'date';
@@ -45,6 +45,7 @@ export function listDeviations(input: TimingInput, siteOf: (subject: number) => 
           daysOff: r >= 0 ? timing.rowDeviation[r]! : null,
           status: STATUS_ORDER[code]!,
           sheetRow: r >= 0 ? table.sheetRows[r]! : null,
+          lastRecord: lastOf(s),
         },
       });
     }
@@ -69,6 +70,7 @@ export function listDeviations(input: TimingInput, siteOf: (subject: number) => 
         daysOff: v >= 0 ? timing.rowDeviation[i]! : null,
         status: STATUS_ORDER[code]!,
         sheetRow: table.sheetRows[i]!,
+        lastRecord: lastOf(s),
       },
     });
   }

@@ -2,7 +2,8 @@ import { STATUS_CODE } from '../schedule/types';
 import type { SiteSummaryRow, TimingInput } from './timingTypes';
 
 /**
- * The summary by site (SPEC §4 b): subjects in timing, visits due (all but not yet due), on time, out of window
+ * The summary by site (SPEC §4 b): subjects in timing and how many of them left the study, visits not expected
+ * because the participant had left, visits due (all but not yet due and not expected), on time, out of window
  * (early + late), missed, and each as a rate of visits due; sorted worst first by the combined rate (out of window +
  * missed) / due, then by the combined count, then by site name. Null rates when nothing is due (sorted last).
  * Cost O(subjects · visits + sites · log sites).
@@ -17,12 +18,19 @@ export function summarizeBySite(input: TimingInput, sites: { readonly names: rea
   const onTime = new Float64Array(G);
   const out = new Float64Array(G);
   const missed = new Float64Array(G);
+  const afterExit = new Float64Array(G);
+  const left = new Float64Array(G);
   for (let s = 0; s < timing.nSubjects; s++) {
     if (timing.subjectInTiming[s] !== 1) continue;
     const g = sites.group[s]!;
     subjects[g]!++;
+    if (Number.isFinite(timing.exitOffset[s]!)) left[g]!++;
     for (let v = 0; v < V; v++) {
       const code = timing.slotStatus[s * V + v]!;
+      if (code === STATUS_CODE.afterExit) {
+        afterExit[g]!++;
+        continue;
+      }
       if (code !== STATUS_CODE.notYetDue) due[g]!++;
       if (code === STATUS_CODE.onTime) onTime[g]!++;
       else if (code === STATUS_CODE.early || code === STATUS_CODE.late) out[g]!++;
@@ -40,6 +48,8 @@ export function summarizeBySite(input: TimingInput, sites: { readonly names: rea
       onTime: onTime[g]!,
       outOfWindow: out[g]!,
       missed: missed[g]!,
+      afterExit: afterExit[g]!,
+      left: left[g]!,
       onTimeRate: rate(onTime[g]!, g),
       outOfWindowRate: rate(out[g]!, g),
       missedRate: rate(missed[g]!, g),

@@ -1,9 +1,10 @@
 import { siteGroups, armGroups } from './groups';
 import { listDeviations } from './deviationList';
 import { summarizeBySite } from './siteSummary';
-import type { TimingInput, TimingSummary } from './timingTypes';
+import type { LastRecord, TimingInput, TimingSummary } from './timingTypes';
 import { summarizeByVisit } from './visitSummary';
 import { listVisitsDue } from './visitsDue';
+import { lastRecords, listExits, silenceThreshold } from './participants';
 
 /**
  * All visit-timing reports as plain data (SPEC §4 a–d): counts, by visit, by arm and visit (unblinded mode only,
@@ -15,6 +16,9 @@ export function summarizeTiming(input: TimingInput): TimingSummary {
   const sites = siteGroups(table);
   const arms = armGroups(table);
   const siteOf = (s: number): string => (sites === null ? '' : sites.names[sites.group[s]!]!);
+  const silenceDays = silenceThreshold(input);
+  const last = lastRecords(input, silenceDays);
+  const lastOf = (s: number): LastRecord => last[s]!;
   let subjects = 0;
   for (let s = 0; s < timing.nSubjects; s++) subjects += timing.subjectInTiming[s]!;
   return {
@@ -26,7 +30,10 @@ export function summarizeTiming(input: TimingInput): TimingSummary {
     byVisit: summarizeByVisit(input),
     byArm: arms === null ? null : summarizeByVisit(input, arms),
     bySite: sites === null ? null : summarizeBySite(input, sites),
-    deviations: listDeviations(input, siteOf),
-    upcoming: listVisitsDue(input, siteOf),
+    deviations: listDeviations(input, siteOf, lastOf),
+    upcoming: listVisitsDue(input, siteOf, lastOf),
+    exits: listExits(input, siteOf),
+    exitKnown: table.mapping.exit !== undefined && table.timeKind === 'date',
+    silenceDays,
   };
 }

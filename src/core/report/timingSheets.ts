@@ -1,7 +1,8 @@
 import { STATUS_WORDS } from '../schedule/types';
 import { col, para } from './blockParts';
 import { cautionBlocks } from './cautions';
-import { DUE_WORDS } from './timingTypes';
+import { DUE_WORDS, type LastRecord } from './timingTypes';
+import { isoDate } from '../schedule/dates';
 import { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWords';
 
 /** The sentences live in timingWords.ts; re-exported here for callers that import them with the sheets. */
@@ -23,6 +24,7 @@ function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[
     col('Late', 'integer'),
     col('Missed', 'integer'),
     col('Not yet due', 'integer'),
+    col('Not expected (left)', 'integer'),
     col('Visits due', 'integer'),
     col('On-time rate', 'percent1'),
     col('Median deviation (days)', 'decimal1'),
@@ -39,6 +41,7 @@ function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[
     r.late,
     r.missed,
     r.notYetDue,
+    r.afterExit,
     r.due,
     r.onTimeRate,
     r.medianDeviation,
@@ -102,12 +105,14 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
           col('On time', 'integer'),
           col('Out of window', 'integer'),
           col('Missed', 'integer'),
+          col('Not expected (left)', 'integer'),
+          col('Participants who left', 'integer'),
           col('On-time rate', 'percent1'),
           col('Out-of-window rate', 'percent1'),
           col('Missed rate', 'percent1'),
           col('Out of window or missed', 'percent1'),
         ],
-        rows: summary.bySite.map((r) => [r.site, r.subjects, r.due, r.onTime, r.outOfWindow, r.missed, r.onTimeRate, r.outOfWindowRate, r.missedRate, r.combinedRate]),
+        rows: summary.bySite.map((r) => [r.site, r.subjects, r.due, r.onTime, r.outOfWindow, r.missed, r.afterExit, r.left, r.onTimeRate, r.outOfWindowRate, r.missedRate, r.combinedRate]),
       },
       {
         kind: 'chart',
@@ -123,6 +128,8 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
       },
     );
   }
+
+  timing.push(...exitBlocks(summary));
 
   const dateFormat: NumberFormat = summary.dated ? 'date' : 'integer';
   const when = summary.dated ? 'date' : 'study day';
@@ -149,6 +156,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
         col('Days off', 'integer'),
         col('Status', 'text', 10),
         col('Data row', 'integer'),
+        ...lastRecordColumns(dateFormat, when),
       ],
       rows: summary.deviations.map((d) => [
         d.subject,
@@ -161,6 +169,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
         d.daysOff,
         STATUS_WORDS[d.status],
         d.sheetRow,
+        ...lastRecordCells(d.lastRecord, summary.dated),
       ]),
     },
   ];
@@ -184,6 +193,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
         col('Window closes', dateFormat, 12),
         col('Days until target', 'integer'),
         col('Status', 'text', 16),
+        ...lastRecordColumns(dateFormat, when),
       ],
       rows: summary.upcoming.map((u) => [
         u.subject,
@@ -194,13 +204,71 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
         u.windowCloses,
         u.daysUntilTarget,
         DUE_WORDS[u.status],
+        ...lastRecordCells(u.lastRecord, summary.dated),
       ]),
     },
   ];
+
+  const silenceNote =
+    summary.silenceDays === null
+      ? ''
+      : ` "No record since …" marks a participant with no record for more than ${summary.silenceDays} days (two scheduled intervals) and no exit date: check whether they left the study; their visits are still counted as the schedule says.`;
+  const lastPara = para(`Last record: the participant's latest record; days since it are counted to the cut-off.${silenceNote}`);
+  deviations.splice(cautions.length + 1, 0, lastPara);
+  due.splice(cautions.length + 1, 0, lastPara);
 
   return [
     { name: TIMING_SHEET_NAMES.timing, title: 'Visit timing against the schedule', blocks: timing },
     { name: TIMING_SHEET_NAMES.deviations, title: 'Visit deviations for follow-up', blocks: deviations },
     { name: TIMING_SHEET_NAMES.due, title: 'Upcoming and overdue visits', blocks: due },
   ];
+}
+
+/** The last-record columns of the follow-up lists. */
+function lastRecordColumns(format: NumberFormat, when: string): ReturnType<typeof col>[] {
+  return [col(`Last record (${when})`, format, 12), col('Days since last record', 'integer'), col('Follow-up note', 'text', 22)];
+}
+
+function lastRecordCells(l: LastRecord, dated: boolean): SheetCell[] {
+  const since = l.date === null ? '' : dated ? isoDate(l.date) : `study day ${l.date}`;
+  return [l.date, l.daysSince, l.silent ? `No record since ${since}` : ''];
+}
+
+/** The "Participants who left" part of the timing sheet: how many left and when, or why it cannot be shown. */
+function exitBlocks(summary: TimingSummary): Block[] {
+  const blocks: Block[] = [para('Participants who left the study', 'heading')];
+  if (!summary.exitKnown) {
+    blocks.push(
+      para(
+        'No exit-date column was mapped (or the data carry study days, not dates), so every scheduled visit without a record counts as missed once its window has closed. Map the date each participant left the study (for example EOSDT) so that visits after it are not counted as missed.',
+      ),
+    );
+    return blocks;
+  }
+  if (summary.exits.length === 0) {
+    blocks.push(para('No participant has an exit date in the data.'));
+    return blocks;
+  }
+  const withSite = summary.bySite !== null;
+  blocks.push(
+    para(
+      `${summary.exits.length} participant${summary.exits.length === 1 ? '' : 's'} left the study. A scheduled visit whose window had not closed by the exit date is "not expected (left)": it is not missed, not a deviation and not due. A visit whose window closed before the exit date and has no record is still missed.`,
+    ),
+    {
+      kind: 'table',
+      id: 'Exits',
+      caption: 'Participants who left the study',
+      columns: [
+        col('Participant', 'text', 12),
+        ...(withSite ? [col('Site', 'text', 12)] : []),
+        col('Exit date', 'date', 12),
+        col('Study day of exit', 'integer'),
+        col('Last visit attended', 'text', 14),
+        col('End-of-study status', 'text', 14),
+        col('Reason for leaving', 'text', 20),
+      ],
+      rows: summary.exits.map((e) => [e.subject, ...(withSite ? [e.site] : []), e.exitDate, e.exitStudyDay, e.lastVisit, e.status, e.reason]),
+    },
+  );
+  return blocks;
 }

@@ -26,6 +26,8 @@ export interface VisitSummaryRow {
   readonly late: number;
   readonly missed: number;
   readonly notYetDue: number;
+  /** Not expected: the participant had left the study by the window's last day (not part of `expected`). */
+  readonly afterExit: number;
   readonly due: number;
   readonly onTimeRate: number | null;
   readonly medianDeviation: number | null;
@@ -41,6 +43,10 @@ export interface SiteSummaryRow {
   readonly onTime: number;
   readonly outOfWindow: number;
   readonly missed: number;
+  /** Scheduled visits not expected because the participant had left (not part of `due`). */
+  readonly afterExit: number;
+  /** Participants of the site who left the study (with an exit date). */
+  readonly left: number;
   readonly onTimeRate: number | null;
   readonly outOfWindowRate: number | null;
   readonly missedRate: number | null;
@@ -65,6 +71,32 @@ export interface DeviationRow {
   readonly status: VisitStatus;
   /** Worksheet row of the record, null for a missed visit. */
   readonly sheetRow: number | null;
+  /** The participant's latest record (day number or study day) and the calendar days from it to the cut-off. */
+  readonly lastRecord: LastRecord;
+}
+
+/** A participant's latest record as of the cut-off: when it was, how long ago, and whether that is a long silence. */
+export interface LastRecord {
+  /** Day number (dated data) or study day; null when unknown. */
+  readonly date: number | null;
+  /** Calendar days from the latest record to the cut-off; null when there is no cut-off. */
+  readonly daysSince: number | null;
+  /** True when the participant has no record for longer than two scheduled intervals (and no exit date). */
+  readonly silent: boolean;
+}
+
+/** A participant who left the study (has an exit date), for the list of participants who left. */
+export interface ExitRow {
+  readonly subject: string;
+  readonly site: string;
+  /** Exit date as a day number. */
+  readonly exitDate: number;
+  /** Study day of the exit (CDISC rule, from the participant's reference date). */
+  readonly exitStudyDay: number | null;
+  /** The last scheduled visit with a record before leaving ("" when none). */
+  readonly lastVisit: string;
+  readonly status: string;
+  readonly reason: string;
 }
 
 export type DueStatus = 'overdue' | 'windowOpen' | 'comingUp';
@@ -87,6 +119,7 @@ export interface DueRow {
   /** Calendar days from the cut-off to the target (negative = the target has passed). */
   readonly daysUntilTarget: number;
   readonly status: DueStatus;
+  readonly lastRecord: LastRecord;
 }
 
 export interface TimingSummary {
@@ -105,4 +138,10 @@ export interface TimingSummary {
   readonly bySite: readonly SiteSummaryRow[] | null;
   readonly deviations: readonly DeviationRow[];
   readonly upcoming: readonly DueRow[];
+  /** Participants who left the study, in order of exit date; empty without an exit column. */
+  readonly exits: readonly ExitRow[];
+  /** Whether an exit-date column was mapped (and the data carry dates, so it could be used). */
+  readonly exitKnown: boolean;
+  /** How many days without a record mark a participant as silent (two scheduled intervals); null with one visit. */
+  readonly silenceDays: number | null;
 }

@@ -11,7 +11,7 @@ const plural = (n: number, one: string, many: string): string => `${n} ${n === 1
 /** How the cut-off reads in a sentence, e.g. "As of 2024-06-30 (the latest visit date in the data)". */
 export function cutoffPhrase(summary: Pick<TimingSummary, 'cutoff' | 'cutoffRule' | 'dated'>): string {
   const { cutoff, cutoffRule, dated } = summary;
-  if (cutoff === null) return dated ? 'With no usable dates in the data' : "As of each subject's last record (the data carry study days, not dates)";
+  if (cutoff === null) return dated ? 'With no usable dates in the data' : "As of each participant's last record (the data carry study days, not dates)";
   if (!dated) return `As of study day ${cutoff} (the given cut-off)`;
   return cutoffRule === 'given' ? `As of the cut-off ${isoDate(cutoff)}` : `As of ${isoDate(cutoff)} (the latest visit date in the data)`;
 }
@@ -21,9 +21,12 @@ export function timingSummaryText(summary: TimingSummary): string {
   const c = summary.counts;
   const due = c.onTime + c.early + c.late + c.missed;
   return (
-    `${cutoffPhrase(summary)}, ${plural(summary.subjects, 'subject', 'subjects')} had ${plural(due, 'scheduled visit', 'scheduled visits')} due: ` +
+    `${cutoffPhrase(summary)}, ${plural(summary.subjects, 'participant', 'participants')} had ${plural(due, 'scheduled visit', 'scheduled visits')} due: ` +
     `${c.onTime} on time (${pct(due > 0 ? c.onTime / due : null)}), ${c.early} early, ${c.late} late and ${c.missed} missed; ` +
     `${plural(c.notYetDue, 'visit is', 'visits are')} not yet due. ` +
-    `Besides the scheduled visits there ${c.extra === 1 ? 'was' : 'were'} ${plural(c.extra, 'extra record', 'extra records')} (matching no scheduled visit) and ${plural(c.repeat, 'repeat record', 'repeat records')} (a second record of a visit already matched).`
+    (summary.exits.length > 0
+      ? `${plural(summary.exits.length, 'participant', 'participants')} left the study; ${plural(c.afterExit, 'scheduled visit', 'scheduled visits')} after they left ${c.afterExit === 1 ? 'is' : 'are'} not expected. `
+      : '') +
+    `Besides the scheduled visits there ${c.extra === 1 ? 'was' : 'were'} ${plural(c.extra, 'unscheduled record', 'unscheduled records')} (matching no scheduled visit) and ${plural(c.repeat, 'repeat record', 'repeat records')} (a second record of a visit already matched).`
   );
 }

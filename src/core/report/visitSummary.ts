@@ -1,9 +1,10 @@
-import { STATUS_CODE } from '../schedule/types';
+import { SLOT_STATUSES, STATUS_CODE } from '../schedule/types';
 import type { TimingInput, VisitSummaryRow } from './timingTypes';
 
 /**
  * The summary by scheduled visit (SPEC §4 a), one row per visit in order of target day, or per (group, visit) when
- * subjects are grouped (by arm). Counts come from the (subject, visit) statuses of subjects in timing; visits due =
+ * subjects are grouped (by arm). Counts come from the (subject, visit) statuses of subjects in timing; visits not
+ * expected because the participant had left (afterExit) are counted apart and are not expected; visits due =
  * expected − not yet due; on-time rate = on time / due; median, min and max deviation over the visits' own records
  * (on time, early, late), in calendar days (the classification's own deviations). Cost O(subjects · visits + records · log records) for the medians.
  * Example: 2 subjects, Week 12 on time (deviation −2) and late (+9) → expected 2, due 2, on-time rate 0.5, median 3.5.
@@ -15,14 +16,14 @@ export function summarizeByVisit(
   const { schedule, timing } = input;
   const V = timing.nVisits;
   const G = groups?.names.length ?? 1;
-  const counts = new Float64Array(G * V * 5);
+  const counts = new Float64Array(G * V * SLOT_STATUSES);
   const devs: number[][] = Array.from({ length: G * V }, () => []);
   for (let s = 0; s < timing.nSubjects; s++) {
     if (timing.subjectInTiming[s] !== 1) continue;
     const g = groups?.group[s] ?? 0;
     for (let v = 0; v < V; v++) {
       const code = timing.slotStatus[s * V + v]!;
-      counts[(g * V + v) * 5 + code]!++;
+      counts[(g * V + v) * SLOT_STATUSES + code]!++;
       const r = timing.slotRow[s * V + v]!;
       if (r >= 0) devs[g * V + v]!.push(timing.rowDeviation[r]!);
     }
@@ -31,12 +32,13 @@ export function summarizeByVisit(
   const rows: VisitSummaryRow[] = [];
   for (let g = 0; g < G; g++) {
     for (const v of order) {
-      const c = (code: number): number => counts[(g * V + v) * 5 + code]!;
+      const c = (code: number): number => counts[(g * V + v) * SLOT_STATUSES + code]!;
       const onTime = c(STATUS_CODE.onTime);
       const early = c(STATUS_CODE.early);
       const late = c(STATUS_CODE.late);
       const missed = c(STATUS_CODE.missed);
       const notYetDue = c(STATUS_CODE.notYetDue);
+      const afterExit = c(STATUS_CODE.afterExit);
       const expected = onTime + early + late + missed + notYetDue;
       const due = expected - notYetDue;
       const d = Float64Array.from(devs[g * V + v]!).sort();
@@ -50,6 +52,7 @@ export function summarizeByVisit(
         late,
         missed,
         notYetDue,
+        afterExit,
         due,
         onTimeRate: due > 0 ? onTime / due : null,
         medianDeviation: d.length === 0 ? null : d.length % 2 === 1 ? d[(d.length - 1) / 2]! : (d[d.length / 2 - 1]! + d[d.length / 2]!) / 2,

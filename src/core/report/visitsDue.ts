@@ -1,9 +1,9 @@
 import { windowDates, windowOffsets, windowStudyDays } from '../schedule/studyDay';
-import type { DueRow, DueStatus, TimingInput } from './timingTypes';
+import type { DueRow, DueStatus, LastRecord, TimingInput } from './timingTypes';
 
 /**
  * Upcoming and overdue visits as of the cut-off (SPEC §4 d). A subject is still in follow-up when no record is
- * matched to the final scheduled visit (the largest target day). For each such subject the next scheduled visit
+ * matched to the final scheduled visit (the largest target day) and no exit date is known. For each such subject the next scheduled visit
  * without a record after the last visit that has one is listed with its window dates, the calendar days from the
  * cut-off to its target (negative = the target has passed; calendar offsets, the same arithmetic as the
  * classification) and a status: "overdue" when the window closed before the
@@ -13,7 +13,7 @@ import type { DueRow, DueStatus, TimingInput } from './timingTypes';
  * Cost O(subjects · visits + k log k).
  * Example: cut-off on study day 90, next visit Week 12 (target 85, window 78–92) → daysUntilTarget −5, "windowOpen".
  */
-export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => string): DueRow[] {
+export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => string, lastOf: (subject: number) => LastRecord): DueRow[] {
   const { table, schedule, days, timing } = input;
   const V = timing.nVisits;
   const dated = table.timeKind === 'date';
@@ -22,6 +22,7 @@ export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => s
   const rows: { row: DueRow; s: number }[] = [];
   for (let s = 0; s < timing.nSubjects; s++) {
     if (timing.subjectInTiming[s] !== 1 || timing.slotRow[s * V + last]! >= 0) continue;
+    if (Number.isFinite(timing.exitOffset[s]!)) continue; // left the study: no visit is due
     const cut = timing.cutoffOffset[s]!;
     if (!Number.isFinite(cut)) continue;
     let k = V - 1;
@@ -42,6 +43,7 @@ export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => s
         windowCloses: dates.closes,
         daysUntilTarget: w.target - cut,
         status,
+        lastRecord: lastOf(s),
       },
     });
   }

@@ -1,6 +1,6 @@
 import type { IntakeTable } from '../intake/types';
 import type { DataPlace } from './computeStudyDays';
-import { afterCutoffIssue, nearest, sortSegment } from './classifyParts';
+import { afterCutoffIssue, afterExitIssue, nearest, sortSegment } from './classifyParts';
 import { labelKey } from './labels';
 import { offsetOfStudyDay } from '../intake/dayOffset';
 import { windowOffsets } from './studyDay';
@@ -25,7 +25,7 @@ export interface ClassifyOptions {
   readonly place?: DataPlace;
 }
 
-const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NOT_YET_DUE, extra: EXTRA, repeat: REPEAT } = STATUS_CODE;
+const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NOT_YET_DUE, afterExit: AFTER_EXIT, extra: EXTRA, repeat: REPEAT } = STATUS_CODE;
 
 /**
  * Gives each (subject, scheduled visit) exactly one status and each record at most one (SPEC §4).
@@ -41,7 +41,10 @@ const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NO
  * t − 1 for t ≥ 1 and t for t ≤ −1, see windowOffsets), so a window that crosses the reference date loses no day.
  * Status of a visit's record: on time when target − before ≤ offset ≤ target + after (bounds included, all in
  * offsets), else early or late; its deviation is offset − target offset in calendar days (negative = early). A visit
- * with no record is "missed" when its window's last day is before the cut-off, else "not yet due".
+ * with no record is "not expected" (afterExit) when the participant's exit date (table.subjectExit, dated data) is on
+ * or before the window's last day — a window that opens after the exit, or straddles it; otherwise "missed" when its
+ * window's last day is before the cut-off, else "not yet due". A record dated after the exit date is kept, with an
+ * 'after-exit' warning.
  *
  * Cut-off. Dated data: options.cutoff (a day number), else the latest usable date; each subject's cut-off offset
  * is cutoff − that subject's reference date; records dated after the cut-off are left out with an issue.
@@ -135,6 +138,7 @@ export function classifyVisits(
   const slotRow = new Int32Array(S * V).fill(-1);
   const subjectInTiming = new Uint8Array(S);
   const cutoffOffset = new Float64Array(S).fill(NaN);
+  const exitOffset = new Float64Array(S).fill(NaN);
   const counts = new Float64Array(STATUS_ORDER.length);
 
   for (let s = 0; s < S; s++) {
@@ -143,6 +147,8 @@ export function classifyVisits(
     if (a === b) continue;
     subjectInTiming[s] = 1;
     const base = s * V;
+    if (dated) exitOffset[s] = table.subjectExit[s]! - days.referenceDay[s]!;
+    const exit = exitOffset[s]!;
     cutoffOffset[s] = dated
       ? cutoff === null
         ? NaN
@@ -163,6 +169,7 @@ export function classifyVisits(
     // Second pass: statuses of records.
     for (let j = a; j < b; j++) {
       const i = idx[j]!;
+      if (sd[i]! > exit) issues.push(afterExitIssue(table, i, table.subjectExit[s]!, options.place));
       const v = rowVisit[i]!;
       const d = sd[i]!;
       let code: number;
@@ -180,7 +187,7 @@ export function classifyVisits(
     // Statuses of scheduled visits.
     for (let v = 0; v < V; v++) {
       const r = slotRow[base + v]!;
-      const code = r >= 0 ? rowStatus[r]! : close[v]! < cutoffOffset[s]! ? MISSED : NOT_YET_DUE;
+      const code = r >= 0 ? rowStatus[r]! : exit <= close[v]! ? AFTER_EXIT : close[v]! < cutoffOffset[s]! ? MISSED : NOT_YET_DUE;
       slotStatus[base + v] = code;
       if (r < 0) counts[code]!++;
     }
@@ -197,6 +204,7 @@ export function classifyVisits(
     slotRow,
     subjectInTiming,
     cutoffOffset,
+    exitOffset,
     cutoff,
     cutoffRule,
     counts: countObject as StatusCounts,

@@ -39,6 +39,21 @@ export function sortSegment(idx: Int32Array, a: number, b: number, cmp: (x: numb
   }
 }
 
+/** A record dated after its participant's exit date: kept, with a warning at the date cell. */
+export function afterExitIssue(table: IntakeTable, i: number, exitDay: number, place: DataPlace | undefined): ScheduleIssue {
+  const sheetRow = table.sheetRows[i]!;
+  const col = table.mapping.date;
+  return {
+    code: 'after-exit',
+    severity: 'warning',
+    cell: place !== undefined && col !== undefined ? cellAddress(place.sheet, place.topLeft, col, sheetRow) : null,
+    row: sheetRow,
+    value: isoDate(table.date[i]!),
+    use: null,
+    message: `This record is dated after the participant's exit date ${isoDate(exitDay)} (data after the exit date); it is kept.`,
+  };
+}
+
 export function afterCutoffIssue(table: IntakeTable, i: number, cutoff: number, dated: boolean, place: DataPlace | undefined): ScheduleIssue {
   const sheetRow = table.sheetRows[i]!;
   const col = dated ? table.mapping.date : table.mapping.studyDay;

@@ -9,7 +9,7 @@ export interface ScheduleVisit {
 }
 
 /** Status words; JSON uses these keys, sheets show the plain words of STATUS_WORDS. */
-export type VisitStatus = 'onTime' | 'early' | 'late' | 'missed' | 'notYetDue' | 'extra' | 'repeat';
+export type VisitStatus = 'onTime' | 'early' | 'late' | 'missed' | 'notYetDue' | 'afterExit' | 'extra' | 'repeat';
 
 export const STATUS_WORDS: Readonly<Record<VisitStatus, string>> = {
   onTime: 'On time',
@@ -17,23 +17,27 @@ export const STATUS_WORDS: Readonly<Record<VisitStatus, string>> = {
   late: 'Late',
   missed: 'Missed',
   notYetDue: 'Not yet due',
-  extra: 'Extra',
+  afterExit: 'Not expected (left)',
+  extra: 'Unscheduled',
   repeat: 'Repeat',
 };
 
 export type StatusCounts = Readonly<Record<VisitStatus, number>>;
 
 /** Status codes in per-row and per-visit typed arrays: the index into STATUS_ORDER; NO_STATUS where none applies. */
-export const STATUS_ORDER: readonly VisitStatus[] = ['onTime', 'early', 'late', 'missed', 'notYetDue', 'extra', 'repeat'];
+export const STATUS_ORDER: readonly VisitStatus[] = ['onTime', 'early', 'late', 'missed', 'notYetDue', 'afterExit', 'extra', 'repeat'];
 export const STATUS_CODE: Readonly<Record<VisitStatus, number>> = {
   onTime: 0,
   early: 1,
   late: 2,
   missed: 3,
   notYetDue: 4,
-  extra: 5,
-  repeat: 6,
+  afterExit: 5,
+  extra: 6,
+  repeat: 7,
 };
+/** Number of statuses a (subject, scheduled visit) slot can have: the codes 0 .. SLOT_STATUSES − 1. */
+export const SLOT_STATUSES = 6;
 /** Code for a row left out of visit timing, or a (subject, visit) slot of a subject with no usable record. */
 export const NO_STATUS = 255;
 
@@ -49,7 +53,8 @@ export type ScheduleIssueCode =
   | 'schedule-overlap' // two windows share days (warning)
   | 'no-reference-date' // a dated row whose subject has no reference date
   | 'no-baseline-record' // a dated row whose subject has no record of the first scheduled visit
-  | 'after-cutoff'; // a record dated after the data cut-off
+  | 'after-cutoff' // a record dated after the data cut-off
+  | 'after-exit'; // a record dated after the participant's exit date (kept)
 
 export interface ScheduleIssue {
   readonly code: ScheduleIssueCode;
@@ -106,6 +111,8 @@ export interface VisitTiming {
   readonly slotStatus: Uint8Array;
   /** Per slot: the row index of the visit's record, or -1. */
   readonly slotRow: Int32Array;
+  /** Per subject: the exit date as a calendar offset from the reference date (NaN when none, or study-day data). */
+  readonly exitOffset: Float64Array;
   /** Per subject: 1 when the subject takes part in visit timing (has at least one usable record). */
   readonly subjectInTiming: Uint8Array;
   /** Per subject: the cut-off as a calendar offset from that subject's reference date (NaN for subjects not in

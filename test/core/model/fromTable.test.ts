@@ -39,6 +39,9 @@ function table(): IntakeTable {
     covariates: [{ name: 'Region', kind: 'categorical', values: site.map((s) => (s === 'S1' ? 'North' : 'South')), levels: ['East', 'North', 'South'] }],
     usableTiming: new Uint8Array(n).fill(1),
     usableModel,
+    subjectExit: new Float64Array(ids.length).fill(NaN),
+    subjectExitStatus: null,
+    subjectExitReason: null,
   };
 }
 

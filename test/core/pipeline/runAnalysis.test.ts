@@ -115,12 +115,12 @@ describe('runAnalysis', () => {
     expect((out.json.visits as { counts: Record<string, number> }).counts.onTime).toBeGreaterThan(0);
   });
 
-  it('gives JSON visit counts with exactly the seven status keys, matching a count by hand', async () => {
+  it('gives JSON visit counts with exactly the eight status keys, matching a count by hand', async () => {
     const out = await runAnalysis(CELLS, SETTINGS);
     if (!out.ok) throw new Error('run failed');
     // By hand: B's Day 29 is study day 37 (late, window 26–32); C's Day 57 has no record and its window closed on
     // day 60 = 2025-03-08, before the cut-off 2025-03-31, so it is missed; the other ten records are on time.
-    expect((out.json.visits as { counts: unknown }).counts).toEqual({ onTime: 10, early: 0, late: 1, missed: 1, notYetDue: 0, extra: 0, repeat: 0 });
+    expect((out.json.visits as { counts: unknown }).counts).toEqual({ onTime: 10, early: 0, late: 1, missed: 1, notYetDue: 0, afterExit: 0, extra: 0, repeat: 0 });
   });
 
   it('names no arm anywhere in blinded mode and reads the arms in unblinded mode with the chosen reference first', async () => {

@@ -66,7 +66,7 @@ describe('classifyVisits by visit label (hand-worked example above)', () => {
   });
 
   it('counts every status once (hand count: 8 on time, 1 each of the others)', () => {
-    expect(t.counts).toEqual({ onTime: 8, early: 1, late: 1, missed: 1, notYetDue: 1, extra: 1, repeat: 1 });
+    expect(t.counts).toEqual({ onTime: 8, early: 1, late: 1, missed: 1, notYetDue: 1, afterExit: 0, extra: 1, repeat: 1 });
   });
 });
 

@@ -22,6 +22,7 @@ const SCHEDULE: readonly ScheduleVisit[] = [
   { label: 'Baseline', targetDay: 1, before: 3, after: 3 },
   { label: 'Week 2', targetDay: 15, before: 2, after: 2 },
 ];
+const NO_LAST = { date: null, daysSince: null, silent: false };
 const names = (t: VisitTiming): string[] => Array.from(t.rowStatus, (c) => (c === NO_STATUS ? '-' : STATUS_ORDER[c]!));
 
 function classify(rows: RowSpec[], timeKind: 'date' | 'studyDay', cutoff?: number) {
@@ -112,12 +113,12 @@ describe('visit windows across the reference date (CDISC SDTM IG study-day rule,
       { subject: 'B', time: REF + 1, visit: 'Baseline', reference: REF + 1 },
     ];
     const r = classify(rows, 'date', REF + 10);
-    const due = listVisitsDue({ table: r.table, schedule: SCHEDULE, days: r.days, timing: r.timing }, () => '');
+    const due = listVisitsDue({ table: r.table, schedule: SCHEDULE, days: r.days, timing: r.timing }, () => '', () => NO_LAST);
     expect(due.map((d) => [d.subject, d.visit, d.daysUntilTarget, d.status, d.windowOpens, d.windowCloses])).toEqual([
       ['A', 'Week 2', 4, 'comingUp', REF + 12, REF + 16],
       ['B', 'Week 2', 5, 'comingUp', REF + 13, REF + 17], // B's reference is one day later
     ]);
-    const dev = listDeviations({ table: r.table, schedule: SCHEDULE, days: r.days, timing: r.timing }, () => '');
+    const dev = listDeviations({ table: r.table, schedule: SCHEDULE, days: r.days, timing: r.timing }, () => '', () => NO_LAST);
     expect(dev.map((d) => [d.subject, d.visit, d.status, d.daysOff, d.windowOpens, d.targetDate])).toEqual([
       ['A', 'Baseline', 'early', -4, REF - 3, REF],
     ]);

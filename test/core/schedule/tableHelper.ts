@@ -12,6 +12,8 @@ export interface RowSpec {
   readonly reference?: number;
   readonly arm?: string;
   readonly site?: string;
+  /** The participant's exit date (a day number) on this row, when given. */
+  readonly exit?: number;
 }
 
 export function makeTable(
@@ -65,5 +67,8 @@ export function makeTable(
     covariates: [],
     usableTiming: Uint8Array.from(rows, (r) => (r.subject !== '' && Number.isFinite(r.time) ? 1 : 0)),
     usableModel: Uint8Array.from(rows, (r) => (r.subject !== '' && Number.isFinite(r.time) ? 1 : 0)),
+    subjectExit: Float64Array.from(subjectIds, (id) => Math.max(...rows.filter((r) => r.subject === id).map((r) => r.exit ?? -Infinity))).map((d) => (Number.isFinite(d) ? d : NaN)),
+    subjectExitStatus: null,
+    subjectExitReason: null,
   };
 }

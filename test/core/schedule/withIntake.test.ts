@@ -39,7 +39,7 @@ describe('schedule layer on tables read by readTable', () => {
 
   it('classifies by label ignoring case, with the cut-off at the latest date (2024-07-20)', () => {
     // K-001: cut-off is day 193 → Week 36 (closes day 260) not yet due. K-002: day 171 → Week 12 (closes day 92) missed.
-    expect(timing.counts).toEqual({ onTime: 4, early: 0, late: 1, missed: 1, notYetDue: 4, extra: 0, repeat: 0 });
+    expect(timing.counts).toEqual({ onTime: 4, early: 0, late: 1, missed: 1, notYetDue: 4, afterExit: 0, extra: 0, repeat: 0 });
     const s = summarizeTiming({ table, schedule, days, timing });
     expect(timingJson(s).cutoff).toBe('2024-07-20');
     expect(s.deviations.map((d) => [d.subject, d.visit, d.status, d.daysOff])).toEqual([

@@ -1,0 +1,82 @@
+/** Per-participant facts for the follow-up lists: the latest record, a long silence, and who left the study. */
+import { studyDayOfOffset } from '../intake/dayOffset';
+import { windowOffsets } from '../schedule/studyDay';
+import { NO_STATUS } from '../schedule/types';
+import type { ExitRow, LastRecord, TimingInput } from './timingTypes';
+
+/**
+ * Days without a record after which a participant still in follow-up is marked as silent: two scheduled intervals,
+ * an interval being the median gap between consecutive target days of the schedule (in calendar days). Null for a
+ * schedule of one visit. O(visits log visits).
+ * Example: targets on days 1, 85, 169, 253 → gaps 84, 84, 84 → 168.
+ */
+export function silenceThreshold(input: Pick<TimingInput, 'schedule'>): number | null {
+  const targets = input.schedule.map((v) => windowOffsets(v).target).sort((a, b) => a - b);
+  const gaps = targets.slice(1).map((t, k) => t - targets[k]!).sort((a, b) => a - b);
+  if (gaps.length === 0) return null;
+  const m = gaps.length;
+  const median = m % 2 === 1 ? gaps[(m - 1) / 2]! : (gaps[m / 2 - 1]! + gaps[m / 2]!) / 2;
+  return 2 * median;
+}
+
+/**
+ * Each participant's latest record taking part in visit timing: its date (day number, or study day for study-day
+ * data), the calendar days from it to the participant's cut-off, and whether that gap is longer than `silence` days
+ * for a participant with no exit date (never a reclassification: a mark for follow-up only). O(rows + subjects).
+ */
+export function lastRecords(input: TimingInput, silence: number | null): LastRecord[] {
+  const { table, days, timing } = input;
+  const S = timing.nSubjects;
+  const last = new Float64Array(S).fill(NaN);
+  const lastRow = new Int32Array(S).fill(-1);
+  for (let i = 0; i < table.nRows; i++) {
+    if (timing.rowStatus[i] === NO_STATUS) continue;
+    const s = table.subjectIndex[i]!;
+    const o = days.offsets[i]!;
+    if (!(o <= last[s]!)) {
+      last[s] = o;
+      lastRow[s] = i;
+    }
+  }
+  const dated = table.timeKind === 'date';
+  return Array.from({ length: S }, (_, s): LastRecord => {
+    const r = lastRow[s]!;
+    if (r < 0) return { date: null, daysSince: null, silent: false };
+    const cut = timing.cutoffOffset[s]!;
+    const daysSince = Number.isFinite(cut) ? cut - last[s]! : null;
+    const silent = silence !== null && daysSince !== null && daysSince > silence && !Number.isFinite(timing.exitOffset[s]!);
+    return { date: dated ? table.date[r]! : days.studyDays[r]!, daysSince, silent };
+  });
+}
+
+/**
+ * Participants who left the study (an exit date, dated data), in order of exit date then order of appearance: exit
+ * date and study day, the last scheduled visit with a record, and the end-of-study status and reason when mapped.
+ * O(subjects · visits + k log k).
+ */
+export function listExits(input: TimingInput, siteOf: (subject: number) => string): ExitRow[] {
+  const { table, schedule, timing } = input;
+  const V = timing.nVisits;
+  const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
+  const rows: { row: ExitRow; s: number }[] = [];
+  for (let s = 0; s < timing.nSubjects; s++) {
+    const e = timing.exitOffset[s]!;
+    if (timing.subjectInTiming[s] !== 1 || !Number.isFinite(e)) continue;
+    let lastVisit = '';
+    for (const v of order) if (timing.slotRow[s * V + v]! >= 0) lastVisit = schedule[v]!.label;
+    rows.push({
+      s,
+      row: {
+        subject: table.subjectIds[s]!,
+        site: siteOf(s),
+        exitDate: table.subjectExit[s]!,
+        exitStudyDay: studyDayOfOffset(e),
+        lastVisit,
+        status: table.subjectExitStatus?.[s] ?? '',
+        reason: table.subjectExitReason?.[s] ?? '',
+      },
+    });
+  }
+  rows.sort((a, b) => a.row.exitDate - b.row.exitDate || a.s - b.s);
+  return rows.map((r) => r.row);
+}

@@ -10,7 +10,6 @@ declare module 'jstat' {
     normal: { cdf(x: number, mean: number, sd: number): number; inv(p: number, mean: number, sd: number): number };
     ibeta(x: number, a: number, b: number): number;
     ibetainv(p: number, a: number, b: number): number;
-    erfc(x: number): number;
     gammap(a: number, x: number): number;
   };
 }

@@ -20,7 +20,7 @@ import { sufficientStats, type SufficientStats } from './sufficient';
 import { trajectories } from './trajectories';
 import { validateModelRows, validateModelShape } from './validate';
 import { varianceIntervals } from './varianceIntervals';
-import { logLikShift, RESOLUTION, scaleModelData, toScaledContrast, unscaleContrast } from './scaling';
+import { logLikShift, scaleModelData, toScaledContrast, unscaleContrast } from './scaling';
 import { soundnessProblem } from './soundness';
 import type { ContrastResult, FitOptions, JointTest, ModelData, ModelFit, SlopeDifference, SubjectEffect, TimeUnit, TreatmentEffect } from './types';
 
@@ -64,8 +64,9 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   const pt = est.point;
   const atBoundary = est.status === 'boundary';
   const gamma = pt.gamma;
-  // σ'² below RESOLUTION² of the scaled spread: the values sit on the fitted lines to within rounding.
-  if (!(pt.sigma2 >= RESOLUTION * RESOLUTION)) throw new DegenerateDataError('no-variation', NO_WITHIN_VARIATION);
+  // The residual sum R = c − b'β̂ is a difference of sums of size y'y, so its rounding error is about ε·y'y: a σ̂² below
+  // WITHIN_FLOOR of the mean square of the (centred, scaled) values is mostly rounding, the values sit on the fitted lines.
+  if (!(pt.sigma2 >= (WITHIN_FLOOR * st.yty) / N)) throw new DegenerateDataError('no-variation', NO_WITHIN_VARIATION);
   // Everything below is computed on the scaled data and mapped back (scaling.ts); s2, phi, W are on the scaled scale.
   const s2 = pt.sigma2;
   const phi = pt.aInv.map((v) => v * s2);
@@ -187,6 +188,13 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   }
   return fit;
 }
+
+/**
+ * Smallest within-patient variance, relative to the mean square of the centred values, that is reported: the
+ * residual sum carries a rounding error of about ε·y'y (ε = 2.2e-16), so at 1e-10 the variance is still good to ~1e-6
+ * relative; below it the values lie on the fitted lines to within rounding.
+ */
+export const WITHIN_FLOOR = 1e-10;
 
 /** What the model can and cannot do with one patient (issue: say it plainly, and report no fit). */
 export const ONE_SUBJECT =

@@ -74,7 +74,7 @@ export function scaleModelData(data: ModelData): { data: ModelData; scaling: Sca
   if (!(ym.spread <= SPREAD_MAX) || ym.spread < SPREAD_MIN) {
     throw new DegenerateDataError(
       'out-of-range',
-      `the values spread over about ${shown(ym.spread)}; variances of that size squared (${ym.spread < 1 ? 'below' : 'above'} ${ym.spread < 1 ? SPREAD_MIN * SPREAD_MIN : SPREAD_MAX * SPREAD_MAX}) cannot be computed reliably in double precision, so no model is fitted (rescale the values, e.g. change the unit)`,
+      `the values spread over about ${shown(ym.spread)}; their variances, about that spread squared, would lie outside what double precision holds reliably (the spread must lie between 1e-150 and 1e150), so no model is fitted (rescale the values, e.g. change the unit)`,
     );
   }
   const tScale = tm.spread > 0 && Number.isFinite(tm.spread) ? tm.spread : 1;

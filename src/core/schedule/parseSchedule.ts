@@ -114,8 +114,7 @@ export function parseSchedule(cells: readonly (readonly CellValue[])[], sheet: s
     const allowance = (f: 'before' | 'after'): number => {
       const v = toNumber(cell(f));
       if (Number.isInteger(v) && v >= 0 && v <= MAX_SCHEDULE_DAYS) return v;
-      const range = Number.isInteger(v) && v > MAX_SCHEDULE_DAYS ? `, at most ${DAYS_TEXT} (100 years)` : ', 0 or more';
-      issues.push(rowIssue('schedule-bad-allowance', at(c[f], r), shown(cell(f)), `The ${FIELD_WORDS[f]} must be a whole number of days${range}.`));
+      issues.push(rowIssue('schedule-bad-allowance', at(c[f], r), shown(cell(f)), `The ${FIELD_WORDS[f]} must be a whole number of days from 0 to ${DAYS_TEXT}.`));
       good = false;
       return NaN;
     };

@@ -93,7 +93,7 @@ describe('parseSchedule', () => {
       ['schedule-bad-allowance', 'S!D6', '36501'],
     ]);
     expect(r.issues[0]!.message).toBe('The target study day must lie between -36,500 and 36,500 (100 years either side of the reference date).');
-    expect(r.issues[2]!.message).toBe('The days allowed after must be a whole number of days, at most 36,500 (100 years).');
+    expect(r.issues[2]!.message).toBe('The days allowed after must be a whole number of days from 0 to 36,500.');
     expect(r.schedule.map((v) => v.label)).toEqual(['Early edge', 'Edge']);
   });
 

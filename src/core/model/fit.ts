@@ -28,8 +28,12 @@ import type { ContrastResult, FitOptions, JointTest, ModelData, ModelFit, SlopeD
 export const DAYS_PER_TIME_UNIT: Readonly<Record<TimeUnit, number>> = { month: 30.4375, week: 7, day: 1 };
 
 /**
- * Fits the model. Misuse (bad shapes, missing values, a rank-deficient design) throws ModelInputError or
- * RankDeficiencyError; non-convergence and the zero boundary are reported in `status` and `message`.
+ * Fits the model on the centred and scaled response and time (scaling.ts) and reports every number on the original
+ * scale. Misuse (bad shapes, missing values, a rank-deficient design) throws ModelInputError or RankDeficiencyError;
+ * data that cannot give a trustworthy model (one patient, one measurement each, no variation or variation below the
+ * resolution of the values, a spread outside 1e±150, values on the fitted lines to within rounding, or numbers that
+ * fail soundness.ts) throw DegenerateDataError with a plain reason; non-convergence and the zero boundary are reported
+ * in `status` and `message`.
  * Example: the rails data of Devore (2000) with design 'intercept-only' and REML -> fixedEffects[0].estimate 66.5,
  * se 10.171; variance.subject 615.31 (SD 24.805), variance.residual 16.167 (SD 4.0208); logLik −61.0885.
  */

@@ -88,19 +88,31 @@ export function scaleModelData(data: ModelData): { data: ModelData; scaling: Sca
   return { data: { ...data, y: ys, time: ts }, scaling };
 }
 
-/** Mean (a running mean, which cannot overflow), min, max and the largest distance from the mean; null if any value is not finite. */
+/**
+ * Mean, min, max and the largest distance from the mean; null if any value is not finite. The mean is a plain sum / n,
+ * or, when that sum overflows (values near the top of the double range), a running mean, which cannot overflow.
+ */
 function measure(v: Float64Array): { centre: number; min: number; max: number; spread: number } | null {
-  let mean = 0;
+  let sum = 0;
   let min = Infinity;
   let max = -Infinity;
   for (let i = 0; i < v.length; i++) {
     const x = v[i]!;
-    if (!Number.isFinite(x)) return null;
-    mean += (x - mean) / (i + 1);
+    sum += x;
     if (x < min) min = x;
     if (x > max) max = x;
   }
-  // The running mean can stray a rounding error outside [min, max]; keep it inside.
+  let mean = sum / v.length;
+  if (!Number.isFinite(sum)) {
+    // A NaN or an infinity makes the sum non-finite; so does overflow of finite values, which the running mean survives.
+    mean = 0;
+    for (let i = 0; i < v.length; i++) {
+      const x = v[i]!;
+      if (!Number.isFinite(x)) return null;
+      mean += (x - mean) / (i + 1);
+    }
+  }
+  // Rounding can put the mean a hair outside [min, max]; keep it inside.
   const centre = Math.min(max, Math.max(min, mean));
   return { centre, min, max, spread: Math.max(max - centre, centre - min) };
 }

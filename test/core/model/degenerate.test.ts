@@ -36,8 +36,8 @@ describe('degenerate data give no model and a plain reason, never wrong numbers'
     expect(e.message).toBe('all 24 values are equal (5), so there is no variation for the model to describe');
   });
 
-  it('values around 1e-300 and 1e160: no model (regression: SE 0 and p = 0; null SEs shown as "converged at the zero boundary")', () => {
-    for (const size of [1e-300, 1e160, -1e160]) {
+  it('values around 1e-300, 1e160 and 1e307: no model (regression: SE 0 and p = 0; null SEs shown as "converged at the zero boundary")', () => {
+    for (const size of [1e-300, 1e160, -1e160, 1e307]) { // 24 values of ~1e307 overflow a plain sum: the running mean takes over
       const e = refusal(grid((i, j) => size * (1 + wiggle(i, j))));
       expect(e.reason).toBe('out-of-range');
       expect(e.message).toMatch(/rescale the values/);

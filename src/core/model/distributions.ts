@@ -19,21 +19,36 @@ export function tQuantile(prob: number, df: number): number {
   return jStat.studentt.inv(prob, df);
 }
 
-/** Two-sided p-value of a t statistic: 2 P(T_df > |t|) = I_{df/(df+t²)}(df/2, 1/2). Example: t = 2.2281, df = 10 -> 0.05. */
-export function tTwoSided(t: number, df: number): number {
-  if (Number.isNaN(t)) return NaN;
-  if (df === Infinity) return 2 * (1 - jStat.normal.cdf(Math.abs(t), 0, 1));
-  if (!(df > 0) || !Number.isFinite(df)) return NaN;
-  if (!Number.isFinite(t)) return 0;
-  return jStat.ibeta(df / (df + t * t), df / 2, 0.5);
+/**
+ * The rule for reported p-values: never 0 and never above 1. A tail probability that underflows to 0 in double
+ * precision is reported as the smallest positive double, 2^-1074 ≈ 4.9e-324 (IEEE 754), which then reads "at most
+ * this"; rounding above 1 is clipped to 1. NaN stays NaN. Example: bounded(0) = 5e-324, bounded(1.0000001) = 1.
+ */
+export const P_FLOOR = Number.MIN_VALUE;
+export function boundedP(p: number): number {
+  if (Number.isNaN(p)) return NaN;
+  return Math.min(1, Math.max(P_FLOOR, p));
 }
 
-/** Upper tail P(F_{d1,d2} > f) = I_{d2/(d2+d1 f)}(d2/2, d1/2). Example: fUpper(4.103, 2, 10) = 0.0500. */
+/**
+ * Two-sided p-value of a t statistic: 2 P(T_df > |t|) = I_{df/(df+t²)}(df/2, 1/2); for df = ∞ twice the normal upper
+ * tail (normalUpperTail, which keeps its precision far into the tail). Bounded by boundedP.
+ * Example: t = 2.2281, df = 10 -> 0.05.
+ */
+export function tTwoSided(t: number, df: number): number {
+  if (Number.isNaN(t)) return NaN;
+  if (df === Infinity) return boundedP(2 * normalUpperTail(Math.abs(t)));
+  if (!(df > 0) || !Number.isFinite(df)) return NaN;
+  if (!Number.isFinite(t)) return P_FLOOR;
+  return boundedP(jStat.ibeta(df / (df + t * t), df / 2, 0.5));
+}
+
+/** Upper tail P(F_{d1,d2} > f) = I_{d2/(d2+d1 f)}(d2/2, d1/2), bounded by boundedP. Example: fUpper(4.103, 2, 10) = 0.0500. */
 export function fUpper(f: number, d1: number, d2: number): number {
   if (Number.isNaN(f) || !(d1 > 0) || !(d2 > 0)) return NaN;
   if (f <= 0) return 1;
-  if (d2 === Infinity) return 1 - jStat.chisquare.cdf(f * d1, d1);
-  return jStat.ibeta(d2 / (d2 + d1 * f), d2 / 2, d1 / 2);
+  if (d2 === Infinity) return boundedP(1 - jStat.chisquare.cdf(f * d1, d1));
+  return boundedP(jStat.ibeta(d2 / (d2 + d1 * f), d2 / 2, d1 / 2));
 }
 
 /** Quantile of F(d1, d2) at probability prob, e.g. fQuantile(0.95, 3, 20) = 3.0984 (Abramowitz & Stegun 1964, Table 26.9). */
@@ -58,6 +73,20 @@ export function chiSquareQuantile(prob: number, df: number): number {
     return df * (1 - h + z * Math.sqrt(h)) ** 3;
   }
   return jStat.chisquare.inv(prob, df);
+}
+
+/**
+ * Standard normal upper tail Q(z) = P(Z > z). Below z = 3, 1 − Φ(z) (at least 1.3e-3 there, so the subtraction loses
+ * nothing that matters); from z = 3, Laplace's continued fraction Q(z) = φ(z)/(z + 1/(z + 2/(z + 3/(z + …)))),
+ * evaluated from 200 terms backwards, which keeps full relative precision where 1 − Φ(z) is 0 (from z ≈ 8.3) until
+ * φ(z) itself underflows (z ≈ 38.6). Example: normalUpperTail(10) = 7.6199e-24.
+ */
+export function normalUpperTail(z: number): number {
+  if (Number.isNaN(z)) return NaN;
+  if (z < 3) return 1 - jStat.normal.cdf(z, 0, 1);
+  let f = z;
+  for (let k = 200; k >= 1; k--) f = z + k / f;
+  return Math.exp(-0.5 * z * z) / Math.sqrt(2 * Math.PI) / f;
 }
 
 /** Standard normal quantile, e.g. normalQuantile(0.975) = 1.95996. */

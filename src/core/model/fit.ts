@@ -8,7 +8,7 @@
  */
 import { offsetOfStudyDay } from '../intake/dayOffset';
 import { buildDesign, type Design } from './design';
-import { RankDeficiencyError, ModelInputError } from './errors';
+import { DegenerateDataError, RankDeficiencyError, ModelInputError } from './errors';
 import { estimateRatio } from './estimateRatio';
 import { contrast, jointTest, type InferenceContext } from './inference';
 import { adjustedCovariance, informationPieces, inverseInformation } from './information';
@@ -21,23 +21,33 @@ import { sufficientStats, type SufficientStats } from './sufficient';
 import { trajectories } from './trajectories';
 import { validateModelRows, validateModelShape } from './validate';
 import { varianceIntervals } from './varianceIntervals';
-import type { FitOptions, JointTest, ModelData, ModelFit, SlopeDifference, SubjectEffect, TimeUnit, TreatmentEffect } from './types';
+import { logLikShift, scaleModelData, toScaledContrast, unscaleContrast } from './scaling';
+import { soundnessProblem } from './soundness';
+import type { ContrastResult, FitOptions, JointTest, ModelData, ModelFit, SlopeDifference, SubjectEffect, TimeUnit, TreatmentEffect } from './types';
 
 /** Days per model time unit: a month is 365.25/12 = 30.4375 days (common practice), a week 7, a day 1. */
 export const DAYS_PER_TIME_UNIT: Readonly<Record<TimeUnit, number>> = { month: 30.4375, week: 7, day: 1 };
 
 /**
- * Fits the model. Misuse (bad shapes, missing values, a rank-deficient design) throws ModelInputError or
- * RankDeficiencyError; non-convergence and the zero boundary are reported in `status` and `message`.
+ * Fits the model on the centred and scaled response and time (scaling.ts) and reports every number on the original
+ * scale. Misuse (bad shapes, missing values, a rank-deficient design) throws ModelInputError or RankDeficiencyError;
+ * data that cannot give a trustworthy model (one patient, one measurement each, no variation or variation below the
+ * resolution of the values, a spread outside 1e±150, values on the fitted lines to within rounding, or numbers that
+ * fail soundness.ts) throw DegenerateDataError with a plain reason; non-convergence and the zero boundary are reported
+ * in `status` and `message`.
  * Example: the rails data of Devore (2000) with design 'intercept-only' and REML -> fixedEffects[0].estimate 66.5,
  * se 10.171; variance.subject 615.31 (SD 24.805), variance.residual 16.167 (SD 4.0208); logLik −61.0885.
  */
 export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelFit {
   validateModelShape(data, options);
-  const design = buildDesign(data, options.design === 'intercept-only');
-  const st = dataPass(data, design);
+  const scaled = scaleModelData(data);
+  const sc = scaled.scaling;
+  const design = buildDesign(scaled.data, options.design === 'intercept-only');
+  const st = dataPass(scaled.data, design);
   const p = design.p;
   const N = st.nObs;
+  if (st.nSubjects < 2) throw new DegenerateDataError('one-subject', ONE_SUBJECT);
+  if (N === st.nSubjects) throw new DegenerateDataError('one-measurement-each', ONE_MEASUREMENT_EACH);
   if (N <= p) throw new ModelInputError(`${N} observations are too few for ${p} fixed effects.`);
   const rank = checkRank(st.xtx, p);
   if (rank.dependent.length > 0) throw new RankDeficiencyError(rank.dependent.map((j) => design.terms[j]!.name));
@@ -59,16 +69,21 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   const pt = est.point;
   const atBoundary = est.status === 'boundary';
   const gamma = pt.gamma;
+  // The residual sum R = c − b'β̂ is a difference of sums of size y'y, so its rounding error is about ε·y'y: a σ̂² below
+  // WITHIN_FLOOR of the mean square of the (centred, scaled) values is mostly rounding, the values sit on the fitted lines.
+  if (!(pt.sigma2 >= (WITHIN_FLOOR * st.yty) / N)) throw new DegenerateDataError('no-variation', NO_WITHIN_VARIATION);
+  // Everything below is computed on the scaled data and mapped back (scaling.ts); s2, phi, W are on the scaled scale.
   const s2 = pt.sigma2;
-  const s2u = gamma * s2;
   const phi = pt.aInv.map((v) => v * s2);
   const pieces = informationPieces(st, gamma, s2, phi, options.method);
   const W = inverseInformation(pieces.information, atBoundary);
   const Wfull = inverseInformation(pieces.information, false);
   const phiA = options.dfMethod === 'kenward-roger' ? adjustedCovariance(phi, pieces, W, p) : phi;
+  const shifted = Float64Array.from(pt.beta);
+  shifted[0] = shifted[0]! + sc.yCentre / sc.yScale;
   const ctx: InferenceContext = {
     p,
-    beta: pt.beta,
+    beta: shifted,
     phi,
     phiA,
     M: [matMul(matMul(phi, pieces.P[0], p), phi, p), matMul(matMul(phi, pieces.P[1], p), phi, p)],
@@ -77,11 +92,12 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     residualDf: N - p,
     level: options.level,
   };
+  const contrastOf = (l: ArrayLike<number>): ContrastResult => unscaleContrast(contrast(ctx, toScaledContrast(l, design, sc)), sc);
 
   const fixedEffects = design.terms.map((term, j) => {
     const l = new Float64Array(p);
     l[j] = 1;
-    return { term: term.name, kind: term.kind, arm: term.arm, ...contrast(ctx, l) };
+    return { term: term.name, kind: term.kind, arm: term.arm, ...contrastOf(l) };
   });
   const unit = DAYS_PER_TIME_UNIT[options.timeUnit];
   const treatmentEffects: TreatmentEffect[] = [];
@@ -95,39 +111,51 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
         const l = new Float64Array(p);
         l[design.armCol + a - 1] = 1;
         l[design.armTimeCol + a - 1] = time;
-        treatmentEffects.push({ arm, label: cd.label, day: cd.day, time, ...contrast(ctx, l) });
+        treatmentEffects.push({ arm, label: cd.label, day: cd.day, time, ...contrastOf(l) });
       }
       const l = new Float64Array(p);
       l[design.armTimeCol + a - 1] = 1;
-      slopeDifferences.push({ arm, ...contrast(ctx, l) });
+      slopeDifferences.push({ arm, ...contrastOf(l) });
     }
     if (design.nArms > 2) {
       const rows: number[][] = [];
       for (let a = 1; a < design.nArms; a++) {
-        const row = new Array<number>(p).fill(0);
+        const row = new Float64Array(p);
         row[design.armTimeCol + a - 1] = 1;
-        rows.push(row);
+        rows.push(Array.from(toScaledContrast(row, design, sc)));
       }
+      // F and p are invariant under the scaling (scaling.ts), so the joint test runs on the scaled contrasts as is.
       joint = jointTest(ctx, rows);
     }
   }
 
-  const variance = varianceIntervals(st, s2u, s2, W, Wfull, options.level, atBoundary);
+  const vs = varianceIntervals(st, gamma * s2, s2, W, Wfull, options.level, atBoundary);
+  const y2 = sc.yScale * sc.yScale;
+  const variance = {
+    ...vs,
+    subject: y2 * vs.subject,
+    residual: y2 * vs.residual,
+    subjectLower: y2 * vs.subjectLower,
+    subjectUpper: y2 * vs.subjectUpper,
+    residualLower: y2 * vs.residualLower,
+    residualUpper: y2 * vs.residualUpper,
+  };
   const k = p + 2;
   const bicN = options.method === 'reml' ? N - p : N;
-  const logLik = pt.logLik;
-  let tMax = st.tMax;
+  const logLik = pt.logLik + logLikShift(sc, design, N, options.method);
+  let tMax = sc.tMax;
   for (const cd of options.contrastDays) tMax = Math.max(tMax, offsetOfStudyDay(cd.day) / unit);
-  const tMin = Math.min(st.tMin, 0);
+  const tMin = Math.min(sc.tMin, 0);
   // Per-subject BLUPs are produced on first access (SPEC §5: "on request") and then kept; the getter is enumerable,
-  // so spreading, JSON and structured cloning see an ordinary array.
+  // so spreading, JSON and structured cloning see an ordinary array. They are computed on the scaled data (β', whose
+  // sums match the scaled statistics) and multiplied by s_y.
   let subjectsCache: SubjectEffect[] | null = null;
   const beta = pt.beta;
   let message = est.message;
   if (atBoundary && options.dfMethod !== 'residual') {
     message += ' For the degrees of freedom the between-patient variance is held fixed at zero; only the within-patient variance is treated as estimated.';
   }
-  const fit: ModelFit = {
+  const numbers: Omit<ModelFit, 'subjects'> = {
     ...base,
     status: est.status,
     message,
@@ -142,18 +170,48 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     treatmentEffects,
     slopeDifferences,
     jointTest: joint,
-    trajectories: trajectories(design, st, ctx, data.arms, tMin, tMax, unit, options.gridPoints ?? 25),
+    trajectories: trajectories(design, st, contrastOf, data.arms, tMin, tMax, unit, options.gridPoints ?? 25),
+  };
+  // A fit that did not converge keeps its status and message; any other must pass every check before it is reported.
+  if (est.status !== 'failed') {
+    const problem = soundnessProblem(numbers);
+    if (problem !== null) throw new DegenerateDataError('unsound-result', `${UNSOUND} (${problem})`);
+  }
+  const fit: ModelFit = {
+    ...numbers,
     get subjects(): SubjectEffect[] {
-      subjectsCache ??= subjectEffects(st, beta, gamma, data.subjectIds);
+      subjectsCache ??= subjectEffects(st, beta, gamma, data.subjectIds).map((s) => ({ ...s, blup: sc.yScale * s.blup, meanResidual: sc.yScale * s.meanResidual }));
       return subjectsCache;
     },
   };
   if (options.residuals === true) {
     const blups = blupArray(st, fit.subjects);
-    return { ...fit, residuals: conditionalResiduals(data.y, data.subject, design.fillRow, pt.beta, blups) };
+    for (let i = 0; i < blups.length; i++) blups[i] = blups[i]! / sc.yScale;
+    const residuals = conditionalResiduals(scaled.data.y, data.subject, design.fillRow, pt.beta, blups);
+    for (let i = 0; i < residuals.length; i++) residuals[i] = sc.yScale * residuals[i]!;
+    return { ...fit, residuals };
   }
   return fit;
 }
+
+/**
+ * Smallest within-patient variance, relative to the mean square of the centred values, that is reported: the
+ * residual sum carries a rounding error of about ε·y'y (ε = 2.2e-16), so at 1e-10 the variance is still good to ~1e-6
+ * relative; below it the values lie on the fitted lines to within rounding.
+ */
+export const WITHIN_FLOOR = 1e-10;
+
+/** What the model can and cannot do with one patient (issue: say it plainly, and report no fit). */
+export const ONE_SUBJECT =
+  'only one patient has measurements the model can use. With one patient the model could draw a line through that patient\'s values, but it cannot estimate how patients differ from one another (there is no between-patient variance to estimate), so it cannot separate the two sources of variation or give intervals that apply to other patients; no model is reported';
+
+const ONE_MEASUREMENT_EACH =
+  'no patient has more than one measurement, so the variation between patients cannot be told apart from the variation within a patient, which is what a random-intercept model estimates; no model is reported';
+
+const NO_WITHIN_VARIATION =
+  'the values lie on the fitted lines to within the floating-point resolution of the data, so there is no within-patient variation left to estimate and no model is reported';
+
+const UNSOUND = 'the fit gave numbers that cannot be reported, so no model is reported';
 
 /**
  * The one pass over the rows: the fast pass when the design has no covariates, or numeric covariates only with each

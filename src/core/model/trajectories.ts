@@ -1,19 +1,19 @@
 /**
  * Predicted mean trajectories by arm on an even time grid with pointwise intervals, using the same df method as the
  * fixed effects. Covariates are held at their observed means (categorical covariates at their observed proportions),
- * so the curve is the population-average prediction for an "average" patient of each arm.
+ * so the curve is the population-average prediction for an "average" patient of each arm. `contrastOf` gives the
+ * inference of a contrast in the coordinates of the design (st's covariate columns are used as they are).
  * Cost O(arms · grid · p²).
  */
 import { studyDayOfOffset } from '../intake/dayOffset';
 import type { Design } from './design';
-import { contrast, type InferenceContext } from './inference';
 import type { SufficientStats } from './sufficient';
-import type { Trajectory } from './types';
+import type { ContrastResult, Trajectory } from './types';
 
 export function trajectories(
   design: Design,
   st: SufficientStats,
-  ctx: InferenceContext,
+  contrastOf: (l: Float64Array) => ContrastResult,
   arms: readonly string[],
   tMin: number,
   tMax: number,
@@ -38,7 +38,7 @@ export function trajectories(
           l[design.armTimeCol + k - 1] = k === a ? t : 0;
         }
       }
-      const c = contrast(ctx, l);
+      const c = contrastOf(l);
       tr.time.push(t);
       tr.day.push(studyDayOfOffset(t * daysPerUnit));
       tr.mean.push(c.estimate);

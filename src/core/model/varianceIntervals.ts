@@ -2,6 +2,7 @@
  * Intervals for the variance components and the intraclass correlation.
  * - σ²_u and σ²: Satterthwaite's scaled chi-square intervals (Satterthwaite 1946; Searle, Casella & McCulloch 1992):
  *   ν_r = 2θ_r²/W_rr with W the inverse expected information, interval [ν θ/χ²(1−α/2; ν), ν θ/χ²(α/2; ν)].
+ *   When ν is so small (far below 1) that the interval misses θ itself, it is reported as [0, max(upper, θ)].
  *   In balanced one-way data W_22 = 2σ⁴/(N − a) exactly, so the σ² interval is the exact chi-square interval
  *   SSW/χ²(·; N − a). At the boundary σ²_u = 0 the subject interval is [0, U], U = z √W_11 (normal z, original scale,
  *   W_11 from the unrestricted information), and, unless the data are balanced one-way, the ICC interval [0, U/(U + σ²)].
@@ -28,9 +29,18 @@ export function varianceIntervals(
   const z = normalQuantile(1 - (1 - level) / 2);
   const icc = s2u / (s2u + s2);
   const alpha = 1 - level;
+  let widened = false;
   const scaledChi = (theta: number, w: number): [number, number] => {
     const nu = (2 * theta * theta) / w;
-    return [(nu * theta) / chiSquareQuantile(1 - alpha / 2, nu), (nu * theta) / chiSquareQuantile(alpha / 2, nu)];
+    const lo = (nu * theta) / chiSquareQuantile(1 - alpha / 2, nu);
+    const hi = (nu * theta) / chiSquareQuantile(alpha / 2, nu);
+    // With ν far below 1 even the upper quantile of χ²_ν lies below ν, and the interval no longer holds θ: the
+    // approximation has broken down and the data bound the variance from neither side, so report [0, max(hi, θ)].
+    if (!(lo <= theta && theta <= hi)) {
+      widened = true;
+      return [0, Number.isNaN(hi) ? Infinity : Math.max(hi, theta)];
+    }
+    return [lo, hi];
   };
   const [residualLower, residualUpper] = scaledChi(s2, W[3]!);
   let subjectLower: number;
@@ -76,9 +86,13 @@ export function varianceIntervals(
     residualUpper,
     iccLower,
     iccUpper,
-    intervalMethod: `Variances: scaled chi-square intervals with Satterthwaite degrees of freedom from the inverse expected information${atBoundary ? ' (between-patient: lower bound 0 and a normal-theory upper bound, at the zero boundary)' : ''}. ${iccMethod}.`,
+    intervalMethod: `Variances: scaled chi-square intervals with Satterthwaite degrees of freedom from the inverse expected information${atBoundary ? ' (between-patient: lower bound 0 and a normal-theory upper bound, at the zero boundary)' : ''}${widened ? ` (${WIDENED})` : ''}. ${iccMethod}.`,
   };
 }
+
+/** Said in intervalMethod when a scaled chi-square interval had to be widened to [0, upper]. */
+export const WIDENED =
+  'where a variance has far less than one degree of freedom the scaled chi-square interval does not contain its own estimate, so the interval is given from 0 to the larger of its upper limit and the estimate';
 
 /**
  * How the logit-Wald ICC interval compares with the exact one where both apply: measured by

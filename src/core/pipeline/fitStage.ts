@@ -1,5 +1,5 @@
 import type { IntakeTable } from '../intake/types';
-import { fitFromTable, ModelInputError, RankDeficiencyError } from '../model';
+import { DegenerateDataError, fitFromTable, ModelInputError, RankDeficiencyError } from '../model';
 import type { ModelFit } from '../model/types';
 import type { StudyDays, VisitTiming } from '../schedule/types';
 import { contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
@@ -20,8 +20,10 @@ export interface FitStage {
 /**
  * The fitting stage: fitFromTable on the rows modelRows picks (all valid rows, or only each scheduled visit's record),
  * with contrasts at every scheduled visit's target day (the issue's default; at a baseline on day 1 it is the arm term itself), and the observed means per
- * scheduled visit (by arm in unblinded mode). A design the engine refuses (no usable rows, one subject, not of full
- * rank) is a property of the data: fit null and the engine's reason as `note`. Cost: O(rows) plus the engine's pass.
+ * scheduled visit (by arm in unblinded mode). A design the engine refuses (no usable rows, one patient, one
+ * measurement per patient, values that do not vary or vary below their floating-point resolution, magnitudes out of
+ * range, not of full rank, numbers that fail the engine's checks) and a fit that did not converge are properties of
+ * the data: fit null and the engine's reason as `note`, never a model with wrong numbers. Cost: O(rows) plus the engine's pass.
  */
 export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTiming, settings: AnalysisSettings): FitStage {
   const include = modelRows(table, timing, settings.scheduledOnly);
@@ -43,8 +45,13 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
         ...(referenceArm === undefined ? {} : { referenceArm }),
       });
     } catch (e) {
-      if (!(e instanceof ModelInputError || e instanceof RankDeficiencyError)) throw e;
+      if (!(e instanceof ModelInputError || e instanceof RankDeficiencyError || e instanceof DegenerateDataError)) throw e;
       note = e.message;
+    }
+    // A fit that did not converge has no numbers to show: no model, the engine's reason as the note.
+    if (fit !== null && fit.status === 'failed') {
+      note = `the fit did not converge: ${fit.message}`;
+      fit = null;
     }
   }
   const arms = unblinded ? (fit?.arms ?? orderedArms(table.arms, referenceArm)) : [];

@@ -3,7 +3,7 @@ import type { IntakeTable } from '../intake/types';
 import type { ModelFit } from '../model/types';
 import { analysisRecordSheet, mappingLines } from '../report/record';
 import { modelJson } from '../report/modelJson';
-import { modelSheets } from '../report/modelSheet';
+import { modelNotFittedSheet, modelSheets } from '../report/modelSheet';
 import { modelSummaryText } from '../report/modelText';
 import { cutoffPhrase } from '../report/timingSheets';
 import type { TimingSummary } from '../report/timingTypes';
@@ -15,12 +15,14 @@ export interface ModelPartsInput {
   readonly fit: ModelFit | null;
   readonly means: readonly ObservedMean[];
   readonly settings: AnalysisSettings;
+  /** Why the model was not fitted, when a value column was mapped (the user asked for a model); else null. */
+  readonly notFitted: string | null;
 }
 
-/** The model sheets and the JSON `model` section (the report's modelJson plus its plain-language `summary`); no
- * sheets and null when the model was not fitted. */
-export function modelOutputs({ fit, means, settings }: ModelPartsInput): { sheets: SheetSpec[]; json: Record<string, unknown> | null } {
-  if (fit === null) return { sheets: [], json: null };
+/** The model sheets and the JSON `model` section (the report's modelJson plus its plain-language `summary`); when the
+ * model was not fitted, null and — if a model was asked for — one sheet that says why. */
+export function modelOutputs({ fit, means, settings, notFitted }: ModelPartsInput): { sheets: SheetSpec[]; json: Record<string, unknown> | null } {
+  if (fit === null) return { sheets: notFitted === null ? [] : [modelNotFittedSheet(notFitted, settings.mode)], json: null };
   const sheets = modelSheets(fit, {
     observed: means.map((m) => ({ label: m.visit, day: m.targetDay, arm: m.arm, mean: m.mean, n: m.n })),
     mode: settings.mode,

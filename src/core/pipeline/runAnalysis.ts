@@ -108,7 +108,7 @@ export async function runAnalysis(
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);
   const fingerprint = fingerprintCells(cells);
-  const model = modelOutputs({ fit, means, settings });
+  const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote });
   const sheets: SheetSpec[] = [
     ...timingSheets(summary),
     ...model.sheets,

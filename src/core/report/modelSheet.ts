@@ -153,6 +153,24 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   return sheets;
 }
 
+/**
+ * The model sheet of a run in which no model was fitted: the reason in plain words, then the cautions, so a reader
+ * who looks for the model finds why there is none (the visit-timing sheets stand).
+ * Example: modelNotFittedSheet('all 24 values are equal (5)', 'blinded').blocks[0] -> paragraph "No model was fitted:
+ * all 24 values are equal (5). ..."
+ */
+export function modelNotFittedSheet(reason: string, mode: Mode): SheetSpec {
+  const why = reason.trim().replace(/\.+$/, '');
+  return {
+    name: MODEL_SHEET_NAMES.results,
+    title: 'Random-intercept model',
+    blocks: [
+      para(`No model was fitted: ${why}. No estimates, intervals or p-values are shown, because any would be wrong. The visit-timing sheets are not affected.`),
+      ...cautionBlocks(mode),
+    ],
+  };
+}
+
 function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: string, pct: string): Block[] {
   if (fit.trajectories.length === 0) return [];
   const label = (arm: string | null): string => (arm === null ? 'All patients' : arm);

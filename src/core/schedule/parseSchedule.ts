@@ -21,6 +21,13 @@ const FIELD_WORDS: Readonly<Record<Field, string>> = {
   after: 'days allowed after',
 };
 
+/**
+ * Largest |target day| and largest allowance accepted: 36,500 days, 100 years either side of the reference date — far
+ * beyond any trial, and small enough that every window's dates stay ordinary calendar dates.
+ */
+export const MAX_SCHEDULE_DAYS = 36_500;
+const DAYS_TEXT = '36,500';
+
 const headingKey = (v: CellValue): string => (typeof v === 'string' ? v.replace(/[\s_-]+/g, '').toLowerCase() : '');
 
 const shown = (v: CellValue): string => (v === null || v === undefined ? '' : String(v));
@@ -37,8 +44,8 @@ function toNumber(v: CellValue): number {
  * `visit,target_day,days_before,days_after` or the starter sheet's "Visit | Target study day | Days allowed before |
  * Days allowed after" (case-insensitive; columns in any order; other columns ignored). Blank rows are skipped.
  * Checks, each reported with its cell address: a label is present and unique (ignoring case and spaces); the target
- * day is a whole number other than 0 (CDISC study days have no day 0); allowances are whole numbers ≥ 0; windows that
- * share days are a warning. Numbers may be numbers or numeric text. Cost O(rows · log rows) for the sort.
+ * day is a whole number other than 0 (CDISC study days have no day 0) with |day| ≤ 36,500; allowances are whole
+ * numbers from 0 to 36,500; no two visits share a target day (an error); windows that share days are a warning. Numbers may be numbers or numeric text. Cost O(rows · log rows) for the sort.
  * Example: [["visit","target_day","days_before","days_after"],["Week 12",85,7,7]] on sheet "Schedule" at "A1" →
  * {ok: true, schedule: [{label: "Week 12", targetDay: 85, before: 7, after: 7}], issues: []}.
  */
@@ -99,11 +106,16 @@ export function parseSchedule(cells: readonly (readonly CellValue[])[], sheet: s
     } else if (target === 0) {
       issues.push(rowIssue('schedule-zero-target-day', at(c.targetDay, r), '0', 'There is no study day 0: the reference date is day 1 and the day before it is day -1.'));
       good = false;
+    } else if (Math.abs(target) > MAX_SCHEDULE_DAYS) {
+      issues.push(
+        rowIssue('schedule-bad-target-day', at(c.targetDay, r), shown(cell('targetDay')), `The target study day must lie between -${DAYS_TEXT} and ${DAYS_TEXT} (100 years either side of the reference date).`),
+      );
+      good = false;
     }
     const allowance = (f: 'before' | 'after'): number => {
       const v = toNumber(cell(f));
-      if (Number.isInteger(v) && v >= 0) return v;
-      issues.push(rowIssue('schedule-bad-allowance', at(c[f], r), shown(cell(f)), `The ${FIELD_WORDS[f]} must be a whole number of days, 0 or more.`));
+      if (Number.isInteger(v) && v >= 0 && v <= MAX_SCHEDULE_DAYS) return v;
+      issues.push(rowIssue('schedule-bad-allowance', at(c[f], r), shown(cell(f)), `The ${FIELD_WORDS[f]} must be a whole number of days from 0 to ${DAYS_TEXT}.`));
       good = false;
       return NaN;
     };
@@ -115,13 +127,32 @@ export function parseSchedule(cells: readonly (readonly CellValue[])[], sheet: s
     issues.push(tableIssue('schedule-empty', 'The schedule has headings but no visit rows.', at(0, 0)));
   }
   visits.sort((a, b) => a.visit.targetDay - b.visit.targetDay || a.rowOffset - b.rowOffset);
+  // Two visits on one target day have the same window position: matching by day cannot tell them apart, and one of
+  // them would always count as missed. An error at the later row, naming the earlier one.
+  for (let k = 1; k < visits.length; k++) {
+    const p = visits[k - 1]!;
+    const q = visits[k]!;
+    if (p.visit.targetDay === q.visit.targetDay) {
+      const later = p.rowOffset < q.rowOffset ? q : p;
+      const earlier = later === q ? p : q;
+      const cellAt = at(c.targetDay, later.rowOffset);
+      issues.push(
+        rowIssue(
+          'schedule-duplicate-target-day',
+          cellAt,
+          String(later.visit.targetDay),
+          `The visits "${earlier.visit.label}" (${at(c.targetDay, earlier.rowOffset)}) and "${later.visit.label}" have the same target day ${later.visit.targetDay}; give each visit its own day, or merge them into one visit.`,
+        ),
+      );
+    }
+  }
   let widest = visits[0]; // among the visits so far, the one whose window closes last
   for (let k = 1; k < visits.length; k++) {
     const p = widest!;
     const q = visits[k]!;
     // Compared in calendar offsets (windowOffsets), as windows are applied, so a window crossing day 1 is not off by one.
     if (windowOffsets(q.visit).closes > windowOffsets(p.visit).closes) widest = q;
-    if (windowOffsets(p.visit).closes >= windowOffsets(q.visit).opens) {
+    if (p.visit.targetDay !== q.visit.targetDay && windowOffsets(p.visit).closes >= windowOffsets(q.visit).opens) {
       issues.push({
         code: 'schedule-overlap',
         severity: 'warning',

@@ -50,6 +50,7 @@ export type ScheduleIssueCode =
   | 'schedule-bad-target-day'
   | 'schedule-zero-target-day'
   | 'schedule-bad-allowance'
+  | 'schedule-duplicate-target-day' // two visits with the same target day (error)
   | 'schedule-overlap' // two windows share days (warning)
   | 'no-reference-date' // a dated row whose subject has no reference date
   | 'no-baseline-record' // a dated row whose subject has no record of the first scheduled visit

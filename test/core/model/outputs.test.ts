@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { chiSquareQuantile, fitRandomIntercept, tQuantile, type ModelData } from '../../../src/core/model';
+import { chiSquareQuantile, DegenerateDataError, fitRandomIntercept, tQuantile, type ModelData } from '../../../src/core/model';
 import { balancedAnova, DYESTUFF, fitOptions, normals, oneWay, oneWayOptions, RAILS, seeded } from './helpers';
 
 const oneWayOpts = oneWayOptions();
@@ -135,12 +135,10 @@ describe('contrasts, trajectories, AIC and BIC', () => {
     }
   });
 
-  it('a patient with one measurement only everywhere gives status "boundary" with a plain message', () => {
+  it('one measurement per patient everywhere gives no model (DegenerateDataError) with a plain reason, never a between-patient variance of zero', () => {
     const single: ModelData = { y: Float64Array.of(1, 2, 4, 3, 5), time: Float64Array.of(0, 1, 2, 3, 4), subject: Int32Array.of(0, 1, 2, 3, 4), nSubjects: 5, armIndex: null, arms: [], covariates: [] };
-    const f = fitRandomIntercept(single, { ...opts, contrastDays: [] });
-    expect(f.status).toBe('boundary');
-    expect(f.message).toMatch(/more than one measurement/);
-    expect(f.variance.subject).toBe(0);
+    expect(() => fitRandomIntercept(single, { ...opts, contrastDays: [] })).toThrow(DegenerateDataError);
+    expect(() => fitRandomIntercept(single, { ...opts, contrastDays: [] })).toThrow(/no patient has more than one measurement/);
   });
 
   it('unbalanced data at the zero boundary: the ICC interval runs from 0 to the ICC of the between-patient upper limit', () => {

@@ -165,6 +165,43 @@ describe('runAnalysis', () => {
     if (!onTheDay.ok) throw new Error('run failed');
     expect(onTheDay.json.notes).toEqual([]);
   });
+
+  it('all values identical: no model, the reason in modelNote, a warning, and a model sheet that says why (regression: "converged" with SE 0 and p = 0)', async () => {
+    const cells = CELLS.map((r, i) => (i === 0 ? r : [...r.slice(0, 5), 50]));
+    const out = await runAnalysis(cells, SETTINGS);
+    if (!out.ok) throw new Error('run failed');
+    expect(out.json.model).toBeNull();
+    expect(out.json.modelNote).toBe('all 11 values are equal (50), so there is no variation for the model to describe');
+    expect(out.issues.filter((i) => i.code === 'model-not-fitted').map((i) => i.message)).toEqual([
+      'The model could not be fitted: all 11 values are equal (50), so there is no variation for the model to describe. The visit-timing results stand.',
+    ]);
+    const sheet = out.sheets.find((s) => s.name === 'Model results');
+    const texts = sheet?.blocks.flatMap((b) => (b.kind === 'paragraph' ? [b.text] : [])) ?? [];
+    expect(texts[0]).toBe('No model was fitted: all 11 values are equal (50), so there is no variation for the model to describe. No estimates, intervals or p-values are shown, because any would be wrong. The visit-timing sheets are not affected.');
+    expect(sheet?.blocks.some((b) => b.kind === 'table')).toBe(false);
+  });
+
+  it('one participant: the visit timing stands, and the model sheet says what one participant cannot give (no between-participant variance)', async () => {
+    const cells = CELLS.filter((r, i) => i === 0 || r[0] === 'A');
+    const out = await runAnalysis(cells, SETTINGS);
+    if (!out.ok) throw new Error('run failed');
+    expect(out.json.model).toBeNull();
+    expect(out.json.modelNote).toMatch(/^only one patient has measurements the model can use\. .*no between-patient variance to estimate/);
+    expect((out.json.visits as { counts: Record<string, number> }).counts.onTime).toBe(3);
+  });
+
+  it('the results JSON never holds p = 0, even when the tail probability underflows (the documented floor 2^-1074)', async () => {
+    // Invented: 100 subjects on study days 1, 29 and 57, values rising 1,000 per week with a wobble of order 1, so the
+    // time slope's t is in the tens of thousands on ~300 df and its tail probability underflows.
+    const cells: CellValue[][] = [['USUBJID', 'ADY', 'AVAL']];
+    for (let i = 0; i < 100; i++) for (const d of [1, 29, 57]) cells.push([`S${i}`, d, 1000 * ((d - 1) / 7) + ((i * 7 + d) % 5) - 2 + (i % 4)]);
+    const out = await runAnalysis(cells, SETTINGS);
+    if (!out.ok) throw new Error('run failed');
+    const model = out.json.model as { fixedEffects: { term: string; p: number }[] } | null;
+    expect(model).not.toBeNull();
+    for (const f of model!.fixedEffects) expect(f.p).toBeGreaterThan(0);
+    expect(model!.fixedEffects.find((f) => f.term === 'Time')!.p).toBeLessThan(1e-100);
+  });
 });
 
 describe('runAnalysis with a cut-off given as a study day (study-day data)', () => {

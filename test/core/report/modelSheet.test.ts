@@ -197,11 +197,12 @@ describe('modelJson', () => {
     expect(Object.keys(fe)).toEqual(['term', 'kind', 'arm', 'estimate', 'se', 'df', 't', 'p', 'lower', 'upper']);
     expect(fe.estimate).toBe(fit.fixedEffects[0]!.estimate);
   });
-  it('writes non-finite numbers (a failed or boundary fit) as null, never NaN', () => {
-    const single: ModelData = { y: Float64Array.of(1, 2, 4, 3, 5), time: Float64Array.of(0, 1, 2, 3, 4), subject: Int32Array.of(0, 1, 2, 3, 4), nSubjects: 5, armIndex: null, arms: [], covariates: [] };
-    const fit = fitRandomIntercept(single, { ...opts, contrastDays: [] });
-    const text = JSON.stringify(modelJson(fit));
+  it('writes non-finite numbers (an unbounded variance limit, a failed fit) as null, never NaN or Infinity', () => {
+    const fit = fitRandomIntercept(egfr(), opts);
+    const j = modelJson({ ...fit, logLik: NaN, variance: { ...fit.variance, subjectUpper: Infinity } });
+    const text = JSON.stringify(j);
     expect(text).not.toContain('NaN');
-    expect(modelJson({ ...fit, logLik: NaN }).logLik).toBeNull();
+    expect(j.logLik).toBeNull();
+    expect((j.variance as { subjectUpper: unknown }).subjectUpper).toBeNull();
   });
 });

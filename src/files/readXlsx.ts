@@ -32,7 +32,8 @@ export const XLSX_LIMITS = {
   totalBytes: SHEET_ROWS * 512 + SHEET_ROWS * 128 + 3 * 4 * 1024 * 1024,
   /** The most cells a grid may span (first to last used row and column): a full-height sheet of 32 columns. */
   gridCells: SHEET_ROWS * 32,
-} as const;
+};
+export type XlsxLimits = typeof XLSX_LIMITS;
 
 /** First bytes of a zip archive (every .xlsx is one) and of an OLE2 compound file (.xls, or an encrypted .xlsx). */
 const ZIP_MAGIC = [0x50, 0x4b, 0x03, 0x04] as const;
@@ -43,12 +44,12 @@ const REL_WORKSHEET = /\/worksheet$/;
 const REL_SHARED_STRINGS = /\/sharedStrings$/;
 
 /** Inflates a small part whole and returns it as text (undefined when the archive has no such part). */
-async function partText(bytes: Uint8Array, entries: Map<string, ZipEntry>, name: string, budget: InflateBudget): Promise<string | undefined> {
+async function partText(bytes: Uint8Array, entries: Map<string, ZipEntry>, name: string, budget: InflateBudget, cap: number): Promise<string | undefined> {
   const e = entries.get(name);
   if (e === undefined) return undefined;
   const decoder = new TextDecoder('utf-8');
   let text = '';
-  await inflatePart(bytes, e, XLSX_LIMITS.smallPartBytes, budget, (c) => (text += decoder.decode(c, { stream: true })), 'workbook part');
+  await inflatePart(bytes, e, cap, budget, (c) => (text += decoder.decode(c, { stream: true })), 'workbook part');
   return text + decoder.decode();
 }
 
@@ -93,7 +94,7 @@ function relsPath(part: string): string {
 }
 
 /** Reads the shared-string table (ECMA-376 Part 1, §18.4): the plain text of each si, phonetic runs (rPh) left out. */
-async function sharedStrings(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget): Promise<string[]> {
+async function sharedStrings(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget, cap: number): Promise<string[]> {
   const out: string[] = [];
   let raw = '';
   let inT = false;
@@ -111,7 +112,7 @@ async function sharedStrings(bytes: Uint8Array, e: ZipEntry, budget: InflateBudg
       if (inT) raw += s;
     },
   });
-  await streamPart(bytes, e, XLSX_LIMITS.sharedStringsBytes, budget, xml, 'shared-string table');
+  await streamPart(bytes, e, cap, budget, xml, 'shared-string table');
   return out;
 }
 
@@ -136,7 +137,7 @@ interface Found {
  * they appear: only cells with a value are kept, so empty styled cells and stray formatting cost nothing.
  * @throws FileFormatError for a row or cell past the worksheet's limits.
  */
-async function sheetCells(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget, strings: readonly string[], sheet: string): Promise<Found> {
+async function sheetCells(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget, cap: number, strings: readonly string[], sheet: string): Promise<Found> {
   const found: Found = { rows: [], cols: [], values: [] };
   let row = 0;
   let col = 0;
@@ -220,7 +221,7 @@ async function sheetCells(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget,
       if (collect !== null) raw += s;
     },
   });
-  await streamPart(bytes, e, XLSX_LIMITS.sheetBytes, budget, xml, `sheet "${sheet}"`);
+  await streamPart(bytes, e, cap, budget, xml, `sheet "${sheet}"`);
   return found;
 }
 
@@ -232,13 +233,13 @@ async function sheetCells(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget,
  * rows and columns are trimmed before it is made), and a span over XLSX_LIMITS.gridCells is refused with the far
  * cells named. Dates are the stored serials in the workbook's own date system (returned as dateSystem; the 1904 flag is
  * an xsd:boolean); formulas give their cached result; rich text gives its plain text; error cells give their text
- * such as "#N/A". Cost O(inflated bytes of those parts + cells); memory O(grid + shared strings), never O(file inflated).
+ * such as "#N/A". `limits` exists for tests. Cost O(inflated bytes of those parts + cells); memory O(grid + shared strings), never O(file inflated).
  *
  * Example: a sheet "Visits" with A1 "id", A2 1 → { sheet: 'Visits', topLeft: 'A1', dateSystem: 1900, cells: [['id'],[1]] }
  * @throws FileFormatError when the bytes are not an .xlsx workbook, are damaged ("The file is damaged: …"), a part is
  * over its cap, the named sheet does not exist, the sheet is empty or past a worksheet's limits.
  */
-export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: string): Promise<XlsxSheet> {
+export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: string, limits: XlsxLimits = XLSX_LIMITS): Promise<XlsxSheet> {
   // ArrayBuffer.isView rather than instanceof: a buffer made in another realm (a worker, a test DOM) fails instanceof.
   const bytes = ArrayBuffer.isView(buf) ? new Uint8Array(buf.buffer, buf.byteOffset, buf.byteLength) : new Uint8Array(buf);
   if (OLE2_MAGIC.every((b, k) => bytes[k] === b)) {
@@ -248,12 +249,12 @@ export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: 
     throw new FileFormatError('The file is not an .xlsx workbook: an .xlsx file is a zip archive and this one is not. If it holds CSV text, give it the .csv extension.');
   }
   const entries = zipEntries(bytes);
-  const budget: InflateBudget = { used: 0, total: XLSX_LIMITS.totalBytes };
-  const pkgRels = relationships(await partText(bytes, entries, '_rels/.rels', budget), '');
+  const budget: InflateBudget = { used: 0, total: limits.totalBytes };
+  const pkgRels = relationships(await partText(bytes, entries, '_rels/.rels', budget, limits.smallPartBytes), '');
   const wbPart = [...pkgRels.values()].find((r) => REL_OFFICE_DOCUMENT.test(r.type))?.target ?? 'xl/workbook.xml';
-  const wbXml = await partText(bytes, entries, wbPart, budget);
+  const wbXml = await partText(bytes, entries, wbPart, budget, limits.smallPartBytes);
   if (wbXml === undefined) throw new FileFormatError('The file is a zip archive but not an .xlsx workbook: it has no workbook part.');
-  const wbRels = relationships(await partText(bytes, entries, relsPath(wbPart), budget), wbPart);
+  const wbRels = relationships(await partText(bytes, entries, relsPath(wbPart), budget, limits.smallPartBytes), wbPart);
 
   const pr = /<(?:[\w.-]+:)?workbookPr\b([^>]*)>/.exec(wbXml);
   const flag = pr === null ? undefined : attr(pr[1]!, 'date1904');
@@ -275,13 +276,13 @@ export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: 
   if (sheetEntry === undefined) throw new FileFormatError(`The file is damaged: the sheet "${chosen.name}" is listed but its part ${chosen.part} is missing. Open it in Excel and save it again, or export the sheet as CSV.`);
   const ssRel = [...wbRels.values()].find((r) => REL_SHARED_STRINGS.test(r.type));
   const ssEntry = ssRel === undefined ? undefined : entries.get(ssRel.target);
-  const strings = ssEntry === undefined ? [] : await sharedStrings(bytes, ssEntry, budget);
-  const found = await sheetCells(bytes, sheetEntry, budget, strings, chosen.name);
-  return { sheet: chosen.name, dateSystem, sheetNames, ...toGrid(found, chosen.name) };
+  const strings = ssEntry === undefined ? [] : await sharedStrings(bytes, ssEntry, budget, limits.sharedStringsBytes);
+  const found = await sheetCells(bytes, sheetEntry, budget, limits.sheetBytes, strings, chosen.name);
+  return { sheet: chosen.name, dateSystem, sheetNames, ...toGrid(found, chosen.name, limits.gridCells) };
 }
 
 /** The dense grid from the first to the last used row and column; blank rows share one frozen row of nulls. */
-function toGrid(found: Found, sheet: string): { topLeft: string; cells: CellValue[][] } {
+function toGrid(found: Found, sheet: string, gridCells: number): { topLeft: string; cells: CellValue[][] } {
   const n = found.values.length;
   if (n === 0) throw new FileFormatError(`The sheet "${sheet}" is empty.`);
   let minRow = Infinity;
@@ -302,9 +303,9 @@ function toGrid(found: Found, sheet: string): { topLeft: string; cells: CellValu
   const width = maxCol - minCol + 1;
   const address = (k: number): string => `${columnLetters(found.cols[k]! - 1)}${found.rows[k]!}`;
   const topLeft = `${columnLetters(minCol - 1)}${minRow}`;
-  if (height * width > XLSX_LIMITS.gridCells) {
+  if (height * width > gridCells) {
     throw new FileFormatError(
-      `The sheet "${sheet}" has values from ${topLeft} to ${columnLetters(maxCol - 1)}${maxRow} (${height.toLocaleString('en-US')} rows by ${width.toLocaleString('en-US')} columns), but only ${n.toLocaleString('en-US')} cells hold anything: the last row with a value is ${address(farRow)} and the last column ${address(farCol)}. Delete stray cells outside the table (or copy the table to a new sheet) and save again.`,
+      `The sheet "${sheet}" has values from ${topLeft} to ${columnLetters(maxCol - 1)}${maxRow} (${height.toLocaleString('en-US')} rows by ${width.toLocaleString('en-US')} columns), but only ${n.toLocaleString('en-US')} cells hold anything: ${farRow === farCol ? `the far cell is ${address(farRow)}` : `the last row with a value is at ${address(farRow)} and the last column at ${address(farCol)}`}. Delete stray cells outside the table (or copy the table to a new sheet) and save again.`,
     );
   }
   const blank = Object.freeze(new Array<CellValue>(width).fill(null)) as CellValue[];

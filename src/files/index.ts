@@ -6,3 +6,7 @@ export type { XlsxSheet, XlsxLimits } from './readXlsx';
 export { writeWorkbook, CHART_NOTE } from './writeWorkbook';
 export { uniqueSheetNames, uniqueTableName, MAX_SHEET_NAME } from './sheetNames';
 export { decodeCsvBytes } from './decodeText';
+export { readCsv } from './readCsv';
+export type { CsvRead, FileNote } from './readCsv';
+export { decodeCsv } from './decodeText';
+export type { DecodedText } from './decodeText';

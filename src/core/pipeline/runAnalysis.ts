@@ -64,7 +64,7 @@ export async function runAnalysis(
   if (wrongReference !== null) return { ok: false, issues: [...read.issues, wrongReference] };
 
   if (!(await enter('windowing'))) return CANCELLED;
-  const notes: string[] = [];
+  const notes: string[] = [...(settings.fileNotes ?? [])];
   // A calendar cut-off applies to dated data; study-day data have no calendar to apply it to.
   const cutoff = table.timeKind === 'date' ? cutoffDay : undefined;
   if (cutoffDay !== undefined && cutoff === undefined) {

@@ -11,6 +11,7 @@ import pkg from '../../package.json';
 import { HELP_TEXT, parseAnalyzeArgs, UsageError } from './args';
 import type { AnalyzeArgs } from './args';
 import { OutputWriteError, writeFilesAtomic } from './atomicWrite';
+export { removeTemporariesOnSignal } from './atomicWrite';
 import { buildMapping } from './mapping';
 import { readDataFile, readScheduleFile } from './readInputs';
 import { groupLines, groupWarnings, where } from './groupWarnings';

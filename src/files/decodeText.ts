@@ -56,8 +56,8 @@ export function utf8Census(bytes: Uint8Array): { valid: number; invalid: number;
 /**
  * Turns the bytes of a CSV file into text and says how: UTF-16 when the bytes open with a UTF-16 byte-order mark;
  * UTF-8 when they are valid UTF-8 (a byte-order mark is kept for the CSV reader to strip); Windows-1252, the code page
- * spreadsheet programs on Windows commonly save "CSV" in (common practice), only when the bytes are clearly that: at
- * least as many ill-formed UTF-8 sequences as well-formed multi-byte ones ("Müller" saved that way has one ill-formed
+ * spreadsheet programs on Windows commonly save "CSV" in (common practice), only when the bytes are clearly that:
+ * more ill-formed UTF-8 sequences than well-formed multi-byte ones ("Müller" saved that way has one ill-formed
  * sequence and no well-formed one). Otherwise the bytes are UTF-8 with a few damaged bytes: they are decoded as
  * UTF-8, each ill-formed sequence becomes U+FFFD, and the count and first position are returned for a warning.
  * Cost O(bytes).
@@ -81,7 +81,7 @@ export function decodeCsv(bytes: Uint8Array, label: string): DecodedText {
   }
   const census = utf8Census(bytes);
   if (census.invalid === 0) return { text: new TextDecoder('utf-8', { ignoreBOM: true }).decode(bytes), encoding: 'UTF-8', ...clean };
-  if (census.invalid >= census.valid) return { text: new TextDecoder('windows-1252').decode(bytes), encoding: 'Windows-1252', ...clean };
+  if (census.invalid > census.valid) return { text: new TextDecoder('windows-1252').decode(bytes), encoding: 'Windows-1252', ...clean };
   const utf8 = new TextDecoder('utf-8', { ignoreBOM: true });
   return {
     text: utf8.decode(bytes),

@@ -1,6 +1,8 @@
 /** A problem to print: the issue shape the pipeline returns, or a note from a file reader. */
 export interface Printable {
   readonly code: string;
+  /** The column's role, when the problem concerns one (warnings group by code and role). */
+  readonly role?: string | null;
   readonly cell: string | null;
   readonly message: string;
 }
@@ -16,7 +18,7 @@ export interface WarningGroup {
 export const CELLS_NAMED = 4;
 
 /**
- * Groups warnings by their code, in the order each code first appears, counting them and keeping the first few cells
+ * Groups warnings by their code and role, in the order each kind first appears, counting them and keeping the first few cells
  * of each. A cell already seen for a code is counted once (a row left out of both uses has two warnings that say the
  * same thing). One pass with a hash set: O(warnings), whatever their number.
  * Example: groupWarnings([{code:'a',cell:'S!B2',…},{code:'a',cell:'S!B3',…}]) → [{first: …B2, count: 2, cells: ['S!B3']}]
@@ -30,8 +32,9 @@ export function groupWarnings(items: Iterable<Printable>): WarningGroup[] {
       if (seen.has(key)) continue;
       seen.add(key);
     }
-    const g = groups.get(w.code);
-    if (g === undefined) groups.set(w.code, { first: w, count: 1, cells: [] });
+    const kind = `${w.code}\u0000${w.role ?? ''}`;
+    const g = groups.get(kind);
+    if (g === undefined) groups.set(kind, { first: w, count: 1, cells: [] });
     else {
       g.count++;
       if (w.cell !== null && g.cells.length < CELLS_NAMED) g.cells.push(w.cell);

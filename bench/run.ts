@@ -1,26 +1,29 @@
 /**
  * `npm run bench`: visit timing (intake + windowing) at 10k, 100k and 1,000,000 rows, plus the model engine's
  * entries (bench/model-bench.ts), each beside its baseline measured in the same run. Writes bench/latest.json and
- * prints a table. Sizes can be given as arguments: `npm run bench -- 10000 50000`.
+ * prints a table. Sizes can be given as arguments: `npm run bench -- 10000 50000`. Then the hostile-workbook cases
+ * (bench/hostile-bench.ts), written to bench/hostile-latest.json; `npm run bench -- hostile` runs only those.
  */
 import { writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { runModelBench } from './model-bench';
 import { runTimingBench } from './timing-bench';
+import { runHostileBench } from './hostile-bench';
 import type { BenchEntry } from './types';
 
+const onlyHostile = process.argv.includes('hostile');
 const sizes = process.argv.slice(2).map(Number).filter((n) => Number.isInteger(n) && n > 0);
 const rowsList = sizes.length > 0 ? sizes : [10_000, 100_000, 1_000_000];
 
 const entries: BenchEntry[] = [];
-for (const rows of rowsList) {
+for (const rows of onlyHostile ? [] : rowsList) {
   entries.push(runTimingBench(rows));
   entries.push(...(await runModelBench(rows)));
 }
 
 const out = join(dirname(fileURLToPath(import.meta.url)), 'latest.json');
-writeFileSync(out, `${JSON.stringify(entries, null, 2)}\n`);
+if (!onlyHostile) writeFileSync(out, `${JSON.stringify(entries, null, 2)}\n`);
 
 const pad = (s: string, n: number): string => s.padStart(n);
 const lines = [
@@ -34,5 +37,14 @@ process.stdout.write(`${lines.join('\n')}\n`);
 process.stdout.write(
   'Baseline of timing-*: one plain pass copying the subject, date, reference date and value cells into typed columns.\n' +
     'peak MB: the process high-water mark of resident memory (it includes the generated cells and earlier sizes).\n' +
-    `Wrote ${out}\n`,
+    (onlyHostile ? '' : `Wrote ${out}\n`),
+);
+
+// The hostile workbooks of the reader (each read in a process of its own, so the peak is the case's alone).
+const hostile = await runHostileBench();
+writeFileSync(join(dirname(out), 'hostile-latest.json'), `${JSON.stringify(hostile, null, 2)}\n`);
+process.stdout.write(
+  `\n${'hostile .xlsx case'.padEnd(32)}${pad('file KB', 9)}${pad('seconds', 9)}${pad('peak MB', 9)}  outcome\n` +
+    hostile.map((h) => `${h.name.padEnd(32)}${pad(String(h.fileKB), 9)}${pad(h.seconds.toFixed(2), 9)}${pad(String(h.peakMB), 9)}  ${h.outcome}`).join('\n') +
+    '\npeak MB: the reading process\'s high-water mark of resident memory (Node itself takes ~50 MB). Wrote bench/hostile-latest.json\n',
 );

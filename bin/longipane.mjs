@@ -9,5 +9,6 @@ if (!existsSync(bundle)) {
   process.stderr.write('longipane: the command line is not built yet. Run `npm install` or `npm run build:cli` first.\n');
   process.exit(2);
 }
-const { main } = await import(bundle);
+const { main, removeTemporariesOnSignal } = await import(bundle);
+removeTemporariesOnSignal();
 process.exitCode = await main(process.argv.slice(2));

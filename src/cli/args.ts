@@ -88,6 +88,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
       if (value === undefined || value.startsWith('--')) throw new UsageError(`--${name} needs a value.`);
       i++;
     }
+    if (value.trim() === '') throw new UsageError(`--${name} needs a value; it was given an empty one.`);
     const list = values.get(name as ValueFlag) ?? [];
     if (list.length > 0 && name !== 'map' && name !== 'covariate') throw new UsageError(`--${name} is given twice.`);
     list.push(value);

@@ -11,14 +11,14 @@ import pkg from '../../package.json';
 import { HELP_TEXT, parseAnalyzeArgs, UsageError } from './args';
 import type { AnalyzeArgs } from './args';
 import { OutputWriteError, writeFilesAtomic } from './atomicWrite';
+export { removeTemporariesOnSignal } from './atomicWrite';
 import { buildMapping } from './mapping';
 import { readDataFile, readScheduleFile } from './readInputs';
+import { groupLines, groupWarnings, where } from './groupWarnings';
+import type { Printable } from './groupWarnings';
 
 /** Errors that --map can cure: a role with no column. */
 const MAPPING_CODES: ReadonlySet<string> = new Set(['no-subject-column', 'no-time-column', 'no-value-column', 'no-arm-column']);
-
-/** How many warnings are listed one by one before "… and N more". */
-const WARNINGS_SHOWN = 5;
 
 export const VERSION: string = pkg.version;
 
@@ -32,10 +32,6 @@ const processConsole: CliOutput = {
   out: (line) => process.stdout.write(`${line}\n`),
   err: (line) => process.stderr.write(`${line}\n`),
 };
-
-/** An issue as one line, led by its cell address (intake's row-level messages already start with it). */
-const where = (i: { cell: string | null; message: string }): string =>
-  i.cell === null || i.message.startsWith(i.cell) ? i.message : `${i.cell}: ${i.message}`;
 
 function countsLine(counts: unknown): string | null {
   if (counts === null || typeof counts !== 'object') return null;
@@ -88,6 +84,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     scheduledOnly: args.scheduledOnly,
     perSubject: args.perSubject,
     inputLabel: data.label,
+    ...(data.notes.length > 0 ? { fileNotes: data.notes } : {}),
     runAt: now().toISOString(),
     numericText: data.numericText,
     toolVersion: VERSION,
@@ -95,7 +92,10 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
   if (args.unblinded) io.out(UNBLINDED_CAUTION);
   const output = await runAnalysis(data.cells, settings);
   const errors = output.issues.filter((i: Issue) => i.severity === 'error');
-  const warnings = output.issues.filter((i: Issue) => i.severity === 'warning');
+  // The reader's notes about the file lead; then intake's warnings, grouped by kind (linear in their number).
+  const fileNotes: Printable[] = data.notes.map((n) => ({ code: `file:${n}`, cell: null, message: n }));
+  const groups = groupWarnings([...fileNotes, ...output.issues.filter((i: Issue) => i.severity === 'warning')]);
+  const warned = groups.reduce((n, g) => n + g.count, 0);
   if (!output.ok) {
     io.err(`The data "${args.data}" cannot be analysed:`);
     for (const e of errors) io.err(`  ${where(e)}`);
@@ -104,17 +104,18 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
       const shown = headers.slice(0, 20).map((h) => `"${h}"`).join(', ');
       io.err(`  Name the columns with --map role=Header (roles: subject, date, studyDay, reference, visit, value, arm, site); the headers are: ${shown}${headers.length > 20 ? ', …' : ''}.`);
     }
+    if (warned > 0) {
+      io.err(`The warnings found before it stopped (${warned.toLocaleString('en-US')}, grouped by kind):`);
+      for (const l of groupLines(groups)) io.err(l);
+    }
     return 1;
   }
-  if (warnings.length > 0) {
-    // One line per cell: a row left out of both uses has two warnings that say the same thing.
-    const firstPerCell = warnings.filter((w, k) => w.cell === null || warnings.findIndex((o) => o.cell === w.cell) === k);
+  if (warned > 0) {
     const rows = new Set(output.excluded.map((e) => e.row)).size;
     io.out(
-      `${warnings.length} warning${warnings.length === 1 ? '' : 's'}; ${rows} row${rows === 1 ? '' : 's'} left out of visit timing or the model (all are listed in the outputs):`,
+      `${warned} warning${warned === 1 ? '' : 's'}; ${rows} row${rows === 1 ? '' : 's'} left out of visit timing or the model (all are listed in the outputs):`,
     );
-    for (const w of firstPerCell.slice(0, WARNINGS_SHOWN)) io.out(`  ${where(w)}`);
-    if (firstPerCell.length > WARNINGS_SHOWN) io.out(`  … and ${firstPerCell.length - WARNINGS_SHOWN} more.`);
+    for (const l of groupLines(groups)) io.out(l);
   }
   printSummary(output.json, io);
   // The cautions of SPEC §2 go with every result, on the terminal as on every sheet.
@@ -141,6 +142,10 @@ export async function main(argv: readonly string[], io: CliOutput = processConso
   }
   if (command === '--version' || command === 'version') {
     io.out(VERSION);
+    return 0;
+  }
+  if (command === 'analyze' && (rest.includes('--help') || rest.includes('-h'))) {
+    io.out(HELP_TEXT);
     return 0;
   }
   if (command !== 'analyze') {

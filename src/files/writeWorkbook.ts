@@ -28,10 +28,22 @@ function formatStyle(format: NumberFormat): Partial<ExcelJS.Style> {
   return style;
 }
 
-/** A table cell as exceljs should store it: text stays a string (never a formula), non-finite numbers become blank. */
+/** The most characters an Excel cell holds (Excel specifications and limits: 32,767); longer text makes Excel
+ * offer to repair the file. */
+export const MAX_CELL_TEXT = 32_767;
+/** What ends a cut text, so a reader sees that it was cut and where the whole is. */
+export const CUT_MARKER = ' … [cut: the cell limit is 32,767 characters; the JSON results hold the whole text]';
+
+/** Text cut to fit one Excel cell, ending with CUT_MARKER when cut. Example: fitCell('abc') → 'abc' */
+export function fitCell(text: string): string {
+  return text.length <= MAX_CELL_TEXT ? text : text.slice(0, MAX_CELL_TEXT - CUT_MARKER.length) + CUT_MARKER;
+}
+
+/** A table cell as exceljs should store it: text stays a string (never a formula) cut to the cell limit, non-finite
+ * numbers become blank. */
 function storedValue(v: SheetCell, format: NumberFormat): string | number | null {
   if (v === null) return null;
-  if (typeof v === 'string') return v;
+  if (typeof v === 'string') return fitCell(v);
   if (!Number.isFinite(v)) return null;
   return format === 'text' ? String(v) : v;
 }
@@ -132,7 +144,7 @@ function space(st: SheetState): void {
 function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font> | null, heading = false): void {
   if (heading) space(st);
   const cell = st.ws.getCell(st.row, 1);
-  cell.value = text;
+  cell.value = fitCell(text);
   if (font) cell.font = font;
   if (!heading) st.wraps.push({ row: st.row, text });
   st.row += 1;
@@ -143,7 +155,7 @@ function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font
 function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): number {
   space(st);
   if (t.caption) {
-    st.ws.getCell(st.row, 1).value = t.caption;
+    st.ws.getCell(st.row, 1).value = fitCell(t.caption);
     st.ws.getCell(st.row, 1).font = CAPTION_FONT;
     st.row += 1;
   }
@@ -194,7 +206,7 @@ export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8
   sheets.forEach((spec, k) => {
     const ws = wb.addWorksheet(names[k]!);
     const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [], wraps: [] };
-    ws.getCell(1, 1).value = spec.title;
+    ws.getCell(1, 1).value = fitCell(spec.title);
     ws.getCell(1, 1).font = TITLE_FONT;
     const tables = spec.blocks.filter((b) => b.kind === 'table').length;
     const charts = spec.blocks.filter((b) => b.kind === 'chart').length;

@@ -139,7 +139,7 @@ describe('longipane analyze on the invented demo trial', () => {
   it('names the tool, its version, the input fingerprint and the settings in the JSON', () => {
     expect(json.tool).toEqual({ name: 'longipane', version: expect.stringMatching(/^\d+\.\d+\.\d+/) });
     expect(json.input.fingerprint).toMatch(/^[0-9a-f]{64}$/);
-    expect(json.input.label).toBe('egfr-visits.csv (A1:G921)');
+    expect(json.input.label).toBe('egfr-visits.csv (A1:G921), read as UTF-8');
     expect(json.settings).toMatchObject({ mode: 'unblinded', referenceArm: 'Placebo', timeUnit: 'month', dfMethod: 'kenward-roger', method: 'reml', level: 0.95, runAt: '2026-04-01T09:00:00.000Z' });
     expect(json.settings.mapping).toMatchObject({ subject: 'USUBJID', date: 'ADT', reference: 'RANDDT', visit: 'AVISIT', value: 'AVAL', arm: 'TRT01P', site: 'SITEID' });
   });
@@ -389,7 +389,7 @@ describe('longipane analyze used carelessly (each case a bug found by trying it)
     const r = await analyze('text.xlsx');
     expect(r.code).toBe(2);
     expect(r.err).toEqual([
-      'longipane: The file is not an .xlsx workbook: an .xlsx file is a zip archive and this one is not. If it holds CSV text, give it the .csv extension.',
+      `longipane: "${join(d, 'text.xlsx')}": The file is not an .xlsx workbook: an .xlsx file is a zip archive and this one is not. If it holds CSV text, give it the .csv extension.`,
     ]);
   });
 

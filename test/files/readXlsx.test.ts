@@ -105,7 +105,7 @@ describe('readXlsxBuffer', () => {
       wb.addWorksheet('Second').addRow(['b']);
     });
     expect((await readXlsxBuffer(buf, 'Second')).cells).toEqual([['b']]);
-    await expect(readXlsxBuffer(buf, 'Third')).rejects.toThrow(/no a sheet named "Third"; its sheets are: First, Second/);
+    await expect(readXlsxBuffer(buf, 'Third')).rejects.toThrow(/no sheet named "Third"; its sheets are: First, Second/);
   });
 
   it('throws a FileFormatError for bytes that are not a workbook and for an empty sheet', async () => {

@@ -67,7 +67,7 @@ export async function runAnalysis(
   if (wrongReference !== null) return { ok: false, issues: [...read.issues, wrongReference] };
 
   if (!(await enter('windowing'))) return CANCELLED;
-  const notes: string[] = [];
+  const notes: string[] = [...(settings.fileNotes ?? [])];
   // A calendar cut-off applies to dated data; a study-day cut-off to study-day data.
   const cutoff = table.timeKind === 'date' ? cutoffDay : settings.cutoffDay;
   if (cutoffDay !== undefined && table.timeKind !== 'date') {

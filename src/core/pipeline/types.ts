@@ -36,6 +36,8 @@ export interface AnalysisSettings {
   readonly perSubject: boolean;
   /** Free text describing the input, e.g. "visits.csv" or "Data!A1:G2401"; goes into the analysis record. */
   readonly inputLabel: string;
+  /** Notes about reading the input file (encoding repairs, stray fields), first among the run's notes. */
+  readonly fileNotes?: readonly string[];
   /** ISO timestamp of the run; passed in so the core stays pure and testable. */
   readonly runAt: string;
   /** How intake treats numbers written as text: 'reject' (default, spreadsheet cells) or 'accept' (CSV input, where

@@ -1,0 +1,62 @@
+/** A problem to print: the issue shape the pipeline returns, or a note from a file reader. */
+export interface Printable {
+  readonly code: string;
+  /** The column's role, when the problem concerns one (warnings group by code and role). */
+  readonly role?: string | null;
+  readonly cell: string | null;
+  readonly message: string;
+}
+
+/** Warnings of one kind: the first one in full, how many there are, and the first few cells. */
+export interface WarningGroup {
+  readonly first: Printable;
+  count: number;
+  readonly cells: string[];
+}
+
+/** Cells named per group after the first message. */
+export const CELLS_NAMED = 4;
+
+/**
+ * Groups warnings by their code and role, in the order each kind first appears, counting them and keeping the first few cells
+ * of each. A cell already seen for a code is counted once (a row left out of both uses has two warnings that say the
+ * same thing). One pass with a hash set: O(warnings), whatever their number.
+ * Example: groupWarnings([{code:'a',cell:'S!B2',…},{code:'a',cell:'S!B3',…}]) → [{first: …B2, count: 2, cells: ['S!B3']}]
+ */
+export function groupWarnings(items: Iterable<Printable>): WarningGroup[] {
+  const groups = new Map<string, WarningGroup>();
+  const seen = new Set<string>();
+  for (const w of items) {
+    if (w.cell !== null) {
+      const key = `${w.code}\u0000${w.cell}`;
+      if (seen.has(key)) continue;
+      seen.add(key);
+    }
+    const kind = `${w.code}\u0000${w.role ?? ''}`;
+    const g = groups.get(kind);
+    if (g === undefined) groups.set(kind, { first: w, count: 1, cells: [] });
+    else {
+      g.count++;
+      if (w.cell !== null && g.cells.length < CELLS_NAMED) g.cells.push(w.cell);
+    }
+  }
+  return [...groups.values()];
+}
+
+/** An issue as one line, led by its cell address (intake's row-level messages already start with it). */
+export const where = (i: { cell: string | null; message: string }): string =>
+  i.cell === null || i.message.startsWith(i.cell) ? i.message : `${i.cell}: ${i.message}`;
+
+/** The printed lines of the groups: the first warning of each kind, then "and N more like it: cells, …". */
+export function groupLines(groups: readonly WarningGroup[]): string[] {
+  const lines: string[] = [];
+  for (const g of groups) {
+    lines.push(`  ${where(g.first)}`);
+    if (g.count > 1) {
+      const more = g.count - 1;
+      const named = g.cells.join(', ');
+      lines.push(`    … and ${more.toLocaleString('en-US')} more like it${named === '' ? '' : `: ${named}${more > g.cells.length ? ', …' : ''}`}.`);
+    }
+  }
+  return lines;
+}

@@ -1,0 +1,140 @@
+import { mkdtemp, readdir, rm, utimes, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { main } from '../../src/cli/main';
+import type { CliOutput } from '../../src/cli/main';
+import { groupLines, groupWarnings } from '../../src/cli/groupWarnings';
+import { removeLiveTemporaries, removeStaleTemporaries, STALE_AFTER_MS, writeFilesAtomic } from '../../src/cli/atomicWrite';
+import { makeZip, sheetXml, workbookParts } from '../support/zipFixture';
+
+let d: string;
+beforeAll(async () => {
+  d = await mkdtemp(join(tmpdir(), 'longipane-hostile-'));
+  await writeFile(join(d, 'schedule.csv'), 'visit,target_day,days_before,days_after\nBaseline,1,0,0\nWeek 1,8,2,2\n');
+});
+afterAll(async () => {
+  await rm(d, { recursive: true, force: true });
+});
+
+async function run(...argv: string[]): Promise<{ code: number; out: string[]; err: string[] }> {
+  const out: string[] = [];
+  const err: string[] = [];
+  const io: CliOutput = { out: (l) => out.push(l), err: (l) => err.push(l) };
+  const code = await main(argv, io, () => new Date('2026-04-01T09:00:00Z'));
+  return { code, out, err };
+}
+const analyze = (data: string, ...more: string[]): ReturnType<typeof run> => run('analyze', '--data', join(d, data), '--schedule', join(d, 'schedule.csv'), ...more);
+
+describe('groupWarnings', () => {
+  it('groups by kind with a count and the first cells, counting a cell once per kind, in one pass (issue item 2)', () => {
+    const n = 300_000;
+    const items = Array.from({ length: n }, (_, k) => ({ code: 'blank', role: 'value', cell: `S!C${k + 2}`, message: `S!C${k + 2}: blank.` }));
+    const groups = groupWarnings([...items, ...items, { code: 'other', role: null, cell: null, message: 'whole range' }]);
+    expect(groups.map((g) => g.count)).toEqual([n, 1]);
+    expect(groupLines(groups)).toEqual(['  S!C2: blank.', '    … and 299,999 more like it: S!C3, S!C4, S!C5, S!C6, ….', '  whole range']);
+  });
+});
+
+describe('longipane analyze on hostile and careless files', () => {
+  it('prints the warnings that explain a stop on exit 1, grouped (issue item 11)', async () => {
+    await writeFile(join(d, 'na.csv'), `USUBJID,ADY,AVAL\n${'NA,NA,NA\n'.repeat(500)}`);
+    const r = await analyze('na.csv');
+    expect(r.code).toBe(1);
+    const err = r.err.join('\n');
+    expect(err).toMatch(/No data row has both a subject and a valid visit date or study day/);
+    expect(err).toMatch(/The warnings found before it stopped \(1,000, grouped by kind\):/);
+    expect(err).toMatch(/na!B2: "NA" is not a number.*\n {4}… and 499 more like it: na!B3, na!B4, na!B5, na!B6, …\./);
+  });
+
+  it('reads a CSV with mixed line ends without merging records and warns, with the cell, about extra fields (issue item 6)', async () => {
+    const rows = ['USUBJID,ADY,AVAL', ...Array.from({ length: 120 }, (_, k) => `S${k % 40},${k < 40 ? 1 : 8},${50 + (k % 7)}`)];
+    rows[10] += ',stray';
+    await writeFile(join(d, 'mixed.csv'), rows.map((r, k) => r + ['\n', '\r\n', '\r'][k % 3]).join(''));
+    const r = await analyze('mixed.csv', '--json', join(d, 'mixed.json'));
+    expect(r.code).toBe(0);
+    expect(r.out.join('\n')).toMatch(/mixed!D11: 1 row has more fields than the header \(3\): D11\./);
+    expect(r.out.join('\n')).toMatch(/Rows: 120 \(120 used for visit timing/);
+  });
+
+  it('names a stray invalid UTF-8 byte\'s cell and records the encoding used (issue item 7)', async () => {
+    const enc = (s: string): number[] => [...new TextEncoder().encode(s)];
+    const bytes = Uint8Array.from([...enc('USUBJID,ADY,AVAL,SITEID\nS1,1,50,Zürich\nS1,8,51,Zürich\nS2,1,52,Bern'), 0xff, ...enc('\nS2,8,53,Bern\n')]);
+    await writeFile(join(d, 'stray.csv'), bytes);
+    const r = await analyze('stray.csv', '--json', join(d, 'stray.json'));
+    expect(r.code).toBe(0);
+    expect(r.out.join('\n')).toMatch(/stray!D4: the file is UTF-8 with 1 invalid byte sequence/);
+    const json = JSON.parse(await (await import('node:fs/promises')).readFile(join(d, 'stray.json'), 'utf8')) as { input: { label: string }; notes: string[] };
+    expect(json.input.label).toMatch(/, read as UTF-8$/);
+    expect(json.notes[0]).toMatch(/^stray!D4: the file is UTF-8/);
+  });
+
+  it('gives a damaged workbook one plain message and exit 2, with no library text (issue item 12)', async () => {
+    const good = makeZip(workbookParts(sheetXml([['A1', 'USUBJID']])));
+    await writeFile(join(d, 'cut.xlsx'), good.subarray(0, good.length - 30));
+    const r = await analyze('cut.xlsx');
+    expect(r.code).toBe(2);
+    expect(r.err).toEqual([expect.stringMatching(/^longipane: ".*cut\.xlsx": The file is damaged: its zip directory is missing/) as unknown]);
+  });
+
+  it('refuses a workbook with a stray value at XFD1048576 quickly, naming the cell, with exit 2 (issue item 1)', async () => {
+    await writeFile(join(d, 'far.xlsx'), makeZip(workbookParts(sheetXml([['A1', 'USUBJID'], ['A2', 'S1'], ['XFD1048576', 1]]))));
+    const r = await analyze('far.xlsx');
+    expect(r.code).toBe(2);
+    expect(r.err.join('\n')).toMatch(/the far cell is XFD1048576/);
+  });
+
+  it('answers `analyze --help` with the help text and exit 0 (issue item 13)', async () => {
+    const r = await run('analyze', '--help');
+    expect(r.code).toBe(0);
+    expect(r.out.join('\n')).toMatch(/longipane analyze --data FILE --schedule FILE/);
+  });
+
+  it('says plainly that an empty --json value or a system folder cannot be written (issue item 13)', async () => {
+    await writeFile(join(d, 'ok.csv'), 'USUBJID,ADY,AVAL\nS1,1,50\nS1,8,51\nS2,1,52\nS2,8,53\n');
+    const empty = await analyze('ok.csv', '--json', '');
+    expect(empty.code).toBe(2);
+    expect(empty.err[0]).toBe('longipane: --json needs a value; it was given an empty one.');
+    // /proc exists on Linux and takes no new files (a read-only system folder, whoever runs the test).
+    const sys = await analyze('ok.csv', '--json', '/proc/results.json');
+    expect(sys.code).toBe(2);
+    expect(sys.err.join('\n')).toMatch(/Cannot write "\/proc\/results\.json": its folder does not accept new files \(a system or read-only folder\)/);
+  });
+});
+
+describe('temporary output files (issue item 14)', () => {
+  it('removes stale temporaries of its own pattern older than a day, and leaves others alone', async () => {
+    const out = join(d, 'tmpdir');
+    await (await import('node:fs/promises')).mkdir(out);
+    const stale = '.report.xlsx.4242-0123abcd.tmp';
+    const fresh = '.report.xlsx.4243-89abcdef.tmp';
+    const foreign = '.report.xlsx.tmp';
+    for (const f of [stale, fresh, foreign]) await writeFile(join(out, f), 'x');
+    const old = (Date.now() - STALE_AFTER_MS - 60_000) / 1000;
+    await utimes(join(out, stale), old, old);
+    await utimes(join(out, foreign), old, old);
+    await writeFilesAtomic([{ target: join(out, 'report.json'), data: '{}' }]);
+    expect((await readdir(out)).sort()).toEqual([fresh, foreign, 'report.json'].sort());
+    await removeStaleTemporaries(out, Date.now() + 2 * STALE_AFTER_MS);
+    expect((await readdir(out)).sort()).toEqual([foreign, 'report.json'].sort());
+  });
+
+  it('the signal handler\'s clean-up removes a temporary that is still being written', async () => {
+    const out = join(d, 'live');
+    let release!: () => void;
+    const gate = new Promise<void>((r) => (release = r));
+    // A data source that stalls mid-write stands in for a run interrupted while writing.
+    const slow = (async function* () {
+      yield 'a';
+      await gate;
+      yield 'b';
+    })();
+    const writing = writeFilesAtomic([{ target: join(out, 'r.json'), data: slow as unknown as string }]).catch(() => undefined);
+    await new Promise((r) => setTimeout(r, 100));
+    expect((await readdir(out)).some((f) => f.endsWith('.tmp'))).toBe(true);
+    removeLiveTemporaries();
+    expect((await readdir(out)).some((f) => f.endsWith('.tmp'))).toBe(false);
+    release();
+    await writing;
+  });
+});

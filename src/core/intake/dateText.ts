@@ -131,6 +131,9 @@ function numericResult(p: NumericDateParts, order: DateOrder | null): DateTextRe
   return civilResult(p.year, day, month).kind === 'date' ? WRONG_ORDER : IMPOSSIBLE;
 }
 
+/** The day of a date whose day is a placeholder (UN, UNK, ...). */
+const UNKNOWN_DAY = -1;
+
 /** The month of a word (upper case), 0 when it is a placeholder for an unknown month, -1 when it is neither. */
 function monthOf(word: string): number {
   const m = MONTH_WORDS.get(word);
@@ -139,7 +142,7 @@ function monthOf(word: string): number {
 }
 
 /**
- * Day-month-name-year from index i of t, where t[0..i) is the day (digits, or a placeholder when `day` is 0):
+ * Day-month-name-year from index i of t, where t[0..i) is the day (digits, or a placeholder when `day` is UNKNOWN_DAY):
  * [sep] MONTH [same sep] YYYY [time]. The separators are both absent or both the same one of "-", " ", "/", ".".
  */
 function nameForm(t: string, day: number, i: number): DateTextResult {
@@ -154,7 +157,7 @@ function nameForm(t: string, day: number, i: number): DateTextResult {
   const e = digitsEnd(t, y);
   if ((e - y !== 4 && e - y !== 2) || !timeRestOk(t, e)) return MALFORMED;
   if (e - y === 2) return TWO_DIGIT_YEAR;
-  if (day === 0 || month === 0) return PARTIAL;
+  if (day === UNKNOWN_DAY || month === 0) return PARTIAL;
   return civilResult(Number(t.slice(y, e)), month, day);
 }
 
@@ -169,10 +172,10 @@ function letterFirst(t: string): DateTextResult {
     const e = digitsEnd(t, y);
     return e - y === 4 && e === t.length ? PARTIAL : MALFORMED;
   }
-  if (UNKNOWN_WORDS.has(word)) return nameForm(t, 0, w);
+  if (UNKNOWN_WORDS.has(word)) return nameForm(t, UNKNOWN_DAY, w);
   // Day placeholder and month written together: "UNJAN2025", "UNKUNK2025".
   for (const p of ['UNK', 'UN', 'UK', 'XX']) {
-    if (word.startsWith(p) && monthOf(word.slice(p.length)) >= 0) return nameForm(t, 0, p.length);
+    if (word.startsWith(p) && monthOf(word.slice(p.length)) >= 0) return nameForm(t, UNKNOWN_DAY, p.length);
   }
   return MALFORMED;
 }

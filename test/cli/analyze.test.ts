@@ -346,6 +346,7 @@ describe('longipane analyze when something is wrong', () => {
     const r = await run('help');
     expect(r.code).toBe(0);
     expect(r.out.join('\n')).toMatch(/longipane analyze --data FILE --schedule FILE/);
+    expect(r.out.join('\n')).toMatch(/--date-order dmy\|mdy/);
   });
 });
 

@@ -1,5 +1,6 @@
 /** Command-line argument parsing for `longipane analyze` (no library: a dozen flags do not need one). */
 import { resolve } from 'node:path';
+import type { DateOrder } from '../core/intake/types';
 import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
 
 /** Misuse of the command line: the message says what was wrong; main prints it and exits with code 2. */
@@ -27,9 +28,11 @@ export interface AnalyzeArgs {
   readonly covariates: readonly string[];
   readonly scheduledOnly: boolean;
   readonly perSubject: boolean;
+  /** How dates with numeric day and month are read; absent: each date column decides from its values. */
+  readonly dateOrder?: DateOrder;
 }
 
-const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate'] as const;
+const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate', 'date-order'] as const;
 const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-subject'] as const;
 type ValueFlag = (typeof VALUE_FLAGS)[number];
 type BooleanFlag = (typeof BOOLEAN_FLAGS)[number];
@@ -126,6 +129,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     ...(one('out') === undefined ? {} : { out: one('out')! }),
     ...(one('json') === undefined ? {} : { json: one('json')! }),
     ...(referenceArm === undefined ? {} : { referenceArm }),
+    ...(one('date-order') === undefined ? {} : { dateOrder: oneOf('date-order', one('date-order')!, ['dmy', 'mdy'] as const) }),
   };
   return {
     data,
@@ -161,6 +165,12 @@ Input:
   --cutoff YYYY-MM-DD     data cut-off (default: the latest date in the data)
   --cutoff-day N          data cut-off as a study day, for data with study days and no dates
                           (default: each participant's own last record)
+  --date-order dmy|mdy    read dates like 03/04/2025 as day/month/year (dmy) or month/day/year (mdy)
+                          in every date column (default: each column decides from values that can be
+                          read only one way, such as 13/04/2025; if none can, the run stops and asks)
+Dates may be ISO 8601 (2025-01-12, 2025-01-12T08:30), day-month-name-year (12JAN2025, 12-Jan-2025),
+day and month as numbers with /, . or - (12/01/2025), or spreadsheet date cells. Partial dates
+(2025-01, JAN2025) and two-digit years are never guessed: such rows are left out and listed.
 
 Model:
   --unblinded             read the arm column and report treatment effects (unblinded staff only)
@@ -174,7 +184,8 @@ Model:
 
 Output:
   --out FILE.xlsx         write the report workbook
-  --json FILE.json        write the machine-readable results
+  --json FILE.json        write the machine-readable results (also when the data stop the run:
+                          then "ok" is false and "issues" says why)
 Files are written under a temporary name and renamed when complete; an existing file is only replaced by a
 finished one. Exit codes: 0 done, 1 the data could not be analysed, 2 wrong command line or unreadable file.
 `;

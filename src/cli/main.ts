@@ -77,6 +77,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     ...(args.cutoff === undefined ? {} : { cutoff: args.cutoff }),
     ...(args.cutoffDay === undefined ? {} : { cutoffDay: args.cutoffDay }),
     ...(args.referenceArm === undefined ? {} : { referenceArm: args.referenceArm }),
+    ...(args.dateOrder === undefined ? {} : { dateOrder: args.dateOrder }),
     timeUnit: args.timeUnit,
     dfMethod: args.df,
     method: args.method,
@@ -102,11 +103,16 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     if (errors.length === 0) io.err('  The run stopped without a reason given.');
     if (errors.some((e) => MAPPING_CODES.has(e.code))) {
       const shown = headers.slice(0, 20).map((h) => `"${h}"`).join(', ');
-      io.err(`  Name the columns with --map role=Header (roles: subject, date, studyDay, reference, visit, value, arm, site); the headers are: ${shown}${headers.length > 20 ? ', …' : ''}.`);
+      io.err(`  Name the columns with --map role=Header (roles: subject, date, studyDay, reference, visit, value, arm, site, exit, exitStatus, exitReason); the headers are: ${shown}${headers.length > 20 ? ', …' : ''}.`);
     }
     if (warned > 0) {
       io.err(`The warnings found before it stopped (${warned.toLocaleString('en-US')}, grouped by kind):`);
       for (const l of groupLines(groups)) io.err(l);
+    }
+    // A script reading the JSON learns why the run stopped: write it even now (all or nothing, as below).
+    if (args.json !== undefined && output.json !== undefined) {
+      await writeFilesAtomic([{ target: args.json, data: `${JSON.stringify(output.json, null, 2)}\n` }]);
+      io.err(`Wrote ${args.json} (the reasons the run stopped).`);
     }
     return 1;
   }

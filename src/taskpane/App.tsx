@@ -20,7 +20,7 @@ import { blindedConflicts } from './blinding';
 import { distinctValues, headersOf } from './cells';
 import { DataStep, mappingGaps } from './DataStep';
 import { CORE_ENGINE, type PaneEngine } from './engine';
-import { headlineOf } from './headline';
+import { headlineOf, stoppedStatus } from './headline';
 import { fillGaps } from './mapping';
 import type { RunOutcome } from './outcome';
 import { fromSaved, isIsoDate, isLevel, toAnalysisSettings, toSaved, type PaneSettings } from './paneSettings';
@@ -240,9 +240,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
         setStatus('The run was stopped. Nothing was written.');
       } else if (!output.ok) {
         setOutcome({ kind: 'blocked', issues: output.issues });
-        setStatus(
-          `The run stopped at ${output.issues.filter((i) => i.severity === 'error').length} problems in the data.`,
-        );
+        setStatus(stoppedStatus(output.issues));
       } else {
         onStage('writing');
         setWriteFraction(0);

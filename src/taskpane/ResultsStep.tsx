@@ -10,6 +10,7 @@ import {
 } from '@fluentui/react-components';
 import { CautionList } from './CautionList';
 import { IssueList } from './IssueList';
+import { stoppingFirst } from './headline';
 import type { RunOutcome } from './outcome';
 import { stackStyle, subheadStyle } from './paneStyles';
 
@@ -51,10 +52,10 @@ export function ResultsStep({ outcome, onShowSheet, onSelectCell }: ResultsStepP
         <MessageBar intent="error">
           <MessageBarBody>
             <MessageBarTitle>The data cannot be analysed yet.</MessageBarTitle>
-            Fix the problems below (select one to go to its cell) and run again.
+            Fix the problems below, those that stop the run first (select one to go to its cell), and run again.
           </MessageBarBody>
         </MessageBar>
-        <IssueList issues={outcome.issues} onSelect={onSelectCell} />
+        <IssueList issues={stoppingFirst(outcome.issues)} onSelect={onSelectCell} />
       </div>
     );
   }

@@ -1,4 +1,4 @@
-/** Step 3: cut-off date, blinded or unblinded, reference arm, time unit, degrees of freedom, method, confidence level. */
+/** Step 3: cut-off date, blinded or unblinded, reference arm, order of day and month in dates, time unit, degrees of freedom, method, confidence level. */
 import type { ReactNode } from 'react';
 import { useEffect, useId, useRef, useState } from 'react';
 import {
@@ -12,6 +12,7 @@ import {
   makeStyles,
   tokens,
 } from '@fluentui/react-components';
+import type { DateOrder } from '../core/intake/types';
 import { DAYS_PER_UNIT, type DfMethod, type FitMethod, type TimeUnit } from '../core/pipeline/types';
 import { isIsoDate, isLevel, type PaneSettings } from './paneSettings';
 import { UnblindDialog } from './UnblindDialog';
@@ -26,6 +27,11 @@ const TIME_UNITS: readonly { value: TimeUnit; label: string }[] = [
   { value: 'month', label: `Months (${DAYS_PER_UNIT.month} days)` },
   { value: 'week', label: 'Weeks' },
   { value: 'day', label: 'Days' },
+];
+const DATE_ORDERS: readonly { value: DateOrder | ''; label: string }[] = [
+  { value: '', label: 'Decide from the data (default)' },
+  { value: 'dmy', label: 'Day first: 03/04/2025 is 3 April' },
+  { value: 'mdy', label: 'Month first: 03/04/2025 is 4 March' },
 ];
 const DF_METHODS: readonly { value: DfMethod; label: string }[] = [
   { value: 'kenward-roger', label: 'Kenward–Roger (recommended)' },
@@ -115,6 +121,18 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
         {...(cutoffOk ? {} : { validationState: 'error' as const, validationMessage: 'Use a date like 2026-06-30.' })}
       >
         <Input type="date" value={settings.cutoff} onChange={(_, d) => set({ cutoff: d.value })} />
+      </Field>
+      <Field
+        label="Order of day and month"
+        hint="For dates written like 03/04/2025. By default each date column decides from values that can be read only one way, such as 13/04/2025."
+      >
+        <Select value={settings.dateOrder} onChange={(_, d) => set({ dateOrder: d.value as DateOrder | '' })}>
+          {DATE_ORDERS.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </Select>
       </Field>
       <Field label="Time unit for slopes">
         <Select value={settings.timeUnit} onChange={(_, d) => set({ timeUnit: d.value as TimeUnit })}>

@@ -3,6 +3,7 @@
  * model's main number. Read from the run's results JSON (schema in the README); when a part is missing there, the
  * model sheet's own plain-language summary stands in.
  */
+import type { Issue } from '../core/intake/types';
 import type { AnalysisOutput } from '../core/pipeline/types';
 import { CAUTIONS, INVENTED_DATA_NOTE } from '../core/report/cautions';
 import { formatCell } from '../core/report/formats';
@@ -116,4 +117,24 @@ function firstPlainParagraph(sheet: SheetSpec): string | null {
 function modelSummary(sheets: readonly SheetSpec[]): string | null {
   const modelSheet = sheets.find((s) => /model/i.test(s.name));
   return modelSheet === undefined ? null : firstPlainParagraph(modelSheet);
+}
+
+/** The issues with those that stop the run first (each group in its own order), as the results step lists them. */
+export function stoppingFirst(issues: readonly Issue[]): Issue[] {
+  return [...issues.filter((i) => i.severity === 'error'), ...issues.filter((i) => i.severity !== 'error')];
+}
+
+/**
+ * The status line of a run its data stopped: why, in the first stopping problem's own words.
+ * Example: "The run stopped: Column "ADT" (visit date) writes the day and month as numbers, … (and 1 more problem that
+ * stops it)."
+ */
+export function stoppedStatus(issues: readonly Issue[]): string {
+  const errors = issues.filter((i) => i.severity === 'error');
+  const first = errors[0];
+  if (first === undefined) return 'The run stopped; no reason was given.';
+  const where = first.cell !== null && !first.message.startsWith(first.cell) ? `${first.cell}: ` : '';
+  const more = errors.length - 1;
+  const tail = more === 0 ? '' : ` (and ${more} more problem${more === 1 ? '' : 's'} that stop${more === 1 ? 's' : ''} it)`;
+  return `The run stopped: ${where}${first.message.replace(/\.$/, '')}${tail}.`;
 }

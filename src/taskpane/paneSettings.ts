@@ -1,5 +1,5 @@
 /** The settings the pane edits, their defaults, what is remembered, and the run settings they produce. */
-import type { ColumnMapping } from '../core/intake/types';
+import type { ColumnMapping, DateOrder } from '../core/intake/types';
 import type { AnalysisSettings } from '../core/pipeline/types';
 import type { ScheduleVisit } from '../core/schedule/types';
 import type { DataSource, SavedSettings } from './actions';
@@ -12,6 +12,8 @@ export interface PaneSettings
   readonly referenceArm: string;
   /** ISO date; '' means the latest date in the data. */
   readonly cutoff: string;
+  /** How dates like 03/04/2025 are read; '' means each date column decides from its values. */
+  readonly dateOrder: DateOrder | '';
 }
 
 /** Blinded by default (SPEC §2); REML with Kenward–Roger and 95% intervals (SPEC §5). */
@@ -19,6 +21,7 @@ export const DEFAULT_SETTINGS: PaneSettings = {
   mode: 'blinded',
   referenceArm: '',
   cutoff: '',
+  dateOrder: '',
   timeUnit: 'month',
   dfMethod: 'kenward-roger',
   method: 'reml',
@@ -101,6 +104,7 @@ export function toAnalysisSettings(
     runAt,
     ...(source.numericText !== undefined ? { numericText: source.numericText } : {}),
     ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),
+    ...(settings.dateOrder !== '' ? { dateOrder: settings.dateOrder } : {}),
     ...(!blinded && settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
   };
 }

@@ -346,6 +346,7 @@ describe('longipane analyze when something is wrong', () => {
     const r = await run('help');
     expect(r.code).toBe(0);
     expect(r.out.join('\n')).toMatch(/longipane analyze --data FILE --schedule FILE/);
+    expect(r.out.join('\n')).toMatch(/--date-order dmy\|mdy/);
   });
 });
 
@@ -422,13 +423,17 @@ describe('longipane analyze used carelessly (each case a bug found by trying it)
     expect(await readdir(o)).toEqual(['taken']);
   });
 
-  it('a --reference-arm not in the data (a typo) stops the run with the arms there and writes nothing (regression: model not fitted, "..")', async () => {
+  it('a --reference-arm not in the data (a typo) stops the run with the arms there, writes no report, and the JSON says why (regression: model not fitted, "..")', async () => {
     await writeFile(join(d, 'visits.csv'), SMALL);
-    const r = await analyze('visits.csv', '--unblinded', '--reference-arm', 'Plaecbo', '--json', join(d, 'ref.json'));
+    const r = await analyze('visits.csv', '--unblinded', '--reference-arm', 'Plaecbo', '--out', join(d, 'ref.xlsx'), '--json', join(d, 'ref.json'));
     expect(r.code).toBe(1);
     expect(r.err.join('\n')).toMatch(/The reference arm "Plaecbo" is not among the arms in the data \("Placebo", "Active"\)/);
     expect(r.err.join('\n')).not.toMatch(/\.\./);
-    expect(await readdir(d)).not.toContain('ref.json');
+    expect(await readdir(d)).not.toContain('ref.xlsx');
+    const json = JSON.parse(await readFile(join(d, 'ref.json'), 'utf8')) as { ok: boolean; issues: { code: string; severity: string }[] };
+    expect(json.ok).toBe(false);
+    // The stopping problem comes first; the row warnings of the data follow it.
+    expect(json.issues.map((i) => i.code)).toEqual(['unknown-reference-arm', 'text-in-numeric', 'blank-subject', 'blank-subject', 'bad-date', 'bad-date']);
   });
 
   it('semicolons, Windows line endings, a byte-order mark and a quoted line break give the same results as a plain CSV', async () => {

@@ -32,6 +32,13 @@ describe('parseAnalyzeArgs', () => {
     expect(a).toMatchObject({ unblinded: true, referenceArm: 'Placebo', perSubject: true, scheduledOnly: false });
   });
 
+  it('--date-order takes dmy or mdy, is absent by default (each column decides) and rejects anything else', () => {
+    expect(parseAnalyzeArgs([...BASE, '--date-order', 'dmy']).dateOrder).toBe('dmy');
+    expect(parseAnalyzeArgs([...BASE, '--date-order=mdy']).dateOrder).toBe('mdy');
+    expect(parseAnalyzeArgs(BASE).dateOrder).toBeUndefined();
+    expect(() => parseAnalyzeArgs([...BASE, '--date-order', 'ymd'])).toThrow(/--date-order must be one of dmy, mdy; got "ymd"/);
+  });
+
   it('rejects misuse with a UsageError that names the flag', () => {
     const bad: [string[], RegExp][] = [
       [['--data', 'v.csv'], /--schedule FILE is required/],

@@ -7,7 +7,8 @@ import type { AnalysisSettings, RunHooks } from '../../src/core/pipeline/types';
 import { UNBLINDED_CAUTION } from '../../src/core/report/cautions';
 import { App } from '../../src/taskpane/App';
 import type { PaneEngine } from '../../src/taskpane/engine';
-import { fakeActions, okOutput } from './fakes';
+import { runAnalysis as realRun } from '../../src/core/pipeline';
+import { CELLS, fakeActions, okOutput, SOURCE } from './fakes';
 
 afterEach(cleanup);
 
@@ -198,6 +199,46 @@ describe('results', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Go to cell Visits!C4' }));
     expect(spies.selectCell).toHaveBeenCalledWith('Visits!C4');
     expect(spies.writeResults).not.toHaveBeenCalled();
+  });
+});
+
+describe('a run stopped by its data', () => {
+  it('lists the problem that stops the run above every warning, and the status line says why (never "stopped at 1 problems")', async () => {
+    const { actions } = fakeActions();
+    const warning = { code: 'blank-value', severity: 'warning', cell: 'Visits!G5', row: 5, role: 'value', value: '', use: 'model', message: 'Visits!G5: the value is blank, so the row is left out of the model.' } as const;
+    const error = { code: 'too-few-arms', severity: 'error', cell: null, row: null, role: 'arm', value: '', use: null, message: 'Unblinded mode needs at least two arms; the usable rows have 1.' } as const;
+    const { engine } = engineWith(async () => ({ ok: false, issues: [warning, error] }));
+    render(<App actions={actions} engine={engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    const list = await screen.findByRole('list', { name: 'Problems found in the data' });
+    const items = within(list).getAllByRole('listitem');
+    expect(items[0]?.textContent).toMatch(/Stops the run.*needs at least two arms/);
+    expect(items[1]?.textContent).toMatch(/Left out of the model/);
+    expect(screen.getByRole('status').textContent).toBe('The run stopped: Unblinded mode needs at least two arms; the usable rows have 1.');
+  });
+
+  it('dates like 05/01/2026 whose order cannot be decided stop the run with the column named; "Day first" in the settings then runs it', async () => {
+    const { actions, spies } = fakeActions();
+    // The invented block with every date rewritten day first and every day at most 12, so no value decides the order.
+    const dates = ['05/01/2026', '02/03/2026', '07/01/2026', '01/04/2026'];
+    const refs = ['05/01/2026', '05/01/2026', '07/01/2026', '07/01/2026'];
+    const cells = CELLS.map((row, i) => (i === 0 ? row : row.map((c, k) => (k === 4 ? dates[i - 1]! : k === 5 ? refs[i - 1]! : c))));
+    spies.loadData.mockResolvedValue({ ...SOURCE, cells, numericText: 'accept' });
+    const calls: AnalysisSettings[] = [];
+    const engine: PaneEngine = { detectMapping, runAnalysis: async (c, settings, hooks) => (calls.push(settings), realRun(c, settings, hooks)) };
+    render(<App actions={actions} engine={engine} />);
+    await loadAndConfirm();
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await within(results()).findByText(/cannot be analysed yet/);
+    expect(screen.getByRole('status').textContent).toMatch(
+      /^The run stopped: Visits!E1: Column "ADT" \(visit date\) writes the day and month as numbers.*\(and 1 more problem that stops it\)\.$/,
+    );
+    expect(spies.writeResults).not.toHaveBeenCalled();
+    fireEvent.change(select(/Order of day and month/), { target: { value: 'dmy' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Run the analysis' }));
+    await screen.findByText(/Sheets written/);
+    expect(calls.map((c) => c.dateOrder)).toEqual([undefined, 'dmy']);
   });
 });
 

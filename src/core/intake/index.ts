@@ -25,6 +25,11 @@ export {
   LAST_DAY,
   type IsoDateResult,
 } from './dates';
+export { parseDateText, numericDateParts, type DateTextResult, type NumericDateParts } from './dateText';
+export { decideDateOrder, type DateOrderDecision } from './dateOrder';
+export { readDateColumn, dateCellIssue, unreadableColumn, DATE_PROBLEMS, type DateColumn, type DateProblemName } from './dateColumn';
+export { readDateRole, type DateRoleRead } from './dateRole';
+export { ACCEPTED_FORMS } from './messages';
 export { ERROR_LITERALS, isBlankCell, isErrorCell, cellText, readTextCell, parsePlainDecimal } from './cellText';
 export { IntakeUsageError } from './errors';
 export { isArmHeader } from './armColumns';

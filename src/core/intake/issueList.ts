@@ -20,8 +20,8 @@ export class IssueList {
   }
 
   /** An issue about the header cell of range column `col`. */
-  header(code: IssueCode, severity: Severity, col: number, role: Role | null, value: string, context?: string): void {
-    this.push(code, severity, formatAddress(this.sheet, this.top.row, this.top.col + col), null, role, value, null, context);
+  header(code: IssueCode, severity: Severity, col: number, role: Role | null, value: string, context?: string, other?: string): void {
+    this.push(code, severity, formatAddress(this.sheet, this.top.row, this.top.col + col), null, role, value, null, context, other);
   }
 
   /** An issue about data row `dataRow` (0-based), range column `col`. */

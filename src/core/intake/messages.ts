@@ -44,6 +44,27 @@ function useWords(use: Use | null): string {
   return 'kept';
 }
 
+/** The date forms intake reads, as one sentence (shown when a whole date column cannot be read). */
+export const ACCEPTED_FORMS =
+  'Accepted forms: ISO 8601 dates and date-times (2025-01-12, 2025-01-12T08:30, 2025-01-12 08:30:00), day-month-name-year (12JAN2025, 12-Jan-2025, 12 jan 2025), day/month/year or month/day/year with "/", "." or "-" (12/01/2025, decided per column or by the date order setting), and spreadsheet date cells.';
+
+/** Why a date text is not a date, from the context intake gives a 'bad-date' or 'bad-reference-date' issue. */
+function dateReason(context: string | undefined): string {
+  switch (context) {
+    case 'impossible':
+      return 'no such day exists (dates run from 1900-01-01 to 9999-12-31)';
+    case 'two-digit-year':
+      return 'the year has two digits, and the century is never guessed; write the year with four digits';
+    case 'order-dmy':
+    case 'order-mdy':
+      return `it cannot be read as ${context === 'order-dmy' ? 'day/month/year' : 'month/day/year'}, the order this column's dates are read in`;
+    case 'serial':
+      return 'it is not a date serial between 1900-01-01 and 9999-12-31 in this date system';
+    default:
+      return 'dates are read as ISO 8601 (2025-03-04), day-month-name-year (04MAR2025) or day and month as numbers (04/03/2025), each a real day from 1900-01-01 to 9999-12-31';
+  }
+}
+
 function quoted(value: string): string {
   return `"${value}"`;
 }
@@ -97,11 +118,19 @@ export function renderMessage(m: MessageInput): string {
     case 'bad-date':
       return m.context === 'serial'
         ? `${at}${m.value} is not a date serial between 1900-01-01 and 9999-12-31 in this workbook's date system (in the 1900 system, serial 60 stands for 1900-02-29, a day that never existed), so the row is ${left}.`
-        : `${at}${quoted(m.value)} is not a valid ${role}: date text must be an ISO 8601 date such as 2025-03-04 (a real day, from 1900-01-01 to 9999-12-31), so the row is ${left}.`;
+        : `${at}${quoted(m.value)} is not a valid ${role}: ${dateReason(m.context)}, so the row is ${left}.`;
     case 'partial-date':
-      return `${at}${quoted(m.value)} gives only a year or a year and month; the full date is needed and is not guessed. The row is ${left}.`;
+      return m.use === null
+        ? `${at}${quoted(m.value)} is a partial date (a day or month is missing) and is never guessed, so this row's ${role} is treated as missing; the row is kept.`
+        : `${at}${quoted(m.value)} is a partial date (a day or month is missing): the visit cannot be timed, and the missing part is never guessed. The row is ${left}.`;
     case 'bad-reference-date':
-      return `${at}${quoted(m.value)} is not a valid date, so this row's reference date is treated as missing; the row is kept.`;
+      return `${at}${quoted(m.value)} is not a valid date (${dateReason(m.context)}), so this row's reference date is treated as missing; the row is kept.`;
+    case 'date-order-unknown':
+      return `Column ${quoted(m.value)} (${role}) writes the day and month as numbers, and every such value reads both as day/month/year and as month/day/year (e.g. ${m.context ?? ''}). Say which order the column uses: --date-order dmy or --date-order mdy on the command line, or "Order of day and month" in the pane's settings.`;
+    case 'date-order-mixed':
+      return `Column ${quoted(m.value)} (${role}) has dates that can only be day/month/year (e.g. ${m.context ?? ''}) and others that can only be month/day/year (e.g. ${m.other ?? ''}). Correct the column, or choose the order (--date-order dmy or mdy, or "Order of day and month" in the pane's settings); values the chosen order cannot read are then left out with their cell address.`;
+    case 'unreadable-date-column':
+      return `Column ${quoted(m.value)} (${role}) has no value that can be read as a date (e.g. ${m.context ?? ''}). ${ACCEPTED_FORMS}${m.other === 'two-digit-year' ? ' Two-digit years are not read, since the century would be a guess: write the year with four digits.' : ''}`;
     case 'bad-study-day':
       return /^[+-]?0+(\.0*)?$/.test(m.value)
         ? `${at}study day 0 does not exist: by the CDISC convention the reference date is day 1 and the day before it is day -1. The row is ${left}.`

@@ -3,8 +3,9 @@
  * why the cell cannot be used (no allocation on the hot path).
  */
 import { isBlankCell, isErrorCell, parsePlainDecimal } from './cellText';
-import { isoToDayNumber, serialToDayNumber } from './dates';
-import type { CellValue, DateSystem } from './types';
+import { serialToDayNumber } from './dates';
+import { parseDateText } from './dateText';
+import type { CellValue, DateOrder, DateSystem } from './types';
 
 export type NumericProblem = 'blank-value' | 'text-in-numeric' | 'not-finite' | 'error-value';
 
@@ -41,10 +42,11 @@ export function readStudyDay(cell: CellValue, acceptText: boolean): number | Stu
 export type DateProblem = 'blank-time' | 'bad-date' | 'partial-date' | 'error-value';
 
 /**
- * A day number (0 = 1899-12-30) from a date cell: a number is a serial in `system`, text is ISO 8601 (dates.ts).
- * @example readDate(45720, 1900) // 45720; readDate("2025-03-04", 1900) // 45720; readDate("2025-03", 1900) // "partial-date"
+ * A day number (0 = 1899-12-30) from one date cell: a number is a serial in `system`, text is any form parseDateText
+ * reads, with day and month as numbers read in `order` (a column is read with readDateColumn, which decides it).
+ * @example readDate(45720, 1900) // 45720; readDate("04MAR2025", 1900) // 45720; readDate("2025-03", 1900) // "partial-date"
  */
-export function readDate(cell: CellValue, system: DateSystem): number | DateProblem {
+export function readDate(cell: CellValue, system: DateSystem, order: DateOrder | null = null): number | DateProblem {
   if (typeof cell === 'number') {
     const d = serialToDayNumber(cell, system);
     return Number.isNaN(d) ? 'bad-date' : d;
@@ -52,7 +54,7 @@ export function readDate(cell: CellValue, system: DateSystem): number | DateProb
   if (isBlankCell(cell)) return 'blank-time';
   if (typeof cell !== 'string') return 'bad-date';
   if (isErrorCell(cell)) return 'error-value';
-  const r = isoToDayNumber(cell);
+  const r = parseDateText(cell, order);
   if (r.kind === 'date') return r.day;
   return r.kind === 'partial' ? 'partial-date' : 'bad-date';
 }

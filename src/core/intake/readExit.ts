@@ -6,7 +6,7 @@ import { cellText, readTextCell } from './cellText';
 import { dayNumberToIso } from './dates';
 import type { IssueList } from './issueList';
 import { readDate } from './readCell';
-import type { CellValue, ColumnMapping, DateSystem } from './types';
+import type { CellValue, ColumnMapping, DateOrder, DateSystem } from './types';
 
 export interface ExitColumns {
   /** Per subject: the exit date as a day number (the latest given), NaN when none. */
@@ -16,7 +16,7 @@ export interface ExitColumns {
 }
 
 /**
- * One pass over the data rows (cells[1..]): per participant, the exit date (the latest one when rows disagree, with
+ * One pass over the data rows (cells[1..]), reading dates in the column's decided order of day and month (readDateRole): per participant, the exit date (the latest one when rows disagree, with
  * an 'exit-date-differs' warning at each row that differs from the latest), and the first non-blank status and
  * reason. An unreadable exit date is a 'bad-exit-date' warning (use null: the row is kept). Rows without a subject
  * are skipped. O(rows).
@@ -27,7 +27,7 @@ export function readExit(
   mapping: ColumnMapping,
   subjectIndex: Int32Array,
   subjectIds: readonly string[],
-  dateSystem: DateSystem,
+  dates: { readonly dateSystem: DateSystem; readonly order: DateOrder | null },
   issues: IssueList,
 ): ExitColumns {
   const S = subjectIds.length;
@@ -41,7 +41,7 @@ export function readExit(
     if (s < 0) continue;
     const row = cells[i + 1] ?? [];
     if (ec !== undefined) {
-      const d = readDate(row[ec], dateSystem);
+      const d = readDate(row[ec], dates.dateSystem, dates.order);
       if (typeof d === 'number') {
         rowExit![i] = d;
         if (!(d <= subjectExit[s]!)) subjectExit[s] = d;

@@ -6,9 +6,12 @@
 import type { CellRef } from './cellAddress';
 import { cellText, isBlankCell, readTextCell } from './cellText';
 import type { CovariatePlan } from './covariatePlan';
+import { IntakeUsageError } from './errors';
 import type { IssueList } from './issueList';
-import { readDate, readNumeric, readStudyDay } from './readCell';
-import type { CellValue, ColumnMapping, DateSystem, IssueCode, Role, Use } from './types';
+import { dateCellIssue } from './dateColumn';
+import type { DateRoleRead } from './dateRole';
+import { readNumeric, readStudyDay } from './readCell';
+import type { CellValue, ColumnMapping, IssueCode, Role, Use } from './types';
 
 const EMPTY_ROW: readonly CellValue[] = [];
 const USES: readonly Use[] = ['timing', 'model'];
@@ -20,8 +23,9 @@ export interface RowPassSetup {
   /** Width of the range (the header row's length). */
   readonly width: number;
   readonly top: CellRef;
-  readonly dateSystem: DateSystem;
   readonly acceptText: boolean;
+  /** The date columns, already decided and read (readDateRole): the visit date when timeKind is 'date', the reference date when mapped. */
+  readonly dates: { readonly date?: DateRoleRead; readonly reference?: DateRoleRead };
   readonly unblinded: boolean;
 }
 
@@ -56,6 +60,11 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
   const timeKind = mapping.date !== undefined ? 'date' : 'studyDay';
   const sc = mapping.subject!;
   const tc = timeKind === 'date' ? mapping.date! : mapping.studyDay!;
+  const dateRead = setup.dates.date;
+  const refRead = setup.dates.reference;
+  if ((timeKind === 'date' && dateRead === undefined) || (mapping.reference !== undefined && refRead === undefined)) {
+    throw new IntakeUsageError('readRows', 'every mapped date column must be read with readDateRole first', timeKind);
+  }
 
   const sheetRows = new Int32Array(nRows);
   const subject = new Array<string>(nRows);
@@ -102,9 +111,9 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
 
     const tCell = row[tc];
     if (timeKind === 'date') {
-      const d = readDate(tCell, setup.dateSystem);
-      if (typeof d === 'number') date[i] = d;
-      else timingOk = excludeBoth(issues, d, i, tc, 'date', tCell, typeof tCell === 'number' ? 'serial' : undefined);
+      const why = dateCellIssue(dateRead!.column.problems[i]!, dateRead!.order);
+      if (why === null) date[i] = dateRead!.column.days[i]!;
+      else timingOk = excludeBoth(issues, why.code, i, tc, 'date', tCell, why.context);
     } else {
       const d = readStudyDay(tCell, accept);
       if (typeof d === 'number') studyDay[i] = d;
@@ -112,11 +121,12 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
     }
 
     if (mapping.reference !== undefined) {
+      // A reference date is never required: an unusable one is kept as missing, with a warning (use null).
       const rc = mapping.reference;
-      const d = readDate(row[rc], setup.dateSystem);
-      if (typeof d === 'number') reference[i] = d;
-      else if (d === 'error-value') issues.at('error-value', 'warning', i, rc, 'reference', cellText(row[rc]), null);
-      else if (d !== 'blank-time') issues.at('bad-reference-date', 'warning', i, rc, 'reference', cellText(row[rc]), null);
+      const why = dateCellIssue(refRead!.column.problems[i]!, refRead!.order);
+      if (why === null) reference[i] = refRead!.column.days[i]!;
+      else if (why.code === 'error-value' || why.code === 'partial-date') issues.at(why.code, 'warning', i, rc, 'reference', cellText(row[rc]), null);
+      else if (why.code !== 'blank-time') issues.at('bad-reference-date', 'warning', i, rc, 'reference', cellText(row[rc]), null, why.context);
     }
     if (visit !== null) visit[i] = optionalText(row, mapping.visit!, 'visit', i, issues);
     if (site !== null) site[i] = optionalText(row, mapping.site!, 'site', i, issues);

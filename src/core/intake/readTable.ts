@@ -12,7 +12,8 @@ import { IntakeUsageError } from './errors';
 import { IssueList } from './issueList';
 import { readRows } from './readRows';
 import { checkReference } from './checkReference';
-import type { CellValue, CovariateColumn, IntakeOptions, IntakeResult } from './types';
+import type { CellValue, CovariateColumn, DateReading, IntakeOptions, IntakeResult } from './types';
+import { readDateRole } from './dateRole';
 import { checkArms } from './checkArms';
 import { readExit } from './readExit';
 
@@ -32,7 +33,10 @@ const EMPTY_ROW: readonly CellValue[] = [];
  *
  * Reading rules: error values (#N/A, ...) in any role are issues; text roles (subject, visit, site, arm, categorical
  * covariates) take numbers and booleans as their text; numeric roles take numbers, and plain decimal text only with
- * `numericText: 'accept'`; dates are serials in `dateSystem` or ISO 8601 text; a study day is a non-zero integer.
+ * `numericText: 'accept'`; dates are serials in `dateSystem` or text in the forms of dateText.ts (ISO 8601,
+ * 12JAN2025, 12/01/2025 with the order of day and month decided per column or given as `dateOrder`); a partial date
+ * is never guessed; a date column that cannot be read at all, or whose order cannot be decided, is one error at its
+ * header cell (dateRole.ts). A study day is a non-zero integer.
  * When both a date and a study-day column are mapped, the date is read and the study-day column is not. Visit label,
  * site and reference date are never required: a blank or unusable one is kept as missing ("" or NaN), with a warning
  * (use null) when the cell held an error value or an invalid reference date. A subject's second, different
@@ -66,6 +70,18 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
   if (mode === 'blinded') checkBlindedColumns(mapping, headers, issues);
   if (issues.hasErrors) return { ok: false, issues: issues.items };
 
+  // Date columns first: each decides its order of day and month, and a column that cannot be read, or whose order
+  // cannot be decided, stops the run with one message at its header cell before any row is read.
+  const nameOf = (col: number): string => (headers[col] !== '' ? headers[col]! : `column ${columnLetters(top.col + col)}`);
+  const dateOptions = { dateSystem: options.dateSystem, ...(options.dateOrder === undefined ? {} : { dateOrder: options.dateOrder }) };
+  const dateRead = mapping.date === undefined ? undefined : readDateRole(cells, mapping.date, 'date', nameOf(mapping.date), dateOptions, issues);
+  const refRead =
+    mapping.reference === undefined ? undefined : readDateRole(cells, mapping.reference, 'reference', nameOf(mapping.reference), dateOptions, issues);
+  const exitRead = mapping.exit === undefined ? undefined : readDateRole(cells, mapping.exit, 'exit', nameOf(mapping.exit), dateOptions, issues);
+  if (issues.hasErrors) return { ok: false, issues: issues.items };
+  const dates = { ...(dateRead === undefined ? {} : { date: dateRead }), ...(refRead === undefined ? {} : { reference: refRead }) };
+  const dateReadings = [dateRead?.reading, refRead?.reading, exitRead?.reading].filter((r): r is DateReading => r !== null && r !== undefined);
+
   const accept = options.numericText === 'accept';
   const plans: CovariatePlan[] = mapping.covariates.map((col) => {
     const name = headers[col] !== '' ? headers[col]! : `column ${columnLetters(top.col + col)}`;
@@ -76,10 +92,10 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
     return plan;
   });
 
-  const cols = readRows(cells, { mapping, plans, width, top, dateSystem: options.dateSystem, acceptText: accept, unblinded: mode === 'unblinded' }, issues);
+  const cols = readRows(cells, { mapping, plans, width, top, acceptText: accept, unblinded: mode === 'unblinded', dates }, issues);
   const arms = cols.arm === null ? [] : checkArms(cols.arm, cols.subjectIndex, cols.subjectIds, cols.usableTiming, mapping.arm!, issues);
   if (mapping.reference !== undefined) checkReference(cols.reference, cols.subjectIndex, cols.subjectIds, mapping.reference, issues);
-  const exit = readExit(cells, mapping, cols.subjectIndex, cols.subjectIds, options.dateSystem, issues);
+  const exit = readExit(cells, mapping, cols.subjectIndex, cols.subjectIds, { dateSystem: options.dateSystem, order: exitRead?.order ?? null }, issues);
   if (!cols.usableTiming.includes(1)) issues.range('no-usable-rows', 'error', null, '', null);
   else if (mapping.value !== undefined && !cols.usableModel.includes(1)) issues.range('no-usable-rows', 'warning', null, '', 'model');
   if (issues.hasErrors) return { ok: false, issues: issues.items };
@@ -91,5 +107,5 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
     return { name: p.name, kind: 'categorical', values, levels };
   });
   const { covariates: _raw, ...columns } = cols;
-  return { ok: true, issues: issues.items, table: { nRows, headers, mapping, mode, ...columns, arms, covariates, ...exit } };
+  return { ok: true, issues: issues.items, table: { nRows, headers, mapping, mode, ...columns, arms, covariates, dateReadings, ...exit } };
 }

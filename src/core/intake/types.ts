@@ -45,6 +45,20 @@ export type Mode = 'blinded' | 'unblinded';
 /** The spreadsheet date system: serial 0 is 1899-12-30 (1900 system, as used in practice) or 1904-01-01. ECMA-376 Part 1, §18.17.4. */
 export type DateSystem = 1900 | 1904;
 
+/** How dates written with the day and month as numbers (03/04/2025) are read: day/month/year or month/day/year. */
+export type DateOrder = 'dmy' | 'mdy';
+
+/** How a date column with numeric day and month (03/04/2025) was read, for the run's notes. */
+export interface DateReading {
+  readonly role: Role;
+  /** The column's header (or "column C" when it has none). */
+  readonly column: string;
+  readonly order: DateOrder;
+  /** 'setting': the order was given; 'data': some values can be read only this way (`evidence` holds up to three). */
+  readonly source: 'setting' | 'data';
+  readonly evidence: readonly string[];
+}
+
 export interface IntakeOptions {
   /** Sheet name used in cell addresses, e.g. "Visits" gives "Visits!C17". */
   readonly sheet: string;
@@ -58,6 +72,10 @@ export interface IntakeOptions {
    * cells, where a number typed as text is a problem) or 'accept' (for CSV input, where every cell is text): then text
    * that is a plain decimal number (optional sign, digits, optional fraction, optional exponent) is taken. */
   readonly numericText?: 'reject' | 'accept';
+  /** How to read dates whose day and month are numbers (03/04/2025), for every date column. When absent each column
+   * decides from values that can be read only one way (a first part over 12 means day first); a column where every
+   * such value could be read both ways stops the run and asks for this setting. */
+  readonly dateOrder?: DateOrder;
 }
 
 /** The uses a row can serve (SPEC §3): visit timing, and the model. */
@@ -90,7 +108,10 @@ export type IssueCode =
   | 'blank-row' // every cell of the data row is blank (one warning per use)
   | 'empty-header' // the header row has no text at all
   | 'column-outside-range' // a mapping points at a column the range does not have
-  | 'partial-date' // an ISO 8601 date with only a year or a year and month, e.g. "2025-03"
+  | 'partial-date' // a partial date (ISO 8601 reduced precision "2025-03", "2025"; "JAN2025"; "UNK-JAN-2025"): never guessed
+  | 'date-order-unknown' // a date column whose numeric dates all read both as day/month/year and month/day/year
+  | 'date-order-mixed' // a date column with values only day first and others only month first
+  | 'unreadable-date-column' // a date column with values, none of which is a date or a partial date
   | 'not-finite' // a number that is not finite (NaN or infinite) in a numeric role
   | 'unknown-reference-arm' // unblinded mode: the chosen reference arm is not among the data's arms
   | 'too-few-arms' // unblinded mode with fewer than two arms among usable rows
@@ -165,6 +186,8 @@ export interface IntakeTable {
   /** Per subject: end-of-study status and reason as given (first non-blank), "" when none; null when not mapped. */
   readonly subjectExitStatus: readonly string[] | null;
   readonly subjectExitReason: readonly string[] | null;
+  /** How each date column with numeric day and month was read (absent or empty when none has such dates). */
+  readonly dateReadings?: readonly DateReading[];
   /** 1 where the row can serve visit timing (subject and a valid date or study day). */
   readonly usableTiming: Uint8Array;
   /** 1 where the row can also serve the model (numeric value, arm in unblinded mode, covariates present). */

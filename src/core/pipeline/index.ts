@@ -7,4 +7,6 @@ export { fitStage } from './fitStage';
 export type { FitStage } from './fitStage';
 export { contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
 export type { ObservedMean } from './modelData';
-export { resultsJson, mappingByHeader } from './resultsJson';
+export { resultsJson, mappingByHeader, issueJson } from './resultsJson';
+export { stopJson } from './stopJson';
+export { dateReadingNote } from './dateNotes';

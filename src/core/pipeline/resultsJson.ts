@@ -45,6 +45,7 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
   const s = r.settings;
   const unblinded = s.mode === 'unblinded';
   return {
+    ok: true,
     tool: { name: 'longipane', version: s.toolVersion ?? 'unknown' },
     cautions: s.mode === 'unblinded' ? [...CAUTIONS, UNBLINDED_CAUTION] : [...CAUTIONS],
     input: {
@@ -70,6 +71,7 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
       dfMethod: s.dfMethod,
       method: s.method,
       level: s.level,
+      dateOrder: s.dateOrder ?? null,
       scheduledOnly: s.scheduledOnly,
       perSubject: s.perSubject,
       runAt: s.runAt,
@@ -78,6 +80,11 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
     model: r.model,
     modelNote: r.modelNote,
     notes: [...r.notes],
-    issues: r.issues.map((i) => ({ code: i.code, severity: i.severity, cell: i.cell, row: i.row, role: i.role, value: i.value, use: i.use, message: i.message })),
+    issues: r.issues.map(issueJson),
   };
+}
+
+/** One issue as plain JSON. */
+export function issueJson(i: Issue): Record<string, unknown> {
+  return { code: i.code, severity: i.severity, cell: i.cell, row: i.row, role: i.role, value: i.value, use: i.use, message: i.message };
 }

@@ -12,6 +12,8 @@ import { fitStage } from './fitStage';
 import { fromScheduleIssues, modelNotFitted, unknownReferenceArm } from './issues';
 import { modelOutputs, recordSheet } from './reportParts';
 import { resultsJson } from './resultsJson';
+import { stopJson } from './stopJson';
+import { dateReadingNote } from './dateNotes';
 import type { AnalysisOutput, AnalysisSettings, RunHooks, Stage } from './types';
 
 /** What a run returns when the hooks' signal is aborted between stages. */
@@ -19,12 +21,12 @@ const CANCELLED: AnalysisOutput = { ok: false, issues: [], cancelled: true };
 
 /**
  * Runs one analysis from cells to sheet specs and JSON (SPEC §3–§7), in four stages:
- * reading (readTable with the mapping, mode and date system), windowing (computeStudyDays, classifyVisits with the
+ * reading (readTable with the mapping, mode, date system and date order; how numeric dates were read goes into the notes), windowing (computeStudyDays, classifyVisits with the
  * cut-off), fitting (fitFromTable on every row usable for the model — or only rows matched to scheduled visits
  * when settings.scheduledOnly — with contrasts at each scheduled visit's target day after the first, and observed means
  * per scheduled visit, by arm when unblinded) and writing (timing sheets, model sheets, the analysis record last; JSON).
  * Between stages it reports progress, yields to the front end and stops with { ok: false, cancelled: true } when
- * hooks.signal is aborted. Errors in the data give { ok: false, issues } with cell addresses; a model that cannot be
+ * hooks.signal is aborted. Errors in the data give { ok: false, issues, json } with cell addresses (json: stopJson); a model that cannot be
  * fitted leaves the visit-timing results standing (JSON model: null and a 'model-not-fitted' warning). Misuse (an
  * empty schedule, a cut-off that is not a date) throws PipelineUsageError.
  * Cost: O(rows) for intake and windowing plus the model engine's one pass; never an n×n matrix.
@@ -60,14 +62,16 @@ export async function runAnalysis(
     mode: settings.mode,
     ...(settings.mapping === undefined ? {} : { mapping: settings.mapping }),
     ...(settings.numericText === undefined ? {} : { numericText: settings.numericText }),
+    ...(settings.dateOrder === undefined ? {} : { dateOrder: settings.dateOrder }),
   });
-  if (!read.ok) return { ok: false, issues: read.issues };
+  const stop = (issues: readonly Issue[]): AnalysisOutput => ({ ok: false, issues, json: stopJson(cells, settings, issues) });
+  if (!read.ok) return stop(read.issues);
   const table = read.table;
   const wrongReference = unknownReferenceArm(table.arms, settings);
-  if (wrongReference !== null) return { ok: false, issues: [...read.issues, wrongReference] };
+  if (wrongReference !== null) return stop([...read.issues, wrongReference]);
 
   if (!(await enter('windowing'))) return CANCELLED;
-  const notes: string[] = [...(settings.fileNotes ?? [])];
+  const notes: string[] = [...(settings.fileNotes ?? []), ...(table.dateReadings ?? []).map(dateReadingNote)];
   // A calendar cut-off applies to dated data; a study-day cut-off to study-day data.
   const cutoff = table.timeKind === 'date' ? cutoffDay : settings.cutoffDay;
   if (cutoffDay !== undefined && table.timeKind !== 'date') {
@@ -93,7 +97,7 @@ export async function runAnalysis(
   if (usedForTiming === 0) {
     // Intake found usable rows, but none survived windowing (all after the cut-off, or no reference date).
     const why = cutoff !== undefined ? `is dated on or before the data cut-off ${settings.cutoff ?? ''}` : 'has a study day (each needs a reference date or a baseline record)';
-    return { ok: false, issues: [...issues, { code: 'no-usable-rows', severity: 'error', cell: null, row: null, role: null, value: '', use: 'timing', message: `No record ${why}, so there is nothing to analyse.` }] };
+    return stop([...issues, { code: 'no-usable-rows', severity: 'error', cell: null, row: null, role: null, value: '', use: 'timing', message: `No record ${why}, so there is nothing to analyse.` }]);
   }
   const summary = summarizeTiming({ table, schedule: settings.schedule, days, timing });
 

@@ -1,5 +1,5 @@
 /** Settings and output of one analysis run, shared by the command line, the browser page and the add-in. */
-import type { ColumnMapping, DateSystem, Issue, Mode } from '../intake/types';
+import type { ColumnMapping, DateOrder, DateSystem, Issue, Mode } from '../intake/types';
 import type { ScheduleVisit } from '../schedule/types';
 import type { DfMethod, FitMethod, TimeUnit } from '../model/types';
 import type { SheetSpec } from '../report/types';
@@ -43,6 +43,9 @@ export interface AnalysisSettings {
   /** How intake treats numbers written as text: 'reject' (default, spreadsheet cells) or 'accept' (CSV input, where
    * every cell is text). Passed on to readTable as IntakeOptions.numericText. */
   readonly numericText?: 'accept' | 'reject';
+  /** How dates written with day and month as numbers (03/04/2025) are read in every date column; when absent each
+   * column decides from its values, and a column where every such value reads both ways stops the run. */
+  readonly dateOrder?: DateOrder;
   /** The tool's version, for the analysis record and the JSON (the front end knows it; core has no package.json). */
   readonly toolVersion?: string;
 }
@@ -63,7 +66,14 @@ export type AnalysisOutput =
       /** The machine-readable results (schema in the README). */
       readonly json: Record<string, unknown>;
     }
-  | { readonly ok: false; readonly issues: readonly Issue[]; readonly cancelled?: true };
+  | {
+      readonly ok: false;
+      readonly issues: readonly Issue[];
+      /** A run stopped by its data: the JSON that says why (`ok: false`, `input`, `issues`; schema in the README).
+       * Absent when the run was cancelled. */
+      readonly json?: Record<string, unknown>;
+      readonly cancelled?: true;
+    };
 
 /** The stages a run reports as it goes (the pane shows them as progress). */
 export type Stage = 'reading' | 'windowing' | 'fitting' | 'writing';

@@ -60,7 +60,7 @@ describe('readTable issue list', () => {
         value: '2025-02-30',
         use: 'timing',
         message:
-          '\'eGFR visits\'!E6: "2025-02-30" is not a valid visit date: date text must be an ISO 8601 date such as 2025-03-04 (a real day, from 1900-01-01 to 9999-12-31), so the row is left out of the visit-timing checks.',
+          '\'eGFR visits\'!E6: "2025-02-30" is not a valid visit date: no such day exists (dates run from 1900-01-01 to 9999-12-31), so the row is left out of the visit-timing checks.',
       },
       {
         code: 'bad-date',
@@ -71,7 +71,7 @@ describe('readTable issue list', () => {
         value: '2025-02-30',
         use: 'model',
         message:
-          '\'eGFR visits\'!E6: "2025-02-30" is not a valid visit date: date text must be an ISO 8601 date such as 2025-03-04 (a real day, from 1900-01-01 to 9999-12-31), so the row is left out of the model.',
+          '\'eGFR visits\'!E6: "2025-02-30" is not a valid visit date: no such day exists (dates run from 1900-01-01 to 9999-12-31), so the row is left out of the model.',
       },
       {
         code: 'error-value',

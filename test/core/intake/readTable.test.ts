@@ -148,7 +148,7 @@ describe('readTable dates', () => {
   });
 
   it('readTable reports the phantom serial 60 (1900-02-29) as a bad date with its own sentence', () => {
-    const r = readTable(cells(60), BLINDED);
+    const r = readTable([...cells(60), ['K-1', 45720, 61]], BLINDED);
     expect(r.issues[0]).toMatchObject({ code: 'bad-date', value: '60', use: 'timing' });
     expect(r.issues[0]!.message).toMatch(/1900-02-29, a day that never existed/);
   });
@@ -159,9 +159,9 @@ describe('readTable dates', () => {
     expect(codes(r)).toEqual(['partial-date', 'partial-date', 'no-usable-rows']);
   });
 
-  it('readTable reports an unparseable date text, a boolean date and a blank date', () => {
-    for (const [d, code] of [['04/03/2025', 'bad-date'], [true, 'bad-date'], [null, 'blank-time']] as const) {
-      expect(readTable(cells(d), BLINDED).issues[0]?.code).toBe(code);
+  it('readTable reports an unparseable date text, a boolean date and a blank date row by row when the column has other dates', () => {
+    for (const [d, code] of [['04-March-25', 'bad-date'], [true, 'bad-date'], [null, 'blank-time']] as const) {
+      expect(readTable([...cells(d), ['K-1', '2025-03-04', 61]], BLINDED).issues[0]?.code).toBe(code);
     }
   });
 

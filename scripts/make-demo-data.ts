@@ -29,6 +29,11 @@ export const SCHEDULE = [
 ] as const;
 
 export const HEADER = ['USUBJID', 'SITEID', 'TRT01P', 'AVISIT', 'ADT', 'RANDDT', 'AVAL'] as const;
+/** The demo listing's header: the visit columns, then the participant's end of study (CDISC ADaM EOSDT, EOSSTT,
+ * DCSREAS), repeated on every row of the participant as in a merged listing. */
+export const DEMO_HEADER = [...HEADER, 'EOSDT', 'EOSSTT', 'DCSREAS'] as const;
+/** Reasons for leaving early, from the CDISC controlled terminology for reasons of non-completion (NCOMPLT). */
+const LEAVING_REASONS = ['WITHDRAWAL BY SUBJECT', 'LOST TO FOLLOW-UP', 'ADVERSE EVENT', 'PHYSICIAN DECISION'] as const;
 
 /** One generated visit row; dates as day numbers (0 = 1899-12-30, the 1900-system serial). */
 export interface DemoRow {
@@ -39,6 +44,10 @@ export interface DemoRow {
   date: number;
   rand: number;
   value: number;
+  /** End of study as known at the cut-off: the exit date (day number) or null, status and reason ("" when none). */
+  exit: number | null;
+  status: 'COMPLETED' | 'DISCONTINUED' | 'ONGOING';
+  reason: string;
 }
 
 export interface TrialOptions {
@@ -80,11 +89,12 @@ export function generateTrial(o: TrialOptions, onRow: (r: DemoRow) => void): voi
     const slopePerYear = arm === 'Placebo' ? -3.0 : -1.0;
     // The visit after which the patient drops out (5 = completes).
     const dropAfter = rand() < o.dropoutRate ? 1 + Math.floor(rand() * 4) : 5;
+    const rows: DemoRow[] = [];
     const emit = (visit: string, studyDay: number): void => {
       const date = studyDay > 0 ? randomised + studyDay - 1 : randomised + studyDay; // CDISC: no day 0
       if (date > o.cutoff) return;
       const value = level + (slopePerYear * (studyDay - 1)) / 365.25 + 4 * normal(rand);
-      onRow({ subject, site, arm, visit, date, rand: randomised, value: Math.round(value * 10) / 10 });
+      rows.push({ subject, site, arm, visit, date, rand: randomised, value: Math.round(value * 10) / 10, exit: null, status: 'ONGOING', reason: '' });
     };
     SCHEDULE.forEach((v, k) => {
       if (k >= dropAfter) return;
@@ -97,6 +107,18 @@ export function generateTrial(o: TrialOptions, onRow: (r: DemoRow) => void): voi
       if (k > 0 && rand() < o.repeatRate) emit(v.visit, studyDay + 2 + Math.floor(rand() * 6));
     });
     if (rand() < o.extraRate) emit('Unscheduled', 20 + Math.floor(rand() * 300));
+    // End of study, from the patient number alone so that the random stream (and every value above) is unchanged:
+    // a patient who drops out leaves 14 to 53 days after the last visit attended; one who completes leaves on the
+    // final visit's target date (or on the final record, if later). Known only when on or before the cut-off.
+    const lastTarget = SCHEDULE[dropAfter - 1]!.targetDay - 1;
+    const leaves = dropAfter < 5 ? randomised + lastTarget + 14 + (p % 40) : Math.max(randomised + lastTarget, ...rows.map((r) => r.date));
+    const known = leaves <= o.cutoff;
+    for (const r of rows) {
+      r.exit = known ? leaves : null;
+      r.status = !known ? 'ONGOING' : dropAfter < 5 ? 'DISCONTINUED' : 'COMPLETED';
+      r.reason = known && dropAfter < 5 ? LEAVING_REASONS[p % LEAVING_REASONS.length]! : '';
+      onRow(r);
+    }
   }
 }
 
@@ -120,7 +142,7 @@ function csvField(s: string): string {
 export function demoCsv(): string {
   const rows: string[][] = [];
   generateTrial(DEMO_OPTIONS, (r) =>
-    rows.push([r.subject, r.site, r.arm, r.visit, isoDate(r.date), isoDate(r.rand), r.value.toFixed(1)]),
+    rows.push([r.subject, r.site, r.arm, r.visit, isoDate(r.date), isoDate(r.rand), r.value.toFixed(1), r.exit === null ? '' : isoDate(r.exit), r.status, r.reason]),
   );
   rows.sort((a, b) => (a[0]! < b[0]! ? -1 : a[0]! > b[0]! ? 1 : a[4]! < b[4]! ? -1 : a[4]! > b[4]! ? 1 : 0));
   // Deliberate bad cells (data row i is worksheet row i + 2).
@@ -128,7 +150,7 @@ export function demoCsv(): string {
   rows[155]![0] = ''; // a blank subject
   rows[302]![4] = '2025-02-30'; // an impossible date
   rows[517]![6] = '#N/A'; // an error value pasted from a spreadsheet
-  return [HEADER.join(','), ...rows.map((r) => r.map(csvField).join(','))].join('\n') + '\n';
+  return [DEMO_HEADER.join(','), ...rows.map((r) => r.map(csvField).join(','))].join('\n') + '\n';
 }
 
 export function scheduleCsv(): string {
@@ -140,14 +162,17 @@ const README = `# Demo data (invented)
 **These data are invented for illustration. They describe no real trial, site or person.** They are made by
 \`scripts/make-demo-data.ts\` (seeded, so every run gives the same files): \`npm run demo:data\`.
 
-The invented scenario: a kidney-function trial in 240 patients at twelve invented sites, randomised 1:1 to
+The invented scenario: a kidney-function trial in 240 participants at twelve invented sites, randomised 1:1 to
 "Placebo" or "Active" between January and October 2025. eGFR (mL/min/1.73m²) is measured at Baseline (day 1) and then
 every 12 weeks up to Week 48 (days 85, 169, 253, 337; window ±3 days at Baseline and ±7 days after). The data stop on
-2026-03-31, so later visits are not yet due. Some visits are early or late, some missed, some patients drop out, and
-there are a few unscheduled (extra) and repeated visits.
+2026-03-31, so later visits are not yet due. Some visits are early or late, some missed, some participants leave the
+study early (their exit date is in EOSDT), and there are a few unscheduled and repeated visits.
 
 - \`egfr-visits.csv\` — one row per assessment; columns USUBJID, SITEID, TRT01P, AVISIT, ADT (visit date), RANDDT
-  (randomisation date), AVAL (eGFR). The CDISC ADaM names let Longipane detect every column without \`--map\`.
+  (randomisation date), AVAL (eGFR), and the participant's end of study repeated on each of their rows: EOSDT (the
+  date they left the study, blank while still in it), EOSSTT (COMPLETED, DISCONTINUED or ONGOING) and DCSREAS (the
+  reason for leaving early, in CDISC controlled terminology). The CDISC ADaM names let Longipane detect every column
+  without \`--map\`.
 - \`egfr-schedule.csv\` — the visit schedule: visit, target_day, days_before, days_after.
 
 Four cells are wrong on purpose, to show how bad input is reported with its cell address and left out of the use it

@@ -139,7 +139,7 @@ describe('longipane analyze on the invented demo trial', () => {
   it('names the tool, its version, the input fingerprint and the settings in the JSON', () => {
     expect(json.tool).toEqual({ name: 'longipane', version: expect.stringMatching(/^\d+\.\d+\.\d+/) });
     expect(json.input.fingerprint).toMatch(/^[0-9a-f]{64}$/);
-    expect(json.input.label).toBe('egfr-visits.csv (A1:G921), read as UTF-8');
+    expect(json.input.label).toBe('egfr-visits.csv (A1:J921), read as UTF-8');
     expect(json.settings).toMatchObject({ mode: 'unblinded', referenceArm: 'Placebo', timeUnit: 'month', dfMethod: 'kenward-roger', method: 'reml', level: 0.95, runAt: '2026-04-01T09:00:00.000Z' });
     expect(json.settings.mapping).toMatchObject({ subject: 'USUBJID', date: 'ADT', reference: 'RANDDT', visit: 'AVISIT', value: 'AVAL', arm: 'TRT01P', site: 'SITEID' });
   });

@@ -10,7 +10,7 @@ import { main, type CliOutput } from '../../src/cli/main';
 const DEMO_DATA = join(__dirname, '..', '..', 'demo', 'egfr-visits.csv');
 const DEMO_SCHEDULE = join(__dirname, '..', '..', 'demo', 'egfr-schedule.csv');
 const MONTHS = ['JAN', 'FEB', 'MAR', 'APR', 'MAY', 'JUN', 'JUL', 'AUG', 'SEP', 'OCT', 'NOV', 'DEC'];
-const DATE_COLUMNS = ['ADT', 'RANDDT'];
+const DATE_COLUMNS = ['ADT', 'RANDDT', 'EOSDT'];
 
 let dir: string;
 let runs = 0;
@@ -83,8 +83,8 @@ describe('the demo in other date forms', () => {
     const dayFirst = join(dir, 'dayfirst', 'egfr-visits.csv');
     await writeFile(named, await rewrite((y, m, d) => `${d}${MONTHS[Number(m) - 1]!}${y}`));
     await writeFile(dayFirst, await rewrite((y, m, d) => `${d}/${m}/${y}`));
-    expect((await readFile(named, 'utf8')).split('\n')[1]).toBe('KFT-01-001,Site 01,Placebo,Baseline,12JAN2025,12JAN2025,48.4');
-    expect((await readFile(dayFirst, 'utf8')).split('\n')[1]).toBe('KFT-01-001,Site 01,Placebo,Baseline,12/01/2025,12/01/2025,48.4');
+    expect((await readFile(named, 'utf8')).split('\n')[1]).toBe('KFT-01-001,Site 01,Placebo,Baseline,12JAN2025,12JAN2025,48.4,20DEC2025,COMPLETED,');
+    expect((await readFile(dayFirst, 'utf8')).split('\n')[1]).toBe('KFT-01-001,Site 01,Placebo,Baseline,12/01/2025,12/01/2025,48.4,20/12/2025,COMPLETED,');
 
     const iso = await runJson(DEMO_DATA);
     const fromNamed = await runJson(named);

@@ -23,7 +23,7 @@ import { CORE_ENGINE, type PaneEngine } from './engine';
 import { headlineOf, stoppedStatus } from './headline';
 import { fillGaps } from './mapping';
 import type { RunOutcome } from './outcome';
-import { fromSaved, isIsoDate, isLevel, toAnalysisSettings, toSaved, type PaneSettings } from './paneSettings';
+import { fromSaved, isCutoffDay, isIsoDate, isLevel, toAnalysisSettings, toSaved, type PaneSettings } from './paneSettings';
 import { ResultsStep } from './ResultsStep';
 import { RunStep, STAGE_WORDS } from './RunStep';
 import { ScheduleStep } from './ScheduleStep';
@@ -201,6 +201,8 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
   if (!scheduleResult?.ok) blockers.push('Choose a visit schedule (step 2).');
   if (settings.cutoff !== '' && !isIsoDate(settings.cutoff))
     blockers.push('The cut-off date is not a valid date (step 3).');
+  if (settings.cutoffDay !== '' && !isCutoffDay(settings.cutoffDay))
+    blockers.push('The cut-off study day must be a whole number other than 0 (step 3).');
   if (!isLevel(settings.level)) blockers.push('The confidence level must lie between 50% and 100% (step 3).');
   if (settings.mode === 'unblinded' && mapping && mapping.arm === undefined) {
     blockers.push('Unblinded mode needs the treatment-arm column (step 1), or switch back to blinded.');

@@ -14,7 +14,7 @@ import {
 } from '@fluentui/react-components';
 import type { DateOrder } from '../core/intake/types';
 import { DAYS_PER_UNIT, type DfMethod, type FitMethod, type TimeUnit } from '../core/pipeline/types';
-import { isIsoDate, isLevel, type PaneSettings } from './paneSettings';
+import { isCutoffDay, isIsoDate, isLevel, type PaneSettings } from './paneSettings';
 import { UnblindDialog } from './UnblindDialog';
 import { stackStyle } from './paneStyles';
 
@@ -66,6 +66,7 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
   }, [asking, settings.mode, modesId]);
   const levelNumber = Number(levelText) / 100;
   const cutoffOk = settings.cutoff === '' || isIsoDate(settings.cutoff);
+  const cutoffDayOk = settings.cutoffDay === '' || isCutoffDay(settings.cutoffDay);
   return (
     <div className={styles.col}>
       <Field label="Who may see the results">
@@ -121,6 +122,13 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
         {...(cutoffOk ? {} : { validationState: 'error' as const, validationMessage: 'Use a date like 2026-06-30.' })}
       >
         <Input type="date" value={settings.cutoff} onChange={(_, d) => set({ cutoff: d.value })} />
+      </Field>
+      <Field
+        label="Data cut-off study day"
+        hint="Only for data with study days and no dates. Leave empty to use each participant's own last record."
+        {...(cutoffDayOk ? {} : { validationState: 'error' as const, validationMessage: 'Use a whole study day such as 365 (there is no day 0).' })}
+      >
+        <Input inputMode="numeric" value={settings.cutoffDay} onChange={(_, d) => set({ cutoffDay: d.value })} />
       </Field>
       <Field
         label="Order of day and month"

@@ -12,6 +12,9 @@ export interface PaneSettings
   readonly referenceArm: string;
   /** ISO date; '' means the latest date in the data. */
   readonly cutoff: string;
+  /** Cut-off as a study day, for data with study days and no dates: whole number text; '' means each participant's
+   * own last record. */
+  readonly cutoffDay: string;
   /** How dates like 03/04/2025 are read; '' means each date column decides from its values. */
   readonly dateOrder: DateOrder | '';
 }
@@ -21,6 +24,7 @@ export const DEFAULT_SETTINGS: PaneSettings = {
   mode: 'blinded',
   referenceArm: '',
   cutoff: '',
+  cutoffDay: '',
   dateOrder: '',
   timeUnit: 'month',
   dfMethod: 'kenward-roger',
@@ -37,6 +41,11 @@ export function isIsoDate(text: string): boolean {
   if (!ISO_DATE.test(text)) return false;
   const d = new Date(`${text}T00:00:00Z`);
   return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === text;
+}
+
+/** True when `text` is a study day usable as a cut-off: a whole number other than 0 (CDISC: there is no day 0). */
+export function isCutoffDay(text: string): boolean {
+  return /^\s*[+-]?\d{1,5}\s*$/.test(text) && Number(text) !== 0;
 }
 
 /** True when `level` is a usable confidence level (strictly between 0.5 and 1). */
@@ -104,6 +113,7 @@ export function toAnalysisSettings(
     runAt,
     ...(source.numericText !== undefined ? { numericText: source.numericText } : {}),
     ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),
+    ...(settings.cutoffDay !== '' && isCutoffDay(settings.cutoffDay) ? { cutoffDay: Number(settings.cutoffDay) } : {}),
     ...(settings.dateOrder !== '' ? { dateOrder: settings.dateOrder } : {}),
     ...(!blinded && settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
   };

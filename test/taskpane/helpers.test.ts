@@ -6,6 +6,7 @@ import { messageWithoutCell } from '../../src/taskpane/IssueList';
 import { fillGaps, fitsWidth, roleOfColumn, setRole, toggleCovariate, withoutArm } from '../../src/taskpane/mapping';
 import {
   DEFAULT_SETTINGS,
+  isCutoffDay,
   fromSaved,
   isIsoDate,
   isLevel,
@@ -107,6 +108,18 @@ describe('pane settings', () => {
       'T',
     );
     expect(open).toMatchObject({ mapping, referenceArm: 'Active', cutoff: '2026-06-30', numericText: 'accept' });
+  });
+
+  it('a cut-off study day is passed on as a whole number, and day 0 or text is never sent (there is no study day 0)', () => {
+    const mapping = { subject: 0, studyDay: 1, covariates: [] };
+    const run = (cutoffDay: string): Record<string, unknown> =>
+      toAnalysisSettings(SOURCE, mapping, SCHEDULE, { ...DEFAULT_SETTINGS, cutoffDay }, 'T') as unknown as Record<string, unknown>;
+    expect(run('365').cutoffDay).toBe(365);
+    expect(run('-7').cutoffDay).toBe(-7);
+    expect('cutoffDay' in run('')).toBe(false);
+    expect('cutoffDay' in run('0')).toBe(false);
+    expect('cutoffDay' in run('12.5')).toBe(false);
+    expect([isCutoffDay('365'), isCutoffDay('0'), isCutoffDay('abc'), isCutoffDay(' -14 ')]).toEqual([true, false, false, true]);
   });
 
   it('toSaved remembers the mapping, the schedule and the settings that were set', () => {

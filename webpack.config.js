@@ -1,5 +1,8 @@
 // Builds the Excel task pane (dist/taskpane.html) and the browser page (dist/index.html) from src/, and copies the
 // manifest and icons. `npm start` serves dist over https://localhost:3000 with the Office development certificates.
+// For a team: `npm run build -- --env publicUrl=https://host.example/longipane/` writes a manifest whose every address
+// is under that address (the pages and assets use relative paths, so any path prefix works); without it the manifest
+// keeps https://localhost:3000/ and the build says so. Either way the manifest's version is package.json's.
 import { fileURLToPath } from 'node:url';
 import { existsSync, readFileSync } from 'node:fs';
 import { homedir } from 'node:os';
@@ -8,6 +11,7 @@ import webpack from 'webpack';
 import HtmlWebpackPlugin from 'html-webpack-plugin';
 import CopyWebpackPlugin from 'copy-webpack-plugin';
 import MinimizerPlugin from 'minimizer-webpack-plugin';
+import { DEV_URL, manifestFor, manifestVersion, normalisePublicUrl } from './scripts/manifestAddress.mjs';
 
 const root = dirname(fileURLToPath(import.meta.url));
 const PORT = 3000;
@@ -45,9 +49,30 @@ async function httpsOptions() {
   }
 }
 
+/** The address the manifest points at: `--env publicUrl=…` when given (checked), else the development server's. */
+function publicUrlFrom(env) {
+  const given = env?.publicUrl;
+  if (given === undefined) return DEV_URL;
+  if (typeof given !== 'string' || given.trim() === '') {
+    throw new Error('--env publicUrl needs an address, like --env publicUrl=https://host.example/longipane/');
+  }
+  return normalisePublicUrl(given);
+}
+
 export default async (env, argv) => {
   const dev = argv.mode !== 'production';
   const serving = env?.WEBPACK_SERVE === true || process.env.WEBPACK_SERVE === 'true';
+  const publicUrl = publicUrlFrom(env);
+  const addinVersion = manifestVersion(VERSION);
+  if (!serving) {
+    process.stderr.write(
+      publicUrl === DEV_URL
+        ? `manifest.xml points at ${DEV_URL} (for side-loading with npm start on this computer). ` +
+            'To build for a team, give the address dist/ will be served from: ' +
+            'npm run build -- --env publicUrl=https://host.example/longipane/\n'
+        : `manifest.xml points at ${publicUrl} (add-in version ${addinVersion}); serve dist/ there.\n`,
+    );
+  }
   return {
     context: root,
     entry: {
@@ -57,6 +82,8 @@ export default async (env, argv) => {
     output: {
       path: resolve(root, 'dist'),
       filename: '[name].[contenthash:8].js',
+      // Script addresses relative to the page, so dist/ works under any path prefix.
+      publicPath: '',
       clean: true,
     },
     // Source maps only in development and inline (nothing points to another address); none in production.
@@ -95,7 +122,11 @@ export default async (env, argv) => {
       }),
       new CopyWebpackPlugin({
         patterns: [
-          { from: 'manifest.xml', to: 'manifest.xml' },
+          {
+            from: 'manifest.xml',
+            to: 'manifest.xml',
+            transform: (content) => manifestFor(content.toString('utf8'), { publicUrl, version: addinVersion }),
+          },
           { from: 'assets', to: 'assets' },
         ],
       }),

@@ -4,7 +4,8 @@
  * (Office Add-ins manifest schema, "OfficeApp" element reference: Id, Version, ProviderName, DefaultLocale,
  * DisplayName, Description, IconUrl, HighResolutionIconUrl, SupportUrl, AppDomains, Hosts, Requirements,
  * DefaultSettings, Permissions, VersionOverrides), https everywhere, icons present at their declared pixel sizes.
- * The online validation (`npm run validate`) needs network and is not part of the test run.
+ * The online validation (`npm run validate`) needs network and is not part of the test run. The same checks run on
+ * the manifest `npm test` builds into dist/ for an address (test/teamBuild.test.ts checks the address itself).
  */
 import { readFileSync, existsSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
@@ -12,10 +13,7 @@ import { describe, expect, it } from 'vitest';
 import { OfficeAddinManifest } from 'office-addin-manifest';
 
 const root = join(import.meta.dirname, '..');
-const xml = readFileSync(join(root, 'manifest.xml'), 'utf8');
-// The standard DOMParser (jsdom's, in this test environment) parses the manifest as XML.
-const doc = new DOMParser().parseFromString(xml, 'application/xml');
-const app = doc.documentElement;
+const dist = join(root, 'dist');
 
 /** Width and height from a PNG's IHDR chunk (PNG specification, ISO/IEC 15948 §11.2.2: bytes 16-23, big-endian). */
 function pngSize(path: string): { width: number; height: number } {
@@ -25,14 +23,32 @@ function pngSize(path: string): { width: number; height: number } {
   return { width: b.readUInt32BE(16), height: b.readUInt32BE(20) };
 }
 
-/** Maps an https://localhost:3000/assets/... address to the file in assets/. */
-function assetPath(url: string): string {
-  const m = /^https:\/\/localhost:3000\/assets\/([\w.-]+)$/.exec(url);
-  if (!m?.[1]) throw new Error(`not an assets URL: ${url}`);
-  return join(root, 'assets', m[1]);
-}
+/**
+ * The same checks for the source manifest (addresses under https://localhost:3000/, assets in the repository) and for
+ * the one `npm test` builds into dist/ with an address (assets in dist/): the build must keep it valid.
+ */
+const MANIFESTS = [
+  { label: 'manifest.xml', file: join(root, 'manifest.xml'), files: root },
+  { label: 'dist/manifest.xml (built with an address)', file: join(dist, 'manifest.xml'), files: dist },
+];
 
-describe('manifest.xml', () => {
+describe.each(MANIFESTS)('$label', ({ file, files }) => {
+  if (file.startsWith(dist) && !existsSync(file)) throw new Error('dist/manifest.xml is missing: run `npm test`, or npm run build -- --env publicUrl=https://host.example/longipane/');
+  const xml = readFileSync(file, 'utf8');
+  // The standard DOMParser (jsdom's, in this test environment) parses the manifest as XML.
+  const doc = new DOMParser().parseFromString(xml, 'application/xml');
+  const app = doc.documentElement;
+  /** The address every URL sits under: the source location without its file name. */
+  const base = (doc.querySelector('DefaultSettings > SourceLocation')?.getAttribute('DefaultValue') ?? '').replace(/taskpane\.html$/, '');
+
+  /** Maps an address under `base` + assets/ to the file in the manifest's assets folder. */
+  function assetPath(url: string): string {
+    if (!url.startsWith(`${base}assets/`)) throw new Error(`not an assets URL: ${url}`);
+    const name = url.slice(`${base}assets/`.length);
+    if (!/^[\w.-]+$/.test(name)) throw new Error(`not an assets URL: ${url}`);
+    return join(files, 'assets', name);
+  }
+
   it('parses as well-formed XML with an OfficeApp root of type TaskPaneApp', () => {
     expect(doc.getElementsByTagName('parsererror')).toHaveLength(0);
     expect(app.localName).toBe('OfficeApp');
@@ -62,7 +78,10 @@ describe('manifest.xml', () => {
     const set = doc.querySelector('Requirements Sets Set');
     expect([set?.getAttribute('Name'), set?.getAttribute('MinVersion')]).toEqual(['ExcelApi', '1.7']);
     expect(text('Permissions')).toBe('ReadWriteDocument');
-    expect(doc.querySelector('DefaultSettings > SourceLocation')?.getAttribute('DefaultValue')).toBe('https://localhost:3000/taskpane.html');
+    expect(base).toMatch(/^https:\/\/[^/]+\/(.*\/)?$/);
+    // The source points at the development server; the built one at the address it was built for.
+    if (file.startsWith(dist)) expect(base).not.toMatch(/localhost/);
+    else expect(base).toBe('https://localhost:3000/');
   });
 
   it('puts one button on the Home tab that shows the task pane', () => {
@@ -110,16 +129,16 @@ describe('manifest.xml', () => {
   });
 
   it('ships every icon file at the size its name states (16, 32, 64, 80, 128 px)', () => {
-    const icons = readdirSync(join(root, 'assets')).filter((f) => f.endsWith('.png')).sort();
+    const icons = readdirSync(join(files, 'assets')).filter((f) => f.endsWith('.png')).sort();
     expect(icons).toEqual(['icon-128.png', 'icon-16.png', 'icon-32.png', 'icon-64.png', 'icon-80.png']);
     for (const f of icons) {
       const n = Number(/icon-(\d+)\.png/.exec(f)?.[1]);
-      expect(pngSize(join(root, 'assets', f))).toEqual({ width: n, height: n });
+      expect(pngSize(join(files, 'assets', f))).toEqual({ width: n, height: n });
     }
   });
 
   it("is read without network by the platform tooling's own manifest reader", async () => {
-    const info = await OfficeAddinManifest.readManifestFile(join(root, 'manifest.xml'));
+    const info = await OfficeAddinManifest.readManifestFile(file);
     expect(info.id).toBe('21790eb3-f8fb-4cb2-8eb7-a6339bf428a9');
     expect(info.displayName).toBe('Longipane');
     expect(info.hosts).toEqual(['Workbook']);

@@ -33,7 +33,8 @@ export interface AnalyzeArgs {
 }
 
 const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate', 'date-order'] as const;
-const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-subject'] as const;
+/** `--per-subject` is the older spelling of `--per-participant`, still accepted. */
+const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-participant', 'per-subject'] as const;
 type ValueFlag = (typeof VALUE_FLAGS)[number];
 type BooleanFlag = (typeof BOOLEAN_FLAGS)[number];
 
@@ -143,7 +144,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     level,
     covariates: values.get('covariate') ?? [],
     scheduledOnly: flags.has('scheduled-only'),
-    perSubject: flags.has('per-subject'),
+    perSubject: flags.has('per-participant') || flags.has('per-subject'),
   };
 }
 
@@ -156,14 +157,17 @@ Usage:
 Input:
   --data FILE             visits, one row per assessment: a .csv file or an .xlsx workbook
   --sheet NAME            which worksheet of an .xlsx file (default: the first)
-  --schedule FILE         CSV with header visit,target_day,days_before,days_after
-  --map role=Header       confirm a column's role (repeatable); roles: subject (the participant), date,
-                          studyDay, reference, visit, value, arm, site, exit (the date the participant
-                          left the study), exitStatus, exitReason. Columns not given are detected from
-                          headers (CDISC names such as USUBJID, ADT, AVAL, EOSDT need no --map).
+  --schedule FILE         CSV with header visit,target_day,days_before,days_after (visit name, target
+                          day, days allowed before, days allowed after)
+  --map role=Header       confirm a column's role (repeatable); roles: participant (also written
+                          subject), date (visit date), studyDay, reference (reference date:
+                          randomisation or first dose), visit (visit name), value, arm, site, exit
+                          (exit date: the date the participant left the study), exitStatus,
+                          exitReason. Columns not given are detected from headers (CDISC names such
+                          as USUBJID, ADT, AVAL, EOSDT need no --map).
   --covariate Header      add a model covariate column (repeatable)
-  --cutoff YYYY-MM-DD     data cut-off (default: the latest date in the data)
-  --cutoff-day N          data cut-off as a study day, for data with study days and no dates
+  --cutoff YYYY-MM-DD     cut-off date of the data (default: the latest date in the data)
+  --cutoff-day N          cut-off as a study day, for data with study days and no dates
                           (default: each participant's own last record)
   --date-order dmy|mdy    read dates like 03/04/2025 as day/month/year (dmy) or month/day/year (mdy)
                           in every date column (default: each column decides from values that can be
@@ -180,7 +184,7 @@ Model:
   --method METHOD         reml (default) or ml
   --level P               confidence level (default 0.95)
   --scheduled-only        fit only records matched to scheduled visits (default: all valid rows)
-  --per-subject           add a sheet of per-subject random intercepts and residuals
+  --per-participant       add a sheet of each participant's random intercept and mean residual
 
 Output:
   --out FILE.xlsx         write the report workbook

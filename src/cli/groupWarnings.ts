@@ -60,3 +60,45 @@ export function groupLines(groups: readonly WarningGroup[]): string[] {
   }
   return lines;
 }
+
+/** The rows left out of one use: how many, and those rows grouped by kind (each row once). */
+export interface LeftOutRows {
+  readonly rows: number;
+  readonly groups: WarningGroup[];
+}
+
+/** A warning that leaves a row out of a use (the same test the pipeline's list of left-out rows applies). */
+const leavesRowOut = (i: Printable & { readonly severity?: string; readonly row?: number | null; readonly use?: string | null }): boolean =>
+  i.severity === 'warning' && typeof i.row === 'number' && (i.use === 'timing' || i.use === 'model');
+
+/**
+ * The rows left out of `use`, each row once (under the first warning that names it for that use), grouped by kind as
+ * groupWarnings groups them, so the group counts add up to `rows`. One pass with a hash set: O(issues).
+ * Example: a row with a blank participant and a bad date, both for 'timing' → rows 1, one group (the first warning).
+ */
+export function leftOutOf(
+  issues: Iterable<Printable & { readonly severity: string; readonly row: number | null; readonly use: string | null }>,
+  use: 'timing' | 'model',
+): LeftOutRows {
+  const groups = new Map<string, WarningGroup>();
+  const rows = new Set<number>();
+  for (const i of issues) {
+    if (!leavesRowOut(i) || i.use !== use || rows.has(i.row!)) continue;
+    rows.add(i.row!);
+    const kind = `${i.code}\u0000${i.role ?? ''}`;
+    const g = groups.get(kind);
+    if (g === undefined) groups.set(kind, { first: i, count: 1, cells: [] });
+    else {
+      g.count++;
+      if (i.cell !== null && g.cells.length < CELLS_NAMED) g.cells.push(i.cell);
+    }
+  }
+  return { rows: rows.size, groups: [...groups.values()] };
+}
+
+/** Warnings that leave no row out of a use (the row is kept, or the warning is about the whole range). */
+export function otherWarnings<T extends Printable & { readonly severity?: string; readonly row?: number | null; readonly use?: string | null }>(
+  items: readonly T[],
+): T[] {
+  return items.filter((i) => !leavesRowOut(i));
+}

@@ -14,7 +14,7 @@ import { OutputWriteError, writeFilesAtomic } from './atomicWrite';
 export { removeTemporariesOnSignal } from './atomicWrite';
 import { buildMapping } from './mapping';
 import { readDataFile, readScheduleFile } from './readInputs';
-import { groupLines, groupWarnings, where } from './groupWarnings';
+import { groupLines, groupWarnings, leftOutOf, otherWarnings, where } from './groupWarnings';
 import type { Printable } from './groupWarnings';
 
 /** Errors that --map can cure: a role with no column. */
@@ -44,7 +44,7 @@ function printSummary(json: Record<string, unknown>, io: CliOutput): void {
   const visits = (json.visits ?? {}) as Record<string, unknown>;
   const model = json.model as Record<string, unknown> | null | undefined;
   io.out(
-    `Rows: ${String(input.rows)} (${String(input.usedForTiming)} used for visit timing, ${String(input.usedForModel)} for the model); subjects: ${String(input.subjects)}.`,
+    `Rows: ${String(input.rows)} (${String(input.usedForTiming)} used for visit timing, ${String(input.usedForModel)} for the model); participants: ${String(input.subjects)}.`,
   );
   const settings = (json.settings ?? {}) as Record<string, unknown>;
   if (typeof settings.cutoff === 'string') io.out(`Data cut-off: ${settings.cutoff}.`);
@@ -53,6 +53,35 @@ function printSummary(json: Record<string, unknown>, io: CliOutput): void {
   if (line !== null) io.out(`Visits: ${line}.`);
   if (model && typeof model.summary === 'string') io.out(`Model: ${model.summary}`);
   else if (typeof json.modelNote === 'string') io.out(`Model: not fitted (${json.modelNote.replace(/\.+$/, '')}).`);
+}
+
+const rowsWord = (n: number): string => `${n.toLocaleString('en-US')} row${n === 1 ? '' : 's'}`;
+
+/**
+ * The rows left out of each use, counted and then listed once per use, grouped by kind (the first row of each kind in
+ * full, then how many more and their first cells); then any other warnings (rows kept, the file's notes). The counts
+ * are the numbers of distinct rows the lines under them account for. O(issues).
+ */
+function printLeftOut(issues: readonly Issue[], fileNotes: readonly Printable[], io: CliOutput): void {
+  const timing = leftOutOf(issues, 'timing');
+  const model = leftOutOf(issues, 'model');
+  if (timing.rows > 0 || model.rows > 0) {
+    io.out(`Rows left out of visit timing: ${timing.rows.toLocaleString('en-US')}; of the model: ${model.rows.toLocaleString('en-US')} (each is listed with its reason in the outputs).`);
+    if (timing.rows > 0) {
+      io.out(`Left out of visit timing (${rowsWord(timing.rows)}):`);
+      for (const l of groupLines(timing.groups)) io.out(l);
+    }
+    if (model.rows > 0) {
+      io.out(`Left out of the model (${rowsWord(model.rows)}):`);
+      for (const l of groupLines(model.groups)) io.out(l);
+    }
+  }
+  const others = groupWarnings([...fileNotes, ...otherWarnings(issues.filter((i) => i.severity === 'warning'))]);
+  const count = others.reduce((n, g) => n + g.count, 0);
+  if (count > 0) {
+    io.out(`Other warnings (${count.toLocaleString('en-US')}; none leaves a row out):`);
+    for (const l of groupLines(others)) io.out(l);
+  }
 }
 
 async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promise<number> {
@@ -95,15 +124,15 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
   const errors = output.issues.filter((i: Issue) => i.severity === 'error');
   // The reader's notes about the file lead; then intake's warnings, grouped by kind (linear in their number).
   const fileNotes: Printable[] = data.notes.map((n) => ({ code: `file:${n}`, cell: null, message: n }));
-  const groups = groupWarnings([...fileNotes, ...output.issues.filter((i: Issue) => i.severity === 'warning')]);
-  const warned = groups.reduce((n, g) => n + g.count, 0);
   if (!output.ok) {
+    const groups = groupWarnings([...fileNotes, ...output.issues.filter((i: Issue) => i.severity === 'warning')]);
+    const warned = groups.reduce((n, g) => n + g.count, 0);
     io.err(`The data "${args.data}" cannot be analysed:`);
     for (const e of errors) io.err(`  ${where(e)}`);
     if (errors.length === 0) io.err('  The run stopped without a reason given.');
     if (errors.some((e) => MAPPING_CODES.has(e.code))) {
       const shown = headers.slice(0, 20).map((h) => `"${h}"`).join(', ');
-      io.err(`  Name the columns with --map role=Header (roles: subject, date, studyDay, reference, visit, value, arm, site, exit, exitStatus, exitReason); the headers are: ${shown}${headers.length > 20 ? ', …' : ''}.`);
+      io.err(`  Name the columns with --map role=Header (roles: participant, date, studyDay, reference, visit, value, arm, site, exit, exitStatus, exitReason); the headers are: ${shown}${headers.length > 20 ? ', …' : ''}.`);
     }
     if (warned > 0) {
       io.err(`The warnings found before it stopped (${warned.toLocaleString('en-US')}, grouped by kind):`);
@@ -116,13 +145,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     }
     return 1;
   }
-  if (warned > 0) {
-    const rows = new Set(output.excluded.map((e) => e.row)).size;
-    io.out(
-      `${warned} warning${warned === 1 ? '' : 's'}; ${rows} row${rows === 1 ? '' : 's'} left out of visit timing or the model (all are listed in the outputs):`,
-    );
-    for (const l of groupLines(groups)) io.out(l);
-  }
+  printLeftOut(output.issues, fileNotes, io);
   printSummary(output.json, io);
   // The cautions of SPEC §2 go with every result, on the terminal as on every sheet.
   for (const c of CAUTIONS) io.out(`Caution: ${c}`);

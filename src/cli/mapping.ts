@@ -5,12 +5,16 @@ type SingleRole = Exclude<Role, 'covariate'>;
 
 /** Role words accepted by --map, compared ignoring case, spaces, hyphens and underscores. */
 const ROLE_WORDS: Readonly<Record<string, SingleRole>> = {
+  participant: 'subject',
   subject: 'subject',
   date: 'date',
+  visitdate: 'date',
   studyday: 'studyDay',
   day: 'studyDay',
   reference: 'reference',
+  referencedate: 'reference',
   visit: 'visit',
+  visitname: 'visit',
   value: 'value',
   arm: 'arm',
   site: 'site',
@@ -33,7 +37,7 @@ function headerIndex(headers: readonly string[], wanted: string, flag: string): 
 
 /**
  * The mapping to analyse with: the detected one, with each --map role=Header and --covariate Header laid over it.
- * A role mapped to "none" is removed (e.g. --map reference=none to use each subject's baseline date instead).
+ * A role mapped to "none" is removed (e.g. --map reference=none to use each participant's baseline date instead).
  */
 export function buildMapping(
   detected: ColumnMapping,
@@ -49,7 +53,7 @@ export function buildMapping(
   for (const [word, header] of map) {
     const role = ROLE_WORDS[key(word)];
     if (role === undefined) {
-      throw new UsageError(`--map ${word}=${header}: unknown role "${word}"; roles are subject, date, studyDay, reference, visit, value, arm, site, exit, exitStatus, exitReason.`);
+      throw new UsageError(`--map ${word}=${header}: unknown role "${word}"; roles are participant, date, studyDay, reference, visit, value, arm, site, exit, exitStatus, exitReason.`);
     }
     if (header.toLowerCase() === 'none') delete m[role];
     else m[role] = headerIndex(headers, header, `--map ${word}=${header}`);

@@ -21,8 +21,8 @@ import { uniqueSheetName, uniqueTableName } from './sheetNames';
 export const STARTER_SHEET_NAME = 'Visit schedule';
 
 /** What the starter sheet's cell checks say when a value breaks them (ExcelApi 1.8 and later). */
-export const STARTER_DAY_RULE = 'A target study day is a whole number other than 0 (study days have no day 0).';
-export const STARTER_ALLOWANCE_RULE = 'Days allowed early or late is a whole number, 0 or more.';
+export const STARTER_DAY_RULE = 'A target day is a whole number other than 0 (study days have no day 0).';
+export const STARTER_ALLOWANCE_RULE = 'Days allowed before or after is a whole number, 0 or more.';
 
 /** One line per blocking schedule problem, with its cell: "Visit schedule!B4: The target day must be ...". */
 export function scheduleMessage(issues: readonly ScheduleIssue[]): string {
@@ -65,7 +65,7 @@ async function writeStarterSchedule(): Promise<string> {
       const body = cells.length - 1;
       const day = ws.getRange(rangeAddress(1, 1, body, 1)).dataValidation;
       day.rule = { wholeNumber: { formula1: 0, operator: 'NotEqualTo' } };
-      day.errorAlert = { showAlert: true, style: 'Stop', title: 'Target study day', message: STARTER_DAY_RULE };
+      day.errorAlert = { showAlert: true, style: 'Stop', title: 'Target day', message: STARTER_DAY_RULE };
       const allowed = ws.getRange(rangeAddress(1, 2, body, 2)).dataValidation;
       allowed.rule = { wholeNumber: { formula1: 0, operator: 'GreaterThanOrEqualTo' } };
       allowed.errorAlert = { showAlert: true, style: 'Stop', title: 'Days allowed', message: STARTER_ALLOWANCE_RULE };

@@ -161,7 +161,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
       setScheduleResult(result);
       setStatus(
         result.ok
-          ? `Schedule ${name}: ${result.schedule.length} planned visits.`
+          ? `Schedule ${name}: ${result.schedule.length} scheduled visits.`
           : `Schedule ${name} has a problem: ${result.message}`,
       );
     } catch (e) {

@@ -43,7 +43,7 @@ export interface DataStepProps {
  */
 export function mappingGaps(mapping: ColumnMapping, blinded = false, headers: readonly string[] = []): string[] {
   const gaps: string[] = [];
-  if (mapping.subject === undefined) gaps.push('Choose the patient column.');
+  if (mapping.subject === undefined) gaps.push('Choose the participant column.');
   if (mapping.date === undefined && mapping.studyDay === undefined)
     gaps.push('Choose a visit date or a study day column.');
   if (blinded) gaps.push(...blindedConflicts(mapping, headers));

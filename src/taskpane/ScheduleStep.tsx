@@ -51,7 +51,7 @@ export function ScheduleStep(props: ScheduleStepProps): ReactNode {
   return (
     <div className={styles.col}>
       <Text>
-        The schedule lists each planned visit, its planned study day and how many days early or late it may be held.
+        The schedule lists each scheduled visit, its target day and how many days it may be held before or after it.
       </Text>
       {props.sources.length > 0 && (
         <div className={styles.row}>

@@ -1,4 +1,4 @@
-/** The parsed visit schedule: each visit's planned study day and the days allowed either side. */
+/** The parsed visit schedule: each visit's target day and the days allowed either side. */
 import type { ReactNode } from 'react';
 import { makeStyles, tokens } from '@fluentui/react-components';
 import type { ScheduleVisit } from '../core/schedule/types';
@@ -17,20 +17,20 @@ export function ScheduleTable({ visits }: { readonly visits: readonly ScheduleVi
   return (
     <div className={styles.wrap} tabIndex={0} role="region" aria-label="Visit schedule">
       <table className={styles.table}>
-        <caption style={{ textAlign: 'left', padding: '2px 6px' }}>{visits.length} planned visits</caption>
+        <caption style={{ textAlign: 'left', padding: '2px 6px' }}>{visits.length} scheduled visits</caption>
         <thead>
           <tr>
             <th className={styles.th} scope="col">
               Visit
             </th>
             <th className={styles.th} scope="col">
-              Planned day
+              Target day
             </th>
             <th className={styles.th} scope="col">
-              Days early allowed
+              Days allowed before
             </th>
             <th className={styles.th} scope="col">
-              Days late allowed
+              Days allowed after
             </th>
           </tr>
         </thead>

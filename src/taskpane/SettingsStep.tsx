@@ -188,12 +188,12 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
         />
       </Field>
       <Checkbox
-        label="Use only records matched to a planned visit in the model"
+        label="Use only records matched to a scheduled visit in the model"
         checked={settings.scheduledOnly}
         onChange={(_, d) => set({ scheduledOnly: d.checked === true })}
       />
       <Checkbox
-        label="Add a sheet with each patient's estimated intercept"
+        label="Add a sheet with each participant's estimated intercept"
         checked={settings.perSubject}
         onChange={(_, d) => set({ perSubject: d.checked === true })}
       />

@@ -29,7 +29,7 @@ function interval(r: Json, level: number | null): string {
 }
 
 /**
- * Lines for the results step. Example, for the invented demo run unblinded: "920 rows read from 240 patients: 918
+ * Lines for the results step. Example, for the invented demo run unblinded: "920 rows read from 240 participants: 918
  * used for visit timing, 916 in the model.", "820 of 975 visits due were on time (84.1%); 86 missed.", "At Week 48,
  * Active differed from Placebo by 4.05 (95% CI 0.76 to 7.33; p = 0.0159)."
  */
@@ -40,7 +40,7 @@ export function headlineOf(output: Done, rowsRead: number): string[] {
   const subjects = num(input?.subjects);
   const timing = num(input?.usedForTiming);
   const model = num(input?.usedForModel);
-  let first = `${whole(rowsRead)} ${rowsRead === 1 ? 'row' : 'rows'} read${subjects === null ? '' : ` from ${whole(subjects)} patients`}`;
+  let first = `${whole(rowsRead)} ${rowsRead === 1 ? 'row' : 'rows'} read${subjects === null ? '' : ` from ${whole(subjects)} ${subjects === 1 ? 'participant' : 'participants'}`}`;
   if (timing !== null && model !== null)
     first += `: ${whole(timing)} used for visit timing, ${whole(model)} in the model`;
   lines.push(`${first}.`);
@@ -67,7 +67,7 @@ export function headlineOf(output: Done, rowsRead: number): string[] {
   return lines;
 }
 
-/** The treatment difference at the last planned visit (unblinded) or the intraclass correlation (blinded). */
+/** The treatment difference at the last scheduled visit (unblinded) or the intraclass correlation (blinded). */
 function modelHeadline(fit: Json): string | null {
   const level = num(fit.level);
   const status =
@@ -93,7 +93,7 @@ function modelHeadline(fit: Json): string | null {
   const icc = num(variance?.icc);
   if (icc !== null && variance !== null) {
     const ci = interval({ lower: variance.iccLower, upper: variance.iccUpper }, level);
-    return `Intraclass correlation ${two(icc)}${ci === '' ? '' : ` (${ci})`}: the share of the variation that lies between patients.${status}`;
+    return `Intraclass correlation ${two(icc)}${ci === '' ? '' : ` (${ci})`}: the share of the variation that lies between participants.${status}`;
   }
   return status === '' ? null : status.trim();
 }

@@ -11,16 +11,16 @@ export interface RoleInfo {
 }
 
 export const ROLES: readonly RoleInfo[] = [
-  { role: 'subject', label: 'Patient', help: 'Needed. One id per patient.' },
+  { role: 'subject', label: 'Participant', help: 'Needed. One id per participant.' },
   { role: 'date', label: 'Visit date', help: 'The date of the visit, or give a study day instead.' },
   { role: 'studyDay', label: 'Study day', help: 'Used when there is no visit date.' },
   {
     role: 'reference',
-    label: 'Start date',
-    help: 'Randomisation or first-dose date; without it, the first visit counts.',
+    label: 'Reference date',
+    help: 'Randomisation or first-dose date; without it, the first scheduled visit counts.',
   },
-  { role: 'visit', label: 'Visit name', help: 'Optional. Without it, records match the nearest planned day.' },
-  { role: 'value', label: 'Measured value', help: 'Needed for the model. A number.' },
+  { role: 'visit', label: 'Visit name', help: 'Optional. Without it, records match the nearest target day.' },
+  { role: 'value', label: 'Value', help: 'Needed for the model. A number.' },
   { role: 'arm', label: 'Treatment arm', help: 'Read only in unblinded mode.' },
   { role: 'site', label: 'Site', help: 'Optional. Gives the by-site report.' },
   {

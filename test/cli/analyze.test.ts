@@ -59,7 +59,7 @@ const readJson = async (path: string): Promise<Results> => JSON.parse(await read
 
 const SCHEDULE = 'visit,target_day,days_before,days_after\nBaseline,1,0,0\nWeek 4,29,3,3\nWeek 8,57,3,3\n';
 
-/** A small invented data set: two arms, two sites; three bad rows (text value, blank subject, impossible date). */
+/** A small invented data set: two arms, two sites; three bad rows (text value, blank participant, impossible date). */
 const SMALL = [
   'USUBJID,SITEID,TRT01P,AVISIT,ADT,RANDDT,AVAL',
   'P-01,Lindale,Placebo,Baseline,2025-01-06,2025-01-06,60.1',
@@ -113,7 +113,7 @@ describe('longipane analyze on the invented demo trial', () => {
   });
 
   it('fits the unblinded model, and its 95% intervals cover the values the invented data were generated from', () => {
-    // Truth by construction (scripts/make-demo-data.ts): between-patient SD 12 (variance 144), within-patient SD 4
+    // Truth by construction (scripts/make-demo-data.ts): between-participant SD 12 (variance 144), within-participant SD 4
     // (variance 16), yearly decline 3.0 on Placebo and 1.0 on Active, so Active's slope is higher by 2 per year =
     // 2 / 12 per month of 30.4375 days (365.25 / 12). A 95% interval misses its truth for 1 seed in 20; this seed's
     // coverage is fixed, so the check is deterministic.
@@ -163,18 +163,36 @@ describe('longipane analyze on a small CSV with CDISC headers and no --map', () 
   it('detects every column, runs, and summarises the warnings on stdout', () => {
     expect(result.err).toEqual([]);
     expect(result.code).toBe(0);
-    expect(result.out.some((l) => /^\d+ warnings?; 3 rows left out/.test(l))).toBe(true);
+    expect(result.out.some((l) => /^Rows: \d+ \(\d+ used for visit timing, \d+ for the model\); participants: \d+\.$/.test(l))).toBe(true);
   });
 
-  it('lists the excluded rows (text value, blank subject, impossible date) with cell addresses and uses', () => {
+  it('counts the rows left out of each use, then lists each left-out row once per use, matching that count', () => {
+    const at = result.out.findIndex((l) => l.startsWith('Rows left out of'));
+    // visits!G6 "pending" leaves the model only; A10 (blank participant) and E12 (2025-02-30) leave both uses.
+    expect(result.out.slice(at, at + 8)).toEqual([
+      'Rows left out of visit timing: 2; of the model: 3 (each is listed with its reason in the outputs).',
+      'Left out of visit timing (2 rows):',
+      '  visits!A10: the participant is blank, so the row is left out of the visit-timing checks.',
+      expect.stringMatching(/^ {2}visits!E12: "2025-02-30" is not a valid visit date: .*left out of the visit-timing checks\.$/),
+      'Left out of the model (3 rows):',
+      '  visits!G6: "pending" is not a number, and the value must be a number, so the row is left out of the model.',
+      '  visits!A10: the participant is blank, so the row is left out of the model.',
+      expect.stringMatching(/^ {2}visits!E12: "2025-02-30" is not a valid visit date: .*left out of the model\.$/),
+    ]);
+    // The counts agree with the JSON's list of left-out rows, use by use.
+    const rowsOf = (use: string): number => new Set(json.input.excluded.filter((e) => e.use === use).map((e) => e.row)).size;
+    expect([rowsOf('timing'), rowsOf('model')]).toEqual([2, 3]);
+  });
+
+  it('lists the excluded rows (text value, blank participant, impossible date) with cell addresses and uses', () => {
     const byCell = (cell: string): string[] => json.input.excluded.filter((e) => e.cell === cell).map((e) => e.use).sort();
     expect(byCell('visits!G6')).toEqual(['model']); // "pending" in AVAL: still a timing record
-    expect(byCell('visits!A10')).toEqual(['model', 'timing']); // blank subject
+    expect(byCell('visits!A10')).toEqual(['model', 'timing']); // blank participant
     expect(byCell('visits!E12')).toEqual(['model', 'timing']); // 2025-02-30
     expect(json.input.excluded.every((e) => e.cell.endsWith(String(e.row)))).toBe(true);
   });
 
-  it('keeps the subject "=1+1" a string cell in the workbook, never a formula', async () => {
+  it('keeps the participant id "=1+1" a string cell in the workbook, never a formula', async () => {
     const wb = await loadXlsx(xlsx());
     const found: ExcelJS.Cell[] = [];
     wb.eachSheet((ws) => ws.eachRow((row) => row.eachCell((c) => {
@@ -261,8 +279,8 @@ describe('longipane analyze with --map, --covariate and model options', () => {
     await writeFile(join(d, 'schedule.csv'), SCHEDULE);
     const r = await run(
       'analyze', '--data', join(d, 'odd.csv'), '--schedule', join(d, 'schedule.csv'), '--json', join(d, 'r.json'), '--out', join(d, 'r.xlsx'),
-      '--map', 'subject=Pt', '--map', 'date=When', '--map', 'value=Score', '--map', 'reference=Start', '--covariate', 'Base',
-      '--time-unit', 'week', '--df', 'satterthwaite', '--method', 'ml', '--level', '0.9', '--scheduled-only', '--per-subject',
+      '--map', 'participant=Pt', '--map', 'date=When', '--map', 'value=Score', '--map', 'reference=Start', '--covariate', 'Base',
+      '--time-unit', 'week', '--df', 'satterthwaite', '--method', 'ml', '--level', '0.9', '--scheduled-only', '--per-participant',
     );
     expect(r.err).toEqual([]);
     expect(r.code).toBe(0);
@@ -270,7 +288,7 @@ describe('longipane analyze with --map, --covariate and model options', () => {
     expect(json.settings.mapping).toEqual({ subject: 'Pt', date: 'When', reference: 'Start', value: 'Score', covariates: ['Base'] });
     expect(json.settings).toMatchObject({ timeUnit: 'week', daysPerUnit: 7, dfMethod: 'satterthwaite', method: 'ml', level: 0.9, scheduledOnly: true, perSubject: true });
     const wb = await loadXlsx(join(d, 'r.xlsx'));
-    expect(wb.worksheets.map((w) => w.name)).toEqual(['Visit timing', 'Visit deviations', 'Visits due', 'Model results', 'Per patient', 'Analysis record']);
+    expect(wb.worksheets.map((w) => w.name)).toEqual(['Visit timing', 'Visit deviations', 'Visits due', 'Model results', 'Per participant', 'Analysis record']);
   });
 
   it('exits with 2 and lists the headers when --map names a column the data do not have', async () => {
@@ -290,7 +308,7 @@ describe('longipane analyze when something is wrong', () => {
     await writeFile(join(d, 'report.xlsx'), 'a good earlier report');
     const r = await run('analyze', '--data', join(d, 'bad.csv'), '--schedule', join(d, 'schedule.csv'), '--out', join(d, 'report.xlsx'));
     expect(r.code).toBe(1);
-    expect(r.err.join('\n')).toMatch(/subject/);
+    expect(r.err.join('\n')).toMatch(/participant/);
     expect(await readFile(join(d, 'report.xlsx'), 'utf8')).toBe('a good earlier report');
     expect((await readdir(d)).sort()).toEqual(['bad.csv', 'report.xlsx', 'schedule.csv']);
   });

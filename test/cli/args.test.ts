@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { isIsoDate, parseAnalyzeArgs, UsageError } from '../../src/cli/args';
+import { HELP_TEXT, isIsoDate, parseAnalyzeArgs, UsageError } from '../../src/cli/args';
 import { buildMapping } from '../../src/cli/mapping';
 
 const BASE = ['--data', 'v.csv', '--schedule', 's.csv'];
@@ -30,6 +30,19 @@ describe('parseAnalyzeArgs', () => {
     ]);
     expect(a.covariates).toEqual(['BASE', 'AGE']);
     expect(a).toMatchObject({ unblinded: true, referenceArm: 'Placebo', perSubject: true, scheduledOnly: false });
+  });
+
+  it('--per-participant asks for the per-participant sheet; --per-subject, its older spelling, still does', () => {
+    expect(parseAnalyzeArgs([...BASE, '--per-participant']).perSubject).toBe(true);
+    expect(parseAnalyzeArgs([...BASE, '--per-subject']).perSubject).toBe(true);
+    expect(parseAnalyzeArgs(BASE).perSubject).toBe(false);
+  });
+
+  it('the help speaks the glossary\'s words: participant, visit name, target day, days allowed before and after', () => {
+    expect(HELP_TEXT).toContain('--per-participant');
+    expect(HELP_TEXT).not.toContain('--per-subject');
+    expect(HELP_TEXT).toMatch(/visit name, target\s+day, days allowed before, days allowed after/);
+    expect(HELP_TEXT).not.toMatch(/patient|per-subject|planned day|start date|measured value|visit label/i);
   });
 
   it('--date-order takes dmy or mdy, is absent by default (each column decides) and rejects anything else', () => {
@@ -88,6 +101,17 @@ describe('buildMapping', () => {
   it('removes a role mapped to "none", and moves a column given a new role out of its detected one', () => {
     expect(buildMapping(detected, headers, [['date', 'none']], [])).toEqual({ subject: 0, value: 2, covariates: [] });
     expect(buildMapping(detected, headers, [['site', 'AVAL']], [])).toEqual({ subject: 0, date: 1, site: 2, covariates: [] });
+  });
+
+  it('takes the glossary\'s words as role names: participant (the JSON key stays subject), visit name, reference date', () => {
+    const h = ['Pt', 'When', 'Score', 'Start', 'Name'];
+    expect(buildMapping({ covariates: [] }, h, [['participant', 'Pt'], ['visit-name', 'Name'], ['reference date', 'Start'], ['visit_date', 'When']], [])).toEqual({
+      subject: 0,
+      visit: 4,
+      reference: 3,
+      date: 1,
+      covariates: [],
+    });
   });
 
   it('throws a UsageError for an unknown role or a header the data do not have', () => {

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../../src/cli/main';
 import type { CliOutput } from '../../src/cli/main';
-import { groupLines, groupWarnings } from '../../src/cli/groupWarnings';
+import { groupLines, groupWarnings, leftOutOf, otherWarnings } from '../../src/cli/groupWarnings';
 import { removeLiveTemporaries, removeStaleTemporaries, STALE_AFTER_MS, writeFilesAtomic } from '../../src/cli/atomicWrite';
 import { makeZip, sheetXml, workbookParts } from '../support/zipFixture';
 
@@ -36,13 +36,38 @@ describe('groupWarnings', () => {
   });
 });
 
+describe('leftOutOf', () => {
+  it('lists each left-out row once per use under its first warning, so the groups add up to the count of rows', () => {
+    const n = 200_000;
+    const w = (code: string, row: number, use: 'timing' | 'model' | null, col = 'C') =>
+      ({ code, role: 'value', severity: 'warning', row, use, cell: `S!${col}${row}`, message: `S!${col}${row}: ${code}.` });
+    const issues = [
+      // every row: a blank value (model); even rows also a bad date, for both uses, so those rows carry two model warnings
+      ...Array.from({ length: n }, (_, k) => w('blank', k + 2, 'model')),
+      ...Array.from({ length: n / 2 }, (_, k) => w('date', 2 * k + 2, 'timing', 'B')),
+      ...Array.from({ length: n / 2 }, (_, k) => w('date', 2 * k + 2, 'model', 'B')),
+      w('kept', 5, null), // a warning that keeps its row
+      { code: 'stop', role: null, severity: 'error', row: null, use: null, cell: null, message: 'stop.' },
+    ];
+    const timing = leftOutOf(issues, 'timing');
+    const model = leftOutOf(issues, 'model');
+    expect(timing.rows).toBe(n / 2);
+    expect(model.rows).toBe(n);
+    // model: each row once, under the first warning that names it (blank value), never again under the bad date
+    expect(model.groups.map((g) => [g.first.code, g.count])).toEqual([['blank', n]]);
+    expect(timing.groups.map((g) => [g.first.code, g.count])).toEqual([['date', n / 2]]);
+    for (const r of [timing, model]) expect(r.groups.reduce((k, g) => k + g.count, 0)).toBe(r.rows);
+    expect(otherWarnings(issues.filter((i) => i.severity === 'warning')).map((i) => i.code)).toEqual(['kept']);
+  });
+});
+
 describe('longipane analyze on hostile and careless files', () => {
   it('prints the warnings that explain a stop on exit 1, grouped (issue item 11)', async () => {
     await writeFile(join(d, 'na.csv'), `USUBJID,ADY,AVAL\n${'NA,NA,NA\n'.repeat(500)}`);
     const r = await analyze('na.csv');
     expect(r.code).toBe(1);
     const err = r.err.join('\n');
-    expect(err).toMatch(/No data row has both a subject and a valid visit date or study day/);
+    expect(err).toMatch(/No data row has both a participant and a valid visit date or study day/);
     expect(err).toMatch(/The warnings found before it stopped \(1,000, grouped by kind\):/);
     expect(err).toMatch(/na!B2: "NA" is not a number.*\n {4}… and 499 more like it: na!B3, na!B4, na!B5, na!B6, …\./);
   });

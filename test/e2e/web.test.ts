@@ -147,11 +147,14 @@ describe('the browser page with the invented demo trial', () => {
   it('reads the demo data, proposes the CDISC columns, and reads the demo schedule', async () => {
     await pane().getByLabel('Visit data file (CSV or Excel .xlsx)').setInputFiles(DEMO_VISITS);
     await pane().getByText('Which column is which?').waitFor();
-    expect(await pane().getByRole('combobox', { name: 'Patient', exact: true }).inputValue()).toBe('0'); // USUBJID, first column
-    expect(await pane().getByRole('combobox', { name: 'Measured value', exact: true }).inputValue()).toBe('6'); // AVAL
+    expect(await pane().getByRole('combobox', { name: 'Participant', exact: true }).inputValue()).toBe('0'); // USUBJID, first column
+    expect(await pane().getByRole('combobox', { name: 'Value', exact: true }).inputValue()).toBe('6'); // AVAL
     await pane().getByRole('button', { name: 'Confirm columns' }).click();
     await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
     await pane().getByRole('region', { name: 'Visit schedule' }).getByText('Week 48').waitFor();
+    // The schedule table speaks the glossary's words (README, "Words we use").
+    const headers = await pane().getByRole('region', { name: 'Visit schedule' }).getByRole('columnheader').allInnerTexts();
+    expect(headers).toEqual(['Visit', 'Target day', 'Days allowed before', 'Days allowed after']);
     // The pane keeps to its task-pane width: wide previews scroll inside their own region, not the pane.
     const { client, scroll } = await paneWidths();
     expect(client).toBeLessThanOrEqual(350);
@@ -174,8 +177,8 @@ describe('the browser page with the invented demo trial', () => {
       ['combobox', 'Degrees of freedom'],
       ['combobox', 'Estimation method'],
       ['spinbutton', 'Confidence level (%)'],
-      ['checkbox', 'Use only records matched to a planned visit in the model'],
-      ['checkbox', "Add a sheet with each patient's estimated intercept"],
+      ['checkbox', 'Use only records matched to a scheduled visit in the model'],
+      ['checkbox', "Add a sheet with each participant's estimated intercept"],
       ['button', 'Run the analysis'],
     ];
     for (const [role, name] of controls) {
@@ -275,8 +278,8 @@ describe('the browser page with the invented demo trial', () => {
   it('counts show as whole numbers on the page (regression: "Patients 240.0000" in the fit counts)', async () => {
     const counts = results().locator('table[data-table-id="FitCounts"] tbody tr');
     await expect(counts.count()).resolves.toBeGreaterThan(0);
-    const patients = counts.filter({ hasText: 'Patients' }).locator('td').nth(1);
-    // 240 invented patients in the demo trial (demo/README.md); an integer column shows no decimals.
+    const patients = counts.filter({ hasText: 'Participants' }).locator('td').nth(1);
+    // 240 invented participants in the demo trial (demo/README.md); an integer column shows no decimals.
     await expect(patients.innerText()).resolves.toBe('240');
     for (const text of await counts.locator('td:nth-child(2)').allInnerTexts()) expect(text).toMatch(/^\d+$/);
   });
@@ -338,9 +341,9 @@ describe('the browser page with the invented demo trial', () => {
     const model = book.getWorksheet('Model results');
     let patients: ExcelJS.Cell | undefined;
     model?.eachRow((row) => {
-      if (row.getCell(1).value === 'Patients') patients = row.getCell(2);
+      if (row.getCell(1).value === 'Participants') patients = row.getCell(2);
     });
-    expect(patients?.value).toBe(240); // 240 invented patients in the demo trial (demo/README.md)
+    expect(patients?.value).toBe(240); // 240 invented participants in the demo trial (demo/README.md)
     expect(patients?.numFmt).toBe('0');
   }, 120_000);
 
@@ -400,7 +403,7 @@ describe('the browser page with the invented demo trial', () => {
     await pane()
       .getByText(/^Read egfr-visits\.xlsx \(sheet Visits\): 920 rows\./)
       .waitFor();
-    expect(await pane().getByRole('combobox', { name: 'Measured value', exact: true }).inputValue()).toBe('6');
+    expect(await pane().getByRole('combobox', { name: 'Value', exact: true }).inputValue()).toBe('6');
   });
 
   it('the page made no request to any address but the local server, and raised no script error', () => {

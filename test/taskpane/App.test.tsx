@@ -45,11 +45,11 @@ describe('data step', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Use the selected cells' }));
     await screen.findByText(/Which column is which/);
     const expected: Record<string, string> = {
-      Patient: 'USUBJID',
+      Participant: 'USUBJID',
       'Visit date': 'ADT',
-      'Start date': 'RANDDT',
+      'Reference date': 'RANDDT',
       'Visit name': 'AVISIT',
-      'Measured value': 'AVAL',
+      Value: 'AVAL',
       Site: 'SITEID',
     };
     for (const [label, header] of Object.entries(expected)) {
@@ -86,7 +86,7 @@ describe('data step', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Confirm columns' }));
     expect(document.activeElement).toBe(screen.getByRole('heading', { name: /Visit schedule/ }));
     fireEvent.click(screen.getByRole('button', { name: 'Change columns' }));
-    expect(document.activeElement).toBe(select('Patient'));
+    expect(document.activeElement).toBe(select('Participant'));
   });
 
   it('a host that fails to read shows the reason instead of crashing', async () => {

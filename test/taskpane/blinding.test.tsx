@@ -127,7 +127,7 @@ describe('a blinded pane with TRT01P and TRT01A columns', () => {
     await loadData();
     expect(within(covariates()).queryByText(/TRT01/)).toBeNull();
     expect(within(covariates()).getByText('AGE')).toBeTruthy();
-    for (const label of [/^Patient$/, /^Visit date$/, /^Study day$/, /^Start date$/, /^Visit name$/, /^Measured value$/, /^Site$/]) {
+    for (const label of [/^Participant$/, /^Visit date$/, /^Study day$/, /^Reference date$/, /^Visit name$/, /^Value$/, /^Site$/]) {
       expect(optionTexts(select(label)).filter((t) => /TRT01/.test(t)), String(label)).toEqual([]);
     }
     expect(optionTexts(select(/^Treatment arm/))).toContain('TRT01A'); // the arm role itself may still name it

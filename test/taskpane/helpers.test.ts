@@ -144,7 +144,7 @@ describe('headline', () => {
   const input = { subjects: 240, usedForTiming: 918, usedForModel: 916 };
   const visits = { counts: { onTime: 820, early: 41, late: 28, missed: 86, notYetDue: 225, extra: 10, repeat: 19 } };
 
-  it('states rows, patients, visits on time among visits due (820 / 975 = 84.1%), and the last treatment difference', () => {
+  it('states rows, participants, visits on time among visits due (820 / 975 = 84.1%), and the last treatment difference', () => {
     const model = {
       level: 0.95,
       converged: true,
@@ -155,7 +155,7 @@ describe('headline', () => {
       ],
     };
     expect(headlineOf(output({ input, visits, model }), 920)).toEqual([
-      '920 rows read from 240 patients: 918 used for visit timing, 916 in the model.',
+      '920 rows read from 240 participants: 918 used for visit timing, 916 in the model.',
       '820 of 975 visits due were on time (84.1%); 86 missed.',
       'At Week 48, Active differed from Placebo by 4.05 (95% CI 0.76 to 7.33; p = 0.0159).',
     ]);
@@ -171,7 +171,7 @@ describe('headline', () => {
       variance: { icc: 0.904, iccLower: 0.884, iccUpper: 0.921 },
     };
     expect(headlineOf(output({ input, visits, model }), 920)[2]).toBe(
-      'Intraclass correlation 0.90 (95% CI 0.88 to 0.92): the share of the variation that lies between patients. The fit did not converge: the iteration limit was reached.',
+      'Intraclass correlation 0.90 (95% CI 0.88 to 0.92): the share of the variation that lies between participants. The fit did not converge: the iteration limit was reached.',
     );
   });
 

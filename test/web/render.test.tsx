@@ -141,7 +141,7 @@ describe('TableView', () => {
         { header: 'Count', format: 'integer' },
       ],
       rows: [
-        ['Patients', 240],
+        ['Participants', 240],
         ['Measurements', 916],
       ],
     };

@@ -43,10 +43,10 @@ const CDISC: Readonly<Record<string, Candidate>> = {
   trtp: { role: 'arm', score: 94, reason: 'TRTP is the CDISC planned treatment of the record' },
   trta: { role: 'arm', score: 93, reason: 'TRTA is the CDISC actual treatment of the record' },
   arm: { role: 'arm', score: 92, reason: 'ARM is the CDISC description of the planned arm' },
-  avisit: { role: 'visit', score: 100, reason: 'AVISIT is the CDISC analysis visit label' },
+  avisit: { role: 'visit', score: 100, reason: 'AVISIT is the CDISC analysis visit (its name)' },
   visit: { role: 'visit', score: 96, reason: 'VISIT is the CDISC visit name' },
-  avisitn: { role: 'visit', score: 80, reason: 'AVISITN is the CDISC analysis visit number (no visit label column was found)' },
-  visitnum: { role: 'visit', score: 78, reason: 'VISITNUM is the CDISC visit number (no visit label column was found)' },
+  avisitn: { role: 'visit', score: 80, reason: 'AVISITN is the CDISC analysis visit number (no visit-name column was found)' },
+  visitnum: { role: 'visit', score: 78, reason: 'VISITNUM is the CDISC visit number (no visit-name column was found)' },
   adt: { role: 'date', score: 100, reason: 'ADT is the CDISC analysis date' },
   ady: { role: 'studyDay', score: 100, reason: 'ADY is the CDISC analysis relative day' },
   randdt: { role: 'reference', score: 100, reason: 'RANDDT is the CDISC date of randomization' },
@@ -118,7 +118,7 @@ function plain(words: readonly string[], header: string): Candidate | null {
   if (visit !== undefined) {
     const numbered = has(words, 'number', 'num', 'no', 'nr', 'n') !== undefined;
     return numbered
-      ? { role: 'visit', score: 55, reason: `${q} is a visit number (no visit label column was found)` }
+      ? { role: 'visit', score: 55, reason: `${q} is a visit number (no visit-name column was found)` }
       : { role: 'visit', score: 75, reason: `${q} contains the word "${visit}"` };
   }
   if (has(words, 'baseline', 'base', 'change', 'chg', 'flag', 'unit', 'units', 'normal', 'range', 'limit') !== undefined) return null;

@@ -1,6 +1,6 @@
 /**
  * The one place where issue sentences are written. Every issue's message is rendered here from its code, role, value,
- * cell and use, plus an optional short context (a column name, a subject id, a count) for the few codes that need it.
+ * cell and use, plus an optional short context (a column name, a participant id, a count) for the few codes that need it.
  */
 import type { IssueCode, Role, Use } from './types';
 
@@ -12,18 +12,18 @@ export interface MessageInput {
   readonly value: string;
   readonly cell: string | null;
   readonly use: Use | null;
-  /** Extra words some codes need: the column name of a covariate, the subject of an arm conflict, a count. */
+  /** Extra words some codes need: the column name of a covariate, the participant of an arm conflict, a count. */
   readonly context?: string;
-  /** A second value some sentences compare with, e.g. the reference date first given for the subject. */
+  /** A second value some sentences compare with, e.g. the reference date first given for the participant. */
   readonly other?: string;
 }
 
 const ROLE_WORDS: Readonly<Record<Role, string>> = {
-  subject: 'subject',
+  subject: 'participant',
   date: 'visit date',
   studyDay: 'study day',
   reference: 'reference date',
-  visit: 'visit label',
+  visit: 'visit name',
   value: 'value',
   arm: 'arm',
   site: 'site',
@@ -84,7 +84,7 @@ export function renderMessage(m: MessageInput): string {
     case 'no-rows':
       return 'The range has a header row but no data rows.';
     case 'no-subject-column':
-      return 'No column is mapped to the subject; every row needs a subject.';
+      return 'No column is mapped to the participant; every row needs a participant.';
     case 'no-time-column':
       return 'No column is mapped to a visit date or a study day; visit timing and the model need one of them.';
     case 'no-value-column':
@@ -98,9 +98,9 @@ export function renderMessage(m: MessageInput): string {
     case 'column-outside-range':
       return `The ${role} is mapped to column ${m.value}, which is outside the range.`;
     case 'subject-in-two-arms':
-      return `${at}subject ${quoted(m.context ?? '')} is in arm ${quoted(m.value)} here but in ${m.other === undefined ? 'another arm' : `arm ${quoted(m.other)}`} elsewhere; a subject must stay in one arm.`;
+      return `${at}participant ${quoted(m.context ?? '')} is in arm ${quoted(m.value)} here but in ${m.other === undefined ? 'another arm' : `arm ${quoted(m.other)}`} elsewhere; a participant must stay in one arm.`;
     case 'too-few-subjects-per-arm':
-      return `Arm ${quoted(m.value)} has ${m.context ?? 'fewer than two'} subject(s) with usable rows; unblinded mode needs at least two subjects in every arm.`;
+      return `Arm ${quoted(m.value)} has ${m.context ?? 'fewer than two'} participant(s) with usable rows; unblinded mode needs at least two participants in every arm.`;
     case 'unknown-reference-arm':
       return `The reference arm ${quoted(m.value)} is not among the arms in the data (${m.context ?? ''}); choose one of them, since the reference arm decides the sign of every treatment difference.`;
     case 'too-few-arms':
@@ -108,11 +108,11 @@ export function renderMessage(m: MessageInput): string {
     case 'no-usable-rows':
       return m.use === 'model'
         ? 'No row has everything the model needs (a numeric value, and an arm and covariates where mapped), so the model cannot run.'
-        : 'No data row has both a subject and a valid visit date or study day, so there is nothing to analyse.';
+        : 'No data row has both a participant and a valid visit date or study day, so there is nothing to analyse.';
     case 'blank-row':
       return `${at}the whole row is blank, so it is ${left}.`;
     case 'blank-subject':
-      return `${at}the subject is blank, so the row is ${left}.`;
+      return `${at}the participant is blank, so the row is ${left}.`;
     case 'blank-time':
       return `${at}the ${role} is blank, so the row is ${left}.`;
     case 'bad-date':
@@ -146,7 +146,7 @@ export function renderMessage(m: MessageInput): string {
         ? `${at}the spreadsheet error value ${m.value} in the ${role} column is treated as blank; the row is kept.`
         : `${at}the ${role} holds the spreadsheet error value ${m.value}, so the row is ${left}.`;
     case 'reference-date-differs':
-      return `${at}the reference date ${m.value} differs from ${m.other ?? 'the one'} given earlier for subject ${quoted(m.context ?? '')}; a subject has one reference date. The row is kept with its own reference date.`;
+      return `${at}the reference date ${m.value} differs from ${m.other ?? 'the one'} given earlier for participant ${quoted(m.context ?? '')}; a participant has one reference date. The row is kept with its own reference date.`;
     case 'bad-exit-date':
       return `${at}${quoted(m.value)} is not a valid date, so it is not used as this participant's exit date; the row is kept.`;
     case 'exit-date-differs':
@@ -156,9 +156,9 @@ export function renderMessage(m: MessageInput): string {
     case 'blank-arm':
       return `${at}the arm is blank, so the row is ${left}.`;
     case 'no-reference-date':
-      return `${at}subject ${quoted(m.value)} has no reference date on any row, so the row is ${left}.`;
+      return `${at}participant ${quoted(m.value)} has no reference date on any row, so the row is ${left}.`;
     case 'no-baseline-record':
-      return `${at}subject ${quoted(m.value)} has no dated record of the first scheduled visit to count study days from, so the row is ${left}.`;
+      return `${at}participant ${quoted(m.value)} has no dated record of the first scheduled visit to count study days from, so the row is ${left}.`;
     case 'after-cutoff':
       return `${at}the record is dated after the data cut-off, so it is ${left}.`;
     case 'model-not-fitted':

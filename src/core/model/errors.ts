@@ -27,7 +27,7 @@ export class RankDeficiencyError extends Error {
 export type DegenerateReason = 'one-subject' | 'one-measurement-each' | 'no-variation' | 'below-resolution' | 'out-of-range' | 'unsound-result';
 
 /**
- * The data are valid but cannot give a trustworthy model: one patient only, one measurement per patient, values that do not vary, variation below
+ * The data are valid but cannot give a trustworthy model: one participant only, one measurement per participant, values that do not vary, variation below
  * the floating-point resolution of the values, magnitudes whose variances would overflow or underflow, or a fit whose
  * numbers fail the checks every reported model must pass (variances ≥ 0, lower ≤ estimate ≤ upper, 0 < p ≤ 1).
  * A property of the data, like RankDeficiencyError: the pipeline reports no model and shows `message` as the reason.

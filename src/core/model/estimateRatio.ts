@@ -36,7 +36,7 @@ export function estimateRatio(st: SufficientStats, method: FitMethod): RatioEsti
   if (maxN < 2) {
     return {
       status: 'boundary',
-      message: 'No patient has more than one measurement, so between- and within-patient variation cannot be separated; the between-patient variance is set to zero.',
+      message: 'No participant has more than one measurement, so between- and within-participant variation cannot be separated; the between-participant variance is set to zero.',
       iterations: evals,
       point: zero,
     };
@@ -44,7 +44,7 @@ export function estimateRatio(st: SufficientStats, method: FitMethod): RatioEsti
   if (!(zero.slope > 0)) {
     return {
       status: 'boundary',
-      message: 'The between-patient variance is estimated at zero (the likelihood does not increase away from zero).',
+      message: 'The between-participant variance is estimated at zero (the likelihood does not increase away from zero).',
       iterations: evals,
       point: zero,
     };
@@ -64,7 +64,7 @@ export function estimateRatio(st: SufficientStats, method: FitMethod): RatioEsti
     if (best === grid.length - 1) {
       return {
         status: 'failed',
-        message: 'The within-patient variance is indistinguishable from zero (variance ratio above e^40); the model cannot be fitted to these data.',
+        message: 'The within-participant variance is indistinguishable from zero (variance ratio above e^40); the model cannot be fitted to these data.',
         iterations: evals,
         point: at(Math.exp(grid[best]!)),
       };
@@ -98,7 +98,7 @@ export function estimateRatio(st: SufficientStats, method: FitMethod): RatioEsti
   }
   return {
     status: 'converged',
-    message: 'The likelihood has its maximum inside the allowed range: both the between- and the within-patient variance are positive.',
+    message: 'The likelihood has its maximum inside the allowed range: both the between- and the within-participant variance are positive.',
     iterations: evals,
     point: pt,
   };

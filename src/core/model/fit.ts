@@ -31,7 +31,7 @@ export const DAYS_PER_TIME_UNIT: Readonly<Record<TimeUnit, number>> = { month: 3
 /**
  * Fits the model on the centred and scaled response and time (scaling.ts) and reports every number on the original
  * scale. Misuse (bad shapes, missing values, a rank-deficient design) throws ModelInputError or RankDeficiencyError;
- * data that cannot give a trustworthy model (one patient, one measurement each, no variation or variation below the
+ * data that cannot give a trustworthy model (one participant, one measurement each, no variation or variation below the
  * resolution of the values, a spread outside 1e±150, values on the fitted lines to within rounding, or numbers that
  * fail soundness.ts) throw DegenerateDataError with a plain reason; non-convergence and the zero boundary are reported
  * in `status` and `message`.
@@ -153,7 +153,7 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   const beta = pt.beta;
   let message = est.message;
   if (atBoundary && options.dfMethod !== 'residual') {
-    message += ' For the degrees of freedom the between-patient variance is held fixed at zero; only the within-patient variance is treated as estimated.';
+    message += ' For the degrees of freedom the between-participant variance is held fixed at zero; only the within-participant variance is treated as estimated.';
   }
   const numbers: Omit<ModelFit, 'subjects'> = {
     ...base,
@@ -195,21 +195,21 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
 }
 
 /**
- * Smallest within-patient variance, relative to the mean square of the centred values, that is reported: the
+ * Smallest within-participant variance, relative to the mean square of the centred values, that is reported: the
  * residual sum carries a rounding error of about ε·y'y (ε = 2.2e-16), so at 1e-10 the variance is still good to ~1e-6
  * relative; below it the values lie on the fitted lines to within rounding.
  */
 export const WITHIN_FLOOR = 1e-10;
 
-/** What the model can and cannot do with one patient (issue: say it plainly, and report no fit). */
+/** What the model can and cannot do with one participant (issue: say it plainly, and report no fit). */
 export const ONE_SUBJECT =
-  'only one patient has measurements the model can use. With one patient the model could draw a line through that patient\'s values, but it cannot estimate how patients differ from one another (there is no between-patient variance to estimate), so it cannot separate the two sources of variation or give intervals that apply to other patients; no model is reported';
+  'only one participant has measurements the model can use. With one participant the model could draw a line through that participant\'s values, but it cannot estimate how participants differ from one another (there is no between-participant variance to estimate), so it cannot separate the two sources of variation or give intervals that apply to other participants; no model is reported';
 
 const ONE_MEASUREMENT_EACH =
-  'no patient has more than one measurement, so the variation between patients cannot be told apart from the variation within a patient, which is what a random-intercept model estimates; no model is reported';
+  'no participant has more than one measurement, so the variation between participants cannot be told apart from the variation within a participant, which is what a random-intercept model estimates; no model is reported';
 
 const NO_WITHIN_VARIATION =
-  'the values lie on the fitted lines to within the floating-point resolution of the data, so there is no within-patient variation left to estimate and no model is reported';
+  'the values lie on the fitted lines to within the floating-point resolution of the data, so there is no within-participant variation left to estimate and no model is reported';
 
 const UNSOUND = 'the fit gave numbers that cannot be reported, so no model is reported';
 

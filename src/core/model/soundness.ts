@@ -1,5 +1,5 @@
 /**
- * The checks every reported fit must pass, whatever the data: variances finite and ≥ 0 (the within-patient one > 0),
+ * The checks every reported fit must pass, whatever the data: variances finite and ≥ 0 (the within-participant one > 0),
  * every interval ordered lower ≤ estimate ≤ upper with finite ends (a variance's upper limit may be +∞), standard errors finite and > 0, 0 < p ≤ 1, and a
  * finite log-likelihood. A fit that fails one is not reported: fitRandomIntercept throws DegenerateDataError with the
  * sentence returned here. Cost O(number of reported numbers).
@@ -24,15 +24,15 @@ function contrastProblem(what: string, r: ContrastResult): string | null {
 
 /**
  * Null when every number of the fit passes the checks above, else a plain sentence naming the first that does not.
- * Example: a fit whose within-patient variance came out −4.2e-14 -> "the within-patient variance is -4.2e-14, not a
+ * Example: a fit whose within-participant variance came out −4.2e-14 -> "the within-participant variance is -4.2e-14, not a
  * positive number".
  */
 export function soundnessProblem(fit: Omit<ModelFit, 'subjects'>): string | null {
   const v = fit.variance;
-  if (!(ok(v.residual) && v.residual > 0)) return `the within-patient variance is ${shown(v.residual)}, not a positive number`;
-  if (!(ok(v.subject) && v.subject >= 0)) return `the between-patient variance is ${shown(v.subject)}, not a number ≥ 0`;
-  if (!orderedOpen(v.residualLower, v.residual, v.residualUpper)) return `the interval of the within-patient variance (${shown(v.residualLower)} to ${shown(v.residualUpper)}) does not hold its estimate`;
-  if (!(orderedOpen(v.subjectLower, v.subject, v.subjectUpper) && v.subjectLower >= 0)) return `the interval of the between-patient variance (${shown(v.subjectLower)} to ${shown(v.subjectUpper)}) does not hold its estimate`;
+  if (!(ok(v.residual) && v.residual > 0)) return `the within-participant variance is ${shown(v.residual)}, not a positive number`;
+  if (!(ok(v.subject) && v.subject >= 0)) return `the between-participant variance is ${shown(v.subject)}, not a number ≥ 0`;
+  if (!orderedOpen(v.residualLower, v.residual, v.residualUpper)) return `the interval of the within-participant variance (${shown(v.residualLower)} to ${shown(v.residualUpper)}) does not hold its estimate`;
+  if (!(orderedOpen(v.subjectLower, v.subject, v.subjectUpper) && v.subjectLower >= 0)) return `the interval of the between-participant variance (${shown(v.subjectLower)} to ${shown(v.subjectUpper)}) does not hold its estimate`;
   if (!(ordered(v.iccLower, v.icc, v.iccUpper) && v.iccLower >= 0 && v.iccUpper <= 1)) return `the interval of the intraclass correlation (${shown(v.iccLower)} to ${shown(v.iccUpper)}) does not hold its estimate ${shown(v.icc)}`;
   if (!ok(fit.logLik)) return `the log-likelihood is ${shown(fit.logLik)}`;
   for (const f of fit.fixedEffects) {

@@ -1,7 +1,7 @@
 /**
  * Predicted mean trajectories by arm on an even time grid with pointwise intervals, using the same df method as the
  * fixed effects. Covariates are held at their observed means (categorical covariates at their observed proportions),
- * so the curve is the population-average prediction for an "average" patient of each arm. `contrastOf` gives the
+ * so the curve is the population-average prediction for an "average" participant of each arm. `contrastOf` gives the
  * inference of a contrast in the coordinates of the design (st's covariate columns are used as they are).
  * Cost O(arms · grid · p²).
  */

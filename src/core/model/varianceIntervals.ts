@@ -71,7 +71,7 @@ export function varianceIntervals(
   } else if (atBoundary) {
     iccLower = 0;
     iccUpper = subjectUpper / (subjectUpper + s2);
-    iccMethod = 'ICC: at the zero boundary, from 0 to the ICC implied by the upper limit of the between-patient variance';
+    iccMethod = 'ICC: at the zero boundary, from 0 to the ICC implied by the upper limit of the between-participant variance';
   } else {
     [iccLower, iccUpper] = logitWaldIccInterval(s2u, s2, W, level);
     iccMethod = `ICC: Wald interval on the logit scale (delta method); ${LOGIT_WALD_VS_EXACT}`;
@@ -86,7 +86,7 @@ export function varianceIntervals(
     residualUpper,
     iccLower,
     iccUpper,
-    intervalMethod: `Variances: scaled chi-square intervals with Satterthwaite degrees of freedom from the inverse expected information${atBoundary ? ' (between-patient: lower bound 0 and a normal-theory upper bound, at the zero boundary)' : ''}${widened ? ` (${WIDENED})` : ''}. ${iccMethod}.`,
+    intervalMethod: `Variances: scaled chi-square intervals with Satterthwaite degrees of freedom from the inverse expected information${atBoundary ? ' (between-participant: lower bound 0 and a normal-theory upper bound, at the zero boundary)' : ''}${widened ? ` (${WIDENED})` : ''}. ${iccMethod}.`,
   };
 }
 
@@ -99,7 +99,7 @@ export const WIDENED =
  * test/core/model/iccInterval.test.ts on the balanced rail (Devore 2000) and dyestuff (Davies 1947) data.
  */
 export const LOGIT_WALD_VS_EXACT =
-  'on balanced data with 6 patients, where the exact interval is known (Devore 2000 rails; Davies 1947 dyestuff), it differed from the exact F-based interval by up to 0.044 in a limit, so with few patients read it as approximate';
+  'on balanced data with 6 participants, where the exact interval is known (Devore 2000 rails; Davies 1947 dyestuff), it differed from the exact F-based interval by up to 0.044 in a limit, so with few participants read it as approximate';
 
 /**
  * Wald interval for the ICC on the logit scale: logit ICC = log σ²_u − log σ², whose variance by the delta method is

@@ -20,8 +20,8 @@ export interface FitStage {
 /**
  * The fitting stage: fitFromTable on the rows modelRows picks (all valid rows, or only each scheduled visit's record),
  * with contrasts at every scheduled visit's target day (the issue's default; at a baseline on day 1 it is the arm term itself), and the observed means per
- * scheduled visit (by arm in unblinded mode). A design the engine refuses (no usable rows, one patient, one
- * measurement per patient, values that do not vary or vary below their floating-point resolution, magnitudes out of
+ * scheduled visit (by arm in unblinded mode). A design the engine refuses (no usable rows, one participant, one
+ * measurement per participant, values that do not vary or vary below their floating-point resolution, magnitudes out of
  * range, not of full rank, numbers that fail the engine's checks) and a fit that did not converge are properties of
  * the data: fit null and the engine's reason as `note`, never a model with wrong numbers. Cost: O(rows) plus the engine's pass.
  */

@@ -55,8 +55,8 @@ export function recordSheet(r: RecordInput): SheetSpec {
     { name: 'Degrees of freedom', value: DF_WORDS[s.dfMethod] },
     { name: 'Confidence level', value: `${Math.round(s.level * 1000) / 10}%` },
     { name: 'Time unit', value: UNIT_WORDS[s.timeUnit] },
-    { name: 'Rows in the model', value: s.scheduledOnly ? 'Only records matched to scheduled visits' : 'All valid rows (scheduled, early, late, extra and repeat)' },
-    { name: 'Per-patient sheet', value: s.perSubject ? 'Yes' : 'No' },
+    { name: 'Rows in the model', value: s.scheduledOnly ? 'Only records matched to scheduled visits' : 'All valid rows (scheduled, early, late, unscheduled and repeat)' },
+    { name: 'Per-participant sheet', value: s.perSubject ? 'Yes' : 'No' },
     ...(r.referenceArm === null ? [] : [{ name: 'Reference arm', value: r.referenceArm }]),
     ...(s.numericText === 'accept' ? [{ name: 'Numbers written as text', value: 'Accepted (text input such as CSV)' }] : []),
   ];

@@ -2,8 +2,8 @@
  * The model's sheets (SPEC §5, §6): "Model results" opens with a plain-language paragraph and the cautions, then
  * tables of fixed effects, treatment differences by visit, slope differences, variance components and ICC, how well
  * the model fits with the convergence verdict, predicted trajectories beside observed means (with a chart spec); and,
- * on request, "Per patient" with each patient's random intercept. In blinded mode no text outside the cautions speaks
- * of arms: captions, column headers and the per-patient explanation use pooled wording and the arm column is left out.
+ * on request, "Per participant" with each participant's random intercept. In blinded mode no text outside the cautions speaks
+ * of arms: captions, column headers and the per-participant explanation use pooled wording and the arm column is left out.
  */
 import type { Mode } from '../intake/types';
 import type { ContrastResult, ModelFit } from '../model/types';
@@ -38,7 +38,7 @@ export class ModelReportError extends Error {
 }
 
 /** Sheet names of the model output (front ends make them unique in the workbook). */
-export const MODEL_SHEET_NAMES = { results: 'Model results', perPatient: 'Per patient' } as const;
+export const MODEL_SHEET_NAMES = { results: 'Model results', perParticipant: 'Per participant' } as const;
 
 const UNIT = { month: 'month', week: 'week', day: 'day' } as const;
 
@@ -109,11 +109,11 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   blocks.push({
     kind: 'table',
     id: 'VarianceICC',
-    caption: 'Variation between and within patients',
+    caption: 'Variation between and within participants',
     columns: [col('Component', 'text', 30), col('Estimate', 'decimal4'), col('Standard deviation', 'decimal4'), col(`Lower ${pct} limit`, 'decimal4'), col(`Upper ${pct} limit`, 'decimal4')],
     rows: [
-      ['Between-patient variance', cell(v.subject), cell(Math.sqrt(v.subject)), cell(v.subjectLower), cell(v.subjectUpper)],
-      ['Within-patient variance', cell(v.residual), cell(Math.sqrt(v.residual)), cell(v.residualLower), cell(v.residualUpper)],
+      ['Between-participant variance', cell(v.subject), cell(Math.sqrt(v.subject)), cell(v.subjectLower), cell(v.subjectUpper)],
+      ['Within-participant variance', cell(v.residual), cell(Math.sqrt(v.residual)), cell(v.residualLower), cell(v.residualUpper)],
       ['Intraclass correlation', cell(v.icc), null, cell(v.iccLower), cell(v.iccUpper)],
     ],
   });
@@ -139,7 +139,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
     caption: 'Data used and work done',
     columns: [col('Item', 'text', 24), col('Count', 'integer')],
     rows: [
-      ['Patients', fit.nSubjects],
+      ['Participants', fit.nSubjects],
       ['Measurements', fit.nObservations],
       ['Fixed effects', fit.fixedEffects.length],
       ['Likelihood evaluations', fit.iterations],
@@ -149,7 +149,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   blocks.push(...trajectoryBlocks(fit, context, unit, pct));
 
   const sheets: SheetSpec[] = [{ name: MODEL_SHEET_NAMES.results, title: 'Random-intercept model', blocks }];
-  if (context.perSubject) sheets.push(perPatientSheet(fit, context.mode, unblinded));
+  if (context.perSubject) sheets.push(perParticipantSheet(fit, context.mode, unblinded));
   return sheets;
 }
 
@@ -173,7 +173,7 @@ export function modelNotFittedSheet(reason: string, mode: Mode): SheetSpec {
 
 function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: string, pct: string): Block[] {
   if (fit.trajectories.length === 0) return [];
-  const label = (arm: string | null): string => (arm === null ? 'All patients' : arm);
+  const label = (arm: string | null): string => (arm === null ? 'All participants' : arm);
   // The arm column appears only in unblinded mode; blinded tables hold the pooled rows without it.
   const withArm = context.mode === 'unblinded';
   const armCol: TableColumn[] = withArm ? [col('Arm', 'text', 16)] : [];
@@ -204,7 +204,7 @@ function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: strin
       kind: 'table',
       id: 'ObservedMeans',
       caption: 'Observed mean at each scheduled visit',
-      columns: [...armCol, col('Visit', 'text', 14), col('Study day', 'integer'), col('Observed mean', 'decimal3'), col('Patients', 'integer')],
+      columns: [...armCol, col('Visit', 'text', 14), col('Study day', 'integer'), col('Observed mean', 'decimal3'), col('Participants', 'integer')],
       rows: observed.map((o) => [...armCell(o.arm), o.label, o.day, cell(o.mean), o.n]),
     },
     {
@@ -214,21 +214,21 @@ function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: strin
   ];
 }
 
-function perPatientSheet(fit: ModelFit, mode: Mode, unblinded: boolean): SheetSpec {
-  const reference = unblinded ? 'the average for their arm and visit times' : 'the average of all patients at their visit times';
+function perParticipantSheet(fit: ModelFit, mode: Mode, unblinded: boolean): SheetSpec {
+  const reference = unblinded ? 'the average for their arm and visit times' : 'the average of all participants at their visit times';
   return {
-    name: MODEL_SHEET_NAMES.perPatient,
-    title: 'Per-patient random intercepts',
+    name: MODEL_SHEET_NAMES.perParticipant,
+    title: 'Per-participant random intercepts',
     blocks: [
       para(
-        `Each patient's random intercept is the model's best prediction of how far that patient's level lies above (positive) or below (negative) ${reference}, shrunk toward zero when the patient has few measurements. ${fit.subjects.length} patients.`,
+        `Each participant's random intercept is the model's best prediction of how far that participant's level lies above (positive) or below (negative) ${reference}, shrunk toward zero when the participant has few measurements. ${fit.subjects.length} participants.`,
       ),
       ...cautionBlocks(mode),
       {
         kind: 'table',
-        id: 'PatientIntercepts',
-        caption: 'Random intercept and mean residual per patient',
-        columns: [col('Patient', 'text', 16), col('Measurements', 'integer'), col('Random intercept', 'decimal3'), col('Mean residual', 'decimal3')],
+        id: 'ParticipantIntercepts',
+        caption: 'Random intercept and mean residual per participant',
+        columns: [col('Participant', 'text', 16), col('Measurements', 'integer'), col('Random intercept', 'decimal3'), col('Mean residual', 'decimal3')],
         rows: fit.subjects.map((s) => [s.id, s.n, cell(s.blup), cell(s.meanResidual)]),
       },
     ],

@@ -5,7 +5,7 @@ import type { Mode } from '../intake/types';
 /** Status words shown in the sheets (JSON keeps the status keys). */
 export const FIT_STATUS_WORDS: Readonly<Record<FitStatus, string>> = {
   converged: 'Converged',
-  boundary: 'Converged at the zero boundary (no between-patient variation detected)',
+  boundary: 'Converged at the zero boundary (no between-participant variation detected)',
   failed: 'Did not converge — do not use these estimates',
 };
 
@@ -46,7 +46,7 @@ const methodWords = (fit: ModelFit): string =>
   } degrees of freedom`;
 
 /**
- * The paragraph that opens the model sheet: what was fitted, on how many patients and measurements, then the treatment
+ * The paragraph that opens the model sheet: what was fitted, on how many participants and measurements, then the treatment
  * difference at the last scheduled visit (unblinded) or the overall change over time (blinded), the two sources of
  * variation with the ICC, the fit verdict and a pointer to the cautions that follow. Example (blinded): "A random-intercept linear mixed model ... intraclass correlation 0.62 ...".
  */
@@ -56,11 +56,11 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
   const armed = mode === 'unblinded' && fit.terms.some((t) => t.kind === 'arm');
   const what = armed
     ? `the outcome on arm, time (in ${unit}s from the actual visit day) and arm × time`
-    : `the outcome on time (in ${unit}s from the actual visit day), pooled over all patients`;
+    : `the outcome on time (in ${unit}s from the actual visit day), pooled over all participants`;
   const covs = fit.terms.filter((t) => t.kind === 'covariate').length;
   let text =
     `A random-intercept linear mixed model, ${methodWords(fit)}, regressed ${what}${covs > 0 ? ', adjusted for the chosen covariates' : ''}, ` +
-    `with each patient's own level as a random intercept. It used ${fit.nObservations} measurements from ${fit.nSubjects} patients. `;
+    `with each participant's own level as a random intercept. It used ${fit.nObservations} measurements from ${fit.nSubjects} participants. `;
   if (fit.status === 'failed') return text + `The fit did not converge: ${fit.message} Read the cautions below.`;
   if (armed) {
     const last = lastVisitEffects(fit);
@@ -78,9 +78,9 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
   }
   const v = fit.variance;
   text +=
-    `Patients differ from one another with a standard deviation of ${num(Math.sqrt(v.subject))} and measurements within a patient vary with a standard deviation of ${num(Math.sqrt(v.residual))}; ` +
+    `Participants differ from one another with a standard deviation of ${num(Math.sqrt(v.subject))} and measurements within a participant vary with a standard deviation of ${num(Math.sqrt(v.residual))}; ` +
     `the intraclass correlation is ${num(v.icc)} (${pct}% confidence interval ${num(v.iccLower)} to ${num(v.iccUpper)}), ` +
-    `the share of the total variation that lies between patients. `;
+    `the share of the total variation that lies between participants. `;
   text += `Fit: ${FIT_STATUS_WORDS[fit.status].toLowerCase()}. `;
   text += 'Read this with the cautions below: an interim look is not a final analysis, and repeated looks inflate the chance of a false-positive finding.';
   return text;

@@ -46,11 +46,11 @@ export interface MappingLine {
 }
 
 const ROLE_WORDS: readonly [Exclude<keyof ColumnMapping, 'covariates'>, string][] = [
-  ['subject', 'Subject'],
+  ['subject', 'Participant'],
   ['date', 'Visit date'],
   ['studyDay', 'Study day'],
   ['reference', 'Reference date'],
-  ['visit', 'Visit label'],
+  ['visit', 'Visit name'],
   ['value', 'Value'],
   ['arm', 'Arm'],
   ['site', 'Site'],
@@ -82,6 +82,7 @@ const USE_WORDS: Readonly<Record<RecordExclusion['use'], string>> = { timing: 'V
  */
 export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
   const rowsOut = new Set(input.excluded.map((e) => e.row)).size;
+  const rowsOutOf = (use: RecordExclusion['use']): number => new Set(input.excluded.filter((e) => e.use === use).map((e) => e.row)).size;
   const blocks: Block[] = [
     ...cautionBlocks(input.mode),
     heading('This run'),
@@ -108,6 +109,8 @@ export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
         ['Data rows read', input.rowsRead],
         ['Used for visit timing', input.rowsTiming],
         ['Used for the model', input.rowsModel],
+        ['Left out of visit timing', rowsOutOf('timing')],
+        ['Left out of the model', rowsOutOf('model')],
         ['Left out of at least one use', rowsOut],
       ],
     },
@@ -124,7 +127,7 @@ export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
       kind: 'table',
       id: 'Schedule',
       caption: 'The schedule used',
-      columns: [col('Visit', 'text', 14), col('Target study day', 'integer'), col('Days allowed before', 'integer'), col('Days allowed after', 'integer')],
+      columns: [col('Visit', 'text', 14), col('Target day', 'integer'), col('Days allowed before', 'integer'), col('Days allowed after', 'integer')],
       rows: input.schedule.map((v) => [v.label, v.targetDay, v.before, v.after]),
     },
     heading('Settings'),

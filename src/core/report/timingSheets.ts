@@ -17,7 +17,7 @@ function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[
   const columns = [
     ...(withArm ? [col('Arm', 'text', 14)] : []),
     col('Visit', 'text', 14),
-    col('Target study day', 'integer'),
+    col('Target day', 'integer'),
     col('Expected', 'integer'),
     col('On time', 'integer'),
     col('Early', 'integer'),
@@ -100,7 +100,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
         caption: 'Scheduled visits by site',
         columns: [
           col('Site', 'text', 14),
-          col('Subjects', 'integer'),
+          col('Participants', 'integer'),
           col('Visits due', 'integer'),
           col('On time', 'integer'),
           col('Out of window', 'integer'),
@@ -133,27 +133,30 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
 
   const dateFormat: NumberFormat = summary.dated ? 'date' : 'integer';
   const when = summary.dated ? 'date' : 'study day';
+  // The glossary's "target day" for study-day data; dated data show the target's calendar date.
+  const target = summary.dated ? 'target date' : 'target day';
+  const targetHeader = summary.dated ? 'Target date' : 'Target day';
   const withSite = summary.bySite !== null;
   const deviations: Block[] = [
     ...cautions,
     para(
-      `${cutoffPhrase(summary)}: every early, late or missed scheduled visit, and every extra or repeat record, for follow-up. ` +
-        `Days off = actual ${when} − target ${when} (negative = early). ` +
-        (summary.dated ? 'Target and window dates count from each subject’s reference date (day 1).' : 'The data carry study days, so study days are shown instead of dates.'),
+      `${cutoffPhrase(summary)}: every early, late or missed scheduled visit, and every unscheduled or repeat record, for follow-up. ` +
+        `Days from target = actual ${when} − ${target} (negative = early). ` +
+        (summary.dated ? 'Target and window dates count from each participant’s reference date (day 1).' : 'The data carry study days, so study days are shown instead of dates.'),
     ),
     {
       kind: 'table',
       id: 'Deviations',
       caption: 'Visits needing follow-up',
       columns: [
-        col('Subject', 'text', 12),
+        col('Participant', 'text', 12),
         ...(withSite ? [col('Site', 'text', 12)] : []),
         col('Visit', 'text', 14),
-        col(`Target ${when}`, dateFormat, 12),
+        col(targetHeader, dateFormat, 12),
         col('Window opens', dateFormat, 12),
         col('Window closes', dateFormat, 12),
         col(`Actual ${when}`, dateFormat, 12),
-        col('Days off', 'integer'),
+        col('Days from target', 'integer'),
         col('Status', 'text', 10),
         col('Data row', 'integer'),
         ...lastRecordColumns(dateFormat, when),
@@ -177,19 +180,19 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
   const due: Block[] = [
     ...cautions,
     para(
-      `${cutoffPhrase(summary)}: each subject still in follow-up (no record yet of the final scheduled visit) with their next scheduled visit that has no record. ` +
+      `${cutoffPhrase(summary)}: each participant still in follow-up (no record yet of the final scheduled visit) with their next scheduled visit that has no record. ` +
         'Days until target is negative when the target has passed. "Overdue": the window closed before the cut-off; "Window open now": the cut-off falls inside the window; "Coming up": the window opens later.',
     ),
     {
       kind: 'table',
       id: 'VisitsDue',
-      caption: 'Next visit of each subject in follow-up',
+      caption: 'Next visit of each participant in follow-up',
       columns: [
-        col('Subject', 'text', 12),
+        col('Participant', 'text', 12),
         ...(withSite ? [col('Site', 'text', 12)] : []),
         col('Next visit', 'text', 14),
         col('Window opens', dateFormat, 12),
-        col(`Target ${when}`, dateFormat, 12),
+        col(targetHeader, dateFormat, 12),
         col('Window closes', dateFormat, 12),
         col('Days until target', 'integer'),
         col('Status', 'text', 16),

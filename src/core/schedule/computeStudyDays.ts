@@ -93,8 +93,8 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
       value: subject,
       use: 'timing',
       message: hasRefColumn
-        ? `Subject ${subject} has no reference date on any row, so the study day of this visit cannot be computed; the row is left out of visit timing.`
-        : `Subject ${subject} has no record of the first scheduled visit (the baseline), so the study day of this visit cannot be computed; the row is left out of visit timing.`,
+        ? `Participant ${subject} has no reference date on any row, so the study day of this visit cannot be computed; the row is left out of visit timing.`
+        : `Participant ${subject} has no record of the first scheduled visit (the baseline), so the study day of this visit cannot be computed; the row is left out of visit timing.`,
     });
   }
   return { studyDays: days, offsets, referenceDay: refDay, issues };

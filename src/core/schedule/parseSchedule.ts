@@ -8,15 +8,15 @@ type Field = 'label' | 'targetDay' | 'before' | 'after';
 
 /** Accepted headings per field, compared ignoring case, spaces, underscores and hyphens. */
 const HEADINGS: Readonly<Record<Field, readonly string[]>> = {
-  label: ['visit', 'visitlabel', 'label'],
+  label: ['visit', 'visitname', 'visitlabel', 'name', 'label'],
   targetDay: ['targetday', 'targetstudyday', 'target'],
   before: ['daysbefore', 'daysallowedbefore', 'before'],
   after: ['daysafter', 'daysallowedafter', 'after'],
 };
 
 const FIELD_WORDS: Readonly<Record<Field, string>> = {
-  label: 'visit label',
-  targetDay: 'target study day',
+  label: 'visit name',
+  targetDay: 'target day',
   before: 'days allowed before',
   after: 'days allowed after',
 };
@@ -41,7 +41,7 @@ function toNumber(v: CellValue): number {
 
 /**
  * Reads a visit schedule from a cell grid whose first row holds the headings, e.g. the CSV header
- * `visit,target_day,days_before,days_after` or the starter sheet's "Visit | Target study day | Days allowed before |
+ * `visit,target_day,days_before,days_after` or the starter sheet's "Visit name | Target day | Days allowed before |
  * Days allowed after" (case-insensitive; columns in any order; other columns ignored). Blank rows are skipped.
  * Checks, each reported with its cell address: a label is present and unique (ignoring case and spaces); the target
  * day is a whole number other than 0 (CDISC study days have no day 0) with |day| ≤ 36,500; allowances are whole
@@ -88,27 +88,27 @@ export function parseSchedule(cells: readonly (readonly CellValue[])[], sheet: s
     let good = true;
     const label = shown(cell('label')).trim();
     if (label === '') {
-      issues.push(rowIssue('schedule-blank-label', at(c.label, r), '', 'The visit label is blank.'));
+      issues.push(rowIssue('schedule-blank-label', at(c.label, r), '', 'The visit name is blank.'));
       good = false;
     } else {
       const first = seen.get(labelKey(label));
       if (first !== undefined) {
         issues.push(
-          rowIssue('schedule-duplicate-label', at(c.label, r), label, `The visit label "${label}" repeats the label at ${first} (labels are compared ignoring case and spaces).`),
+          rowIssue('schedule-duplicate-label', at(c.label, r), label, `The visit name "${label}" repeats the name at ${first} (names are compared ignoring case and spaces).`),
         );
         good = false;
       } else seen.set(labelKey(label), at(c.label, r));
     }
     const target = toNumber(cell('targetDay'));
     if (!Number.isInteger(target)) {
-      issues.push(rowIssue('schedule-bad-target-day', at(c.targetDay, r), shown(cell('targetDay')), 'The target study day must be a whole number.'));
+      issues.push(rowIssue('schedule-bad-target-day', at(c.targetDay, r), shown(cell('targetDay')), 'The target day must be a whole number.'));
       good = false;
     } else if (target === 0) {
       issues.push(rowIssue('schedule-zero-target-day', at(c.targetDay, r), '0', 'There is no study day 0: the reference date is day 1 and the day before it is day -1.'));
       good = false;
     } else if (Math.abs(target) > MAX_SCHEDULE_DAYS) {
       issues.push(
-        rowIssue('schedule-bad-target-day', at(c.targetDay, r), shown(cell('targetDay')), `The target study day must lie between -${DAYS_TEXT} and ${DAYS_TEXT} (100 years either side of the reference date).`),
+        rowIssue('schedule-bad-target-day', at(c.targetDay, r), shown(cell('targetDay')), `The target day must lie between -${DAYS_TEXT} and ${DAYS_TEXT} (100 years either side of the reference date).`),
       );
       good = false;
     }

@@ -14,7 +14,7 @@ export const STARTER_SCHEDULE: readonly ScheduleVisit[] = [
 ];
 
 /** Headings of the starter sheet (parseSchedule also accepts the CSV header visit,target_day,days_before,days_after). */
-export const STARTER_HEADINGS: readonly string[] = ['Visit', 'Target study day', 'Days allowed before', 'Days allowed after'];
+export const STARTER_HEADINGS: readonly string[] = ['Visit name', 'Target day', 'Days allowed before', 'Days allowed after'];
 
 /** Headings of the schedule CSV file. */
 export const CSV_HEADINGS: readonly string[] = ['visit', 'target_day', 'days_before', 'days_after'];

@@ -52,6 +52,24 @@ describe('renderMessage', () => {
     }
   });
 
+  it('renderMessage speaks the glossary\'s words for every code, role and use: participant, visit name (README, "Words we use")', () => {
+    const roles = ['subject', 'date', 'studyDay', 'reference', 'visit', 'value', 'arm', 'site', 'exit', 'exitStatus', 'exitReason', 'covariate'] as const;
+    for (const code of Object.keys(ALL) as IssueCode[]) {
+      for (const role of roles) {
+        for (const use of ['timing', 'model', null] as const) {
+          const m = renderMessage({ code, role, value: 'x', cell: 'Visits!C17', use, other: 'y' });
+          expect(m, `${code} ${role} ${String(use)}`).not.toMatch(/subject|patient|visit label|days off|\bextra\b|start date|planned day|measured value/i);
+        }
+      }
+    }
+    expect(renderMessage({ code: 'blank-subject', role: 'subject', value: '', cell: 'V!A4', use: 'timing' })).toBe(
+      'V!A4: the participant is blank, so the row is left out of the visit-timing checks.',
+    );
+    expect(renderMessage({ code: 'blank-time', role: 'visit', value: '', cell: 'V!D4', use: 'timing' })).toBe(
+      'V!D4: the visit name is blank, so the row is left out of the visit-timing checks.',
+    );
+  });
+
   it('renderMessage starts a row-level sentence with the cell address and says which use the row leaves', () => {
     expect(renderMessage({ code: 'blank-value', role: 'value', value: '', cell: "'My Sheet'!F7", use: 'model' })).toBe(
       "'My Sheet'!F7: the value is blank, so the row is left out of the model.",

@@ -17,7 +17,7 @@ const grid = (lastArm: string): CellValue[][] => [
 const OPTIONS: IntakeOptions = { sheet: 'eGFR visits', topLeft: 'A1', dateSystem: 1900, mode: 'unblinded' };
 
 describe('readTable issue list', () => {
-  it('readTable reports a blank subject, text in the value, an impossible date, #N/A and a subject in two arms, each with its cell', () => {
+  it('readTable reports a blank participant, text in the value, an impossible date, #N/A and a participant in two arms, each with its cell', () => {
     const r = readTable(grid('Active'), OPTIONS);
     expect(r.ok).toBe(false);
     expect(r.issues).toEqual([
@@ -29,7 +29,7 @@ describe('readTable issue list', () => {
         role: 'subject',
         value: '',
         use: 'timing',
-        message: "'eGFR visits'!A4: the subject is blank, so the row is left out of the visit-timing checks.",
+        message: "'eGFR visits'!A4: the participant is blank, so the row is left out of the visit-timing checks.",
       },
       {
         code: 'blank-subject',
@@ -39,7 +39,7 @@ describe('readTable issue list', () => {
         role: 'subject',
         value: '',
         use: 'model',
-        message: "'eGFR visits'!A4: the subject is blank, so the row is left out of the model.",
+        message: "'eGFR visits'!A4: the participant is blank, so the row is left out of the model.",
       },
       {
         code: 'text-in-numeric',
@@ -91,7 +91,7 @@ describe('readTable issue list', () => {
         role: 'arm',
         value: 'Placebo',
         use: null,
-        message: '\'eGFR visits\'!C8: subject "K-004" is in arm "Placebo" here but in arm "Active" elsewhere; a subject must stay in one arm.',
+        message: '\'eGFR visits\'!C8: participant "K-004" is in arm "Placebo" here but in arm "Active" elsewhere; a participant must stay in one arm.',
       },
       {
         code: 'subject-in-two-arms',
@@ -101,7 +101,7 @@ describe('readTable issue list', () => {
         role: 'arm',
         value: 'Active',
         use: null,
-        message: '\'eGFR visits\'!C9: subject "K-004" is in arm "Active" here but in arm "Placebo" elsewhere; a subject must stay in one arm.',
+        message: '\'eGFR visits\'!C9: participant "K-004" is in arm "Active" here but in arm "Placebo" elsewhere; a participant must stay in one arm.',
       },
     ]);
   });

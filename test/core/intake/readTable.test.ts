@@ -186,7 +186,7 @@ describe('readTable dates', () => {
     expect(t.reference[2]).toBe(45670); // kept as given: 2025-01-13 = 2025-01-06 + 7 days (exact identity)
     expect(r.issues).toMatchObject([{ code: 'reference-date-differs', cell: 'Visits!D4', value: '2025-01-13', use: null }]);
     expect(r.issues[0]!.message).toBe(
-      'Visits!D4: the reference date 2025-01-13 differs from 2025-01-06 given earlier for subject "K-1"; a subject has one reference date. The row is kept with its own reference date.',
+      'Visits!D4: the reference date 2025-01-13 differs from 2025-01-06 given earlier for participant "K-1"; a participant has one reference date. The row is kept with its own reference date.',
     );
   });
 

@@ -4,7 +4,7 @@ import { DegenerateDataError, fitRandomIntercept, fUpper, tTwoSided, type FitOpt
 import { normalUpperTail } from '../../../src/core/model/distributions';
 import { fitOptions, normals, RAILS, oneWay, oneWayOptions, seeded } from './helpers';
 
-/** Invented: 6 patients x 4 visits at months 0, 1, 2, 3, values from `value(patient, visit)`. */
+/** Invented: 6 participants x 4 visits at months 0, 1, 2, 3, values from `value(participant, visit)`. */
 function grid(value: (i: number, j: number) => number, nSubjects = 6): ModelData {
   const y: number[] = [], time: number[] = [], subject: number[] = [];
   for (let i = 0; i < nSubjects; i++) {
@@ -30,7 +30,7 @@ function refusal(data: ModelData, opts: FitOptions = fitOptions()): DegenerateDa
 }
 
 describe('degenerate data give no model and a plain reason, never wrong numbers', () => {
-  it('all values identical: no model (regression: within-patient variance −4.2e-14, inverted intervals, SE 0, p = 0, "converged")', () => {
+  it('all values identical: no model (regression: within-participant variance −4.2e-14, inverted intervals, SE 0, p = 0, "converged")', () => {
     const e = refusal(grid(() => 5));
     expect(e.reason).toBe('no-variation');
     expect(e.message).toBe('all 24 values are equal (5), so there is no variation for the model to describe');
@@ -50,17 +50,17 @@ describe('degenerate data give no model and a plain reason, never wrong numbers'
     expect(e.message).toMatch(/mostly rounding/);
   });
 
-  it('values exactly on each patient’s line (no within-patient variation): no model rather than a "failed" fit with NaN', () => {
+  it('values exactly on each participant’s line (no within-participant variation): no model rather than a "failed" fit with NaN', () => {
     const e = refusal(grid((i, j) => 40 + 3 * i + 2 * (j + 0.1 * (i % 3))));
     expect(e.reason).toBe('no-variation');
-    expect(e.message).toMatch(/no within-patient variation/);
+    expect(e.message).toMatch(/no within-participant variation/);
   });
 
-  it('one patient: no model, saying plainly that there is no between-patient variance to estimate', () => {
+  it('one participant: no model, saying plainly that there is no between-participant variance to estimate', () => {
     const e = refusal(grid((i, j) => 10 + wiggle(i, j), 1));
     expect(e.reason).toBe('one-subject');
-    expect(e.message).toMatch(/only one patient/);
-    expect(e.message).toMatch(/no between-patient variance to estimate/);
+    expect(e.message).toMatch(/only one participant/);
+    expect(e.message).toMatch(/no between-participant variance to estimate/);
   });
 });
 
@@ -128,8 +128,8 @@ describe('p-values are never 0 and never above 1', () => {
 });
 
 // Property test: over generated small data sets — constant responses, tiny and huge magnitudes, large offsets, one or
-// several patients, blinded or two arms — every fit either is refused with a reason (DegenerateDataError, or status
-// 'failed' with its message) or satisfies: variances ≥ 0 (within-patient > 0), lower ≤ estimate ≤ upper for every
+// several participants, blinded or two arms — every fit either is refused with a reason (DegenerateDataError, or status
+// 'failed' with its message) or satisfies: variances ≥ 0 (within-participant > 0), lower ≤ estimate ≤ upper for every
 // interval, 0 < p ≤ 1. Exact inequalities, no tolerance.
 describe('fit properties on generated data', () => {
   const dataArb = fc

@@ -11,7 +11,7 @@ function expectRelClose(actual: number, expected: number, tol: number): void {
 
 describe('variance-component intervals', () => {
   for (const [name, groups] of [['rails (Devore 2000)', RAILS], ['dyestuff (Davies 1947)', DYESTUFF]] as const) {
-    it(`${name}: the within-patient interval is the exact chi-square interval SSW/χ²(N − a) (Searle 1971, exact identity)`, () => {
+    it(`${name}: the within-participant interval is the exact chi-square interval SSW/χ²(N − a) (Searle 1971, exact identity)`, () => {
       const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
       const { msw, a, n } = balancedAnova(groups);
       const nu = a * (n - 1);
@@ -21,7 +21,7 @@ describe('variance-component intervals', () => {
       expectRelClose(v.residualLower, (nu * msw) / chiSquareQuantile(0.975, nu), 1e-9);
       expectRelClose(v.residualUpper, (nu * msw) / chiSquareQuantile(0.025, nu), 1e-9);
     });
-    it(`${name}: the between-patient interval uses Satterthwaite's df for (MSB − MSW)/n (Satterthwaite 1946, exact identity)`, () => {
+    it(`${name}: the between-participant interval uses Satterthwaite's df for (MSB − MSW)/n (Satterthwaite 1946, exact identity)`, () => {
       const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
       const { msb, msw, a, n } = balancedAnova(groups);
       const s2u = (msb - msw) / n;
@@ -32,7 +32,7 @@ describe('variance-component intervals', () => {
       expectRelClose(v.subjectUpper, (nu * s2u) / chiSquareQuantile(0.025, nu), 1e-9);
     });
   }
-  it('rails (Devore 2000): the within-patient interval 8.313 to 44.05 would be 7.26 to 35.99 by a log-scale Wald interval', () => {
+  it('rails (Devore 2000): the within-participant interval 8.313 to 44.05 would be 7.26 to 35.99 by a log-scale Wald interval', () => {
     // Documents the choice: the Wald log-scale interval σ² exp(±1.96 √(2/12)) is 13% low at the bottom and 18% low
     // at the top against the exact chi-square interval, which the scaled chi-square method reproduces.
     const v = fitRandomIntercept(oneWay(RAILS), oneWayOpts).variance;
@@ -44,7 +44,7 @@ describe('variance-component intervals', () => {
   });
 });
 
-/** Invented two-arm data, unbalanced visits, 40 patients (eGFR-like values). */
+/** Invented two-arm data, unbalanced visits, 40 participants (eGFR-like values). */
 function twoArm(): ModelData {
   const u = seeded(3);
   const z = normals(u);
@@ -135,14 +135,14 @@ describe('contrasts, trajectories, AIC and BIC', () => {
     }
   });
 
-  it('one measurement per patient everywhere gives no model (DegenerateDataError) with a plain reason, never a between-patient variance of zero', () => {
+  it('one measurement per participant everywhere gives no model (DegenerateDataError) with a plain reason, never a between-participant variance of zero', () => {
     const single: ModelData = { y: Float64Array.of(1, 2, 4, 3, 5), time: Float64Array.of(0, 1, 2, 3, 4), subject: Int32Array.of(0, 1, 2, 3, 4), nSubjects: 5, armIndex: null, arms: [], covariates: [] };
     expect(() => fitRandomIntercept(single, { ...opts, contrastDays: [] })).toThrow(DegenerateDataError);
-    expect(() => fitRandomIntercept(single, { ...opts, contrastDays: [] })).toThrow(/no patient has more than one measurement/);
+    expect(() => fitRandomIntercept(single, { ...opts, contrastDays: [] })).toThrow(/no participant has more than one measurement/);
   });
 
-  it('unbalanced data at the zero boundary: the ICC interval runs from 0 to the ICC of the between-patient upper limit', () => {
-    // Invented one-way data with equal group means (5.5) and unequal group sizes, so the REML between-patient variance
+  it('unbalanced data at the zero boundary: the ICC interval runs from 0 to the ICC of the between-participant upper limit', () => {
+    // Invented one-way data with equal group means (5.5) and unequal group sizes, so the REML between-participant variance
     // is 0 and the balanced exact interval does not apply; exact identity ICC_U = U/(U + σ²) for the upper limit U.
     const f = fitRandomIntercept(oneWay([[1, 10], [2, 9, 5.5], [3, 8], [4, 7, 5.5, 5.5]]), oneWayOpts);
     expect(f.status).toBe('boundary');

@@ -186,7 +186,7 @@ describe('runAnalysis', () => {
     const out = await runAnalysis(cells, SETTINGS);
     if (!out.ok) throw new Error('run failed');
     expect(out.json.model).toBeNull();
-    expect(out.json.modelNote).toMatch(/^only one patient has measurements the model can use\. .*no between-patient variance to estimate/);
+    expect(out.json.modelNote).toMatch(/^only one participant has measurements the model can use\. .*no between-participant variance to estimate/);
     expect((out.json.visits as { counts: Record<string, number> }).counts.onTime).toBe(3);
   });
 

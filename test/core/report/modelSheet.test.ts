@@ -8,7 +8,7 @@ import { formatCell } from '../../../src/core/report/formats';
 import type { TableBlock } from '../../../src/core/report/types';
 import { normals, seeded } from '../model/helpers';
 
-/** Invented kidney-function scenario: eGFR every 12 weeks in 30 patients, two arms (invented data). */
+/** Invented kidney-function scenario: eGFR every 12 weeks in 30 participants, two arms (invented data). */
 function egfr(): ModelData {
   const u = seeded(42);
   const z = normals(u);
@@ -40,13 +40,13 @@ function tables(fitSheets: ReturnType<typeof modelSheets>): TableBlock[] {
 describe('modelSheets', () => {
   const fit: ModelFit = fitRandomIntercept(egfr(), opts);
 
-  it('opens with a plain paragraph naming patients, measurements and the last-visit difference with its interval', () => {
+  it('opens with a plain paragraph naming participants, measurements and the last-visit difference with its interval', () => {
     const [sheet] = modelSheets(fit, ctx('unblinded', false));
     expect(sheet!.name).toBe('Model results');
     const first = sheet!.blocks[0]!;
     expect(first.kind).toBe('paragraph');
     const text = first.kind === 'paragraph' ? first.text : '';
-    expect(text).toContain('150 measurements from 30 patients');
+    expect(text).toContain('150 measurements from 30 participants');
     const last = fit.treatmentEffects.find((t) => t.label === 'Week 48')!;
     expect(text).toContain('At Week 48 (study day 337) the mean of Drug differed from Placebo');
     expect(text).toContain(`by ${num(last.estimate)} (95% confidence interval ${num(last.lower)} to ${num(last.upper)}; ${pPhrase(last.p)})`);
@@ -57,7 +57,7 @@ describe('modelSheets', () => {
     const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
     const texts = (mode: 'blinded' | 'unblinded'): string[] =>
       modelSheets(mode === 'blinded' ? blind : fit, ctx(mode, true)).flatMap((sh) => sh.blocks.flatMap((b) => (b.kind === 'paragraph' && b.style === 'caution' ? [b.text] : [])));
-    // Both sheets (results and per patient) carry them.
+    // Both sheets (results and per participant) carry them.
     expect(texts('unblinded')).toEqual([...CAUTIONS, UNBLINDED_CAUTION, ...CAUTIONS, UNBLINDED_CAUTION]);
     expect(texts('blinded')).toEqual([...CAUTIONS, ...CAUTIONS]);
   });
@@ -82,10 +82,10 @@ describe('modelSheets', () => {
     expect(series[0]!.lower!.length).toBe(series[0]!.y.length);
   });
 
-  it('adds a "Per patient" sheet with each random intercept only when asked', () => {
+  it('adds a "Per participant" sheet with each random intercept only when asked', () => {
     expect(modelSheets(fit, ctx('unblinded', false)).length).toBe(1);
     const sheets = modelSheets(fit, ctx('unblinded', true));
-    expect(sheets.map((s) => s.name)).toEqual(['Model results', 'Per patient']);
+    expect(sheets.map((s) => s.name)).toEqual(['Model results', 'Per participant']);
     const t = tables([sheets[1]!])[0]!;
     expect(t.rows.length).toBe(30);
     expect(t.rows[0]![0]).toBe('K-100');
@@ -117,15 +117,15 @@ describe('modelSheets', () => {
   it('the counts table uses the integer format, so pages and sheets show "30", not "30.0000"', () => {
     const counts = tables(modelSheets(fit, ctx('unblinded', false))).find((t) => t.id === 'FitCounts')!;
     expect(counts.columns.map((c) => c.format)).toEqual(['text', 'integer']);
-    const patients = counts.rows.find((r) => r[0] === 'Patients')!;
-    expect(formatCell(patients[1] ?? null, counts.columns[1]!.format)).toBe('30');
+    const participants = counts.rows.find((r) => r[0] === 'Participants')!;
+    expect(formatCell(participants[1] ?? null, counts.columns[1]!.format)).toBe('30');
   });
 
   it('in blinded mode the opening paragraph says nothing by arm: no treatment difference, no slope difference', () => {
     const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
     const first = modelSheets(blind, { observed: [], mode: 'blinded', perSubject: false, subjectIds: [] })[0]!.blocks[0]!;
     const text = first.kind === 'paragraph' ? first.text : '';
-    expect(text).toContain('pooled over all patients');
+    expect(text).toContain('pooled over all participants');
     expect(text).not.toMatch(/differed|treatment|\barms?\b/i);
     expect(text).toMatch(/changed by -?\d/);
   });
@@ -139,7 +139,7 @@ describe('modelSheets', () => {
     const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
     const blindObserved = visits.map((v) => ({ ...v, arm: null, mean: 55, n: 30 }));
     const sheets = modelSheets(blind, { observed: blindObserved, mode: 'blinded', perSubject: true, subjectIds: [] });
-    expect(sheets.map((s) => s.name)).toEqual(['Model results', 'Per patient']);
+    expect(sheets.map((s) => s.name)).toEqual(['Model results', 'Per participant']);
     const texts: string[] = [];
     for (const sh of sheets) {
       texts.push(sh.name, sh.title);
@@ -171,7 +171,7 @@ describe('modelSheets', () => {
     const obs = ts.find((t) => t.id === 'ObservedMeans')!;
     expect(traj.columns[0]!.header).toBe('Study day');
     expect(traj.rows.length).toBe(blind.trajectories[0]!.day.length);
-    expect(obs.columns.map((c) => c.header)).toEqual(['Visit', 'Study day', 'Observed mean', 'Patients']);
+    expect(obs.columns.map((c) => c.header)).toEqual(['Visit', 'Study day', 'Observed mean', 'Participants']);
     expect(obs.rows[0]).toEqual(['Week 12', 85, 55, 30]);
     const unblindedObs = tables(modelSheets(fit, ctx('unblinded', false))).find((t) => t.id === 'ObservedMeans')!;
     expect(unblindedObs.columns[0]!.header).toBe('Arm');

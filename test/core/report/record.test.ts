@@ -29,7 +29,7 @@ const table = (id: string, input: AnalysisRecordInput = base): TableBlock =>
 describe('analysis record', () => {
   it('lists the mapping role by role with headings and 1-based column numbers', () => {
     expect(base.mapping).toEqual([
-      { role: 'Subject', header: 'ID', column: 1 },
+      { role: 'Participant', header: 'ID', column: 1 },
       { role: 'Visit date', header: 'When', column: 2 },
       { role: 'Value', header: 'eGFR', column: 5 },
       { role: 'Covariate', header: 'Base', column: 6 },
@@ -43,6 +43,8 @@ describe('analysis record', () => {
       ['Data rows read', 6],
       ['Used for visit timing', 5],
       ['Used for the model', 4],
+      ['Left out of visit timing', 1],
+      ['Left out of the model', 2],
       ['Left out of at least one use', 2],
     ]);
     expect(table('Schedule').rows).toHaveLength(STARTER_SCHEDULE.length);

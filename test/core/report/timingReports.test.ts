@@ -113,6 +113,13 @@ describe('visit-timing reports (hand-worked example above)', () => {
     const dev = sheets[1]!.blocks.find((b): b is TableBlock => b.kind === 'table')!;
     expect(dev.columns.map((c) => c.format)).toEqual(['text', 'text', 'text', 'date', 'date', 'date', 'date', 'integer', 'text', 'integer', 'date', 'integer', 'text']);
     expect(dev.rows[0]).toEqual(['P2', '01', 'Week 4', REF + 28, REF + 25, REF + 31, REF + 35, 7, 'Late', 6, REF + 35, 21, '']);
+    // The glossary's words (README, "Words we use"): participant, target day / target date, days from target.
+    expect(dev.columns.map((c) => c.header).slice(0, 8)).toEqual(['Participant', 'Site', 'Visit', 'Target date', 'Window opens', 'Window closes', 'Actual date', 'Days from target']);
+    const byVisit = blocks.find((b): b is TableBlock => b.kind === 'table' && b.id === 'ByVisit')!;
+    expect(byVisit.columns.map((c) => c.header).slice(0, 2)).toEqual(['Visit', 'Target day']);
+    const bySite = blocks.find((b): b is TableBlock => b.kind === 'table' && b.id === 'BySite')!;
+    expect(bySite.columns[1]!.header).toBe('Participants');
+    expect(JSON.stringify(sheets)).not.toMatch(/subject|patient|days off|\bextra\b/i);
     const due = sheets[2]!.blocks.find((b): b is TableBlock => b.kind === 'table')!;
     const statusAt = due.columns.findIndex((c) => c.header === 'Status');
     expect(due.rows.map((r) => r[statusAt])).toEqual(['Overdue', 'Window open now']);
@@ -132,7 +139,7 @@ describe('visit-timing reports (hand-worked example above)', () => {
 });
 
 describe('visit-timing reports for study-day data', () => {
-  it('shows study days with the integer format and says the cut-off is each subject’s last record', () => {
+  it('shows study days with the integer format and says the cut-off is each participant’s last record', () => {
     const table = makeTable(
       [
         { subject: 'Q', time: 1, visit: 'Baseline' },
@@ -152,7 +159,7 @@ describe('visit-timing reports for study-day data', () => {
     expect(j).toMatchObject({ timeScale: 'studyDay', cutoff: null, cutoffRule: 'eachSubjectsLastRecord', bySite: [] });
     const sheets = timingSheets(s);
     const dev = sheets[1]!.blocks.find((b): b is TableBlock => b.kind === 'table')!;
-    expect(dev.columns.map((c) => c.header)).toEqual(['Subject', 'Visit', 'Target study day', 'Window opens', 'Window closes', 'Actual study day', 'Days off', 'Status', 'Data row', 'Last record (study day)', 'Days since last record', 'Follow-up note']);
+    expect(dev.columns.map((c) => c.header)).toEqual(['Participant', 'Visit', 'Target day', 'Window opens', 'Window closes', 'Actual study day', 'Days from target', 'Status', 'Data row', 'Last record (study day)', 'Days since last record', 'Follow-up note']);
     expect(dev.columns[2]!.format).toBe('integer');
   });
 });

@@ -47,7 +47,7 @@ describe('parseSchedule', () => {
   it('reports every bad cell with its address: blank and duplicate labels, day 0, fractions, negative allowances', () => {
     const r = parseSchedule(
       [
-        ['Visit', 'Target study day', 'Days allowed before', 'Days allowed after'],
+        ['Visit', 'Target study day', 'Days allowed before', 'Days allowed after'], // an older starter sheet's headings still read
         ['Week 12', 85, 7, 7],
         ['week12', 90, 7, 7], // same label ignoring case and spaces
         ['', 100, 1, 1],
@@ -67,7 +67,7 @@ describe('parseSchedule', () => {
       ['schedule-bad-allowance', "'My Schedule'!D8", '-1'],
       ['schedule-bad-allowance', "'My Schedule'!E8", 'x'],
     ]);
-    expect(r.issues[0]!.message).toBe(`The visit label "week12" repeats the label at 'My Schedule'!B3 (labels are compared ignoring case and spaces).`);
+    expect(r.issues[0]!.message).toBe(`The visit name "week12" repeats the name at 'My Schedule'!B3 (names are compared ignoring case and spaces).`);
     expect(r.schedule).toEqual([{ label: 'Week 12', targetDay: 85, before: 7, after: 7 }]);
   });
 
@@ -92,7 +92,7 @@ describe('parseSchedule', () => {
       ['schedule-bad-target-day', 'S!B6', '-36501'],
       ['schedule-bad-allowance', 'S!D6', '36501'],
     ]);
-    expect(r.issues[0]!.message).toBe('The target study day must lie between -36,500 and 36,500 (100 years either side of the reference date).');
+    expect(r.issues[0]!.message).toBe('The target day must lie between -36,500 and 36,500 (100 years either side of the reference date).');
     expect(r.issues[2]!.message).toBe('The days allowed after must be a whole number of days from 0 to 36,500.');
     expect(r.schedule.map((v) => v.label)).toEqual(['Early edge', 'Edge']);
   });
@@ -160,7 +160,7 @@ describe('parseSchedule on arbitrary grids', () => {
   it('never throws, and keeps only valid visits sorted by target day, each error with a cell address', () => {
     fc.assert(
       fc.property(fc.array(fc.array(cell, { maxLength: 6 }), { maxLength: 8 }), fc.boolean(), (body, csv) => {
-        const head = csv ? ['visit', 'target_day', 'days_before', 'days_after'] : ['Visit', 'Target study day', 'Days allowed before', 'Days allowed after'];
+        const head = csv ? ['visit', 'target_day', 'days_before', 'days_after'] : ['Visit name', 'Target day', 'Days allowed before', 'Days allowed after'];
         const r = parseSchedule([head, ...body], 'Schedule', 'A1');
         for (const v of r.schedule) {
           expect(Number.isInteger(v.targetDay) && v.targetDay !== 0 && Math.abs(v.targetDay) <= 36_500).toBe(true);

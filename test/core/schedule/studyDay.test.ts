@@ -98,7 +98,7 @@ describe('computeStudyDays', () => {
     expect(Array.from(r.referenceDay)).toEqual([REF, REF + 10]);
   });
 
-  it('without a reference column uses the baseline record by label, and reports rows of subjects without one', () => {
+  it('without a reference column uses the baseline record by label, and reports rows of participants without one', () => {
     const t = makeTable(
       [
         { subject: 'S1', time: REF + 90, visit: 'Week 12' },
@@ -118,7 +118,7 @@ describe('computeStudyDays', () => {
         value: 'S2',
         use: 'timing',
         message:
-          'Subject S2 has no record of the first scheduled visit (the baseline), so the study day of this visit cannot be computed; the row is left out of visit timing.',
+          'Participant S2 has no record of the first scheduled visit (the baseline), so the study day of this visit cannot be computed; the row is left out of visit timing.',
       },
     ]);
   });

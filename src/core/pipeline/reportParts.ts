@@ -3,6 +3,7 @@ import type { IntakeTable } from '../intake/types';
 import type { ModelFit } from '../model/types';
 import { analysisRecordSheet, mappingLines } from '../report/record';
 import { modelJson } from '../report/modelJson';
+import { DF_NAMES } from '../report/dfNotes';
 import { modelNotFittedSheet, modelSheets } from '../report/modelSheet';
 import { modelSummaryText } from '../report/modelText';
 import { cutoffPhrase } from '../report/timingSheets';
@@ -45,14 +46,13 @@ export interface RecordInput {
 }
 
 const UNIT_WORDS = { month: 'month (30.4375 days)', week: 'week (7 days)', day: 'day' } as const;
-const DF_WORDS = { 'kenward-roger': 'Kenward–Roger', satterthwaite: 'Satterthwaite', residual: 'Residual' } as const;
 
 /** The analysis record sheet (always the last sheet) for this run. */
 export function recordSheet(r: RecordInput): SheetSpec {
   const s = r.settings;
   const settingLines = [
     { name: 'Estimation', value: s.method === 'reml' ? 'REML' : 'Maximum likelihood (ML)' },
-    { name: 'Degrees of freedom', value: DF_WORDS[s.dfMethod] },
+    { name: 'Degrees of freedom', value: DF_NAMES[s.dfMethod] },
     { name: 'Confidence level', value: `${Math.round(s.level * 1000) / 10}%` },
     { name: 'Time unit', value: UNIT_WORDS[s.timeUnit] },
     { name: 'Rows in the model', value: s.scheduledOnly ? 'Only records matched to scheduled visits' : 'All valid rows (scheduled, early, late, extra and repeat)' },

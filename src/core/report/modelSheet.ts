@@ -10,6 +10,7 @@ import type { ContrastResult, ModelFit } from '../model/types';
 import { cautionBlocks } from './cautions';
 import { fitVerdict, modelSummaryText } from './modelText';
 import { cell, col, levelPercent, para } from './blockParts';
+import { DF_DESCRIPTIONS } from './dfNotes';
 import type { Block, ChartSeries, SheetCell, SheetSpec, TableColumn } from './types';
 
 export interface ObservedVisitMean {
@@ -126,7 +127,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
     columns: [col('Item', 'text', 24), col('Value', 'decimal3'), col('Note', 'text', 60)],
     rows: [
       ['Estimation', null, fit.method === 'reml' ? 'Restricted maximum likelihood (REML)' : 'Maximum likelihood'],
-      ['Degrees of freedom', null, fit.dfMethod === 'kenward-roger' ? 'Kenward–Roger, with its adjusted covariance' : fit.dfMethod === 'satterthwaite' ? 'Satterthwaite' : 'Residual (measurements − fixed effects)'],
+      ['Degrees of freedom', null, DF_DESCRIPTIONS[fit.dfMethod]],
       ['Log-likelihood', cell(fit.logLik), fit.method === 'reml' ? 'restricted log-likelihood, constants included' : 'constants included'],
       ['AIC', cell(fit.aic), `−2 × log-likelihood + 2k, k = ${fit.nParameters} (fixed effects + 2 variances)`],
       ['BIC', cell(fit.bic), `−2 × log-likelihood + k × log(N), N = ${fit.bicN}${fit.method === 'reml' ? ' (measurements − fixed effects)' : ' (measurements)'}`],

@@ -11,6 +11,8 @@ import { cautionBlocks } from './cautions';
 import { fitVerdict, modelSummaryText } from './modelText';
 import { cell, col, levelPercent, para } from './blockParts';
 import { DF_DESCRIPTIONS } from './dfNotes';
+import { modelExtraBlocks } from './modelExtras';
+import type { SensitivityRun } from './sensitivityReport';
 import type { Block, ChartSeries, SheetCell, SheetSpec, TableColumn } from './types';
 
 export interface ObservedVisitMean {
@@ -27,6 +29,8 @@ export interface ModelSheetContext {
   readonly perSubject: boolean;
   /** Subject ids by model subject index (the fit's subjects already carry their ids; kept for front ends). */
   readonly subjectIds: readonly string[];
+  /** The sensitivity refits (nominal time, on-time only); none when absent. */
+  readonly sensitivity?: readonly SensitivityRun[];
 }
 
 /** Thrown when the report is asked for something the fit cannot support, e.g. a blinded report of a fit with arms. */
@@ -147,6 +151,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
     ],
   });
 
+  blocks.push(...modelExtraBlocks(fit, context.sensitivity ?? [], context.mode, unit));
   blocks.push(...trajectoryBlocks(fit, context, unit, pct));
 
   const sheets: SheetSpec[] = [{ name: MODEL_SHEET_NAMES.results, title: 'Random-intercept model', blocks }];

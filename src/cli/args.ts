@@ -132,6 +132,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     ...(referenceArm === undefined ? {} : { referenceArm }),
     ...(one('date-order') === undefined ? {} : { dateOrder: oneOf('date-order', one('date-order')!, ['dmy', 'mdy'] as const) }),
   };
+  const method = oneOf('method', one('method') ?? 'reml', ['reml', 'ml'] as const);
   return {
     data,
     schedule,
@@ -139,8 +140,10 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     map,
     unblinded,
     timeUnit: oneOf('time-unit', one('time-unit') ?? 'month', ['month', 'week', 'day'] as const),
-    df: oneOf('df', one('df') ?? 'kenward-roger', ['kenward-roger', 'satterthwaite', 'residual'] as const),
-    method: oneOf('method', one('method') ?? 'reml', ['reml', 'ml'] as const),
+    // The default df follows the method: Kenward–Roger is defined for REML, so a maximum-likelihood fit defaults to
+    // Satterthwaite (Kenward–Roger after ML is allowed, with a note in the report).
+    df: oneOf('df', one('df') ?? (method === 'ml' ? 'satterthwaite' : 'kenward-roger'), ['kenward-roger', 'satterthwaite', 'residual', 'containment'] as const),
+    method,
     level,
     covariates: values.get('covariate') ?? [],
     scheduledOnly: flags.has('scheduled-only'),
@@ -180,7 +183,8 @@ Model:
   --unblinded             read the arm column and report treatment effects (unblinded staff only)
   --reference-arm NAME    the arm others are compared with (default: the first arm seen)
   --time-unit UNIT        month (30.4375 days, default), week or day
-  --df METHOD             kenward-roger (default), satterthwaite or residual
+  --df METHOD             kenward-roger (default with REML), satterthwaite (default with ML),
+                          residual or containment (between/within)
   --method METHOD         reml (default) or ml
   --level P               confidence level (default 0.95)
   --scheduled-only        fit only records matched to scheduled visits (default: all valid rows)

@@ -45,6 +45,13 @@ describe('parseAnalyzeArgs', () => {
     expect(HELP_TEXT).not.toMatch(/patient|per-subject|planned day|start date|measured value|visit label/i);
   });
 
+  it('the default df follows the method: Kenward–Roger with REML, Satterthwaite with ML; any df may be chosen with either', () => {
+    expect(parseAnalyzeArgs(BASE).df).toBe('kenward-roger');
+    expect(parseAnalyzeArgs([...BASE, '--method', 'ml']).df).toBe('satterthwaite');
+    expect(parseAnalyzeArgs([...BASE, '--method', 'ml', '--df', 'kenward-roger']).df).toBe('kenward-roger');
+    expect(parseAnalyzeArgs([...BASE, '--df', 'containment']).df).toBe('containment');
+  });
+
   it('--date-order takes dmy or mdy, is absent by default (each column decides) and rejects anything else', () => {
     expect(parseAnalyzeArgs([...BASE, '--date-order', 'dmy']).dateOrder).toBe('dmy');
     expect(parseAnalyzeArgs([...BASE, '--date-order=mdy']).dateOrder).toBe('mdy');
@@ -56,7 +63,7 @@ describe('parseAnalyzeArgs', () => {
     const bad: [string[], RegExp][] = [
       [['--data', 'v.csv'], /--schedule FILE is required/],
       [[...BASE, '--level', '1.5'], /--level must be a number between 0 and 1/],
-      [[...BASE, '--df', 'containment'], /--df must be one of kenward-roger, satterthwaite, residual/],
+      [[...BASE, '--df', 'between'], /--df must be one of kenward-roger, satterthwaite, residual, containment/],
       [[...BASE, '--time-unit', 'year'], /--time-unit must be one of month, week, day/],
       [[...BASE, '--map', 'AVAL'], /--map takes role=Header/],
       [[...BASE, '--out'], /--out needs a value/],

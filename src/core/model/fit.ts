@@ -1,7 +1,8 @@
 /**
  * fitRandomIntercept: the random-intercept linear mixed model of SPEC §5 (Laird & Ware 1982, Biometrics 38:963–974),
  * value_ij = b0 + b1·arm_i + b2·time_ij + b3·arm_i·time_ij [+ covariates] + u_i + e_ij, by REML or ML, with
- * Kenward–Roger, Satterthwaite or residual degrees of freedom, treatment contrasts, variance components with intervals,
+ * Kenward–Roger, Satterthwaite, residual or containment (between/within) degrees of freedom, the naive least-squares
+ * fit beside it (naive.ts), treatment contrasts, variance components with intervals,
  * the ICC, BLUPs and predicted trajectories.
  * Cost: one O(n p²) pass over the observations, then O(K p² + p³) per likelihood evaluation (K distinct cluster
  * sizes); no n x n matrix is ever formed.
@@ -23,6 +24,8 @@ import { validateModelRows, validateModelShape } from './validate';
 import { varianceIntervals } from './varianceIntervals';
 import { logLikShift, scaleModelData, toScaledContrast, unscaleContrast } from './scaling';
 import { soundnessProblem } from './soundness';
+import { containmentDf } from './containment';
+import { naiveFit } from './naive';
 import type { ContrastResult, FitOptions, JointTest, ModelData, ModelFit, SlopeDifference, SubjectEffect, TimeUnit, TreatmentEffect } from './types';
 
 /** Days per model time unit: a month is 365.25/12 = 30.4375 days (common practice), a week 7, a day 1. */
@@ -52,6 +55,7 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   const rank = checkRank(st.xtx, p);
   if (rank.dependent.length > 0) throw new RankDeficiencyError(rank.dependent.map((j) => design.terms[j]!.name));
 
+  const cont = containmentDf(st);
   const est = estimateRatio(st, options.method);
   const base = {
     method: options.method,
@@ -63,6 +67,7 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     terms: design.terms,
     arms: design.armCol >= 0 ? [...data.arms] : [],
     iterations: est.iterations,
+    containment: { betweenDf: cont.betweenDf, withinDf: cont.withinDf },
   };
   if (est.point === null) return failedFit(base, est.message, design);
 
@@ -92,7 +97,8 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     residualDf: N - p,
     level: options.level,
   };
-  const contrastOf = (l: ArrayLike<number>): ContrastResult => unscaleContrast(contrast(ctx, toScaledContrast(l, design, sc)), sc);
+  // The containment df is read from the contrast in original coordinates: the scaled one mixes the intercept into time.
+  const contrastOf = (l: ArrayLike<number>): ContrastResult => unscaleContrast(contrast(ctx, toScaledContrast(l, design, sc), cont.dfOf(l)), sc);
 
   const fixedEffects = design.terms.map((term, j) => {
     const l = new Float64Array(p);
@@ -119,13 +125,15 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     }
     if (design.nArms > 2) {
       const rows: number[][] = [];
+      let denDf = Infinity;
       for (let a = 1; a < design.nArms; a++) {
         const row = new Float64Array(p);
         row[design.armTimeCol + a - 1] = 1;
+        denDf = Math.min(denDf, cont.dfOf(row));
         rows.push(Array.from(toScaledContrast(row, design, sc)));
       }
       // F and p are invariant under the scaling (scaling.ts), so the joint test runs on the scaled contrasts as is.
-      joint = jointTest(ctx, rows);
+      joint = jointTest(ctx, rows, denDf);
     }
   }
 
@@ -152,7 +160,7 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   let subjectsCache: SubjectEffect[] | null = null;
   const beta = pt.beta;
   let message = est.message;
-  if (atBoundary && options.dfMethod !== 'residual') {
+  if (atBoundary && options.dfMethod !== 'residual' && options.dfMethod !== 'containment') {
     message += ' For the degrees of freedom the between-participant variance is held fixed at zero; only the within-participant variance is treated as estimated.';
   }
   const numbers: Omit<ModelFit, 'subjects'> = {
@@ -171,6 +179,7 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     slopeDifferences,
     jointTest: joint,
     trajectories: trajectories(design, st, contrastOf, data.arms, tMin, tMax, unit, options.gridPoints ?? 25),
+    naive: naiveFit(st, design, sc, fixedEffects, cont.between, options.level),
   };
   // A fit that did not converge keeps its status and message; any other must pass every check before it is reported.
   if (est.status !== 'failed') {
@@ -245,7 +254,7 @@ function blupArray(st: SufficientStats, subjects: readonly { blup: number }[]): 
 }
 
 function failedFit(
-  base: Pick<ModelFit, 'method' | 'dfMethod' | 'level' | 'timeUnit' | 'nSubjects' | 'nObservations' | 'terms' | 'arms' | 'iterations'>,
+  base: Pick<ModelFit, 'method' | 'dfMethod' | 'level' | 'timeUnit' | 'nSubjects' | 'nObservations' | 'terms' | 'arms' | 'iterations' | 'containment'>,
   message: string,
   design: Design,
 ): ModelFit {
@@ -278,5 +287,6 @@ function failedFit(
     jointTest: null,
     trajectories: [],
     subjects: [],
+    naive: null,
   };
 }

@@ -7,6 +7,7 @@
  *   Kenward–Roger (1997): SE² = LΦ_AL'; for one row their A1 = A2 = g'Wg/(LΦL')², so λ = 1 and m = 2/A2, the same
  *   Satterthwaite-type df paired with the adjusted covariance.
  *   residual: SE² = LΦL', df = N − p.
+ *   containment: SE² = LΦL', df given by the caller from the between/within split of the design (containment.ts).
  * Several rows (ℓ x p): Kenward–Roger's F approximation (1997) with Θ = L'(LΦL')⁻¹L,
  *   A1 = Σ W_rs tr(ΘΦP_rΦ) tr(ΘΦP_sΦ), A2 = Σ W_rs tr(ΘΦP_rΦΘΦP_sΦ), and the scale λ and denominator df m below;
  *   Satterthwaite uses Fai & Cornelius 1996 (Satterthwaite df per eigen-direction of LΦL', combined through
@@ -48,21 +49,22 @@ function satterthwaiteDf(ctx: InferenceContext, l: ArrayLike<number>, v: number)
  * Estimate, SE, df, t, two-sided p and interval of one contrast l'β.
  * Example: intercept-only rails fit, l = [1] -> estimate 66.5, se 10.171, df 5 (Devore 2000 data).
  */
-export function contrast(ctx: InferenceContext, l: ArrayLike<number>): ContrastResult {
+export function contrast(ctx: InferenceContext, l: ArrayLike<number>, containmentDf = NaN): ContrastResult {
   const p = ctx.p;
   let estimate = 0;
   for (let i = 0; i < p; i++) estimate += l[i]! * ctx.beta[i]!;
   const v = quadForm(l, ctx.phi, l, p);
   const vUse = ctx.dfMethod === 'kenward-roger' ? quadForm(l, ctx.phiA, l, p) : v;
-  const df = ctx.dfMethod === 'residual' ? ctx.residualDf : satterthwaiteDf(ctx, l, v);
+  const df = ctx.dfMethod === 'residual' ? ctx.residualDf : ctx.dfMethod === 'containment' ? containmentDf : satterthwaiteDf(ctx, l, v);
   const se = Math.sqrt(Math.max(vUse, 0));
   const t = estimate / se;
   const q = tQuantile(1 - (1 - ctx.level) / 2, df);
   return { estimate, se, df, t, lower: estimate - q * se, upper: estimate + q * se, p: tTwoSided(t, df) };
 }
 
-/** Joint F test of Lβ = 0 for several rows (see the file comment for each df method). */
-export function jointTest(ctx: InferenceContext, rows: readonly (readonly number[])[]): JointTest {
+/** Joint F test of Lβ = 0 for several rows (see the file comment for each df method; containment: F with the given
+ * denominator df). */
+export function jointTest(ctx: InferenceContext, rows: readonly (readonly number[])[], containmentDf = NaN): JointTest {
   const p = ctx.p;
   const ell = rows.length;
   const Lb = rows.map((r) => r.reduce((s, v, i) => s + v * ctx.beta[i]!, 0));
@@ -72,11 +74,14 @@ export function jointTest(ctx: InferenceContext, rows: readonly (readonly number
     return out;
   };
   const LPhiL = lml(ctx.phi);
-  if (ctx.dfMethod === 'residual' || ctx.dfMethod === 'kenward-roger') {
+  if (ctx.dfMethod === 'residual' || ctx.dfMethod === 'containment' || ctx.dfMethod === 'kenward-roger') {
     const inv = spdInverse(ctx.dfMethod === 'kenward-roger' ? lml(ctx.phiA) : LPhiL, ell);
     if (inv === null) return { numDf: ell, denDf: NaN, F: NaN, p: NaN };
     const F = quadForm(Lb, inv, Lb, ell) / ell;
-    if (ctx.dfMethod === 'residual') return { numDf: ell, denDf: ctx.residualDf, F, p: fUpper(F, ell, ctx.residualDf) };
+    if (ctx.dfMethod !== 'kenward-roger') {
+      const denDf = ctx.dfMethod === 'residual' ? ctx.residualDf : containmentDf;
+      return { numDf: ell, denDf, F, p: fUpper(F, ell, denDf) };
+    }
     const { lambda, m } = krScale(ctx, LPhiL, lml(ctx.M[0]), lml(ctx.M[1]), ell);
     const Fs = lambda * F;
     return { numDf: ell, denDf: m, F: Fs, p: fUpper(Fs, ell, m) };

@@ -2,7 +2,7 @@
 import type { CovariateColumn } from '../intake/types';
 
 export type TimeUnit = 'month' | 'week' | 'day';
-export type DfMethod = 'kenward-roger' | 'satterthwaite' | 'residual';
+export type DfMethod = 'kenward-roger' | 'satterthwaite' | 'residual' | 'containment';
 export type FitMethod = 'reml' | 'ml';
 export type FitStatus = 'converged' | 'boundary' | 'failed';
 export type TermKind = 'intercept' | 'arm' | 'time' | 'armTime' | 'covariate';
@@ -113,6 +113,26 @@ export interface Trajectory {
   readonly upper: number[];
 }
 
+/** One term of the naive least-squares fit (naive.ts), with its SE beside the mixed model's. */
+export interface NaiveEffect extends ContrastResult {
+  readonly term: string;
+  readonly kind: TermKind;
+  readonly arm: string | null;
+  /** True when the term's column is constant within every participant (intercept, arm, a baseline covariate). */
+  readonly between: boolean;
+  /** Naive SE ÷ the mixed model's SE for the same term. */
+  readonly seRatio: number;
+}
+
+/** Ordinary least squares with the same fixed effects, ignoring the correlation within participants. */
+export interface NaiveFit {
+  /** s² = RSS / (N − p). */
+  readonly residualVariance: number;
+  /** N − p. */
+  readonly df: number;
+  readonly fixedEffects: readonly NaiveEffect[];
+}
+
 export interface SubjectEffect {
   readonly id: string;
   readonly n: number;
@@ -147,6 +167,10 @@ export interface ModelFit extends Pick<FitOptions, 'method' | 'dfMethod' | 'leve
   readonly jointTest: JointTest | null;
   readonly trajectories: readonly Trajectory[];
   readonly subjects: readonly SubjectEffect[];
+  /** The naive least-squares fit beside the model; null when it cannot be computed or the fit failed. */
+  readonly naive: NaiveFit | null;
+  /** Containment (between/within) degrees of freedom of the design, whatever dfMethod was chosen. */
+  readonly containment: { readonly betweenDf: number; readonly withinDf: number };
   /** Conditional residuals per observation, only when FitOptions.residuals is true. */
   readonly residuals?: Float64Array;
 }

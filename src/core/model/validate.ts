@@ -17,7 +17,7 @@ export function validateModelShape(data: ModelData, options: FitOptions): void {
   }
   if (!(options.level > 0 && options.level < 1)) throw new ModelInputError(`level must lie strictly between 0 and 1, got ${options.level}.`);
   if (options.method !== 'reml' && options.method !== 'ml') throw new ModelInputError(`method must be 'reml' or 'ml', got '${String(options.method)}'.`);
-  if (!['kenward-roger', 'satterthwaite', 'residual'].includes(options.dfMethod)) throw new ModelInputError(`unknown dfMethod '${String(options.dfMethod)}'.`);
+  if (!['kenward-roger', 'satterthwaite', 'residual', 'containment'].includes(options.dfMethod)) throw new ModelInputError(`unknown dfMethod '${String(options.dfMethod)}'.`);
   if (!['month', 'week', 'day'].includes(options.timeUnit)) throw new ModelInputError(`unknown timeUnit '${String(options.timeUnit)}'.`);
   for (const c of options.contrastDays) {
     if (!Number.isFinite(c.day)) throw new ModelInputError(`contrast day for "${c.label}" is not a finite number.`);

@@ -1,9 +1,12 @@
 import type { IntakeTable } from '../intake/types';
 import { DegenerateDataError, fitFromTable, ModelInputError, RankDeficiencyError } from '../model';
-import type { ModelFit } from '../model/types';
+import type { FitOptions, ModelFit } from '../model/types';
+import { dfMethodNote } from '../report/dfNotes';
+import type { SensitivityRun } from '../report/sensitivityReport';
 import type { StudyDays, VisitTiming } from '../schedule/types';
 import { contrastDays, modelRows, observedMeans, orderedArms } from './modelData';
 import type { ObservedMean } from './modelData';
+import { sensitivityRuns } from './sensitivity';
 import type { AnalysisSettings } from './types';
 
 export interface FitStage {
@@ -15,6 +18,8 @@ export interface FitStage {
   readonly means: readonly ObservedMean[];
   /** Plain sentences for the record and the JSON (e.g. a reference arm that is not in the data). */
   readonly notes: readonly string[];
+  /** The refits with nominal time and on on-time visits only (empty when the main model was not fitted). */
+  readonly sensitivity: readonly SensitivityRun[];
 }
 
 /**
@@ -23,7 +28,8 @@ export interface FitStage {
  * scheduled visit (by arm in unblinded mode). A design the engine refuses (no usable rows, one participant, one
  * measurement per participant, values that do not vary or vary below their floating-point resolution, magnitudes out of
  * range, not of full rank, numbers that fail the engine's checks) and a fit that did not converge are properties of
- * the data: fit null and the engine's reason as `note`, never a model with wrong numbers. Cost: O(rows) plus the engine's pass.
+ * the data: fit null and the engine's reason as `note`, never a model with wrong numbers. When the main model is
+ * fitted, the two sensitivity refits (sensitivity.ts) follow the same path. Cost: O(rows) plus three engine passes.
  */
 export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTiming, settings: AnalysisSettings): FitStage {
   const include = modelRows(table, timing, settings.scheduledOnly);
@@ -33,27 +39,34 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
   const referenceArm = unblinded ? settings.referenceArm : undefined;
   let fit: ModelFit | null = null;
   let note: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
+  let sensitivity: SensitivityRun[] = [];
   if (note === null) {
-    try {
-      fit = fitFromTable(table, days.offsets, include, {
-        method: settings.method,
-        dfMethod: settings.dfMethod,
-        level: settings.level,
-        timeUnit: settings.timeUnit,
-        contrastDays: contrastDays(settings.schedule),
-        residuals: settings.perSubject,
-        ...(referenceArm === undefined ? {} : { referenceArm }),
-      });
-    } catch (e) {
-      if (!(e instanceof ModelInputError || e instanceof RankDeficiencyError || e instanceof DegenerateDataError)) throw e;
-      note = e.message;
-    }
-    // A fit that did not converge has no numbers to show: no model, the engine's reason as the note.
-    if (fit !== null && fit.status === 'failed') {
-      note = `the fit did not converge: ${fit.message}`;
-      fit = null;
+    const options: FitOptions & { referenceArm?: string } = {
+      method: settings.method,
+      dfMethod: settings.dfMethod,
+      level: settings.level,
+      timeUnit: settings.timeUnit,
+      contrastDays: contrastDays(settings.schedule),
+      residuals: settings.perSubject,
+      ...(referenceArm === undefined ? {} : { referenceArm }),
+    };
+    const tryFit = (offsets: Float64Array, rows: Uint8Array, opts: typeof options): { fit: ModelFit | null; note: string | null } => {
+      try {
+        const f = fitFromTable(table, offsets, rows, opts);
+        // A fit that did not converge has no numbers to show: no model, the engine's reason as the note.
+        return f.status === 'failed' ? { fit: null, note: `the fit did not converge: ${f.message}` } : { fit: f, note: null };
+      } catch (e) {
+        if (!(e instanceof ModelInputError || e instanceof RankDeficiencyError || e instanceof DegenerateDataError)) throw e;
+        return { fit: null, note: e.message };
+      }
+    };
+    ({ fit, note } = tryFit(days.offsets, include, options));
+    if (fit !== null) {
+      sensitivity = sensitivityRuns(days, timing, settings.schedule, include, options, tryFit);
+      const dfNote = dfMethodNote(settings.method, settings.dfMethod);
+      if (dfNote !== null) notes.push(dfNote);
     }
   }
   const arms = unblinded ? (fit?.arms ?? orderedArms(table.arms, referenceArm)) : [];
-  return { fit, note, arms, means: observedMeans(table, timing, settings.schedule, include, arms), notes };
+  return { fit, note, arms, means: observedMeans(table, timing, settings.schedule, include, arms), notes, sensitivity };
 }

@@ -23,7 +23,8 @@ export function orderedArms(arms: readonly string[], referenceArm: string | unde
   return [referenceArm, ...arms.filter((a) => a !== referenceArm)];
 }
 
-/** Contrast days: each scheduled visit's target day except the first (baseline) visit, in order of target day. */
+/** Contrast days: every scheduled visit's target day, the baseline visit included (there the difference is the arm
+ * term itself when the baseline is study day 1), in order of target day. */
 export function contrastDays(schedule: readonly ScheduleVisit[]): ContrastDay[] {
   const sorted = [...schedule].sort((a, b) => a.targetDay - b.targetDay);
   return sorted.map((v) => ({ label: v.label, day: v.targetDay }));

@@ -3,6 +3,8 @@ import type { IntakeTable } from '../intake/types';
 import type { ModelFit } from '../model/types';
 import { analysisRecordSheet, mappingLines } from '../report/record';
 import { modelJson } from '../report/modelJson';
+import { DF_NAMES } from '../report/dfNotes';
+import { sensitivityJson, type SensitivityRun } from '../report/sensitivityReport';
 import { modelNotFittedSheet, modelSheets } from '../report/modelSheet';
 import { modelSummaryText } from '../report/modelText';
 import { cutoffPhrase } from '../report/timingSheets';
@@ -17,19 +19,22 @@ export interface ModelPartsInput {
   readonly settings: AnalysisSettings;
   /** Why the model was not fitted, when a value column was mapped (the user asked for a model); else null. */
   readonly notFitted: string | null;
+  /** The sensitivity refits beside the main fit. */
+  readonly sensitivity: readonly SensitivityRun[];
 }
 
 /** The model sheets and the JSON `model` section (the report's modelJson plus its plain-language `summary`); when the
  * model was not fitted, null and — if a model was asked for — one sheet that says why. */
-export function modelOutputs({ fit, means, settings, notFitted }: ModelPartsInput): { sheets: SheetSpec[]; json: Record<string, unknown> | null } {
+export function modelOutputs({ fit, means, settings, notFitted, sensitivity }: ModelPartsInput): { sheets: SheetSpec[]; json: Record<string, unknown> | null } {
   if (fit === null) return { sheets: notFitted === null ? [] : [modelNotFittedSheet(notFitted, settings.mode)], json: null };
   const sheets = modelSheets(fit, {
     observed: means.map((m) => ({ label: m.visit, day: m.targetDay, arm: m.arm, mean: m.mean, n: m.n })),
     mode: settings.mode,
     perSubject: settings.perSubject,
     subjectIds: fit.subjects.map((s) => s.id),
+    sensitivity,
   });
-  return { sheets, json: { summary: modelSummaryText(fit, settings.mode), ...modelJson(fit) } };
+  return { sheets, json: { summary: modelSummaryText(fit, settings.mode), ...modelJson(fit), sensitivity: sensitivityJson(sensitivity, settings.mode) } };
 }
 
 export interface RecordInput {
@@ -45,14 +50,13 @@ export interface RecordInput {
 }
 
 const UNIT_WORDS = { month: 'month (30.4375 days)', week: 'week (7 days)', day: 'day' } as const;
-const DF_WORDS = { 'kenward-roger': 'Kenward–Roger', satterthwaite: 'Satterthwaite', residual: 'Residual' } as const;
 
 /** The analysis record sheet (always the last sheet) for this run. */
 export function recordSheet(r: RecordInput): SheetSpec {
   const s = r.settings;
   const settingLines = [
     { name: 'Estimation', value: s.method === 'reml' ? 'REML' : 'Maximum likelihood (ML)' },
-    { name: 'Degrees of freedom', value: DF_WORDS[s.dfMethod] },
+    { name: 'Degrees of freedom', value: DF_NAMES[s.dfMethod] },
     { name: 'Confidence level', value: `${Math.round(s.level * 1000) / 10}%` },
     { name: 'Time unit', value: UNIT_WORDS[s.timeUnit] },
     { name: 'Rows in the model', value: s.scheduledOnly ? 'Only records matched to scheduled visits' : 'All valid rows (scheduled, early, late, unscheduled and repeat)' },

@@ -112,7 +112,7 @@ export async function runAnalysis(
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);
   const fingerprint = fingerprintCells(cells);
-  const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote });
+  const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote, sensitivity: stage.sensitivity });
   const sheets: SheetSpec[] = [
     ...timingSheets(summary),
     ...model.sheets,

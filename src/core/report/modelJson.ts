@@ -3,6 +3,7 @@
  * no NaN or Infinity).
  */
 import type { ContrastResult, ModelFit } from '../model/types';
+import { naiveJson } from './naiveReport';
 
 const n = (x: number): number | null => (Number.isFinite(x) ? x : null);
 const inf = (r: ContrastResult): Record<string, number | null> => ({ estimate: n(r.estimate), se: n(r.se), df: n(r.df), t: n(r.t), p: n(r.p), lower: n(r.lower), upper: n(r.upper) });
@@ -42,6 +43,8 @@ export function modelJson(fit: ModelFit): Record<string, unknown> {
     },
     treatmentEffects: fit.treatmentEffects.map((t) => ({ arm: t.arm, label: t.label, day: t.day, time: n(t.time), ...inf(t) })),
     slopeDifferences: fit.slopeDifferences.map((s) => ({ arm: s.arm, ...inf(s) })),
+    containmentDf: { between: fit.containment.betweenDf, within: fit.containment.withinDf },
+    naive: naiveJson(fit),
     jointTest: fit.jointTest === null ? null : { numDf: fit.jointTest.numDf, denDf: n(fit.jointTest.denDf), F: n(fit.jointTest.F), p: n(fit.jointTest.p) },
   };
 }

@@ -10,6 +10,9 @@ import type { ContrastResult, ModelFit } from '../model/types';
 import { cautionBlocks } from './cautions';
 import { fitVerdict, modelSummaryText } from './modelText';
 import { cell, col, levelPercent, para } from './blockParts';
+import { DF_DESCRIPTIONS } from './dfNotes';
+import { modelExtraBlocks } from './modelExtras';
+import type { SensitivityRun } from './sensitivityReport';
 import type { Block, ChartSeries, SheetCell, SheetSpec, TableColumn } from './types';
 
 export interface ObservedVisitMean {
@@ -26,6 +29,8 @@ export interface ModelSheetContext {
   readonly perSubject: boolean;
   /** Subject ids by model subject index (the fit's subjects already carry their ids; kept for front ends). */
   readonly subjectIds: readonly string[];
+  /** The sensitivity refits (nominal time, on-time only); none when absent. */
+  readonly sensitivity?: readonly SensitivityRun[];
 }
 
 /** Thrown when the report is asked for something the fit cannot support, e.g. a blinded report of a fit with arms. */
@@ -126,7 +131,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
     columns: [col('Item', 'text', 24), col('Value', 'decimal3'), col('Note', 'text', 60)],
     rows: [
       ['Estimation', null, fit.method === 'reml' ? 'Restricted maximum likelihood (REML)' : 'Maximum likelihood'],
-      ['Degrees of freedom', null, fit.dfMethod === 'kenward-roger' ? 'Kenward–Roger, with its adjusted covariance' : fit.dfMethod === 'satterthwaite' ? 'Satterthwaite' : 'Residual (measurements − fixed effects)'],
+      ['Degrees of freedom', null, DF_DESCRIPTIONS[fit.dfMethod]],
       ['Log-likelihood', cell(fit.logLik), fit.method === 'reml' ? 'restricted log-likelihood, constants included' : 'constants included'],
       ['AIC', cell(fit.aic), `−2 × log-likelihood + 2k, k = ${fit.nParameters} (fixed effects + 2 variances)`],
       ['BIC', cell(fit.bic), `−2 × log-likelihood + k × log(N), N = ${fit.bicN}${fit.method === 'reml' ? ' (measurements − fixed effects)' : ' (measurements)'}`],
@@ -146,6 +151,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
     ],
   });
 
+  blocks.push(...modelExtraBlocks(fit, context.sensitivity ?? [], context.mode, unit));
   blocks.push(...trajectoryBlocks(fit, context, unit, pct));
 
   const sheets: SheetSpec[] = [{ name: MODEL_SHEET_NAMES.results, title: 'Random-intercept model', blocks }];

@@ -1,6 +1,7 @@
 /** Plain-language pieces of the model report: number phrasing, status words and the opening summary paragraph. */
 import type { ModelFit, FitStatus } from '../model/types';
 import type { Mode } from '../intake/types';
+import { DF_NAMES } from './dfNotes';
 
 /** Status words shown in the sheets (JSON keeps the status keys). */
 export const FIT_STATUS_WORDS: Readonly<Record<FitStatus, string>> = {
@@ -42,7 +43,7 @@ export function pPhrase(p: number): string {
 
 const methodWords = (fit: ModelFit): string =>
   `fitted by ${fit.method === 'reml' ? 'restricted maximum likelihood (REML)' : 'maximum likelihood'} with ${
-    fit.dfMethod === 'kenward-roger' ? 'Kenward–Roger' : fit.dfMethod === 'satterthwaite' ? 'Satterthwaite' : 'residual'
+    fit.dfMethod === 'residual' ? 'residual' : fit.dfMethod === 'containment' ? 'between/within' : DF_NAMES[fit.dfMethod]
   } degrees of freedom`;
 
 /**

@@ -64,7 +64,7 @@ describe('modelSheets', () => {
 
   it('has the fixed-effects, by-visit, slope, variance, model-fit, trajectory and observed tables with consistent shapes', () => {
     const ts = tables(modelSheets(fit, ctx('unblinded', false)));
-    expect(ts.map((t) => t.id)).toEqual(['FixedEffects', 'DifferenceByVisit', 'SlopeDifference', 'VarianceICC', 'ModelFit', 'FitCounts', 'Trajectories', 'ObservedMeans']);
+    expect(ts.map((t) => t.id)).toEqual(['FixedEffects', 'DifferenceByVisit', 'SlopeDifference', 'VarianceICC', 'ModelFit', 'FitCounts', 'NaiveFit', 'Trajectories', 'ObservedMeans']);
     for (const t of ts) {
       expect(t.id).toMatch(/^[A-Za-z0-9]+$/);
       for (const r of t.rows) expect(r.length).toBe(t.columns.length);
@@ -100,7 +100,7 @@ describe('modelSheets', () => {
     expect(all).not.toContain('Placebo');
     const first = sheets[0]!.blocks[0]!;
     expect(first.kind === 'paragraph' ? first.text : '').toMatch(/intraclass correlation is 0\.\d+/);
-    expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'ModelFit', 'FitCounts', 'Trajectories', 'ObservedMeans']);
+    expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'ModelFit', 'FitCounts', 'NaiveFit', 'Trajectories', 'ObservedMeans']);
   });
 
   it('the verdict row gives the status word once, then what the engine adds ("Converged. Converged." never appears)', () => {

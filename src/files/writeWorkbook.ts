@@ -134,6 +134,8 @@ interface SheetState {
   readonly written: WrittenTable[];
   /** Charts placed so far: first row (1-based) and bound series; their width is set once column widths are known. */
   readonly charts: { readonly row: number; readonly spec: ChartSpec; readonly series: readonly BoundSeries[] }[];
+  /** Rows of headings, kept on the page of the table or chart they head. */
+  readonly headings: Set<number>;
 }
 
 /** Widths of columns no table sets (Excel's default is about 8.43 characters). */
@@ -174,6 +176,7 @@ function space(st: SheetState): void {
 /** Consecutive paragraphs sit on consecutive rows; a heading gets a blank row before it. */
 function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font> | null, heading = false): void {
   if (heading) space(st);
+  if (heading) st.headings.add(st.row);
   const cell = st.ws.getCell(st.row, 1);
   cell.value = fitCell(text);
   if (font) cell.font = font;
@@ -252,7 +255,9 @@ function printSettings(st: SheetState, repeatRow: number, stamp: PrintStamp): vo
   // than one block every row gets its height written and the breaks below hold in every reader.
   const several = st.charts.length + st.written.length > 1;
   if (several) for (let r = 1; r <= st.row; r++) st.ws.getRow(r).height = rowHeight(r);
-  const blocks = [...st.charts.map((c) => ({ row: c.row, rows: CHART_ROWS })), ...st.written.map((t) => ({ row: t.headerRow - 1, rows: t.rows.length + 2 }))];
+  // A block starts at its heading when one stands just above it (one blank row between).
+  const withHeading = (row: number, rows: number): { row: number; rows: number } => (st.headings.has(row - 2) ? { row: row - 2, rows: rows + 2 } : { row, rows });
+  const blocks = [...st.charts.map((c) => withHeading(c.row, CHART_ROWS)), ...st.written.map((t) => withHeading(t.headerRow - 1, t.rows.length + 2))];
   blocks.sort((a, b) => a.row - b.row);
   if (several) for (const r of keepWholeBreaks(rowHeight, blocks, area.height, scale)) st.ws.getRow(r).addPageBreak();
   st.ws.pageSetup = {
@@ -288,7 +293,7 @@ export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintSt
   const placed = new Map<string, PlacedChart[]>();
   sheets.forEach((spec, k) => {
     const ws = wb.addWorksheet(names[k]!);
-    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [], wraps: [], written: [], charts: [] };
+    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [], wraps: [], written: [], charts: [], headings: new Set() };
     ws.getCell(1, 1).value = fitCell(spec.title);
     ws.getCell(1, 1).font = TITLE_FONT;
     const tables = spec.blocks.filter((b) => b.kind === 'table').length;

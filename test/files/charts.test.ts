@@ -1,6 +1,6 @@
+// @vitest-environment jsdom
 import { describe, expect, it } from 'vitest';
 import JSZip from 'jszip';
-import { JSDOM } from 'jsdom';
 import { writeWorkbook, CHART_DATA_CAPTION } from '../../src/files/writeWorkbook';
 import { readXlsxBuffer } from '../../src/files/readXlsx';
 import { CHART_CONTENT_TYPE, DRAWING_CONTENT_TYPE, withDrawingElement } from '../../src/files/addCharts';
@@ -9,9 +9,8 @@ import type { ChartSpec, SheetSpec, TableBlock } from '../../src/core/report/typ
 
 // Part names, content types, relationship types and namespaces: ECMA-376 Part 1 §21.2 (charts), §20.5
 // (spreadsheet drawings), §18.3.1 (worksheet), and Part 2 (Open Packaging Conventions: [Content_Types].xml, .rels).
-const { DOMParser } = new JSDOM('').window;
 
-/** A namespace-aware XML parse that fails on any well-formedness error (jsdom's conforming XML parser). */
+/** A namespace-aware XML parse that fails on any well-formedness error (jsdom's DOMParser, a conforming XML parser). */
 function parseXml(text: string, part: string): Document {
   const doc = new DOMParser().parseFromString(text, 'application/xml');
   const error = doc.getElementsByTagName('parsererror')[0];

@@ -6,7 +6,7 @@ import type { AnalysisSettings } from '../core/pipeline/types';
 import { CAUTIONS, UNBLINDED_CAUTION } from '../core/report/cautions';
 import { STATUS_WORDS } from '../core/schedule/types';
 import type { VisitStatus } from '../core/schedule/types';
-import { FileFormatError, writeWorkbook } from '../files';
+import { FileFormatError, printStampOf, writeWorkbook } from '../files';
 import pkg from '../../package.json';
 import { HELP_TEXT, parseAnalyzeArgs, UsageError } from './args';
 import type { AnalyzeArgs } from './args';
@@ -151,7 +151,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
   for (const c of CAUTIONS) io.out(`Caution: ${c}`);
   // Build every output in memory first, then write all or nothing, so a failure leaves no file half-written.
   const files: { target: string; data: Uint8Array | string }[] = [];
-  if (args.out !== undefined) files.push({ target: args.out, data: await writeWorkbook(output.sheets) });
+  if (args.out !== undefined) files.push({ target: args.out, data: await writeWorkbook(output.sheets, printStampOf(output.json)) });
   if (args.json !== undefined) files.push({ target: args.json, data: `${JSON.stringify(output.json, null, 2)}\n` });
   await writeFilesAtomic(files);
   for (const f of files) io.out(`Wrote ${f.target}`);

@@ -2,11 +2,14 @@ import ExcelJS from 'exceljs';
 import type { ChartSpec, NumberFormat, SheetCell, SheetSpec, TableBlock } from '../core/report/types';
 import { EXCEL_FORMAT_CODES } from '../core/report/formats';
 import { uniqueSheetNames, uniqueTableName } from './sheetNames';
+import { addCharts, type PlacedChart } from './addCharts';
+import { bindChart, type BoundSeries, type WrittenTable } from './bindChart';
+import { keepWholeBreaks, columnPoints, footer, LANDSCAPE_FROM, PRINTABLE, type PrintStamp } from './printSetup';
 
-/** The note placed where a chart would be: exceljs cannot draw native charts, so the sheet holds its numbers. */
-export const CHART_NOTE = 'The chart itself is drawn in the Excel add-in and on the browser page; its numbers are in the table below.';
-const CHART_NOTE_SOURCE = (table: string): string =>
-  `The chart itself is drawn in the Excel add-in and on the browser page; its numbers are in the table "${table}" on this sheet.`;
+/** Caption of the table a chart's numbers get when they are not all in a table of the sheet already. */
+export const CHART_DATA_CAPTION = (title: string): string => `Numbers behind the chart: ${title}`;
+/** Rows a chart covers (about 20 × 15 points, some 10 cm tall). */
+export const CHART_ROWS = 20;
 
 const TITLE_FONT: Partial<ExcelJS.Font> = { bold: true, size: 14 };
 const HEADING_FONT: Partial<ExcelJS.Font> = { bold: true, size: 12 };
@@ -81,7 +84,27 @@ function chartTable(chart: ChartSpec): TableBlock {
       });
     }
   }
-  return { kind: 'table', id: `${chart.id}Data`, caption: `${chart.title}: data`, columns, rows };
+  return { kind: 'table', id: `${chart.id}Data`, caption: CHART_DATA_CAPTION(chart.title), columns, rows };
+}
+
+/** The series of a chart bound to its own data table (chartTable's layout: x in the first column, then each series'
+ * y, lower and upper in order), so every chart is drawn even when its numbers are not on the sheet yet. */
+function bindToOwnTable(chart: ChartSpec, t: WrittenTable): BoundSeries[] {
+  const n = t.rows.length;
+  const run = (j: number): { first: number; last: number; column: number } => ({ first: t.headerRow + 1, last: t.headerRow + n, column: t.column + j });
+  const xValues = t.rows.map((r) => r[0] ?? null);
+  const out: BoundSeries[] = [];
+  let j = 1;
+  for (const s of chart.series) {
+    const markersOnly = (s.style ?? (chart.kind === 'scatter' ? 'points' : 'line')) === 'points';
+    for (const [suffix, values] of [['', s.y], [' lower', s.lower], [' upper', s.upper]] as const) {
+      if (values === undefined) continue;
+      const yValues = t.rows.map((r) => (typeof r[j] === 'number' ? (r[j] as number) : null));
+      out.push({ name: `${s.name}${suffix}`, x: run(0), y: run(j), xValues, yValues, dashed: suffix !== '', markersOnly: suffix === '' && markersOnly });
+      j += 1;
+    }
+  }
+  return out;
 }
 
 /** Header texts made unique within one table (Excel requires it): repeats get " 2", " 3", ... */
@@ -107,6 +130,12 @@ interface SheetState {
   readonly widths: number[];
   /** Rows of wrapped paragraphs and their text, laid out once the column widths are known. */
   readonly wraps: { readonly row: number; readonly text: string }[];
+  /** The tables written so far, where they stand and what their cells hold (charts are bound to them). */
+  readonly written: WrittenTable[];
+  /** Charts placed so far: first row (1-based) and bound series; their width is set once column widths are known. */
+  readonly charts: { readonly row: number; readonly spec: ChartSpec; readonly series: readonly BoundSeries[] }[];
+  /** Rows of headings, kept on the page of the table or chart they head. */
+  readonly headings: Set<number>;
 }
 
 /** Widths of columns no table sets (Excel's default is about 8.43 characters). */
@@ -121,8 +150,12 @@ const LINE_HEIGHT = 15;
  * sentence. Lines are estimated from the characters that fit the area's width (column width counts characters of the
  * default font; 1.1 allows for proportional text). Short paragraphs that fit in the area stay on one line.
  */
+function textColumnCount(st: SheetState): number {
+  return Math.min(12, Math.max(6, st.widths.length));
+}
+
 function wrapParagraphs(st: SheetState): void {
-  const columns = Math.min(12, Math.max(6, st.widths.length));
+  const columns = textColumnCount(st);
   let chars = 0;
   for (let j = 0; j < columns; j++) chars += st.widths[j] ?? DEFAULT_COLUMN_WIDTH;
   for (const { row, text } of st.wraps) {
@@ -143,6 +176,7 @@ function space(st: SheetState): void {
 /** Consecutive paragraphs sit on consecutive rows; a heading gets a blank row before it. */
 function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font> | null, heading = false): void {
   if (heading) space(st);
+  if (heading) st.headings.add(st.row);
   const cell = st.ws.getCell(st.row, 1);
   cell.value = fitCell(text);
   if (font) cell.font = font;
@@ -183,49 +217,99 @@ function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): num
     const wanted = Math.min(MAX_WIDTH, Math.max(MIN_WIDTH, c.width ?? 0, (headers[j] ?? '').length + 3));
     st.widths[j] = Math.max(st.widths[j] ?? 0, wanted);
   });
+  st.written.push({ id: t.id, headerRow, column: 0, headers, rows });
   st.row = headerRow + rows.length + 2;
   st.spaced = true;
   return headerRow;
 }
 
+/** Places a chart below the blocks before it: bound to the sheet's cells where its numbers already stand, else to a
+ * table of its numbers written first. A chart with no points is left out. */
+function writeChart(st: SheetState, chart: ChartSpec, tableNames: Set<string>): void {
+  let series = bindChart(chart, st.written);
+  if (series === null) {
+    writeTable(st, chartTable(chart), tableNames);
+    series = bindToOwnTable(chart, st.written[st.written.length - 1]!);
+  }
+  if (series.length === 0) return;
+  space(st);
+  st.charts.push({ row: st.row, spec: chart, series });
+  st.row += CHART_ROWS + 1;
+  st.spaced = true;
+}
+
+/** Landscape when the widest table is wider than a portrait page holds readably; always one page wide; the header
+ * row of a sheet's only table on every page; a page break before a chart that would be cut at the foot of a page;
+ * the footer of printSetup.ts. Runs after the column widths and paragraph heights are set. */
+function printSettings(st: SheetState, repeatRow: number, stamp: PrintStamp): void {
+  const widthOf = (j: number): number => st.widths[j] ?? DEFAULT_COLUMN_WIDTH;
+  const widest = Math.max(0, ...st.written.map((t) => t.headers.reduce((sum, _, j) => sum + widthOf(t.column + j), 0)));
+  const orientation = widest > LANDSCAPE_FROM ? 'landscape' : 'portrait';
+  const printed = Math.max(st.widths.length, st.wraps.length > 0 || st.charts.length > 0 ? textColumnCount(st) : 0);
+  let sheetWidth = 0;
+  for (let j = 0; j < printed; j++) sheetWidth += columnPoints(widthOf(j));
+  const area = PRINTABLE[orientation];
+  const scale = Math.min(1, area.width / Math.max(1, sheetWidth));
+  const rowHeight = (r: number): number => st.ws.getRow(r).height ?? LINE_HEIGHT;
+  // Readers differ in the height of a row that has none (15 points here, less in others), so on a sheet with more
+  // than one block every row gets its height written and the breaks below hold in every reader.
+  const several = st.charts.length + st.written.length > 1;
+  if (several) for (let r = 1; r <= st.row; r++) st.ws.getRow(r).height = rowHeight(r);
+  // A block starts at its heading when one stands just above it (one blank row between).
+  const withHeading = (row: number, rows: number): { row: number; rows: number } => (st.headings.has(row - 2) ? { row: row - 2, rows: rows + 2 } : { row, rows });
+  const blocks = [...st.charts.map((c) => withHeading(c.row, CHART_ROWS)), ...st.written.map((t) => withHeading(t.headerRow - 1, t.rows.length + 2))];
+  blocks.sort((a, b) => a.row - b.row);
+  if (several) for (const r of keepWholeBreaks(rowHeight, blocks, area.height, scale)) st.ws.getRow(r).addPageBreak();
+  st.ws.pageSetup = {
+    orientation,
+    fitToPage: true,
+    fitToWidth: 1,
+    fitToHeight: 0,
+    margins: { left: 0.5, right: 0.5, top: 0.6, bottom: 0.7, header: 0.3, footer: 0.3 },
+    ...(repeatRow > 0 ? { printTitlesRow: `${repeatRow}:${repeatRow}` } : {}),
+  };
+  st.ws.headerFooter = { oddFooter: footer(stamp), evenFooter: footer(stamp) };
+}
+
 /**
  * Renders sheet specs into an .xlsx workbook (ECMA-376) and returns its bytes. Per sheet: a title row, then each
- * block in order — paragraphs on consecutive rows, each merged and wrapped across the sheet's text width (cautions in bold italic), headings and tables set apart by a blank row, tables as real Excel tables with header row, filter
- * buttons, number formats from EXCEL_FORMAT_CODES and column widths, and for each chart a note plus the chart's data
- * table (exceljs cannot draw native charts). A sheet that is one big table gets its header frozen. Text is always
- * stored as a string cell, never as a formula: a subject id "=1+1" stays the text "=1+1". Sheet names are made
- * legal and unique (≤ 31 characters, none of \ / ? * : [ ]). Runs in Node and in the browser. Cost O(cells).
+ * block in order — paragraphs on consecutive rows, each merged and wrapped across the sheet's text width (cautions in
+ * bold italic), headings and tables set apart by a blank row, tables as real Excel tables with header row, filter
+ * buttons, number formats from EXCEL_FORMAT_CODES and column widths, and each chart as a native chart (addCharts.ts)
+ * across the text width whose series read the sheet's own table cells (bindChart.ts); a chart whose numbers are not
+ * all in a table of the sheet gets a table of its numbers first. A sheet that is one big table gets its header frozen
+ * and repeated on every printed page; every sheet prints one page wide with a footer naming the sheet, the page, the
+ * run date and the input fingerprint (printSetup.ts). Text is always stored as a string cell, never as a formula: a
+ * subject id "=1+1" stays the text "=1+1". Sheet names are made legal and unique (≤ 31 characters, none of
+ * \ / ? * : [ ]). Runs in Node and in the browser. Cost O(cells).
  *
  * Example: writeWorkbook([{ name: 'A', title: 'T', blocks: [] }]) → bytes of a workbook with sheet "A", A1 = "T".
  */
-export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8Array> {
+export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintStamp = {}): Promise<Uint8Array> {
   const wb = new ExcelJS.Workbook();
   wb.creator = 'longipane';
   const names = uniqueSheetNames(sheets.map((s) => s.name));
   const tableNames = new Set<string>();
+  const placed = new Map<string, PlacedChart[]>();
   sheets.forEach((spec, k) => {
     const ws = wb.addWorksheet(names[k]!);
-    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [], wraps: [] };
+    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [], wraps: [], written: [], charts: [], headings: new Set() };
     ws.getCell(1, 1).value = fitCell(spec.title);
     ws.getCell(1, 1).font = TITLE_FONT;
     const tables = spec.blocks.filter((b) => b.kind === 'table').length;
     const charts = spec.blocks.filter((b) => b.kind === 'chart').length;
     let frozenAt = 0;
+    let onlyHeader = 0;
     for (const b of spec.blocks) {
       if (b.kind === 'paragraph') {
         const font = b.style === 'caution' ? CAUTION_FONT : b.style === 'heading' ? HEADING_FONT : null;
         writeParagraph(st, b.text, font, b.style === 'heading');
       } else if (b.kind === 'table') {
         const header = writeTable(st, b, tableNames);
+        if (tables === 1) onlyHeader = header;
         if (tables === 1 && charts === 0) frozenAt = header;
       } else {
-        writeParagraph(st, b.chart.title, HEADING_FONT, true);
-        if (b.chart.sourceTable !== undefined) {
-          writeParagraph(st, CHART_NOTE_SOURCE(st.tableIds.get(b.chart.sourceTable) ?? b.chart.sourceTable), null);
-        } else {
-          writeParagraph(st, CHART_NOTE, null);
-          writeTable(st, chartTable(b.chart), tableNames);
-        }
+        writeChart(st, b.chart, tableNames);
       }
     }
     st.widths.forEach((w, j) => {
@@ -233,7 +317,13 @@ export async function writeWorkbook(sheets: readonly SheetSpec[]): Promise<Uint8
     });
     wrapParagraphs(st);
     if (frozenAt > 0) ws.views = [{ state: 'frozen', xSplit: 0, ySplit: frozenAt, topLeftCell: `A${frozenAt + 1}` }];
+    printSettings(st, st.written.length === 1 ? onlyHeader : 0, stamp);
+    const across = textColumnCount(st);
+    placed.set(
+      names[k]!,
+      st.charts.map((c) => ({ spec: c.spec, series: c.series, from: { row: c.row - 1, column: 0 }, to: { row: c.row - 1 + CHART_ROWS, column: across } })),
+    );
   });
   const out = await wb.xlsx.writeBuffer();
-  return out instanceof Uint8Array ? out : new Uint8Array(out as ArrayBuffer);
+  return addCharts(out instanceof Uint8Array ? out : new Uint8Array(out as ArrayBuffer), placed);
 }

@@ -20,6 +20,7 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
       await downloadReport(
         state.sheets.map((s) => ({ ...s.spec, name: s.name })),
         reportFileName(new Date()),
+        state.stamp,
       );
     } catch (e) {
       setError(`The report could not be built: ${e instanceof Error ? e.message : String(e)}`);

@@ -1,12 +1,13 @@
 /** The report download: the sheets written into an .xlsx file, handed to the browser through a Blob URL. */
 import type { SheetSpec } from '../core/report/types';
-import { writeWorkbook } from '../files';
+import { writeWorkbook, type PrintStamp } from '../files';
 
 const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
 
-/** Builds the workbook and starts the download; the Blob URL is released once the click has been handled. */
-export async function downloadReport(sheets: readonly SheetSpec[], fileName: string): Promise<void> {
-  const bytes = await writeWorkbook(sheets);
+/** Builds the workbook (its printed pages stamped with the run) and starts the download; the Blob URL is released
+ * once the click has been handled. */
+export async function downloadReport(sheets: readonly SheetSpec[], fileName: string, stamp: PrintStamp = {}): Promise<void> {
+  const bytes = await writeWorkbook(sheets, stamp);
   const blob = new Blob([bytes as Uint8Array<ArrayBuffer>], { type: XLSX_TYPE });
   downloadBlob(blob, fileName);
 }

@@ -1,6 +1,7 @@
 /** What the page shows beside the pane: the written sheets, the loaded data (for "go to cell"), and a highlighted cell. */
 import type { SheetSpec } from '../core/report/types';
 import type { DataSource } from '../taskpane/actions';
+import type { PrintStamp } from '../files';
 
 export interface HighlightedCell {
   /** The address as given, e.g. "'egfr-visits'!F17". */
@@ -20,11 +21,13 @@ export interface PageState {
   readonly notice: string | null;
   /** The headers the last run read (a blinded run reads no arm column, so the page shows none); null shows all. */
   readonly shownHeaders: readonly string[] | null;
+  /** The last run's date and input fingerprint, for the footer of the downloaded report's printed pages. */
+  readonly stamp: PrintStamp;
 }
 
 /** A tiny observable holder, read by React through useSyncExternalStore. */
 export class ResultStore {
-  private state: PageState = { sheets: [], source: null, highlight: null, notice: null, shownHeaders: null };
+  private state: PageState = { sheets: [], source: null, highlight: null, notice: null, shownHeaders: null, stamp: {} };
   private readonly listeners = new Set<() => void>();
 
   readonly subscribe = (listener: () => void): (() => void) => {

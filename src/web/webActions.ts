@@ -5,7 +5,7 @@
 import type { CellValue } from '../core/intake/types';
 import type { ScheduleVisit } from '../core/schedule/types';
 import { STARTER_SCHEDULE, parseCell, parseSchedule, starterScheduleCells } from '../core/schedule';
-import { readCsvText, readXlsxBuffer, uniqueSheetNames } from '../files';
+import { printStampOf, readCsvText, readXlsxBuffer, uniqueSheetNames } from '../files';
 import type { DataSource, PaneActions, SavedSettings, ScheduleLoad, WrittenSheet } from '../taskpane/actions';
 import { downloadBlob } from './download';
 import { ResultStore, blindedHeaders, sheetDomId } from './resultStore';
@@ -131,7 +131,7 @@ export function createWebActions(store: ResultStore = new ResultStore()): WebAct
     async writeResults(output, onProgress) {
       const names = uniqueSheetNames(output.sheets.map((s) => s.name));
       const sheets = output.sheets.map((spec, i) => ({ name: names[i] ?? spec.name, spec }));
-      store.update({ sheets, highlight: null, notice: null, shownHeaders: blindedHeaders(output.json) });
+      store.update({ sheets, highlight: null, notice: null, shownHeaders: blindedHeaders(output.json), stamp: printStampOf(output.json) });
       onProgress?.(1);
       return sheets.map((s): WrittenSheet => ({ name: s.name, title: s.spec.title }));
     },

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
-import { writeWorkbook, CHART_NOTE } from '../../src/files/writeWorkbook';
+import { writeWorkbook, CHART_DATA_CAPTION } from '../../src/files/writeWorkbook';
 import { CAUTIONS } from '../../src/core/report/cautions';
 import type { SheetSpec } from '../../src/core/report/types';
 
@@ -102,7 +102,7 @@ describe('writeWorkbook', () => {
     expect(tablesOf(wb.worksheets[1]!)[0]!.name).toBe('LP_Listing_2');
   });
 
-  it('writes a chart as a note and its data table, since the file format writer cannot draw native charts', async () => {
+  it('writes a table of the numbers of a chart that has no table on its sheet, one row per distinct x', async () => {
     const sheet: SheetSpec = {
       name: 'Trend',
       title: 'Mean over time',
@@ -125,8 +125,7 @@ describe('writeWorkbook', () => {
     };
     const wb = await load(await writeWorkbook([sheet]));
     const ws = wb.getWorksheet('Trend')!;
-    expect(ws.getCell('A3').value).toBe('Observed means');
-    expect(ws.getCell('A4').value).toBe(CHART_NOTE);
+    expect(ws.getCell('A3').value).toBe(CHART_DATA_CAPTION('Observed means'));
     const [t] = tablesOf(ws);
     expect(t!.headers).toEqual(['Study day', 'Placebo', 'Placebo lower', 'Placebo upper', 'Active']);
     const row = (r: number): unknown[] => [1, 2, 3, 4, 5].map((c) => ws.getCell(r, c).value);
@@ -136,14 +135,16 @@ describe('writeWorkbook', () => {
     expect(row(top + 3)).toEqual([169, null, null, null, null]);
   });
 
-  it('points a chart drawn from a table to that table by the name its Excel table got', async () => {
+  it('writes no text in place of a chart drawn from a table of its sheet: the native chart reads that table', async () => {
     const table = listing.blocks[2]!;
-    const chart = { kind: 'chart' as const, chart: { kind: 'bar' as const, id: 'C', title: 'Days off', xLabel: 'Subject', yLabel: 'Days', series: [], sourceTable: 'Listing' } };
-    const wb = await load(await writeWorkbook([{ name: 'One', title: 'T', blocks: [table] }, { name: 'Two', title: 'T', blocks: [table, chart] }]));
+    const chart = { kind: 'chart' as const, chart: { kind: 'bar' as const, id: 'C', title: 'Days off', xLabel: 'Subject', yLabel: 'Days', series: [{ name: 'Days off', x: ['=1+1', '1001'], y: [-9, 12] }], sourceTable: 'Listing' } };
+    const wb = await load(await writeWorkbook([{ name: 'Two', title: 'T', blocks: [table, chart] }]));
     const ws = wb.getWorksheet('Two')!;
-    const notes: unknown[] = [];
-    ws.eachRow((row) => notes.push(row.getCell(1).value));
-    expect(notes).toContain('The chart itself is drawn in the Excel add-in and on the browser page; its numbers are in the table "LP_Listing_2" on this sheet.');
+    const texts: unknown[] = [];
+    ws.eachRow((row) => texts.push(row.getCell(1).value));
+    // Title, caption, header, three rows: nothing else (no note, no second copy of the numbers).
+    expect(texts.filter((t) => typeof t === 'string')).toEqual(['T', 'Deviation listing', 'Subject', '=1+1', '1001', '+SUM(A1)']);
+    expect(tablesOf(ws)).toHaveLength(1);
   });
 
   it('gives an empty table one blank row so the file stays valid', async () => {

@@ -177,6 +177,10 @@ export function modelNotFittedSheet(reason: string, mode: Mode): SheetSpec {
   };
 }
 
+/** A trajectory's study day as the table shows it (one decimal); the chart uses the same numbers, so a front end that
+ * charts from cells finds them in the table. */
+const shownDay = (d: number): number => Math.round(d * 10) / 10;
+
 function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: string, pct: string): Block[] {
   if (fit.trajectories.length === 0) return [];
   const label = (arm: string | null): string => (arm === null ? 'All participants' : arm);
@@ -186,14 +190,18 @@ function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: strin
   const armCell = (arm: string | null): SheetCell[] => (withArm ? [label(arm)] : []);
   const rows: SheetCell[][] = [];
   for (const tr of fit.trajectories) {
-    tr.day.forEach((d, g) => rows.push([...armCell(tr.arm), Math.round(d * 10) / 10, cell(tr.time[g]!), cell(tr.mean[g]!), cell(tr.lower[g]!), cell(tr.upper[g]!)]));
+    tr.day.forEach((d, g) => rows.push([...armCell(tr.arm), shownDay(d), cell(tr.time[g]!), cell(tr.mean[g]!), cell(tr.lower[g]!), cell(tr.upper[g]!)]));
   }
-  const observed = context.observed.filter((o) => (context.mode === 'unblinded' ? true : o.arm === null));
+  // Grouped by arm (in order of first appearance), visits in order within each arm, so each arm's observed means
+  // stand in consecutive rows and a chart can read them from the table's cells.
+  const shown = context.observed.filter((o) => (context.mode === 'unblinded' ? true : o.arm === null));
+  const armOrder = [...new Set(shown.map((o) => o.arm))];
+  const observed = armOrder.flatMap((a) => shown.filter((o) => o.arm === a));
   const series: ChartSeries[] = [];
   for (const tr of fit.trajectories) {
-    series.push({ name: `${label(tr.arm)}: model`, x: tr.day, y: tr.mean.map(cell) as (number | null)[], lower: tr.lower.map(cell) as (number | null)[], upper: tr.upper.map(cell) as (number | null)[], style: 'line' });
+    series.push({ name: `${label(tr.arm)}: model`, x: tr.day.map(shownDay), y: tr.mean.map(cell) as (number | null)[], lower: tr.lower.map(cell) as (number | null)[], upper: tr.upper.map(cell) as (number | null)[], style: 'line' });
   }
-  const groups = [...new Set(observed.map((o) => o.arm))];
+  const groups = armOrder;
   for (const g of groups) {
     const pts = observed.filter((o) => o.arm === g);
     series.push({ name: `${label(g)}: observed mean`, x: pts.map((o) => o.day), y: pts.map((o) => cell(o.mean) as number | null), style: 'points' });

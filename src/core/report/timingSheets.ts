@@ -8,7 +8,7 @@ import { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWord
 /** The sentences live in timingWords.ts; re-exported here for callers that import them with the sheets. */
 export { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText };
 import type { TimingSummary, VisitSummaryRow } from './timingTypes';
-import type { Block, NumberFormat, SheetCell, SheetSpec } from './types';
+import type { Block, ChartSpec, NumberFormat, SheetCell, SheetSpec } from './types';
 
 /** Sheet names of the visit-timing reports (front ends make them unique in the workbook). */
 export const TIMING_SHEET_NAMES = { timing: 'Visit timing', deviations: 'Visit deviations', due: 'Visits due' } as const;
@@ -51,6 +51,28 @@ function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[
   return { kind: 'table', id, caption, columns, rows: body };
 }
 
+/** Scheduled visits by status and visit, one bar per status, drawn from the columns of the "ByVisit" table. */
+function statusChart(rows: readonly VisitSummaryRow[]): ChartSpec {
+  const x = rows.map((r) => r.visit);
+  const counts: [string, (r: VisitSummaryRow) => number][] = [
+    ['On time', (r) => r.onTime],
+    ['Early', (r) => r.early],
+    ['Late', (r) => r.late],
+    ['Missed', (r) => r.missed],
+    ['Not yet due', (r) => r.notYetDue],
+    ['Not expected (left)', (r) => r.afterExit],
+  ];
+  return {
+    kind: 'bar',
+    id: 'StatusByVisit',
+    title: 'Scheduled visits by status and visit',
+    xLabel: 'Visit',
+    yLabel: 'Scheduled visits',
+    series: counts.map(([name, count]) => ({ name, x, y: rows.map(count) })),
+    sourceTable: 'ByVisit',
+  };
+}
+
 /**
  * The visit-timing report as three sheets: "Visit timing" (cautions, a plain summary, the tables by visit — and by arm
  * and visit in unblinded mode, i.e. when summary.byArm is not null, with the unblinded caution — and by site, with a
@@ -85,6 +107,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
       sourceTable: 'ByVisit',
     },
   });
+  timing.push({ kind: 'chart', chart: statusChart(summary.byVisit) });
   if (summary.byArm !== null) {
     timing.push(para('By arm and visit', 'heading'), visitTable('ByArmVisit', 'Scheduled visits by arm and visit', summary.byArm, true));
   }

@@ -1,0 +1,173 @@
+/**
+ * The render check (`npm run test:render`): a second reader opens the demo report. It writes the invented demo
+ * trial's report (`npm run demo`), converts it with LibreOffice in headless mode to PDF, renders every page to PNG
+ * with poppler, and checks that
+ *   - the conversion succeeds and every sheet is present (each sheet's name stands in the footer of some page),
+ *   - the page count is reasonable (at least one page a sheet, at most MAX_PAGES),
+ *   - no table is split across pages sideways (some page shows every column heading of each table),
+ *   - each chart renders: below its title on the page, the chart area holds coloured pixels (series, not only text).
+ * Not part of `npm test`: it needs the Debian packages named in INSTALL. With LONGIPANE_UPDATE_DOCS=1 it refreshes
+ * docs/report-page.png (the first page) for the README.
+ */
+import { spawnSync } from 'node:child_process';
+import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import JSZip from 'jszip';
+import { colouredPixels, readPng } from './render/png';
+
+const INSTALL = 'apt-get install -y --no-install-recommends libreoffice-calc-nogui poppler-utils fonts-crosextra-carlito';
+const ROOT = resolve(import.meta.dirname, '..');
+const REPORT = join(ROOT, 'out', 'demo-report.xlsx');
+const OUT = join(ROOT, 'out', 'render');
+/** The demo report prints on 14 pages; twice that means something spreads out of shape. */
+const MAX_PAGES = 30;
+/** Resolution of the PNG pages (dots per inch; 1 PDF point = DPI / 72 pixels). */
+const DPI = 100;
+/** Coloured pixels a drawn chart shows below its title at this resolution: the sparsest demo chart (markers and thin
+ * lines) gives about 400, the bar charts thousands; an empty frame, text and grid lines give none. */
+const MIN_CHART_PIXELS = 150;
+
+const failures: string[] = [];
+const fail = (why: string): void => void failures.push(why);
+
+function run(cmd: string, args: readonly string[], quiet = true): string {
+  const r = spawnSync(cmd, args, { cwd: ROOT, encoding: 'utf8', stdio: quiet ? 'pipe' : 'inherit', maxBuffer: 256 * 1024 * 1024 });
+  if (r.error !== undefined || r.status !== 0) {
+    throw new Error(`${cmd} ${args.join(' ')} failed${r.error ? `: ${r.error.message}` : ` (exit ${r.status}): ${r.stderr}`}`);
+  }
+  return r.stdout ?? '';
+}
+
+function have(cmd: string): boolean {
+  return spawnSync(cmd, ['--version'], { stdio: 'ignore' }).error === undefined;
+}
+
+interface Word {
+  readonly text: string;
+  readonly xMin: number;
+  readonly yMin: number;
+  readonly xMax: number;
+  readonly yMax: number;
+}
+
+/** Words of each page with their boxes in points, from `pdftotext -bbox`. */
+function pageWords(pdf: string): Word[][] {
+  const html = run('pdftotext', ['-bbox', pdf, '-']);
+  const unescape = (s: string): string => s.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&amp;/g, '&');
+  return html.split(/<page /).slice(1).map((page) =>
+    [...page.matchAll(/<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g)].map((m) => ({
+      xMin: Number(m[1]),
+      yMin: Number(m[2]),
+      xMax: Number(m[3]),
+      yMax: Number(m[4]),
+      text: unescape(m[5]!),
+    })),
+  );
+}
+
+/** Where `phrase` stands on a page as consecutive words of one line, or undefined. */
+function findPhrase(words: readonly Word[], phrase: string): Word | undefined {
+  const want = phrase.split(/\s+/).filter((w) => w !== '');
+  for (let i = 0; i + want.length <= words.length; i++) {
+    let ok = true;
+    for (let k = 0; k < want.length && ok; k++) ok = words[i + k]!.text === want[k] && Math.abs(words[i + k]!.yMin - words[i]!.yMin) < 1;
+    if (ok) {
+      const last = words[i + want.length - 1]!;
+      return { text: phrase, xMin: words[i]!.xMin, yMin: words[i]!.yMin, xMax: last.xMax, yMax: last.yMax };
+    }
+  }
+  return undefined;
+}
+
+/** Sheet names, table column headings and chart titles, read from the package itself. */
+async function packageFacts(bytes: Uint8Array): Promise<{ sheets: string[]; tables: string[][]; charts: string[] }> {
+  const zip = await JSZip.loadAsync(bytes);
+  const text = async (name: string): Promise<string> => (await zip.file(name)?.async('string')) ?? '';
+  const decode = (s: string): string => s.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&amp;/g, '&');
+  const sheets = [...(await text('xl/workbook.xml')).matchAll(/<sheet\b[^>]*\bname="([^"]*)"/g)].map((m) => decode(m[1]!));
+  const tables: string[][] = [];
+  const charts: string[] = [];
+  for (const name of Object.keys(zip.files).sort()) {
+    if (/^xl\/tables\/table\d+\.xml$/.test(name)) tables.push([...(await text(name)).matchAll(/<tableColumn\b[^>]*\bname="([^"]*)"/g)].map((m) => decode(m[1]!)));
+    if (/^xl\/charts\/chart\d+\.xml$/.test(name)) {
+      const title = /<c:title>.*?<a:t>([^<]*)<\/a:t>/.exec(await text(name));
+      if (title !== null) charts.push(decode(title[1]!));
+    }
+  }
+  return { sheets, tables, charts };
+}
+
+async function main(): Promise<void> {
+  const missing = ['soffice', 'pdftoppm', 'pdftotext'].filter((c) => !have(c));
+  if (missing.length > 0) {
+    console.error(`The render check needs LibreOffice and poppler (${missing.join(', ')} not found). Install them with:\n  sudo ${INSTALL}`);
+    process.exit(1);
+  }
+  run('npm', ['run', '--silent', 'demo']);
+  rmSync(OUT, { recursive: true, force: true });
+  mkdirSync(OUT, { recursive: true });
+  // A private LibreOffice profile, so a desktop session or a parallel run does not lock or change it.
+  const profile = mkdtempSync(join(tmpdir(), 'longipane-lo-'));
+  const started = Date.now();
+  try {
+    run('soffice', [`-env:UserInstallation=file://${profile}`, '--headless', '--convert-to', 'pdf', '--outdir', OUT, REPORT]);
+  } finally {
+    rmSync(profile, { recursive: true, force: true });
+  }
+  const pdf = join(OUT, 'demo-report.pdf');
+  const pages = Number(/Pages:\s+(\d+)/.exec(run('pdfinfo', [pdf]))?.[1] ?? 0);
+  run('pdftoppm', ['-png', '-r', String(DPI), pdf, join(OUT, 'page')]);
+  const pngs = readdirSync(OUT).filter((f) => /^page-\d+\.png$/.test(f)).sort();
+  console.log(`LibreOffice converted the report in ${((Date.now() - started) / 1000).toFixed(1)} s: ${pages} pages, PNG pages in ${OUT}`);
+
+  const facts = await packageFacts(readFileSync(REPORT));
+  const words = pageWords(pdf);
+  if (pngs.length !== pages || words.length !== pages) fail(`${pages} PDF pages but ${pngs.length} PNG pages and ${words.length} text pages`);
+  if (pages < facts.sheets.length || pages > MAX_PAGES) fail(`${pages} pages for ${facts.sheets.length} sheets (expected ${facts.sheets.length} to ${MAX_PAGES})`);
+
+  // Every sheet prints: its name stands in the left footer (&A) of at least one page.
+  for (const sheet of facts.sheets) {
+    if (!words.some((ws) => findPhrase(ws.filter((w) => w.yMin > 0.85 * maxY(words)), sheet) !== undefined)) fail(`sheet "${sheet}" is on no page`);
+  }
+  // No table split sideways: some page shows every column heading of the table.
+  for (const headers of facts.tables) {
+    if (!words.some((ws) => headers.every((h) => findPhrase(ws, h) !== undefined))) fail(`no page shows all the headings of the table ${JSON.stringify(headers)}`);
+  }
+  // Every chart is drawn: coloured pixels in the chart area below its title.
+  for (const title of facts.charts) {
+    const page = words.findIndex((ws) => findPhrase(ws, title) !== undefined);
+    if (page < 0) {
+      fail(`chart "${title}": its title is on no page`);
+      continue;
+    }
+    const at = findPhrase(words[page]!, title)!;
+    const img = readPng(readFileSync(join(OUT, pngs[page]!)));
+    const px = DPI / 72;
+    // The chart area: below the title, 80 points deep (a chart is 300 sheet points tall, printed at ≥ 1/3 scale).
+    const n = colouredPixels(img, 0, Math.round(at.yMax * px), img.width, Math.round((at.yMax + 80) * px));
+    console.log(`chart "${title}" on page ${page + 1}: ${n} coloured pixels`);
+    if (n < MIN_CHART_PIXELS) fail(`chart "${title}" on page ${page + 1} looks blank (${n} coloured pixels, at least ${MIN_CHART_PIXELS} expected)`);
+  }
+  if (facts.charts.length < 3) fail(`the demo report has ${facts.charts.length} charts; at least 3 expected (means over time, on-time rate by site, visits by status)`);
+
+  if (process.env.LONGIPANE_UPDATE_DOCS === '1' && pngs[0] !== undefined) {
+    copyFileSync(join(OUT, pngs[0]), join(ROOT, 'docs', 'report-page.png'));
+    console.log('Updated docs/report-page.png');
+  }
+  if (failures.length > 0) {
+    for (const f of failures) console.error(`FAIL ${f}`);
+    process.exit(1);
+  }
+  console.log(`Render check passed: ${facts.sheets.length} sheets, ${facts.tables.length} tables whole, ${facts.charts.length} charts drawn.`);
+}
+
+/** The lowest word on any page, which is in the footer. */
+function maxY(words: readonly (readonly Word[])[]): number {
+  return Math.max(...words.flat().map((w) => w.yMax));
+}
+
+main().catch((e: unknown) => {
+  console.error(e instanceof Error ? e.message : String(e));
+  process.exit(1);
+});

@@ -164,7 +164,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
     ...cautions,
     para(
       `${cutoffPhrase(summary)}: every early, late or missed scheduled visit, and every unscheduled or repeat record, for follow-up. ` +
-        `Days from target = actual ${when} − ${target} (negative = early). ` +
+        `Days from target = calendar days from the ${target} to the actual ${when} (negative = early; no day is skipped at the reference date). ` +
         (summary.dated ? 'Target and window dates count from each participant’s reference date (day 1).' : 'The data carry study days, so study days are shown instead of dates.'),
     ),
     {

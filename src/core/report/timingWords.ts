@@ -3,7 +3,7 @@ import { isoDate } from '../schedule/dates';
 import type { TimingSummary } from './timingTypes';
 
 export const ON_TIME_RATE_NOTE =
-  'On-time rate = visits on time ÷ visits due. A visit is due unless its window is still open or yet to open at the cut-off ("not yet due"); missed visits count as due. Deviation = actual study day − target day (negative = early), over the records that are the visits’ own (on time, early, late).';
+  'On-time rate = visits on time ÷ visits due. A visit is due unless its window is still open or yet to open at the cut-off ("not yet due"); missed visits count as due. Deviation = calendar days from the target date to the visit (negative = early), over the records that are the visits’ own (on time, early, late).';
 
 const pct = (x: number | null): string => (x === null ? 'n/a' : `${(100 * x).toFixed(1)}%`);
 const plural = (n: number, one: string, many: string): string => `${n} ${n === 1 ? one : many}`;

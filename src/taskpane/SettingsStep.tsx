@@ -36,7 +36,8 @@ const DATE_ORDERS: readonly { value: DateOrder | ''; label: string }[] = [
 const DF_METHODS: readonly { value: DfMethod; label: string }[] = [
   { value: 'kenward-roger', label: 'Kenward–Roger (recommended)' },
   { value: 'satterthwaite', label: 'Satterthwaite' },
-  { value: 'residual', label: 'Residual' },
+  { value: 'residual', label: 'Residual (liberal for arm differences)' },
+  { value: 'containment', label: 'Between/within (containment)' },
 ];
 const FIT_METHODS: readonly { value: FitMethod; label: string }[] = [
   { value: 'reml', label: 'REML (recommended)' },
@@ -161,7 +162,11 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
         </Select>
       </Field>
       <Field label="Estimation method">
-        <Select value={settings.method} onChange={(_, d) => set({ method: d.value as FitMethod })}>
+        <Select
+          value={settings.method}
+          // The usual degrees of freedom follow the method: Kenward–Roger with REML, Satterthwaite with ML.
+          onChange={(_, d) => set({ method: d.value as FitMethod, dfMethod: d.value === 'ml' ? 'satterthwaite' : 'kenward-roger' })}
+        >
           {FIT_METHODS.map((o) => (
             <option key={o.value} value={o.value}>
               {o.label}

@@ -64,6 +64,8 @@ let base: string;
 let profile: string;
 const requests: string[] = [];
 const pageErrors: string[] = [];
+/** Every answer of 400 or more from the local server (regression: the page asked for a favicon that did not exist). */
+const failedResponses: string[] = [];
 
 beforeAll(async () => {
   if (!existsSync(join(DIST, 'index.html'))) {
@@ -75,6 +77,9 @@ beforeAll(async () => {
   profile = mkdtempSync(join(tmpdir(), 'longipane-e2e-'));
   ({ context } = await launchChromium(profile));
   context.on('request', (r) => requests.push(r.url()));
+  context.on('response', (r) => {
+    if (r.status() >= 400) failedResponses.push(`${r.status()} ${r.url()}`);
+  });
   page = context.pages()[0] ?? (await context.newPage());
   page.on('pageerror', (e) => pageErrors.push(e.message));
   await page.goto(`${base}/index.html`);
@@ -412,5 +417,6 @@ describe('the browser page with the invented demo trial', () => {
     expect(requests.length).toBeGreaterThan(0);
     expect(requests.filter((u) => !local(u))).toEqual([]);
     expect(pageErrors).toEqual([]);
+    expect(failedResponses).toEqual([]);
   });
 });

@@ -1,7 +1,7 @@
 /** The command line: `longipane analyze …` reads files, runs the same pipeline as the add-in and writes .xlsx/JSON. */
 import { detectMapping, IntakeUsageError } from '../core/intake';
 import type { Issue } from '../core/intake/types';
-import { PipelineUsageError, runAnalysis } from '../core/pipeline';
+import { PipelineUsageError, rowsLeftOut, runAnalysis } from '../core/pipeline';
 import type { AnalysisSettings } from '../core/pipeline/types';
 import { CAUTIONS, UNBLINDED_CAUTION } from '../core/report/cautions';
 import { STATUS_WORDS } from '../core/schedule/types';
@@ -117,7 +117,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     return 1;
   }
   if (warned > 0) {
-    const rows = new Set(output.excluded.map((e) => e.row)).size;
+    const rows = rowsLeftOut(output.excluded);
     io.out(
       `${warned} warning${warned === 1 ? '' : 's'}; ${rows} row${rows === 1 ? '' : 's'} left out of visit timing or the model (all are listed in the outputs):`,
     );

@@ -4,6 +4,7 @@ import { CAUTIONS, UNBLINDED_CAUTION } from '../report/cautions';
 import { isoDate } from '../schedule/dates';
 import type { CutoffRule } from '../schedule/types';
 import type { AnalysisSettings, ExcludedRow } from './types';
+import { compactIssues, type CompactIssue } from './compactIssues';
 import { DAYS_PER_UNIT } from './types';
 
 export interface ResultsJsonInput {
@@ -55,7 +56,7 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
       rows: r.table.nRows,
       subjects: r.table.subjectIds.length,
       fingerprint: r.fingerprint,
-      excluded: r.excluded.map((e) => ({ row: e.row, cell: e.cell, use: e.use, reason: e.reason })),
+      excluded: r.excluded.map((e) => ({ row: e.row, ...(e.lastRow === undefined ? {} : { lastRow: e.lastRow }), cell: e.cell, use: e.use, reason: e.reason })),
       usedForTiming: r.usedForTiming,
       usedForModel: r.usedForModel,
     },
@@ -80,11 +81,22 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
     model: r.model,
     modelNote: r.modelNote,
     notes: [...r.notes],
-    issues: r.issues.map(issueJson),
+    issues: compactIssues(r.issues).map(issueJson),
   };
 }
 
-/** One issue as plain JSON. */
-export function issueJson(i: Issue): Record<string, unknown> {
-  return { code: i.code, severity: i.severity, cell: i.cell, row: i.row, role: i.role, value: i.value, use: i.use, message: i.message };
+/** One issue as plain JSON: `lastRow` when it stands for consecutive rows (compactIssues), `rowSpans` for a summary. */
+export function issueJson(i: CompactIssue): Record<string, unknown> {
+  return {
+    code: i.code,
+    severity: i.severity,
+    cell: i.cell,
+    row: i.row,
+    ...(i.lastRow === undefined ? {} : { lastRow: i.lastRow }),
+    ...(i.rowSpans === undefined ? {} : { rowSpans: i.rowSpans.map(([a, b]) => [a, b]) }),
+    role: i.role,
+    value: i.value,
+    use: i.use,
+    message: i.message,
+  };
 }

@@ -2,6 +2,7 @@
 import type { CellValue, Issue } from '../intake/types';
 import { CAUTIONS } from '../report/cautions';
 import { issueJson } from './resultsJson';
+import { compactIssues } from './compactIssues';
 import type { AnalysisSettings } from './types';
 
 /**
@@ -17,6 +18,6 @@ export function stopJson(cells: readonly (readonly CellValue[])[], settings: Ana
     cautions: [...CAUTIONS],
     input: { label: settings.inputLabel, sheet: settings.sheet, topLeft: settings.topLeft, rows: Math.max(0, cells.length - 1) },
     settings: { mode: settings.mode, dateOrder: settings.dateOrder ?? null, runAt: settings.runAt },
-    issues: ordered.map(issueJson),
+    issues: compactIssues(ordered).map(issueJson),
   };
 }

@@ -16,6 +16,7 @@ import type { CellValue, CovariateColumn, DateReading, IntakeOptions, IntakeResu
 import { readDateRole } from './dateRole';
 import { checkArms } from './checkArms';
 import { readExit } from './readExit';
+import { checkDuplicateHeaders } from './duplicateHeaders';
 
 const EMPTY_ROW: readonly CellValue[] = [];
 
@@ -67,6 +68,7 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
   const mode = options.mode;
   const mapping = effectiveMapping(options.mapping ?? detectMapping(headers, mode).mapping, mode);
   checkMapping(mapping, headers, mode, issues);
+  checkDuplicateHeaders(headers, mapping, options.sheet, top, issues);
   if (mode === 'blinded') checkBlindedColumns(mapping, headers, issues);
   if (issues.hasErrors) return { ok: false, issues: issues.items };
 

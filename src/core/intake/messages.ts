@@ -80,8 +80,12 @@ function implausibleReason(context: string | undefined, bound: string | undefine
 /** How far, in days, a visit date may lie beyond what the schedule allows before it is called implausible. */
 export const PLAUSIBLE_SLACK_DAYS = 180;
 
+/** Values longer than this are shown shortened in sentences (the issue's `value` keeps them whole). */
+const SHOWN_VALUE = 200;
+
 function quoted(value: string): string {
-  return `"${value}"`;
+  if (value.length <= SHOWN_VALUE) return `"${value}"`;
+  return `"${value.slice(0, SHOWN_VALUE)}…" (${value.length.toLocaleString('en-US')} characters)`;
 }
 
 /**
@@ -132,7 +136,7 @@ export function renderMessage(m: MessageInput): string {
     case 'duplicate-header':
       return `${at}columns ${m.other ?? ''} and ${m.cell ?? ''} are both headed ${quoted(m.value)}, so neither is used${m.role === null ? '' : ` as the ${role}`} until you say which: choose the column in the pane's column roles, or on the command line give --map ${m.role ?? 'role'}="column ${m.context ?? 'letter'}" (a column's letter, as the spreadsheet shows it).`;
     case 'long-text':
-      return `${at}this cell holds ${m.context ?? 'more than 32,767'} characters, more than a spreadsheet cell can hold (32,767): the report workbook shows it cut, and the results JSON keeps it whole up to ${m.other ?? 'its cap'} characters. The row is kept.`;
+      return `${at}${m.role === null ? 'this header' : `the ${role}`} holds ${m.context ?? 'more than 32,767'} characters, more than a spreadsheet cell can hold (32,767): the report workbook shows it cut, and the results JSON keeps it whole up to ${m.other ?? 'its cap'} characters. The row is kept.`;
     case 'implausible-date':
       return `${at}the ${role} ${m.value} lies ${implausibleReason(m.context, m.other)}; the record is kept, but it is not used to set the default cut-off. Check the year.`;
     case 'blank-subject':

@@ -17,6 +17,7 @@ import { readDateRole } from './dateRole';
 import { checkArms } from './checkArms';
 import { readExit } from './readExit';
 import { checkDuplicateHeaders } from './duplicateHeaders';
+import { checkLongText } from './longText';
 
 const EMPTY_ROW: readonly CellValue[] = [];
 
@@ -69,6 +70,7 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
   const mapping = effectiveMapping(options.mapping ?? detectMapping(headers, mode).mapping, mode);
   checkMapping(mapping, headers, mode, issues);
   checkDuplicateHeaders(headers, mapping, options.sheet, top, issues);
+  checkLongText(cells, mapping, issues);
   if (mode === 'blinded') checkBlindedColumns(mapping, headers, issues);
   if (issues.hasErrors) return { ok: false, issues: issues.items };
 

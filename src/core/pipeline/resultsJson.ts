@@ -5,6 +5,7 @@ import { isoDate } from '../schedule/dates';
 import type { CutoffRule } from '../schedule/types';
 import type { AnalysisSettings, ExcludedRow } from './types';
 import { compactIssues, type CompactIssue } from './compactIssues';
+import { capJsonText } from '../intake/longText';
 import { DAYS_PER_UNIT } from './types';
 
 export interface ResultsJsonInput {
@@ -40,9 +41,14 @@ export function mappingByHeader(mapping: ColumnMapping, headers: readonly string
 /**
  * The machine-readable results (schema: README.md, "Results JSON"). Plain JSON values only: no NaN, no
  * typed arrays. In blinded mode nothing here is by arm (the visit and model parts come from blinded inputs, and the
- * settings carry no reference arm). O(excluded rows + issues).
+ * settings carry no reference arm). Text longer than JSON_TEXT_CAP (1,048,576 characters) is cut with a marker
+ * (capJsonText). O(excluded rows + issues).
  */
 export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
+  return capJsonText(resultsJsonWhole(r));
+}
+
+function resultsJsonWhole(r: ResultsJsonInput): Record<string, unknown> {
   const s = r.settings;
   const unblinded = s.mode === 'unblinded';
   return {

@@ -38,7 +38,7 @@ function trial(): CellValue[][] {
   return cells;
 }
 
-type Json = { settings: { cutoff: string; cutoffRule: string }; visits: { counts: Record<string, number> }; notes: string[]; issues: { code: string; cell: string; message: string }[] };
+type Json = { settings: { cutoff: string; cutoffRule: string }; visits: { counts: { onTime: number; missed: number; notYetDue: number } }; notes: string[]; issues: { code: string; cell: string; message: string }[] };
 async function json(cells: CellValue[][], extra: Partial<AnalysisSettings> = {}): Promise<Json> {
   const out = await runAnalysis(cells, { ...SETTINGS, ...extra });
   if (!out.ok) throw new Error(out.issues.map((i) => i.message).join('\n'));

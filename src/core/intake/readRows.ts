@@ -1,6 +1,6 @@
 /**
  * The row pass of readTable: one linear pass over the data rows into typed columns, adding a warning for every cell
- * that keeps a row from a use (see readTable for the rules). O(rows · mapped columns); no per-row objects beyond
+ * that keeps a row from a use (see readTable for the rules), and one summary warning for all blank rows. O(rows · mapped columns); no per-row objects beyond
  * the strings the text columns hold.
  */
 import type { CellRef } from './cellAddress';

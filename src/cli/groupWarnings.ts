@@ -12,6 +12,8 @@ export interface WarningGroup {
   readonly first: Printable;
   count: number;
   readonly cells: string[];
+  /** True when the first message already speaks for all `count` rows (the blank-row summary): no "… more" line. */
+  readonly summary?: boolean;
 }
 
 /** Cells named per group after the first message. */
@@ -52,7 +54,7 @@ export function groupLines(groups: readonly WarningGroup[]): string[] {
   const lines: string[] = [];
   for (const g of groups) {
     lines.push(`  ${where(g.first)}`);
-    if (g.count > 1) {
+    if (g.count > 1 && g.summary !== true) {
       const more = g.count - 1;
       const named = g.cells.join(', ');
       lines.push(`    … and ${more.toLocaleString('en-US')} more like it${named === '' ? '' : `: ${named}${more > g.cells.length ? ', …' : ''}`}.`);
@@ -68,8 +70,19 @@ export interface LeftOutRows {
 }
 
 /** A warning that leaves a row out of a use (the same test the pipeline's list of left-out rows applies). */
-const leavesRowOut = (i: Printable & { readonly severity?: string; readonly row?: number | null; readonly use?: string | null }): boolean =>
-  i.severity === 'warning' && typeof i.row === 'number' && (i.use === 'timing' || i.use === 'model');
+type RowIssue = Printable & {
+  readonly severity?: string;
+  readonly row?: number | null;
+  readonly use?: string | null;
+  /** A summary issue standing for many rows (blank rows), left out of both uses. */
+  readonly rowSpans?: readonly (readonly [number, number])[];
+};
+
+const leavesRowOut = (i: RowIssue): boolean =>
+  i.severity === 'warning' && typeof i.row === 'number' && (i.use === 'timing' || i.use === 'model' || i.rowSpans !== undefined);
+
+/** Rows a summary issue stands for (the sum of its spans). */
+const spanRows = (spans: readonly (readonly [number, number])[]): number => spans.reduce((n, [a, b]) => n + b - a + 1, 0);
 
 /**
  * The rows left out of `use`, each row once (under the first warning that names it for that use), grouped by kind as
@@ -77,12 +90,20 @@ const leavesRowOut = (i: Printable & { readonly severity?: string; readonly row?
  * Example: a row with a blank participant and a bad date, both for 'timing' → rows 1, one group (the first warning).
  */
 export function leftOutOf(
-  issues: Iterable<Printable & { readonly severity: string; readonly row: number | null; readonly use: string | null }>,
+  issues: Iterable<RowIssue & { readonly severity: string; readonly row: number | null; readonly use: string | null }>,
   use: 'timing' | 'model',
 ): LeftOutRows {
   const groups = new Map<string, WarningGroup>();
   const rows = new Set<number>();
+  // Blank rows come as one summary issue whose spans name them; no other issue names a blank row, so they add apart.
+  let spanned = 0;
   for (const i of issues) {
+    if (i.rowSpans !== undefined && leavesRowOut(i)) {
+      const n = spanRows(i.rowSpans);
+      spanned += n;
+      groups.set(`${i.code}\u0000spans`, { first: i, count: n, cells: [], summary: true });
+      continue;
+    }
     if (!leavesRowOut(i) || i.use !== use || rows.has(i.row!)) continue;
     rows.add(i.row!);
     const kind = `${i.code}\u0000${i.role ?? ''}`;
@@ -93,11 +114,11 @@ export function leftOutOf(
       if (i.cell !== null && g.cells.length < CELLS_NAMED) g.cells.push(i.cell);
     }
   }
-  return { rows: rows.size, groups: [...groups.values()] };
+  return { rows: rows.size + spanned, groups: [...groups.values()] };
 }
 
 /** Warnings that leave no row out of a use (the row is kept, or the warning is about the whole range). */
-export function otherWarnings<T extends Printable & { readonly severity?: string; readonly row?: number | null; readonly use?: string | null }>(
+export function otherWarnings<T extends RowIssue>(
   items: readonly T[],
 ): T[] {
   return items.filter((i) => !leavesRowOut(i));

@@ -1,5 +1,5 @@
 /** The command line: `longipane analyze …` reads files, runs the same pipeline as the add-in and writes .xlsx/JSON. */
-import { detectMapping, IntakeUsageError } from '../core/intake';
+import { detectMapping, IntakeUsageError, parseCell } from '../core/intake';
 import type { Issue } from '../core/intake/types';
 import { PipelineUsageError, runAnalysis } from '../core/pipeline';
 import type { AnalysisSettings } from '../core/pipeline/types';
@@ -101,7 +101,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     topLeft: data.topLeft,
     dateSystem: data.dateSystem,
     mode,
-    ...(custom ? { mapping: buildMapping(detectMapping(headers, mode).mapping, headers, args.map, args.covariates) } : {}),
+    ...(custom ? { mapping: buildMapping(detectMapping(headers, mode).mapping, headers, args.map, args.covariates, parseCell(data.topLeft).col) } : {}),
     schedule: schedule.schedule,
     ...(args.cutoff === undefined ? {} : { cutoff: args.cutoff }),
     ...(args.cutoffDay === undefined ? {} : { cutoffDay: args.cutoffDay }),

@@ -12,3 +12,5 @@ export { readCsv } from './readCsv';
 export type { CsvRead, FileNote } from './readCsv';
 export { decodeCsv } from './decodeText';
 export type { DecodedText } from './decodeText';
+export { readCsvFile, gridRange } from './readCsvFile';
+export type { CsvFile } from './readCsvFile';

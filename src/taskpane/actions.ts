@@ -18,6 +18,9 @@ export interface DataSource {
   /** How intake should treat numbers written as text: 'accept' for CSV files (every field is text), 'reject' (the
    * default) for spreadsheet cells, where a number stored as text is a problem worth reporting. */
   readonly numericText?: 'reject' | 'accept';
+  /** Warnings about the file itself (a repaired encoding, fields past the header), each led by its first cell; they
+   * go into the run's notes. */
+  readonly fileNotes?: readonly string[];
 }
 
 export interface ScheduleSource {

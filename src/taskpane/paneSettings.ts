@@ -110,6 +110,7 @@ export function toAnalysisSettings(
     scheduledOnly: settings.scheduledOnly,
     perSubject: settings.perSubject,
     inputLabel: source.label,
+    ...(source.fileNotes !== undefined && source.fileNotes.length > 0 ? { fileNotes: source.fileNotes } : {}),
     runAt,
     ...(source.numericText !== undefined ? { numericText: source.numericText } : {}),
     ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),

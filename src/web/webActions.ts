@@ -5,7 +5,7 @@
 import type { CellValue } from '../core/intake/types';
 import type { ScheduleVisit } from '../core/schedule/types';
 import { STARTER_SCHEDULE, parseCell, parseSchedule, starterScheduleCells } from '../core/schedule';
-import { printStampOf, readCsvText, readXlsxBuffer, uniqueSheetNames } from '../files';
+import { printStampOf, readCsvFile, readXlsxBuffer, uniqueSheetNames } from '../files';
 import type { DataSource, PaneActions, SavedSettings, ScheduleLoad, WrittenSheet } from '../taskpane/actions';
 import { downloadBlob } from './download';
 import { ResultStore, blindedHeaders, sheetDomId } from './resultStore';
@@ -24,7 +24,8 @@ export function baseName(name: string): string {
   return stem === '' ? 'Data' : stem;
 }
 
-/** Reads a picked file into a block of cells: CSV as text (intake reads numbers from text), XLSX's first sheet. */
+/** Reads a picked file into a block of cells: CSV as text (intake reads numbers from text; read as the command line
+ * reads it, with the same notes about the file), XLSX's first sheet. */
 export async function readDataFile(file: File): Promise<DataSource> {
   if (isXlsx(file.name)) {
     // A byte view rather than the bare ArrayBuffer: readers that test `instanceof ArrayBuffer` can then not be misled
@@ -39,14 +40,17 @@ export async function readDataFile(file: File): Promise<DataSource> {
       numericText: 'reject',
     };
   }
-  const cells = readCsvText(await file.text());
+  // The same CSV reading as the command line: decoding with its notes, the splitter with its notes, the size check.
+  const read = readCsvFile(new Uint8Array(await file.arrayBuffer()), file.name, baseName(file.name));
   return {
+    // The page's label stays the file name (the page shows it beside each cell, and knows the demo by it).
     label: file.name,
     sheet: baseName(file.name),
     topLeft: 'A1',
     dateSystem: 1900,
-    cells,
+    cells: read.cells,
     numericText: 'accept',
+    ...(read.notes.length > 0 ? { fileNotes: read.notes } : {}),
   };
 }
 
@@ -82,7 +86,7 @@ export function createWebActions(store: ResultStore = new ResultStore()): WebAct
       cells = x.cells;
       sheet = x.sheet;
       topLeft = x.topLeft;
-    } else cells = readCsvText(await file.text());
+    } else cells = readCsvFile(new Uint8Array(await file.arrayBuffer()), file.name, sheet).cells;
     const parsed = parseSchedule(cells, sheet, topLeft);
     if (!parsed.ok) return { ok: false, message: scheduleMessage(parsed.issues) || 'The schedule could not be read.' };
     schedules.set(file.name, parsed.schedule);

@@ -126,3 +126,24 @@ describe('buildMapping', () => {
     expect(() => buildMapping(detected, headers, [], ['AGE'])).toThrow(/no column headed "AGE"/);
   });
 });
+
+describe('buildMapping with repeated roles and shared headers (issue item 8)', () => {
+  const headers = ['USUBJID', 'ADY', 'AVAL', 'AVAL2', 'USUBJID'];
+  const detected = { studyDay: 1, value: 2, covariates: [] };
+
+  it('refuses a role given twice, since the last would otherwise win silently', () => {
+    expect(() => buildMapping(detected, headers, [['value', 'AVAL'], ['value', 'AVAL2']], [])).toThrow(UsageError);
+    expect(() => buildMapping(detected, headers, [['value', 'AVAL'], ['value', 'AVAL2']], [])).toThrow('--map gives the role value twice (value=AVAL and value=AVAL2); give each role once.');
+    // Two spellings of one role are the same role.
+    expect(() => buildMapping(detected, headers, [['studyDay', 'ADY'], ['day', 'ADY']], [])).toThrow(/role studyDay twice/);
+    expect(() => buildMapping(detected, headers, [], ['AVAL2', 'aval2'])).toThrow(/--covariate names column D \("AVAL2"\) twice/);
+  });
+
+  it('refuses a header that two columns share, naming both letters, and takes "column E" to pick one', () => {
+    expect(() => buildMapping(detected, headers, [['subject', 'USUBJID']], [])).toThrow('--map subject=USUBJID: 2 columns are headed "USUBJID" (A, E); say which one with its letter, e.g. --map subject="column E".');
+    expect(buildMapping(detected, headers, [['subject', 'column E']], [])).toEqual({ subject: 4, studyDay: 1, value: 2, covariates: [] });
+    // Letters count from the sheet's column A: data starting in column C have their first column at "column C".
+    expect(buildMapping(detected, headers, [['subject', 'Column c']], [], 2)).toEqual({ subject: 0, studyDay: 1, value: 2, covariates: [] });
+    expect(() => buildMapping(detected, headers, [['subject', 'column Z']], [])).toThrow(/no column Z \(they span A to E\)/);
+  });
+});

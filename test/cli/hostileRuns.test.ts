@@ -109,6 +109,37 @@ describe('longipane analyze on hostile and careless files', () => {
     expect(r.err.join('\n')).toMatch(/the far cell is XFD1048576/);
   });
 
+  it('runs a 120-row workbook with a stray value at A1048576 to the end with one line for the blank rows, and lists them as one span per use (issue item 2)', async () => {
+    const cells: [string, string | number][] = [['A1', 'USUBJID'], ['B1', 'ADY'], ['C1', 'AVAL']];
+    for (let i = 2; i <= 121; i++) cells.push([`A${i}`, `S${i % 30}`], [`B${i}`, 1 + 7 * (i % 2)], [`C${i}`, i / 3]);
+    await writeFile(join(d, 'tall.xlsx'), makeZip(workbookParts(sheetXml([...cells, ['A1048576', 'stray']]))));
+    const r = await analyze('tall.xlsx', '--json', join(d, 'tall.json'), '--out', join(d, 'tall-report.xlsx'));
+    expect(r.code).toBe(0);
+    const out = r.out.join('\n');
+    expect(out).toMatch(/Data!A122: 1,048,454 blank rows are skipped \(worksheet rows 122–1,048,575\)/);
+    const json = JSON.parse(await (await import('node:fs/promises')).readFile(join(d, 'tall.json'), 'utf8')) as { input: { excluded: { row: number; lastRow?: number; use: string }[] }; issues: unknown[] };
+    expect(json.input.excluded.filter((e) => e.row === 122)).toMatchObject([{ lastRow: 1_048_575, use: 'timing' }, { lastRow: 1_048_575, use: 'model' }]);
+    expect(json.issues.length).toBeLessThan(10);
+    // The summary counts the 1,048,454 blank rows and the stray cell's row (no study day) under each use, as the
+    // excluded-row list does, with one line for the blank rows (no "… more like it" after a summary).
+    expect(out).toMatch(/Rows left out of visit timing: 1,048,455; of the model: 1,048,455/);
+    expect(out).not.toMatch(/Other warnings[^\n]*\n[^\n]*blank rows/);
+    expect(out).not.toMatch(/1,048,453 more like it/);
+  });
+
+  it('stops on two columns headed USUBJID with a warning naming both cells, and runs once --map picks one by its letter (issue item 8)', async () => {
+    const rows = ['USUBJID,ADY,AVAL,USUBJID', ...Array.from({ length: 8 }, (_, k) => `S${k % 4},${k < 4 ? 1 : 8},${50 + k},S${k % 4}`)];
+    await writeFile(join(d, 'twice.csv'), `${rows.join('\n')}\n`);
+    const stopped = await analyze('twice.csv');
+    expect(stopped.code).toBe(1);
+    expect(stopped.err.join('\n')).toMatch(/twice!D1: columns twice!A1 and twice!D1 are both headed "USUBJID", so neither is used as the participant .*--map participant="column D"/);
+    const ran = await analyze('twice.csv', '--map', 'subject=column D');
+    expect(ran.code).toBe(0);
+    const twice = await analyze('twice.csv', '--map', 'value=AVAL', '--map', 'value=ADY');
+    expect(twice.code).toBe(2);
+    expect(twice.err[0]).toBe('longipane: --map gives the role value twice (value=AVAL and value=ADY); give each role once.');
+  });
+
   it('answers `analyze --help` with the help text and exit 0 (issue item 13)', async () => {
     const r = await run('analyze', '--help');
     expect(r.code).toBe(0);

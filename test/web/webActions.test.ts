@@ -6,6 +6,7 @@ import { resolve } from 'node:path';
 import { STARTER_SCHEDULE } from '../../src/core/schedule';
 import type { AnalysisOutput } from '../../src/core/pipeline/types';
 import ExcelJS from 'exceljs';
+import { fromSaved, toAnalysisSettings } from '../../src/taskpane/paneSettings';
 import {
   baseName,
   createWebActions,
@@ -35,6 +36,20 @@ describe('reading files on the page', () => {
       numericText: 'accept',
     });
     expect(actions.store.get().source).toBe(source);
+  });
+
+  it('reads a CSV file as the command line does: damaged UTF-8 and fields past the header are notes with their cells, passed on to the run', async () => {
+    // Generated: a header, a value with one invalid byte (0xFF, never valid in UTF-8: Unicode Standard, Table 3-7,
+    // from memory) among site names with valid two-byte UTF-8 (so the file reads as UTF-8), then a field past the header.
+    const bytes = Uint8Array.from([...Buffer.from('USUBJID,AVAL,SITEID\nK-1,6'), 0xff, ...Buffer.from('1.5,Zürich\nK-2,60,Düren,extra\n')]);
+    const source = await readDataFile(new NodeFile([bytes], 'visits.csv') as unknown as File);
+    expect(source.label).toBe('visits.csv');
+    expect(source.cells[1]).toEqual(['K-1', '6\uFFFD1.5', 'Zürich', '']);
+    expect(source.fileNotes).toHaveLength(2);
+    expect(source.fileNotes?.[0]).toMatch(/^visits!B2: the file is UTF-8 with 1 invalid byte sequence, shown as \uFFFD/);
+    expect(source.fileNotes?.[1]).toMatch(/^visits!D3: /);
+    const settings = toAnalysisSettings(source, { subject: 0, value: 1, covariates: [] }, STARTER_SCHEDULE, fromSaved(null), '2026-01-01T00:00:00.000Z');
+    expect(settings.fileNotes).toEqual(source.fileNotes);
   });
 
   it('reads the first sheet of an .xlsx file from its first used cell, with numbers as numbers', async () => {

@@ -4,6 +4,7 @@
 import { headerCandidate, type Candidate, type MappableRole } from './headerRules';
 import { roleWords } from './messages';
 import type { ColumnMapping, DetectedMapping, Mode } from './types';
+import { duplicateHeaderGroups } from './duplicateHeaders';
 
 interface Scored extends Candidate {
   readonly col: number;
@@ -16,7 +17,8 @@ interface Scored extends Candidate {
  * column plays one role at most: USUBJID wins over SUBJID, AVISIT over AVISITN. CHG and BASE are never the value;
  * BASE and other baseline-value columns are listed in `covariateSuggestions` but never added as covariates. In
  * blinded mode no arm is proposed (SPEC §2). Every chosen role gets a reason; columns that were recognised but not
- * used get a note. O(columns · log columns).
+ * used get a note. Columns that share one header text (ignoring case) get no role and a note: the user chooses.
+ * O(columns · log columns).
  * @example detectMapping(["USUBJID", "ADT", "AVAL"], "blinded").mapping
  * // { subject: 0, date: 1, value: 2, covariates: [] }
  */
@@ -25,8 +27,15 @@ export function detectMapping(headers: readonly string[], mode: Mode): DetectedM
   const scored: Scored[] = [];
   const notes: string[] = [];
   const covariateSuggestions: number[] = [];
+  // Columns sharing one header are never given a role here: the user says which (the pane asks; --map on the command line).
+  const shared = new Set<number>();
+  for (const group of duplicateHeaderGroups(headers)) {
+    for (const c of group) shared.add(c);
+    const cols = group.map((c) => `column ${c + 1}`).join(', ');
+    notes.push(`${label(group[0]!)} appears ${group.length} times (${cols}); none of them is given a role until you choose which one to use.`);
+  }
   headers.forEach((header, col) => {
-    if (header.trim() === '') return;
+    if (header.trim() === '' || shared.has(col)) return;
     const { candidate, note } = headerCandidate(header);
     if (note !== null) {
       notes.push(`${label(col)}: ${note.text}.`);

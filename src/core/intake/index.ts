@@ -34,3 +34,5 @@ export { ERROR_LITERALS, isBlankCell, isErrorCell, cellText, readTextCell, parse
 export { IntakeUsageError } from './errors';
 export { isArmHeader } from './armColumns';
 export { offsetOfStudyDay, studyDayOfOffset } from './dayOffset';
+export { CELL_TEXT_LIMIT, JSON_TEXT_CAP, capJsonText } from './longText';
+export { duplicateHeaderGroups } from './duplicateHeaders';

@@ -8,6 +8,7 @@ import type { Issue, IssueCode, Role, Severity, Use } from './types';
 
 export class IssueList {
   readonly items: Issue[] = [];
+  private errors = 0;
 
   constructor(
     private readonly sheet: string,
@@ -40,8 +41,19 @@ export class IssueList {
     this.push(code, severity, formatAddress(this.sheet, row, this.top.col + col), row, role, value, use, context, other);
   }
 
+  /** The one summary warning for every blank data row: `spans` are inclusive worksheet-row spans in order, the first
+   * starting at data row `firstDataRow`. The rows are left out of both uses (the excluded-row list expands the spans). */
+  blankRows(firstDataRow: number, spans: readonly (readonly [number, number])[]): void {
+    const row = this.top.row + 1 + firstDataRow;
+    const cell = formatAddress(this.sheet, row, this.top.col);
+    let count = 0;
+    for (const [a, b] of spans) count += b - a + 1;
+    const message = renderMessage({ code: 'blank-row', role: null, value: '', cell, use: null, context: String(count), other: spanWords(spans) });
+    this.items.push({ code: 'blank-row', severity: 'warning', cell, row, role: null, value: '', use: null, message, rowSpans: spans });
+  }
+
   get hasErrors(): boolean {
-    return this.items.some((i) => i.severity === 'error');
+    return this.errors > 0;
   }
 
   private push(
@@ -65,5 +77,14 @@ export class IssueList {
       ...(other === undefined ? {} : { other }),
     });
     this.items.push({ code, severity, cell, row, role, value, use, message });
+    if (severity === 'error') this.errors++;
   }
+}
+
+/** Spans of rows in words, at most three named: "122–1,048,576", "5, 9–12, 30 and 4 more spans". */
+export function spanWords(spans: readonly (readonly [number, number])[]): string {
+  const fmt = (n: number): string => n.toLocaleString('en-US');
+  const named = spans.slice(0, 3).map(([a, b]) => (a === b ? fmt(a) : `${fmt(a)}–${fmt(b)}`));
+  const more = spans.length - named.length;
+  return more > 0 ? `${named.join(', ')} and ${fmt(more)} more span${more === 1 ? '' : 's'}` : named.join(', ');
 }

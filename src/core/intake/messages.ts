@@ -65,8 +65,27 @@ function dateReason(context: string | undefined): string {
   }
 }
 
+/** Why a visit date is far outside the data (context of an 'implausible-date' issue; other: the bound as a date). */
+function implausibleReason(context: string | undefined, bound: string | undefined): string {
+  switch (context) {
+    case 'after-run':
+      return `after the day of this run (${bound ?? 'today'})`;
+    case 'after-schedule':
+      return `after ${bound ?? 'the end of the schedule'}, more than ${PLAUSIBLE_SLACK_DAYS} days after the last scheduled window of the latest reference date`;
+    default:
+      return `more than ${PLAUSIBLE_SLACK_DAYS} days before the earliest window of the schedule, counted from this row's reference date ${bound ?? ''}`.trimEnd();
+  }
+}
+
+/** How far, in days, a visit date may lie beyond what the schedule allows before it is called implausible. */
+export const PLAUSIBLE_SLACK_DAYS = 180;
+
+/** Values longer than this are shown shortened in sentences (the issue's `value` keeps them whole). */
+const SHOWN_VALUE = 200;
+
 function quoted(value: string): string {
-  return `"${value}"`;
+  if (value.length <= SHOWN_VALUE) return `"${value}"`;
+  return `"${value.slice(0, SHOWN_VALUE)}…" (${value.length.toLocaleString('en-US')} characters)`;
 }
 
 /**
@@ -110,7 +129,16 @@ export function renderMessage(m: MessageInput): string {
         ? 'No row has everything the model needs (a numeric value, and an arm and covariates where mapped), so the model cannot run.'
         : 'No data row has both a participant and a valid visit date or study day, so there is nothing to analyse.';
     case 'blank-row':
-      return `${at}the whole row is blank, so it is ${left}.`;
+      // The run's one summary (context: how many rows, other: which) or, in the excluded-row list, one span's reason.
+      return m.context === undefined
+        ? `${at}the whole row is blank, so it is ${m.use === null ? 'left out of the visit-timing checks and the model' : left}.`
+        : `${at}${m.context === '1' ? 'one blank row is' : `${Number(m.context).toLocaleString('en-US')} blank rows are`} skipped (worksheet row${m.context === '1' ? '' : 's'} ${m.other ?? ''}); a blank row is left out of the visit-timing checks and the model.`;
+    case 'duplicate-header':
+      return `${at}columns ${m.other ?? ''} and ${m.cell ?? ''} are both headed ${quoted(m.value)}, so neither is used${m.role === null ? '' : ` as the ${role}`} until you say which: choose the column in the pane's column roles, or on the command line give --map ${m.role === 'subject' ? 'participant' : (m.role ?? 'role')}="column ${m.context ?? 'letter'}" (a column's letter, as the spreadsheet shows it).`;
+    case 'long-text':
+      return `${at}${m.role === null ? 'this header' : `the ${role}`} holds ${m.context ?? 'more than 32,767'} characters, more than a spreadsheet cell can hold (32,767): the report workbook shows it cut, and the results JSON keeps it whole up to ${m.other ?? 'its cap'} characters. The row is kept.`;
+    case 'implausible-date':
+      return `${at}the ${role} ${m.value} lies ${implausibleReason(m.context, m.other)}; the record is kept, but it is not used to set the default cut-off. Check the year.`;
     case 'blank-subject':
       return `${at}the participant is blank, so the row is ${left}.`;
     case 'blank-time':

@@ -1,6 +1,6 @@
 /**
  * The row pass of readTable: one linear pass over the data rows into typed columns, adding a warning for every cell
- * that keeps a row from a use (see readTable for the rules). O(rows · mapped columns); no per-row objects beyond
+ * that keeps a row from a use (see readTable for the rules), and one summary warning for all blank rows. O(rows · mapped columns); no per-row objects beyond
  * the strings the text columns hold.
  */
 import type { CellRef } from './cellAddress';
@@ -81,14 +81,24 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
   const covValues = plans.map((p) => (p.numeric ? new Float64Array(nRows).fill(NaN) : new Array<string>(nRows).fill('')));
   const usableTiming = new Uint8Array(nRows);
   const usableModel = new Uint8Array(nRows);
+  // Blank rows become one summary issue (spans of worksheet rows), not one issue per row: a stray cell far below a
+  // table must not cost a million issues.
+  const blankSpans: [number, number][] = [];
+  let firstBlank = -1;
+  let knownBlank: readonly CellValue[] = EMPTY_ROW; // readers may share one row object among blank rows
 
   for (let i = 0; i < nRows; i++) {
     const row = cells[i + 1] ?? EMPTY_ROW;
     sheetRows[i] = top.row + 1 + i;
     subject[i] = '';
     subjectIndex[i] = -1;
-    if (isBlankRow(row, width)) {
-      for (const use of USES) issues.at('blank-row', 'warning', i, 0, null, '', use);
+    if (row === knownBlank || isBlankRow(row, width)) {
+      knownBlank = row;
+      const sheetRow = top.row + 1 + i;
+      const last = blankSpans[blankSpans.length - 1];
+      if (last !== undefined && last[1] === sheetRow - 1) last[1] = sheetRow;
+      else blankSpans.push([sheetRow, sheetRow]);
+      if (firstBlank < 0) firstBlank = i;
       continue;
     }
     let timingOk = true;
@@ -167,7 +177,7 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
     usableTiming[i] = timingOk ? 1 : 0;
     usableModel[i] = timingOk && modelOk ? 1 : 0;
   }
-
+  if (firstBlank >= 0) issues.blankRows(firstBlank, blankSpans);
 
   return {
     timeKind,

@@ -16,6 +16,8 @@ import type { CellValue, CovariateColumn, DateReading, IntakeOptions, IntakeResu
 import { readDateRole } from './dateRole';
 import { checkArms } from './checkArms';
 import { readExit } from './readExit';
+import { checkDuplicateHeaders } from './duplicateHeaders';
+import { checkLongText } from './longText';
 
 const EMPTY_ROW: readonly CellValue[] = [];
 
@@ -27,7 +29,9 @@ const EMPTY_ROW: readonly CellValue[] = [];
  * A row serves each use it can: visit timing needs a non-blank subject and a valid date or study day; the model also
  * needs a numeric value, an arm in unblinded mode and every mapped covariate. Every data row is accounted for: it is
  * usable for a use, or an issue with that use names it (a row left out of timing gets one issue per use; a missing
- * value column is one range-wide 'no-value-column' issue with use 'model'). Errors that block the run give ok: false:
+ * value column is one range-wide 'no-value-column' issue with use 'model'; all blank rows are one 'blank-row' summary
+ * whose `rowSpans` name them, left out of both uses). Columns sharing a header text warn until the mapping picks one
+ * (duplicateHeaders.ts); text longer than a cell holds warns at its cell (longText.ts). Errors that block the run give ok: false:
  * an empty header row, no data rows, a mapping problem (see checkMapping), a subject in two arms, no row usable for
  * timing, fewer than two arms or fewer than two subjects in an arm (unblinded mode).
  *
@@ -67,6 +71,8 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
   const mode = options.mode;
   const mapping = effectiveMapping(options.mapping ?? detectMapping(headers, mode).mapping, mode);
   checkMapping(mapping, headers, mode, issues);
+  checkDuplicateHeaders(headers, mapping, options.sheet, top, issues);
+  checkLongText(cells, mapping, issues);
   if (mode === 'blinded') checkBlindedColumns(mapping, headers, issues);
   if (issues.hasErrors) return { ok: false, issues: issues.items };
 

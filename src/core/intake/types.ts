@@ -105,7 +105,10 @@ export type IssueCode =
   | 'error-value'
   | 'blank-arm'
   | 'bad-covariate'
-  | 'blank-row' // every cell of the data row is blank (one warning per use)
+  | 'blank-row' // every cell of the data row is blank: one summary issue for all of them (rowSpans), left out of both uses
+  | 'duplicate-header' // two columns share one header text: neither is chosen for a role without the user saying which
+  | 'long-text' // a cell longer than a spreadsheet cell holds (32,767 characters); kept whole up to LONG_TEXT_CAP
+  | 'implausible-date' // a visit date far from the rest of the data (after the run's day, long after the schedule's end, long before the reference date); kept, but ignored for the default cut-off
   | 'empty-header' // the header row has no text at all
   | 'column-outside-range' // a mapping points at a column the range does not have
   | 'partial-date' // a partial date (ISO 8601 reduced precision "2025-03", "2025"; "JAN2025"; "UNK-JAN-2025"): never guessed
@@ -139,6 +142,9 @@ export interface Issue {
   readonly use: Use | null;
   /** A plain sentence, rendered from the code in one place (messages.ts). */
   readonly message: string;
+  /** For a summary issue standing for many rows (blank rows): the worksheet rows it covers, as inclusive [first, last]
+   * spans in row order. `row` and `cell` then name the first of them. */
+  readonly rowSpans?: readonly (readonly [number, number])[];
 }
 
 /** A covariate column after intake: numeric (NaN where missing) or categorical (levels as text, "" where missing). */

@@ -2,6 +2,8 @@
 export * from './types';
 export { runAnalysis } from './runAnalysis';
 export { excludedRows } from './excludedRows';
+export { compactIssues, type CompactIssue } from './compactIssues';
+export { rowsLeftOut } from '../report/rowsLeftOut';
 export { PipelineUsageError } from './errors';
 export { fitStage } from './fitStage';
 export type { FitStage } from './fitStage';

@@ -4,6 +4,8 @@ import { CAUTIONS, UNBLINDED_CAUTION } from '../report/cautions';
 import { isoDate } from '../schedule/dates';
 import type { CutoffRule } from '../schedule/types';
 import type { AnalysisSettings, ExcludedRow } from './types';
+import { compactIssues, type CompactIssue } from './compactIssues';
+import { capJsonText } from '../intake/longText';
 import { DAYS_PER_UNIT } from './types';
 
 export interface ResultsJsonInput {
@@ -39,9 +41,14 @@ export function mappingByHeader(mapping: ColumnMapping, headers: readonly string
 /**
  * The machine-readable results (schema: README.md, "Results JSON"). Plain JSON values only: no NaN, no
  * typed arrays. In blinded mode nothing here is by arm (the visit and model parts come from blinded inputs, and the
- * settings carry no reference arm). O(excluded rows + issues).
+ * settings carry no reference arm). Text longer than JSON_TEXT_CAP (1,048,576 characters) is cut with a marker
+ * (capJsonText). O(excluded rows + issues).
  */
 export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
+  return capJsonText(resultsJsonWhole(r));
+}
+
+function resultsJsonWhole(r: ResultsJsonInput): Record<string, unknown> {
   const s = r.settings;
   const unblinded = s.mode === 'unblinded';
   return {
@@ -55,7 +62,7 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
       rows: r.table.nRows,
       subjects: r.table.subjectIds.length,
       fingerprint: r.fingerprint,
-      excluded: r.excluded.map((e) => ({ row: e.row, cell: e.cell, use: e.use, reason: e.reason })),
+      excluded: r.excluded.map((e) => ({ row: e.row, ...(e.lastRow === undefined ? {} : { lastRow: e.lastRow }), cell: e.cell, use: e.use, reason: e.reason })),
       usedForTiming: r.usedForTiming,
       usedForModel: r.usedForModel,
     },
@@ -80,11 +87,22 @@ export function resultsJson(r: ResultsJsonInput): Record<string, unknown> {
     model: r.model,
     modelNote: r.modelNote,
     notes: [...r.notes],
-    issues: r.issues.map(issueJson),
+    issues: compactIssues(r.issues).map(issueJson),
   };
 }
 
-/** One issue as plain JSON. */
-export function issueJson(i: Issue): Record<string, unknown> {
-  return { code: i.code, severity: i.severity, cell: i.cell, row: i.row, role: i.role, value: i.value, use: i.use, message: i.message };
+/** One issue as plain JSON: `lastRow` when it stands for consecutive rows (compactIssues), `rowSpans` for a summary. */
+export function issueJson(i: CompactIssue): Record<string, unknown> {
+  return {
+    code: i.code,
+    severity: i.severity,
+    cell: i.cell,
+    row: i.row,
+    ...(i.lastRow === undefined ? {} : { lastRow: i.lastRow }),
+    ...(i.rowSpans === undefined ? {} : { rowSpans: i.rowSpans.map(([a, b]) => [a, b]) }),
+    role: i.role,
+    value: i.value,
+    use: i.use,
+    message: i.message,
+  };
 }

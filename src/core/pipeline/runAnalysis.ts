@@ -14,6 +14,7 @@ import { modelOutputs, recordSheet } from './reportParts';
 import { resultsJson } from './resultsJson';
 import { stopJson } from './stopJson';
 import { dateReadingNote } from './dateNotes';
+import { implausibleDates } from './implausibleDates';
 import type { AnalysisOutput, AnalysisSettings, RunHooks, Stage } from './types';
 
 /** What a run returns when the hooks' signal is aborted between stages. */
@@ -91,8 +92,16 @@ export async function runAnalysis(
     }
   }
   const days = computeStudyDays(table, settings.schedule, place);
-  const timing = classifyVisits(table, days, settings.schedule, { place, ...(cutoff === undefined ? {} : { cutoff }) });
-  const issues: Issue[] = [...read.issues, ...fromScheduleIssues([...days.issues, ...timing.issues])];
+  // Visit dates far outside the data (a mistyped year) are warned about and do not set the default cut-off.
+  const odd = implausibleDates(table, days, settings.schedule, settings.runAt, place);
+  const timing = classifyVisits(table, days, settings.schedule, { place, ...(cutoff === undefined ? {} : { cutoff }), ...(odd.count > 0 ? { ignoreForCutoff: odd.flags } : {}) });
+  if (cutoff === undefined && odd.count > 0 && timing.cutoff !== null) {
+    const cells = odd.issues.slice(0, 3).map((i) => i.cell ?? '').join(', ');
+    notes.push(
+      `The default cut-off ${isoDate(timing.cutoff)} is the latest visit date in the data, leaving out ${odd.count} date${odd.count === 1 ? '' : 's'} far outside the data (${cells}${odd.count > 3 ? ', …' : ''}); records dated after the cut-off are left out of visit timing. Correct those dates, or give the cut-off.`,
+    );
+  }
+  const issues: Issue[] = [...read.issues, ...odd.issues, ...fromScheduleIssues([...days.issues, ...timing.issues])];
   const usedForTiming = countTiming(timing.rowStatus);
   if (usedForTiming === 0) {
     // Intake found usable rows, but none survived windowing (all after the cut-off, or no reference date).

@@ -2,6 +2,8 @@
 import type { CellValue, Issue } from '../intake/types';
 import { CAUTIONS } from '../report/cautions';
 import { issueJson } from './resultsJson';
+import { compactIssues } from './compactIssues';
+import { capJsonText } from '../intake/longText';
 import type { AnalysisSettings } from './types';
 
 /**
@@ -11,12 +13,12 @@ import type { AnalysisSettings } from './types';
  */
 export function stopJson(cells: readonly (readonly CellValue[])[], settings: AnalysisSettings, issues: readonly Issue[]): Record<string, unknown> {
   const ordered = [...issues.filter((i) => i.severity === 'error'), ...issues.filter((i) => i.severity !== 'error')];
-  return {
+  return capJsonText({
     ok: false,
     tool: { name: 'longipane', version: settings.toolVersion ?? 'unknown' },
     cautions: [...CAUTIONS],
     input: { label: settings.inputLabel, sheet: settings.sheet, topLeft: settings.topLeft, rows: Math.max(0, cells.length - 1) },
     settings: { mode: settings.mode, dateOrder: settings.dateOrder ?? null, runAt: settings.runAt },
-    issues: ordered.map(issueJson),
-  };
+    issues: compactIssues(ordered).map(issueJson),
+  });
 }

@@ -50,8 +50,11 @@ export interface AnalysisSettings {
   readonly toolVersion?: string;
 }
 
+/** Rows left out of one use for one reason: worksheet row `row`, or rows `row` to `lastRow` when the entry spans
+ * several consecutive rows (then `cell` is an A1 range such as "Visits!C5:C9"). */
 export interface ExcludedRow {
   readonly row: number;
+  readonly lastRow?: number;
   readonly cell: string | null;
   readonly use: 'timing' | 'model';
   readonly reason: string;

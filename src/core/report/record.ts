@@ -3,11 +3,13 @@ import type { ScheduleVisit } from '../schedule/types';
 import { cautionBlocks } from './cautions';
 import { col, heading } from './blockParts';
 import type { Block, SheetSpec } from './types';
+import { rowsLeftOut } from './rowsLeftOut';
 
 /** One row left out of one use, as the analysis record lists it. */
 export interface RecordExclusion {
-  /** 1-based worksheet row. */
+  /** 1-based worksheet row (the first, when the entry spans rows `row` to `lastRow`). */
   readonly row: number;
+  readonly lastRow?: number;
   /** e.g. "Visits!C17"; null when no single cell applies. */
   readonly cell: string | null;
   readonly use: 'timing' | 'model';
@@ -81,8 +83,8 @@ const USE_WORDS: Readonly<Record<RecordExclusion['use'], string>> = { timing: 'V
  * Example: analysisRecordSheet({inputLabel: "visits.csv", rowsRead: 10, …}).name → "Analysis record".
  */
 export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
-  const rowsOut = new Set(input.excluded.map((e) => e.row)).size;
-  const rowsOutOf = (use: RecordExclusion['use']): number => new Set(input.excluded.filter((e) => e.use === use).map((e) => e.row)).size;
+  const rowsOut = rowsLeftOut(input.excluded);
+  const rowsOutOf = (use: RecordExclusion['use']): number => rowsLeftOut(input.excluded.filter((e) => e.use === use));
   const blocks: Block[] = [
     ...cautionBlocks(input.mode),
     heading('This run'),
@@ -155,8 +157,8 @@ export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
       kind: 'table',
       id: 'LeftOut',
       caption: 'Every row left out of a use, with the reason',
-      columns: [col('Data row', 'integer'), col('Cell', 'text', 14), col('Left out of', 'text', 14), col('Reason', 'text', 80)],
-      rows: input.excluded.map((e) => [e.row, e.cell ?? '', USE_WORDS[e.use], e.reason]),
+      columns: [col('Data row', 'integer'), col('To data row', 'integer'), col('Cell', 'text', 14), col('Left out of', 'text', 14), col('Reason', 'text', 80)],
+      rows: input.excluded.map((e) => [e.row, e.lastRow ?? e.row, e.cell ?? '', USE_WORDS[e.use], e.reason]),
     },
   );
   return { name: 'Analysis record', title: 'Analysis record', blocks };

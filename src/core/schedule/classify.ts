@@ -23,6 +23,9 @@ export interface ClassifyOptions {
   readonly cutoff?: number;
   /** Where the data range sits, so that issues carry cell addresses. */
   readonly place?: DataPlace;
+  /** Dated data without a given cut-off: rows marked 1 here do not count toward the default cut-off (visit dates far
+   * outside the data, e.g. a mistyped year; the pipeline decides which). */
+  readonly ignoreForCutoff?: Uint8Array;
 }
 
 const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NOT_YET_DUE, afterExit: AFTER_EXIT, extra: EXTRA, repeat: REPEAT } = STATUS_CODE;
@@ -46,7 +49,8 @@ const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NO
  * window's last day is before the cut-off, else "not yet due". A record dated after the exit date is kept, with an
  * 'after-exit' warning.
  *
- * Cut-off. Dated data: options.cutoff (a day number), else the latest usable date; each subject's cut-off offset
+ * Cut-off. Dated data: options.cutoff (a day number), else the latest usable date not marked in
+ * options.ignoreForCutoff (all usable dates when every one is marked); each subject's cut-off offset
  * is cutoff − that subject's reference date; records dated after the cut-off are left out with an issue.
  * Study-day data: options.cutoff as a study day for every subject when given (later records left out likewise); else
  * each subject's own last record, so a visit without a record is missed when the subject has a record after the
@@ -104,7 +108,13 @@ export function classifyVisits(
   let cutoffRule: CutoffRule = options.cutoff === undefined ? (dated ? 'latestDate' : 'eachSubjectsLastRecord') : 'given';
   if (dated && cutoff === null) {
     let latest = -Infinity;
-    for (let i = 0; i < n; i++) if (Number.isFinite(sd[i]!) && subjectOf[i]! >= 0 && table.date[i]! > latest) latest = table.date[i]!;
+    // Rows in options.ignoreForCutoff do not count, unless every usable date is among them.
+    for (const ignore of [options.ignoreForCutoff, undefined]) {
+      for (let i = 0; i < n; i++) {
+        if (Number.isFinite(sd[i]!) && subjectOf[i]! >= 0 && ignore?.[i] !== 1 && table.date[i]! > latest) latest = table.date[i]!;
+      }
+      if (Number.isFinite(latest) || options.ignoreForCutoff === undefined) break;
+    }
     cutoff = Number.isFinite(latest) ? latest : null;
     cutoffRule = 'latestDate';
   }

@@ -199,15 +199,22 @@ describe('readTable dates', () => {
 });
 
 describe('readTable rows', () => {
-  it('readTable gives a fully blank row one warning per use, at the row first cell', () => {
-    const r = readTable([['Subject', 'Study day', 'Result'], ['K-1', 1, 60], [null, '', '  '], [], ['K-1', 2, 61]], { ...BLINDED, topLeft: 'C4' });
-    expect(r.issues.map((i) => [i.code, i.cell, i.row, i.use])).toEqual([
-      ['blank-row', 'Visits!C6', 6, 'timing'],
-      ['blank-row', 'Visits!C6', 6, 'model'],
-      ['blank-row', 'Visits!C7', 7, 'timing'],
-      ['blank-row', 'Visits!C7', 7, 'model'],
+  it('readTable gives all fully blank rows one summary warning at the first one, with the spans of rows it covers', () => {
+    const r = readTable([['Subject', 'Study day', 'Result'], ['K-1', 1, 60], [null, '', '  '], [], ['K-1', 2, 61], [], ['K-1', 3, 62]], { ...BLINDED, topLeft: 'C4' });
+    expect(r.issues).toEqual([
+      {
+        code: 'blank-row',
+        severity: 'warning',
+        cell: 'Visits!C6',
+        row: 6,
+        role: null,
+        value: '',
+        use: null,
+        rowSpans: [[6, 7], [9, 9]],
+        message: 'Visits!C6: 3 blank rows are skipped (worksheet rows 6–7, 9); a blank row is left out of the visit-timing checks and the model.',
+      },
     ]);
-    expect(Array.from(table(r).sheetRows)).toEqual([5, 6, 7, 8]);
+    expect(Array.from(table(r).sheetRows)).toEqual([5, 6, 7, 8, 9, 10]);
   });
 
   it('readTable reads ragged rows: missing cells are blank, cells beyond the header are ignored', () => {

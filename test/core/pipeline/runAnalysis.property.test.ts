@@ -27,8 +27,17 @@ const row: fc.Arbitrary<CellValue[]> = fc.tuple(
   mostly(['2025-01-06', '2025-01-08']),
   mostly([50, 51.5, '49.0', 'pending']),
 );
+// Now and then a blank row (empty, or blank cells), and runs of one repeated row, so that both the blank-row summary
+// and the joining of consecutive identical exclusions into one entry are exercised.
+const blankRow: fc.Arbitrary<CellValue[]> = fc.constantFrom<CellValue[]>([], ['', null, '  '], [null]);
+const rowOrRun: fc.Arbitrary<CellValue[][]> = fc.oneof(
+  { weight: 6, arbitrary: row.map((r) => [r]) },
+  { weight: 1, arbitrary: blankRow.map((r) => [r]) },
+  { weight: 1, arbitrary: fc.tuple(row, fc.integer({ min: 2, max: 5 })).map(([r, k]) => Array.from({ length: k }, () => r)) },
+);
 const grid: fc.Arbitrary<CellValue[][]> = fc
-  .array(row, { minLength: 0, maxLength: 14 })
+  .array(rowOrRun, { minLength: 0, maxLength: 10 })
+  .map((runs) => runs.flat())
   .map((rows) => [['USUBJID', 'SITEID', 'TRT01P', 'AVISIT', 'ADT', 'RANDDT', 'AVAL'], ...rows]);
 
 const settings = (unblinded: boolean, scheduledOnly: boolean): AnalysisSettings => ({
@@ -65,8 +74,18 @@ describe('runAnalysis properties', () => {
         }
         const input = out.json.input as { rows: number; usedForTiming: number };
         expect(input.rows).toBe(cells.length - 1);
-        const outOfTiming = new Set(out.excluded.filter((e) => e.use === 'timing').map((e) => e.row));
+        // Entries may span rows (row..lastRow): expand them, and check no row is named twice for timing.
+        const outOfTiming = new Set<number>();
+        let named = 0;
+        for (const e of out.excluded.filter((x) => x.use === 'timing')) {
+          for (let r = e.row; r <= (e.lastRow ?? e.row); r++) {
+            outOfTiming.add(r);
+            named++;
+          }
+        }
         expect(input.usedForTiming + outOfTiming.size).toBe(input.rows);
+        // A row is named for timing by one entry per reason; it is never both used and named.
+        expect(named).toBeGreaterThanOrEqual(outOfTiming.size);
       }),
       { numRuns: 120 },
     );

@@ -49,9 +49,9 @@ describe('analysis record', () => {
     ]);
     expect(table('Schedule').rows).toHaveLength(STARTER_SCHEDULE.length);
     expect(table('LeftOut').rows).toEqual([
-      [3, 'Visits!B3', 'Visit timing', 'The visit date is blank.'],
-      [3, 'Visits!B3', 'Model', 'The visit date is blank.'],
-      [6, 'Visits!E6', 'Model', 'The value is text.'],
+      [3, 3, 'Visits!B3', 'Visit timing', 'The visit date is blank.'],
+      [3, 3, 'Visits!B3', 'Model', 'The visit date is blank.'],
+      [6, 6, 'Visits!E6', 'Model', 'The value is text.'],
     ]);
   });
 

@@ -1,0 +1,77 @@
+/**
+ * Text longer than a spreadsheet cell holds. The report workbook cuts such text (src/files); intake warns at the cell
+ * so the user knows, and the results JSON keeps the text whole up to JSON_TEXT_CAP characters.
+ */
+import type { IssueList } from './issueList';
+import type { CellValue, ColumnMapping, Role } from './types';
+
+/** The most characters a spreadsheet cell holds (32,767: the published limit of current spreadsheet programs; common practice). */
+export const CELL_TEXT_LIMIT = 32_767;
+
+/** The most characters of one text the results JSON keeps whole: 1,048,576 (2^20, 32 cells' worth). Longer text is
+ * cut there with a marker: it bounds what one hostile cell costs (its text recurs in the issue, the left-out list and
+ * the listings) while keeping any text a person pasted into a cell. */
+export const JSON_TEXT_CAP = 1_048_576;
+
+const ROLES: readonly Exclude<Role, 'covariate'>[] = ['subject', 'date', 'studyDay', 'reference', 'visit', 'value', 'arm', 'site', 'exit', 'exitStatus', 'exitReason'];
+
+/**
+ * Adds a 'long-text' warning (use null: the row is kept) for every header cell and every cell of a mapped column
+ * whose text is longer than CELL_TEXT_LIMIT. Unmapped columns never reach an output and are not looked at.
+ * O(rows · mapped columns).
+ */
+export function checkLongText(cells: readonly (readonly CellValue[])[], mapping: ColumnMapping, issues: IssueList): void {
+  const header = cells[0] ?? [];
+  const long = (v: CellValue): v is string => typeof v === 'string' && v.length > CELL_TEXT_LIMIT;
+  const say = (dataRow: number, col: number, role: Role | null, text: string): void => {
+    const context = text.length.toLocaleString('en-US');
+    const other = JSON_TEXT_CAP.toLocaleString('en-US');
+    if (dataRow < 0) issues.header('long-text', 'warning', col, role, text, context, other);
+    else issues.at('long-text', 'warning', dataRow, col, role, text, null, context, other);
+  };
+  header.forEach((h, col) => {
+    if (long(h)) say(-1, col, null, h);
+  });
+  const columns: [number, Role][] = [];
+  for (const role of ROLES) if (mapping[role] !== undefined) columns.push([mapping[role], role]);
+  for (const col of mapping.covariates) columns.push([col, 'covariate']);
+  for (let r = 1; r < cells.length; r++) {
+    const row = cells[r]!;
+    for (const [col, role] of columns) {
+      const v = row[col];
+      if (long(v)) say(r - 1, col, role, v);
+    }
+  }
+}
+
+/**
+ * A copy of a JSON value with every string longer than `cap` cut to `cap` characters plus a marker saying how long
+ * it was. Plain JSON values only (objects, arrays, strings, numbers, booleans, null). O(size of the value).
+ * @example capJsonText({ a: "xxxxx" }, 3) // { a: "xxx … [cut: 5 characters in all]" }
+ */
+export function capJsonText<T>(value: T, cap: number = JSON_TEXT_CAP): T {
+  const walk = (v: unknown): unknown => {
+    if (typeof v === 'string') return v.length <= cap ? v : `${v.slice(0, cap)} … [cut: ${v.length.toLocaleString('en-US')} characters in all]`;
+    if (Array.isArray(v)) {
+      let changed = false;
+      const out = v.map((x) => {
+        const y = walk(x);
+        if (y !== x) changed = true;
+        return y;
+      });
+      return changed ? out : v;
+    }
+    if (v !== null && typeof v === 'object') {
+      let changed = false;
+      const out: Record<string, unknown> = {};
+      for (const [k, x] of Object.entries(v)) {
+        const y = walk(x);
+        if (y !== x) changed = true;
+        out[k] = y;
+      }
+      return changed ? out : v;
+    }
+    return v;
+  };
+  return walk(value) as T;
+}

@@ -3,6 +3,7 @@ import { readTable } from '../intake/readTable';
 import { fingerprintCells } from '../report/fingerprint';
 import { summarizeTiming } from '../report/summarizeTiming';
 import { timingJson } from '../report/timingJson';
+import { summarySheet } from '../report/summarySheet';
 import { timingSheets } from '../report/timingSheets';
 import type { SheetSpec } from '../report/types';
 import { classifyVisits, computeStudyDays, dayNumberFromIso, isoDate, NO_STATUS } from '../schedule';
@@ -25,7 +26,7 @@ const CANCELLED: AnalysisOutput = { ok: false, issues: [], cancelled: true };
  * reading (readTable with the mapping, mode, date system and date order; how numeric dates were read goes into the notes), windowing (computeStudyDays, classifyVisits with the
  * cut-off), fitting (fitFromTable on every row usable for the model — or only rows matched to scheduled visits
  * when settings.scheduledOnly — with contrasts at each scheduled visit's target day after the first, and observed means
- * per scheduled visit, by arm when unblinded) and writing (timing sheets, model sheets, the analysis record last; JSON).
+ * per scheduled visit, by arm when unblinded) and writing (the summary sheet first, then timing sheets, model sheets, the analysis record last; JSON).
  * Between stages it reports progress, yields to the front end and stops with { ok: false, cancelled: true } when
  * hooks.signal is aborted. Errors in the data give { ok: false, issues, json } with cell addresses (json: stopJson); a model that cannot be
  * fitted leaves the visit-timing results standing (JSON model: null and a 'model-not-fitted' warning). Misuse (an
@@ -33,7 +34,7 @@ const CANCELLED: AnalysisOutput = { ok: false, issues: [], cancelled: true };
  * Cost: O(rows) for intake and windowing plus the model engine's one pass; never an n×n matrix.
  *
  * Example: runAnalysis(cells, { sheet: 'Visits', topLeft: 'A1', dateSystem: 1900, mode: 'blinded', schedule, … })
- * → { ok: true, sheets: [Visit timing, Visit deviations, Visits due, Model …, Analysis record], json: { tool, input, … } }
+ * → { ok: true, sheets: [Summary, Visit timing, Visit deviations, Visits due, Model …, Analysis record], json: { tool, input, … } }
  */
 export async function runAnalysis(
   cells: readonly (readonly CellValue[])[],
@@ -123,6 +124,7 @@ export async function runAnalysis(
   const fingerprint = fingerprintCells(cells);
   const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote, sensitivity: stage.sensitivity });
   const sheets: SheetSpec[] = [
+    summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
     ...timingSheets(summary),
     ...model.sheets,
     recordSheet({ settings, table, excluded, fingerprint, summary, rowsTiming: usedForTiming, rowsModel: usedForModel, referenceArm, notes: modelNote === null ? notes : [...notes, `The model was not fitted: ${modelNote}.`] }),

@@ -14,6 +14,8 @@ export { listVisitsDue } from './visitsDue';
 export { NO_ARM, NO_SITE, armGroups, siteGroups } from './groups';
 export { TIMING_SHEET_NAMES, timingSheets } from './timingSheets';
 export { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWords';
+export { SUMMARY_SHEET_NAME, summarySheet, timingHeadline } from './summarySheet';
+export type { SummaryInput, TimingHeadline } from './summarySheet';
 export { timingJson } from './timingJson';
 export type { JsonDay, VisitJson, VisitsJson } from './timingJson';
 export { analysisRecordSheet, mappingLines } from './record';

@@ -52,7 +52,8 @@ function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[
 }
 
 /** Scheduled visits by status and visit, one bar per status, drawn from the columns of the "ByVisit" table. */
-function statusChart(rows: readonly VisitSummaryRow[]): ChartSpec {
+/** Scheduled visits by status and visit, a bar chart drawn from the by-visit table. */
+export function statusChart(rows: readonly VisitSummaryRow[]): ChartSpec {
   const x = rows.map((r) => r.visit);
   const counts: [string, (r: VisitSummaryRow) => number][] = [
     ['On time', (r) => r.onTime],

@@ -40,6 +40,19 @@ export interface ParagraphBlock {
   readonly text: string;
   /** 'caution' paragraphs are shown emphasised. */
   readonly style?: 'normal' | 'caution' | 'heading';
+  /** When given, the paragraph links to a cell of another sheet of the same run (front ends that cannot link show the text). */
+  readonly link?: SheetLink;
+}
+
+/**
+ * A link to a cell of another sheet of the same run, by the sheet's wanted name (SheetSpec.name); each front end turns
+ * it into the name that sheet got (made legal and unique) and, in a workbook, an internal hyperlink such as
+ * #'Summary'!A1 (ECMA-376 Part 1, §18.3.1.47, the hyperlink's location attribute).
+ */
+export interface SheetLink {
+  readonly sheet: string;
+  /** An A1-style cell address on that sheet, e.g. "A1". */
+  readonly cell: string;
 }
 
 export interface ChartSeries {

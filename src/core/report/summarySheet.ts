@@ -1,0 +1,177 @@
+/**
+ * The summary sheet, first in every workbook: the cautions in full (the only sheet that carries them whole; every other
+ * sheet links here), one plain paragraph, what was analysed, the numbers a trial team asks first and two small charts.
+ * Everything comes from results the run already computed (the timing summary and the model fit); nothing is refitted.
+ */
+import type { Mode } from '../intake/types';
+import type { ModelFit } from '../model/types';
+import { cell, col, heading, levelPercent, para } from './blockParts';
+import { cautionBlocks } from './cautions';
+import { lastVisitEffects, num, pPhrase } from './modelText';
+import { statusChart } from './timingSheets';
+import type { TimingSummary, VisitSummaryRow } from './timingTypes';
+import { cutoffPhrase } from './timingWords';
+import type { Block, SheetSpec } from './types';
+
+/** The summary sheet's wanted name; other sheets link to its cell A1, where the cautions begin. */
+export const SUMMARY_SHEET_NAME = 'Summary';
+
+export interface SummaryInput {
+  /** The file or range the data came from, as the analysis record names it. */
+  readonly inputLabel: string;
+  readonly rowsRead: number;
+  readonly mode: Mode;
+  readonly summary: TimingSummary;
+  /** The model fit; null when no model was fitted. */
+  readonly fit: ModelFit | null;
+  /** Why the model was not fitted (when one was asked for), else null. */
+  readonly modelNote: string | null;
+}
+
+/** The headline visit-timing numbers: every count over scheduled visits; "not expected (left)" visits are not due. */
+export interface TimingHeadline {
+  readonly due: number;
+  readonly onTime: number;
+  /** On time ÷ due; null when no visit is due. */
+  readonly onTimeRate: number | null;
+  readonly missed: number;
+  /** Participants with at least one early, late or missed scheduled visit. */
+  readonly participantsWithDeviation: number;
+}
+
+/**
+ * The headline numbers from the per-visit rows (due = expected − not yet due, where expected leaves out visits after
+ * a participant left) and the deviation listing (distinct participants with an early, late or missed visit;
+ * unscheduled and repeat records are not deviations of a scheduled visit). Cost O(visits + listed lines).
+ * Example: rows with due 10 and 6, on time 8 and 3 → { due: 16, onTime: 11, onTimeRate: 0.6875, … }.
+ */
+export function timingHeadline(summary: Pick<TimingSummary, 'byVisit' | 'deviations'>): TimingHeadline {
+  let due = 0;
+  let onTime = 0;
+  let missed = 0;
+  for (const r of summary.byVisit) {
+    due += r.due;
+    onTime += r.onTime;
+    missed += r.missed;
+  }
+  const who = new Set<string>();
+  for (const d of summary.deviations) if (d.status === 'early' || d.status === 'late' || d.status === 'missed') who.add(d.subject);
+  return { due, onTime, onTimeRate: due > 0 ? onTime / due : null, missed, participantsWithDeviation: who.size };
+}
+
+const plural = (n: number, one: string, many: string): string => `${n} ${n === 1 ? one : many}`;
+const percentWords = (x: number | null): string => (x === null ? 'no on-time rate (no visit is due yet)' : `${(100 * x).toFixed(1)}%`);
+
+/** The opening paragraph: the timing numbers in one sentence, then the model's headline in another. */
+function plainParagraph(input: SummaryInput, h: TimingHeadline): string {
+  const { summary, fit } = input;
+  let text =
+    `${cutoffPhrase(summary)}, ${plural(summary.subjects, 'participant', 'participants')} had ${plural(h.due, 'scheduled visit', 'scheduled visits')} due; ` +
+    `${h.onTime} ${h.onTime === 1 ? 'was' : 'were'} on time (${percentWords(h.onTimeRate)}) and ${h.missed} missed. ` +
+    `${plural(h.participantsWithDeviation, 'participant has', 'participants have')} at least one early, late or missed visit. `;
+  if (fit === null) {
+    text += input.modelNote === null ? 'No model was fitted (no value column was chosen).' : `The model was not fitted: ${input.modelNote}.`;
+    return text;
+  }
+  if (fit.status === 'failed') return text + 'The model did not converge, so no model results are shown as headline numbers.';
+  const pct = levelPercent(fit.level);
+  if (input.mode === 'unblinded') {
+    for (const te of lastVisitEffects(fit)) {
+      text += `At ${te.label}, the last scheduled visit, the mean value of ${te.arm} differed from ${fit.arms[0] ?? 'the reference arm'} by ${num(te.estimate)} (${pct} confidence interval ${num(te.lower)} to ${num(te.upper)}; ${pPhrase(te.p)}). `;
+    }
+  } else {
+    const slope = fit.fixedEffects.find((f) => f.kind === 'time');
+    if (slope !== undefined) text += `Over all participants together the value changed by ${num(slope.estimate)} per ${fit.timeUnit} (${pct} confidence interval ${num(slope.lower)} to ${num(slope.upper)}). `;
+    text += `The intraclass correlation is ${num(fit.variance.icc)}: the share of the variation that lies between participants. `;
+  }
+  return text.trimEnd();
+}
+
+function analysedTable(input: SummaryInput): Block {
+  const rows: string[][] = [
+    ['File', input.inputLabel],
+    ['Rows read', String(input.rowsRead)],
+    ['Participants', String(input.summary.subjects)],
+    ['Cut-off', cutoffPhrase(input.summary)],
+    ['Mode', input.mode === 'unblinded' ? 'Unblinded (results by treatment arm)' : 'Blinded (no results by treatment arm)'],
+  ];
+  return { kind: 'table', id: 'WhatWasAnalysed', caption: 'What was analysed', columns: [col('Item', 'text', 16), col('Detail', 'text', 50)], rows };
+}
+
+function timingTable(h: TimingHeadline): Block {
+  return {
+    kind: 'table',
+    id: 'TimingAtAGlance',
+    caption: 'Visit timing at a glance (visits not expected because the participant left are not due)',
+    columns: [col('Visits due', 'integer'), col('On time', 'integer'), col('On-time rate', 'percent1'), col('Missed', 'integer'), col('Participants with any early, late or missed visit', 'integer', 22)],
+    rows: [[h.due, h.onTime, h.onTimeRate, h.missed, h.participantsWithDeviation]],
+  };
+}
+
+/** Unblinded: the treatment difference at the last scheduled visit per arm; blinded: the ICC and the overall trend. */
+function modelTable(fit: ModelFit, mode: Mode): Block | null {
+  if (fit.status === 'failed') return null;
+  const pct = levelPercent(fit.level);
+  if (mode === 'unblinded') {
+    const effects = lastVisitEffects(fit);
+    if (effects.length === 0) return null;
+    return {
+      kind: 'table',
+      id: 'DifferenceAtLastVisit',
+      caption: `Treatment difference at the last scheduled visit (${pct} confidence interval)`,
+      columns: [col('Arm', 'text', 14), col('Compared with', 'text', 14), col('Visit', 'text', 12), col('Difference', 'decimal3'), col('Lower limit', 'decimal3'), col('Upper limit', 'decimal3'), col('p', 'pvalue')],
+      rows: effects.map((te) => [te.arm, fit.arms[0] ?? '', te.label, cell(te.estimate), cell(te.lower), cell(te.upper), cell(te.p)]),
+    };
+  }
+  const slope = fit.fixedEffects.find((f) => f.kind === 'time');
+  const v = fit.variance;
+  return {
+    kind: 'table',
+    id: 'ModelAtAGlance',
+    caption: `The model at a glance, all participants together (${pct} confidence interval)`,
+    columns: [col('Measure', 'text', 36), col('Estimate', 'decimal3'), col('Lower limit', 'decimal3'), col('Upper limit', 'decimal3')],
+    rows: [
+      ['Intraclass correlation (share of the variation between participants)', cell(v.icc), cell(v.iccLower), cell(v.iccUpper)],
+      ...(slope === undefined ? [] : [[`Overall change in the value per ${fit.timeUnit}`, cell(slope.estimate), cell(slope.lower), cell(slope.upper)]]),
+    ],
+  };
+}
+
+/** On-time rate by scheduled visit, as a small chart with its own table (pooled over arms in either mode). */
+function onTimeChart(rows: readonly VisitSummaryRow[]): Block {
+  return {
+    kind: 'chart',
+    chart: {
+      kind: 'bar',
+      id: 'SummaryOnTime',
+      title: 'On-time rate by visit',
+      xLabel: 'Visit',
+      yLabel: 'On time ÷ visits due',
+      series: [{ name: 'On-time rate', x: rows.map((r) => r.visit), y: rows.map((r) => r.onTimeRate) }],
+    },
+  };
+}
+
+/**
+ * The summary sheet: the cautions in full at A1 onwards (mode's own set), one plain paragraph, the table of what was
+ * analysed, the visit-timing numbers, the model's headline numbers (unblinded: the treatment difference at the last
+ * scheduled visit with its interval and p; blinded: the ICC and the overall trend, nothing by arm) and two small charts
+ * (on-time rate by visit and visits by status and visit, pooled over arms). Cost O(visits + listed lines).
+ */
+export function summarySheet(input: SummaryInput): SheetSpec {
+  const h = timingHeadline(input.summary);
+  const model = input.fit === null ? null : modelTable(input.fit, input.mode);
+  const blocks: Block[] = [
+    ...cautionBlocks(input.mode),
+    para(plainParagraph(input, h)),
+    analysedTable(input),
+    timingTable(h),
+    ...(model === null ? [] : [model]),
+  ];
+  if (input.summary.byVisit.length > 0) {
+    // The status chart of the timing sheet, under its own id and drawn from its own small table on this sheet.
+    const { sourceTable: _elsewhere, ...status } = statusChart(input.summary.byVisit);
+    blocks.push(heading('Charts'), onTimeChart(input.summary.byVisit), { kind: 'chart', chart: { ...status, id: 'SummaryStatus' } });
+  }
+  return { name: SUMMARY_SHEET_NAME, title: 'Summary of this interim look', blocks };
+}

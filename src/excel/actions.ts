@@ -122,11 +122,14 @@ export function createExcelActions(): PaneActions {
     async writeResults(output, onProgress): Promise<readonly WrittenSheet[]> {
       const dateSystem = await probeDateSystem();
       const written: WrittenSheet[] = [];
+      // Wanted name → the name each sheet got; the summary sheet comes first, so the links to it find their target.
+      const linkTargets = new Map<string, string>();
       const n = output.sheets.length;
       for (const [i, spec] of output.sheets.entries()) {
         const sheet = await explain(`Writing the sheet "${spec.name}"`, () =>
-          renderSheet(spec, { dateSystem, onProgress: (f) => onProgress?.((i + f) / Math.max(1, n)) }),
+          renderSheet(spec, { dateSystem, linkTargets, onProgress: (f) => onProgress?.((i + f) / Math.max(1, n)) }),
         );
+        if (!linkTargets.has(spec.name)) linkTargets.set(spec.name, sheet.name);
         written.push(sheet);
       }
       const first = written[0];

@@ -52,6 +52,15 @@ export interface ChartPlan {
   readonly to: { readonly row: number; readonly column: number };
 }
 
+/** A cell that links to a cell of another sheet of the run (by that sheet's wanted name). */
+export interface LinkPlan {
+  readonly row: number;
+  readonly column: number;
+  readonly text: string;
+  readonly sheet: string;
+  readonly cell: string;
+}
+
 export interface SheetLayout {
   readonly patches: readonly CellPatch[];
   readonly tables: readonly TablePlan[];
@@ -62,6 +71,8 @@ export interface SheetLayout {
   readonly freezeRows: number;
   /** Normal and caution paragraphs: merged, wrapped areas from column A with a row height that fits the text. */
   readonly wrapAreas: readonly WrapArea[];
+  /** Cells that become links to another sheet once every sheet has its name (the one-line caution). */
+  readonly links: readonly LinkPlan[];
 }
 
 /** Day numbers in specs count 1899-12-30 as 0; a 1904-system workbook counts 1904-01-01 as 0, 1462 days later. */
@@ -160,7 +171,9 @@ function chartType(spec: ChartSpec): ChartPlan['type'] {
 }
 
 /**
- * Lays a sheet out top to bottom from column A: the title (row 1), then each block followed by a blank row;
+ * Lays a sheet out top to bottom from column A: the title (row 1), then each block followed by a blank row; a
+ * linking paragraph (the one-line caution) that comes first sits on row 2 with the next block on row 3, so a table
+ * that follows it has its header on row 4;
  * paragraphs take one row; a table takes a caption row, its header and its rows; a chart writes its numbers as a
  * small table with the chart beside it. Numbers in 'date' columns are shifted into the workbook's date system.
  * Normal and caution paragraphs (not the title or headings) get a wrap area across the sheet's text width (the
@@ -179,9 +192,16 @@ export function layoutSheet(spec: SheetSpec, dateSystem: DateSystem): SheetLayou
     widths[column] = Math.max(widths[column] ?? 0, Math.min(60, chars));
   };
   const paragraphs: { row: number; characters: number }[] = [];
+  const links: LinkPlan[] = [];
   let row = 2;
-  for (const block of spec.blocks) {
-    if (block.kind === 'paragraph') {
+  for (const [i, block] of spec.blocks.entries()) {
+    if (block.kind === 'paragraph' && block.link !== undefined) {
+      // One line, not wrapped; right under the title when it comes first, with the next block on row 3.
+      const at = i === 0 ? 1 : row;
+      patches.push(textPatch(at, block.text, 'caution'));
+      links.push({ row: at, column: 0, text: block.text, sheet: block.link.sheet, cell: block.link.cell });
+      row = at + (i === 0 ? 1 : 2);
+    } else if (block.kind === 'paragraph') {
       const style = block.style === 'caution' ? 'caution' : block.style === 'heading' ? 'heading' : 'normal';
       patches.push(textPatch(row, block.text, style));
       if (style !== 'heading') paragraphs.push({ row, characters: block.text.length });
@@ -218,5 +238,5 @@ export function layoutSheet(spec: SheetSpec, dateSystem: DateSystem): SheetLayou
   if (paragraphs.length > 0) for (let j = 0; j < textWidth; j++) if ((widths[j] ?? 0) === 0) widen(j, DEFAULT_WIDTH);
   const wrapAreas = paragraphs.length > 0 ? planWrapAreas(paragraphs, textWidth, widths) : [];
   const only = tables.length === 1 ? tables[0] : undefined;
-  return { patches, tables, charts, columnWidths: widths, freezeRows: only !== undefined && only.row <= 10 ? only.row + 1 : 1, wrapAreas };
+  return { patches, tables, charts, columnWidths: widths, freezeRows: only !== undefined && only.row <= 10 ? only.row + 1 : 1, wrapAreas, links };
 }

@@ -23,7 +23,12 @@ export interface RenderOptions {
   readonly targetBytes?: number;
   /** Most cells per write request (default 200,000). */
   readonly maxCells?: number;
+  /** Wanted sheet name → the name that sheet got, for the sheets of this run written so far (links point into them). */
+  readonly linkTargets?: ReadonlyMap<string, string>;
 }
+
+/** A place in the workbook as a hyperlink's document reference, e.g. 'Summary (2)'!A1 (inner apostrophes doubled). */
+export const documentReference = (sheet: string, cell: string): string => `'${sheet.replace(/'/g, "''")}'!${cell}`;
 
 /** Points per character of column width: an approximation for the default font (common practice: about 7). */
 const POINTS_PER_CHARACTER = 7;
@@ -108,10 +113,11 @@ function addChart(ws: Excel.Worksheet, plan: ChartPlan, name: string): void {
 }
 
 /**
- * Turns the written cells into tables, adds the charts, sets widths and frozen rows, and merges and wraps each
+ * Turns the written cells into tables, adds the charts, sets widths and frozen rows, links cells to the sheets already
+ * written (Range.hyperlink, ExcelApi 1.7), and merges and wraps each
  * paragraph's area (after its value is in the top-left cell, which keeps its value and its "@" format), in one request.
  */
-async function finish(sheet: string, layout: SheetLayout): Promise<void> {
+async function finish(sheet: string, layout: SheetLayout, targets: ReadonlyMap<string, string>): Promise<void> {
   await Excel.run(async (context) => {
     const all = context.workbook.tables;
     all.load('items/name');
@@ -134,6 +140,11 @@ async function finish(sheet: string, layout: SheetLayout): Promise<void> {
       area.format.wrapText = true;
       area.format.verticalAlignment = 'Top';
       area.format.rowHeight = a.heightPoints;
+    }
+    for (const l of layout.links) {
+      const target = targets.get(l.sheet);
+      if (target === undefined) continue; // the linked sheet is not written: the text stands alone
+      ws.getRange(rangeAddress(l.row, l.column, 1, 1)).hyperlink = { documentReference: documentReference(target, l.cell), textToDisplay: l.text, screenTip: 'Go to the full cautions' };
     }
     ws.freezePanes.freezeRows(layout.freezeRows);
     await context.sync();
@@ -159,7 +170,7 @@ export async function renderSheet(spec: SheetSpec, options: RenderOptions): Prom
     options.onProgress?.(done / total);
   }
   try {
-    await finish(name, layout);
+    await finish(name, layout, options.linkTargets ?? new Map());
   } catch (error) {
     throw new ExcelAdapterError(
       `The cells of sheet "${name}" were written, but its tables, charts or paragraph wrapping could not be added: ${error instanceof Error ? error.message : String(error)}`,

@@ -10,6 +10,7 @@ import type { ChartSpec } from '../core/report/types';
 import type { BoundSeries } from './bindChart';
 import { FileFormatError } from './errors';
 import { chartXml, DRAWING_NS, REL_NS, xmlText } from './chartXml';
+import { withHyperlinks, type PlacedLink } from './addLinks';
 
 /** A chart to place: its cells (0-based, the `to` cell is the first one past the chart) and its bound series. */
 export interface PlacedChart {
@@ -116,14 +117,25 @@ function freeNumber(zip: JSZip, prefix: string, after: number): number {
 }
 
 /**
- * The package `bytes` with `charts` (sheet name → charts on that sheet) added as native charts. Sheets without
- * charts are left as they are; with no charts at all the bytes are returned unchanged. Cost O(size of the touched
- * parts); untouched parts keep their compressed bytes.
+ * The package `bytes` with `charts` (sheet name → charts on that sheet) added as native charts, and `links` (sheet
+ * name → links on that sheet) as internal hyperlinks (addLinks.ts). Sheets without either are left as they are; with
+ * none at all the bytes are returned unchanged. Cost O(size of the touched parts); untouched parts keep their
+ * compressed bytes.
  */
-export async function addCharts(bytes: Uint8Array, charts: ReadonlyMap<string, readonly PlacedChart[]>): Promise<Uint8Array> {
-  if ([...charts.values()].every((c) => c.length === 0)) return bytes;
+export async function addCharts(
+  bytes: Uint8Array,
+  charts: ReadonlyMap<string, readonly PlacedChart[]>,
+  links: ReadonlyMap<string, readonly PlacedLink[]> = new Map(),
+): Promise<Uint8Array> {
+  if ([...charts.values()].every((c) => c.length === 0) && [...links.values()].every((l) => l.length === 0)) return bytes;
   const zip = await JSZip.loadAsync(bytes);
   const parts = await sheetParts(zip);
+  for (const [sheet, placed] of links) {
+    if (placed.length === 0) continue;
+    const part = parts.get(sheet);
+    if (part === undefined) throw new FileFormatError(`The report could not get its links: the workbook has no sheet named "${sheet}".`);
+    zip.file(part, withHyperlinks((await zip.file(part)?.async('string')) ?? '', placed));
+  }
   let types = (await zip.file('[Content_Types].xml')?.async('string')) ?? '';
   let chartNo = 0;
   let drawingNo = 0;

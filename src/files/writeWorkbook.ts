@@ -1,8 +1,9 @@
 import ExcelJS from 'exceljs';
-import type { ChartSpec, NumberFormat, SheetCell, SheetSpec, TableBlock } from '../core/report/types';
+import type { ChartSpec, NumberFormat, ParagraphBlock, SheetCell, SheetSpec, TableBlock } from '../core/report/types';
 import { EXCEL_FORMAT_CODES } from '../core/report/formats';
 import { uniqueSheetNames, uniqueTableName } from './sheetNames';
 import { addCharts, type PlacedChart } from './addCharts';
+import type { PlacedLink } from './addLinks';
 import { bindChart, type BoundSeries, type WrittenTable } from './bindChart';
 import { keepWholeBreaks, columnPoints, footer, LANDSCAPE_FROM, PRINTABLE, type PrintStamp } from './printSetup';
 
@@ -136,6 +137,8 @@ interface SheetState {
   readonly charts: { readonly row: number; readonly spec: ChartSpec; readonly series: readonly BoundSeries[] }[];
   /** Rows of headings, kept on the page of the table or chart they head. */
   readonly headings: Set<number>;
+  /** Cells that link to another sheet, added as hyperlinks once the package is written. */
+  readonly links: PlacedLink[];
 }
 
 /** Widths of columns no table sets (Excel's default is about 8.43 characters). */
@@ -183,6 +186,23 @@ function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font
   if (!heading) st.wraps.push({ row: st.row, text });
   st.row += 1;
   st.spaced = false;
+}
+
+/**
+ * A paragraph that links to a cell of another sheet (the one-line caution): written as one unwrapped line whose cell is an
+ * internal link, right under the title when it is the sheet's first block, so the first table starts by row 4.
+ * A link to a sheet not in this workbook is written as plain text.
+ */
+function writeLink(st: SheetState, b: ParagraphBlock & { link: NonNullable<ParagraphBlock['link']> }, first: boolean, names: ReadonlyMap<string, string>): void {
+  if (first) st.row = 2;
+  const cell = st.ws.getCell(st.row, 1);
+  const sheet = names.get(b.link.sheet);
+  const text = fitCell(b.text);
+  cell.value = text;
+  cell.font = { ...CAUTION_FONT, underline: sheet !== undefined };
+  if (sheet !== undefined) st.links.push({ ref: cell.address, sheet, cell: b.link.cell, display: text });
+  st.row += 1;
+  st.spaced = first;
 }
 
 /** Writes one table (caption row, then a real Excel table) and returns the header's row number. */
@@ -273,7 +293,8 @@ function printSettings(st: SheetState, repeatRow: number, stamp: PrintStamp): vo
 
 /**
  * Renders sheet specs into an .xlsx workbook (ECMA-376) and returns its bytes. Per sheet: a title row, then each
- * block in order — paragraphs on consecutive rows, each merged and wrapped across the sheet's text width (cautions in
+ * block in order — a linking paragraph (the one-line caution) as an internal hyperlink (addLinks.ts) on row 2 when it comes first, so
+ * the first table's header is on row 4 at the latest; paragraphs on consecutive rows, each merged and wrapped across the sheet's text width (cautions in
  * bold italic), headings and tables set apart by a blank row, tables as real Excel tables with header row, filter
  * buttons, number formats from EXCEL_FORMAT_CODES and column widths, and each chart as a native chart (addCharts.ts)
  * across the text width whose series read the sheet's own table cells (bindChart.ts); a chart whose numbers are not
@@ -291,17 +312,25 @@ export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintSt
   const names = uniqueSheetNames(sheets.map((s) => s.name));
   const tableNames = new Set<string>();
   const placed = new Map<string, PlacedChart[]>();
+  const linked = new Map<string, PlacedLink[]>();
+  // Wanted name → the name each sheet got, for links between sheets (the first sheet of a wanted name wins).
+  const nameOf = new Map<string, string>();
+  sheets.forEach((spec, k) => {
+    if (!nameOf.has(spec.name)) nameOf.set(spec.name, names[k]!);
+  });
   sheets.forEach((spec, k) => {
     const ws = wb.addWorksheet(names[k]!);
-    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [], wraps: [], written: [], charts: [], headings: new Set() };
+    const st: SheetState = { ws, row: 3, spaced: true, tableIds: new Map(), widths: [], wraps: [], written: [], charts: [], headings: new Set(), links: [] };
     ws.getCell(1, 1).value = fitCell(spec.title);
     ws.getCell(1, 1).font = TITLE_FONT;
     const tables = spec.blocks.filter((b) => b.kind === 'table').length;
     const charts = spec.blocks.filter((b) => b.kind === 'chart').length;
     let frozenAt = 0;
     let onlyHeader = 0;
-    for (const b of spec.blocks) {
-      if (b.kind === 'paragraph') {
+    spec.blocks.forEach((b, i) => {
+      if (b.kind === 'paragraph' && b.link !== undefined) {
+        writeLink(st, { ...b, link: b.link }, i === 0, nameOf);
+      } else if (b.kind === 'paragraph') {
         const font = b.style === 'caution' ? CAUTION_FONT : b.style === 'heading' ? HEADING_FONT : null;
         writeParagraph(st, b.text, font, b.style === 'heading');
       } else if (b.kind === 'table') {
@@ -311,13 +340,14 @@ export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintSt
       } else {
         writeChart(st, b.chart, tableNames);
       }
-    }
+    });
     st.widths.forEach((w, j) => {
       if (w > 0) ws.getColumn(j + 1).width = w;
     });
     wrapParagraphs(st);
     if (frozenAt > 0) ws.views = [{ state: 'frozen', xSplit: 0, ySplit: frozenAt, topLeftCell: `A${frozenAt + 1}` }];
     printSettings(st, st.written.length === 1 ? onlyHeader : 0, stamp);
+    linked.set(names[k]!, st.links);
     const across = textColumnCount(st);
     placed.set(
       names[k]!,
@@ -325,5 +355,5 @@ export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintSt
     );
   });
   const out = await wb.xlsx.writeBuffer();
-  return addCharts(out instanceof Uint8Array ? out : new Uint8Array(out as ArrayBuffer), placed);
+  return addCharts(out instanceof Uint8Array ? out : new Uint8Array(out as ArrayBuffer), placed, linked);
 }

@@ -206,10 +206,10 @@ describe('longipane analyze on a small CSV with CDISC headers and no --map', () 
     }
   });
 
-  it('writes the timing sheets first and the analysis record last, each result table a real Excel table', async () => {
+  it('writes the summary sheet first, then the timing sheets, and the analysis record last, each result table a real Excel table', async () => {
     const wb = await loadXlsx(xlsx());
     const names = wb.worksheets.map((w) => w.name);
-    expect(names).toEqual(['Visit timing', 'Visit deviations', 'Visits due', 'Model results', 'Analysis record']);
+    expect(names).toEqual(['Summary', 'Visit timing', 'Visit deviations', 'Visits due', 'Model results', 'Analysis record']);
     const timingTables = wb.getWorksheet('Visit timing')!.getTables().map((t) => (t as unknown as { table: { name: string } }).table.name);
     expect(timingTables).toEqual(expect.arrayContaining(['LP_ByVisit', 'LP_BySite'])); // the same names the add-in gives
     expect(wb.getWorksheet('Visit deviations')!.getTables()).toHaveLength(1);
@@ -288,7 +288,7 @@ describe('longipane analyze with --map, --covariate and model options', () => {
     expect(json.settings.mapping).toEqual({ subject: 'Pt', date: 'When', reference: 'Start', value: 'Score', covariates: ['Base'] });
     expect(json.settings).toMatchObject({ timeUnit: 'week', daysPerUnit: 7, dfMethod: 'satterthwaite', method: 'ml', level: 0.9, scheduledOnly: true, perSubject: true });
     const wb = await loadXlsx(join(d, 'r.xlsx'));
-    expect(wb.worksheets.map((w) => w.name)).toEqual(['Visit timing', 'Visit deviations', 'Visits due', 'Model results', 'Per participant', 'Analysis record']);
+    expect(wb.worksheets.map((w) => w.name)).toEqual(['Summary', 'Visit timing', 'Visit deviations', 'Visits due', 'Model results', 'Per participant', 'Analysis record']);
   });
 
   it('exits with 2 and lists the headers when --map names a column the data do not have', async () => {

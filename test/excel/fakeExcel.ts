@@ -19,6 +19,7 @@ export type Op =
   | { readonly op: 'chart'; readonly sheet: string; readonly type: string; readonly address: string; readonly by: string; readonly chart: FakeChart }
   | { readonly op: 'freezeRows'; readonly sheet: string; readonly value: number }
   | { readonly op: 'validation'; readonly sheet: string; readonly address: string; readonly key: string; readonly value: unknown }
+  | { readonly op: 'hyperlink'; readonly sheet: string; readonly address: string; readonly value: unknown }
   | { readonly op: 'activate'; readonly sheet: string }
   | { readonly op: 'sync' };
 
@@ -116,6 +117,9 @@ export function installFakeExcel(existingSheets: string[], existingTables: strin
       },
       merge(across?: boolean) {
         ops.push({ op: 'merge', sheet, address, across });
+      },
+      set hyperlink(v: unknown) {
+        ops.push({ op: 'hyperlink', sheet, address, value: v });
       },
       select() {},
       dataValidation: new Proxy({} as Record<string, unknown>, {

@@ -1,6 +1,6 @@
 /** Results → sheet specs and JSON: plain tables, formats, chart specs, the visit-timing reports and the analysis record. */
 export * from './types';
-export { CAUTIONS, INVENTED_DATA_NOTE, UNBLINDED_CAUTION, cautionBlocks } from './cautions';
+export { CAUTIONS, CAUTION_LINE, INVENTED_DATA_NOTE, SUMMARY_SHEET_NAME, UNBLINDED_CAUTION, UNBLINDED_LINE, cautionBlocks, cautionLine } from './cautions';
 export { EXCEL_FORMAT_CODES, formatCell } from './formats';
 export { HashUsageError, Sha256, sha256Hex } from './sha256';
 export { CellFingerprint, fingerprintCells, serialiseCell } from './fingerprint';
@@ -14,7 +14,7 @@ export { listVisitsDue } from './visitsDue';
 export { NO_ARM, NO_SITE, armGroups, siteGroups } from './groups';
 export { TIMING_SHEET_NAMES, timingSheets } from './timingSheets';
 export { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWords';
-export { SUMMARY_SHEET_NAME, summarySheet, timingHeadline } from './summarySheet';
+export { summarySheet, timingHeadline } from './summarySheet';
 export type { SummaryInput, TimingHeadline } from './summarySheet';
 export { timingJson } from './timingJson';
 export type { JsonDay, VisitJson, VisitsJson } from './timingJson';

@@ -1,13 +1,13 @@
 /**
- * The model's sheets (SPEC §5, §6): "Model results" opens with a plain-language paragraph and the cautions, then
+ * The model's sheets (SPEC §5, §6): "Model results" opens with the one-line caution linked to the summary sheet and a plain-language paragraph, then
  * tables of fixed effects, treatment differences by visit, slope differences, variance components and ICC, how well
  * the model fits with the convergence verdict, predicted trajectories beside observed means (with a chart spec); and,
- * on request, "Per participant" with each participant's random intercept. In blinded mode no text outside the cautions speaks
+ * on request, "Per participant" with each participant's random intercept. In blinded mode no text outside the caution speaks
  * of arms: captions, column headers and the per-participant explanation use pooled wording and the arm column is left out.
  */
 import type { Mode } from '../intake/types';
 import type { ContrastResult, ModelFit } from '../model/types';
-import { cautionBlocks } from './cautions';
+import { cautionLine } from './cautions';
 import { fitVerdict, modelSummaryText } from './modelText';
 import { cell, col, levelPercent, para } from './blockParts';
 import { DF_DESCRIPTIONS } from './dfNotes';
@@ -64,7 +64,7 @@ const inferenceCells = (r: ContrastResult): SheetCell[] => [cell(r.estimate), ce
 /**
  * Builds the model sheets; a blinded context with a fit that has arms throws ModelReportError (never leak arms).
  * Example: a blinded fit with perSubject false -> one sheet "Model results" whose first block
- * is the summary paragraph, followed by the caution paragraphs and the tables.
+ * is the one-line caution, followed by the summary paragraph and the tables.
  */
 export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpec[] {
   if (context.mode === 'blinded' && fit.arms.length > 0) {
@@ -72,7 +72,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   }
   const unit = UNIT[fit.timeUnit];
   const unblinded = context.mode === 'unblinded' && fit.arms.length > 1;
-  const blocks: Block[] = [para(modelSummaryText(fit, context.mode)), ...cautionBlocks(context.mode)];
+  const blocks: Block[] = [cautionLine(context.mode), para(modelSummaryText(fit, context.mode))];
 
   blocks.push({
     kind: 'table',
@@ -160,9 +160,9 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
 }
 
 /**
- * The model sheet of a run in which no model was fitted: the reason in plain words, then the cautions, so a reader
+ * The model sheet of a run in which no model was fitted: the one-line caution, then the reason in plain words, so a reader
  * who looks for the model finds why there is none (the visit-timing sheets stand).
- * Example: modelNotFittedSheet('all 24 values are equal (5)', 'blinded').blocks[0] -> paragraph "No model was fitted:
+ * Example: modelNotFittedSheet('all 24 values are equal (5)', 'blinded').blocks[1] -> paragraph "No model was fitted:
  * all 24 values are equal (5). ..."
  */
 export function modelNotFittedSheet(reason: string, mode: Mode): SheetSpec {
@@ -171,8 +171,8 @@ export function modelNotFittedSheet(reason: string, mode: Mode): SheetSpec {
     name: MODEL_SHEET_NAMES.results,
     title: 'Random-intercept model',
     blocks: [
+      cautionLine(mode),
       para(`No model was fitted: ${why}. No estimates, intervals or p-values are shown, because any would be wrong. The visit-timing sheets are not affected.`),
-      ...cautionBlocks(mode),
     ],
   };
 }
@@ -234,10 +234,7 @@ function perParticipantSheet(fit: ModelFit, mode: Mode, unblinded: boolean): She
     name: MODEL_SHEET_NAMES.perParticipant,
     title: 'Per-participant random intercepts',
     blocks: [
-      para(
-        `Each participant's random intercept is the model's best prediction of how far that participant's level lies above (positive) or below (negative) ${reference}, shrunk toward zero when the participant has few measurements. ${fit.subjects.length} participants.`,
-      ),
-      ...cautionBlocks(mode),
+      cautionLine(mode),
       {
         kind: 'table',
         id: 'ParticipantIntercepts',
@@ -245,6 +242,9 @@ function perParticipantSheet(fit: ModelFit, mode: Mode, unblinded: boolean): She
         columns: [col('Participant', 'text', 16), col('Measurements', 'integer'), col('Random intercept', 'decimal3'), col('Mean residual', 'decimal3')],
         rows: fit.subjects.map((s) => [s.id, s.n, cell(s.blup), cell(s.meanResidual)]),
       },
+      para(
+        `Each participant's random intercept is the model's best prediction of how far that participant's level lies above (positive) or below (negative) ${reference}, shrunk toward zero when the participant has few measurements. ${fit.subjects.length} participants.`,
+      ),
     ],
   };
 }

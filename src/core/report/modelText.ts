@@ -62,7 +62,7 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
   let text =
     `A random-intercept linear mixed model, ${methodWords(fit)}, regressed ${what}${covs > 0 ? ', adjusted for the chosen covariates' : ''}, ` +
     `with each participant's own level as a random intercept. It used ${fit.nObservations} measurements from ${fit.nSubjects} participants. `;
-  if (fit.status === 'failed') return text + `The fit did not converge: ${fit.message} Read the cautions below.`;
+  if (fit.status === 'failed') return text + `The fit did not converge: ${fit.message} Read the cautions on the summary sheet.`;
   if (armed) {
     const last = lastVisitEffects(fit);
     for (const te of last) {
@@ -83,7 +83,7 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
     `the intraclass correlation is ${num(v.icc)} (${pct}% confidence interval ${num(v.iccLower)} to ${num(v.iccUpper)}), ` +
     `the share of the total variation that lies between participants. `;
   text += `Fit: ${FIT_STATUS_WORDS[fit.status].toLowerCase()}. `;
-  text += 'Read this with the cautions below: an interim look is not a final analysis, and repeated looks inflate the chance of a false-positive finding.';
+  text += 'Read this with the cautions on the summary sheet: an interim look is not a final analysis, and repeated looks inflate the chance of a false-positive finding.';
   return text;
 }
 

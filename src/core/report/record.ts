@@ -1,6 +1,6 @@
 import type { ColumnMapping, Mode } from '../intake/types';
 import type { ScheduleVisit } from '../schedule/types';
-import { cautionBlocks } from './cautions';
+import { cautionLine } from './cautions';
 import { col, heading } from './blockParts';
 import type { Block, SheetSpec } from './types';
 import { rowsLeftOut } from './rowsLeftOut';
@@ -86,8 +86,7 @@ export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
   const rowsOut = rowsLeftOut(input.excluded);
   const rowsOutOf = (use: RecordExclusion['use']): number => rowsLeftOut(input.excluded.filter((e) => e.use === use));
   const blocks: Block[] = [
-    ...cautionBlocks(input.mode),
-    heading('This run'),
+    cautionLine(input.mode),
     {
       kind: 'table',
       id: 'RunFacts',

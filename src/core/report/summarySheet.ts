@@ -6,15 +6,14 @@
 import type { Mode } from '../intake/types';
 import type { ModelFit } from '../model/types';
 import { cell, col, heading, levelPercent, para } from './blockParts';
-import { cautionBlocks } from './cautions';
+import { cautionBlocks, SUMMARY_SHEET_NAME } from './cautions';
 import { lastVisitEffects, num, pPhrase } from './modelText';
 import { statusChart } from './timingSheets';
 import type { TimingSummary, VisitSummaryRow } from './timingTypes';
 import { cutoffPhrase } from './timingWords';
 import type { Block, SheetSpec } from './types';
 
-/** The summary sheet's wanted name; other sheets link to its cell A1, where the cautions begin. */
-export const SUMMARY_SHEET_NAME = 'Summary';
+export { SUMMARY_SHEET_NAME };
 
 export interface SummaryInput {
   /** The file or range the data came from, as the analysis record names it. */

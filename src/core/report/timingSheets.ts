@@ -1,6 +1,6 @@
 import { STATUS_WORDS } from '../schedule/types';
 import { col, para } from './blockParts';
-import { cautionBlocks } from './cautions';
+import { cautionLine } from './cautions';
 import { DUE_WORDS, type LastRecord } from './timingTypes';
 import { isoDate } from '../schedule/dates';
 import { ON_TIME_RATE_NOTE, cutoffPhrase, timingSummaryText } from './timingWords';
@@ -52,7 +52,6 @@ function visitTable(id: string, caption: string, rows: readonly VisitSummaryRow[
 }
 
 /** Scheduled visits by status and visit, one bar per status, drawn from the columns of the "ByVisit" table. */
-/** Scheduled visits by status and visit, a bar chart drawn from the by-visit table. */
 export function statusChart(rows: readonly VisitSummaryRow[]): ChartSpec {
   const x = rows.map((r) => r.visit);
   const counts: [string, (r: VisitSummaryRow) => number][] = [
@@ -75,18 +74,18 @@ export function statusChart(rows: readonly VisitSummaryRow[]): ChartSpec {
 }
 
 /**
- * The visit-timing report as three sheets: "Visit timing" (cautions, a plain summary, the tables by visit — and by arm
+ * The visit-timing report as three sheets: "Visit timing" (a one-line caution linked to the summary sheet, the table by visit, a plain summary — and by arm
  * and visit in unblinded mode, i.e. when summary.byArm is not null, with the unblinded caution — and by site, with a
  * chart of deviations by visit and of on-time rate by site), "Visit deviations" (the listing) and "Visits due"
- * (upcoming and overdue visits). Dates use the 'date' format for dated data and show study days otherwise.
+ * (upcoming and overdue visits), each listing right after the one-line caution and its notes below it. Dates use the 'date' format for dated data and show study days otherwise.
  * Cost O(listed lines).
  */
 export function timingSheets(summary: TimingSummary): SheetSpec[] {
   const unblinded = summary.byArm !== null;
-  const cautions = cautionBlocks(unblinded ? 'unblinded' : 'blinded');
+  const caution = cautionLine(unblinded ? 'unblinded' : 'blinded');
 
-  const timing: Block[] = [...cautions, para(timingSummaryText(summary)), para(ON_TIME_RATE_NOTE), para('By visit', 'heading')];
-  timing.push(visitTable('ByVisit', 'Scheduled visits by visit', summary.byVisit, false));
+  // The one-line caution, then the first table at once (row 4); the plain summary and the rate's definition follow it.
+  const timing: Block[] = [caution, visitTable('ByVisit', 'Scheduled visits by visit', summary.byVisit, false), para(timingSummaryText(summary)), para(ON_TIME_RATE_NOTE)];
   timing.push({
     kind: 'chart',
     chart: {
@@ -162,7 +161,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
   const targetHeader = summary.dated ? 'Target date' : 'Target day';
   const withSite = summary.bySite !== null;
   const deviations: Block[] = [
-    ...cautions,
+    caution,
     para(
       `${cutoffPhrase(summary)}: every early, late or missed scheduled visit, and every unscheduled or repeat record, for follow-up. ` +
         `Days from target = calendar days from the ${target} to the actual ${when} (negative = early; no day is skipped at the reference date). ` +
@@ -202,7 +201,7 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
   ];
 
   const due: Block[] = [
-    ...cautions,
+    caution,
     para(
       `${cutoffPhrase(summary)}: each participant still in follow-up (no record yet of the final scheduled visit) with their next scheduled visit that has no record. ` +
         'Days until target is negative when the target has passed. "Overdue": the window closed before the cut-off; "Window open now": the cut-off falls inside the window; "Coming up": the window opens later.',
@@ -241,13 +240,15 @@ export function timingSheets(summary: TimingSummary): SheetSpec[] {
       ? ''
       : ` "No record since …" marks a participant with no record for more than ${summary.silenceDays} days (two scheduled intervals) and no exit date: check whether they left the study; their visits are still counted as the schedule says.`;
   const lastPara = para(`Last record: the participant's latest record; days since it are counted to the cut-off.${silenceNote}`);
-  deviations.splice(cautions.length + 1, 0, lastPara);
-  due.splice(cautions.length + 1, 0, lastPara);
+  deviations.splice(2, 0, lastPara);
+  due.splice(2, 0, lastPara);
+  // The listing comes first (row 4), its explanations after it.
+  const tableFirst = (blocks: Block[]): Block[] => [blocks[0]!, ...blocks.filter((b) => b.kind === 'table'), ...blocks.slice(1).filter((b) => b.kind !== 'table')];
 
   return [
     { name: TIMING_SHEET_NAMES.timing, title: 'Visit timing against the schedule', blocks: timing },
-    { name: TIMING_SHEET_NAMES.deviations, title: 'Visit deviations for follow-up', blocks: deviations },
-    { name: TIMING_SHEET_NAMES.due, title: 'Upcoming and overdue visits', blocks: due },
+    { name: TIMING_SHEET_NAMES.deviations, title: 'Visit deviations for follow-up', blocks: tableFirst(deviations) },
+    { name: TIMING_SHEET_NAMES.due, title: 'Upcoming and overdue visits', blocks: tableFirst(due) },
   ];
 }
 

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { runAnalysis, type AnalysisSettings } from '../../../src/core/pipeline';
-import { CAUTIONS, UNBLINDED_CAUTION } from '../../../src/core/report';
+import { CAUTIONS, CAUTION_LINE, SUMMARY_SHEET_NAME, UNBLINDED_CAUTION, UNBLINDED_LINE } from '../../../src/core/report';
 import { parseSchedule } from '../../../src/core/schedule';
 import { readCsvText } from '../../../src/files';
 import type { SheetSpec } from '../../../src/core/report';
@@ -33,19 +33,48 @@ function settings(mode: 'blinded' | 'unblinded'): AnalysisSettings {
 const paragraphs = (sheet: SheetSpec): string[] =>
   sheet.blocks.flatMap((b) => (b.kind === 'paragraph' ? [b.text] : []));
 
-describe('every output sheet carries the cautions of SPEC §2', () => {
+describe('the cautions of SPEC §2: in full on the summary sheet, a one-line caution linking to it on every other sheet', () => {
   for (const mode of ['blinded', 'unblinded'] as const) {
-    it(`in ${mode} mode each sheet shows all three cautions${mode === 'unblinded' ? ' and the unblinded caution' : ''}`, async () => {
+    it(`in ${mode} mode the summary sheet comes first with all three cautions${mode === 'unblinded' ? ' and the unblinded caution' : ''}, once each`, async () => {
       const out = await runAnalysis(cells, settings(mode));
       expect(out.ok).toBe(true);
       if (!out.ok) return;
-      expect(out.sheets.length).toBeGreaterThanOrEqual(5);
-      for (const sheet of out.sheets) {
+      const summary = out.sheets[0]!;
+      expect(summary.name).toBe(SUMMARY_SHEET_NAME);
+      const text = paragraphs(summary);
+      for (const caution of CAUTIONS) expect(text.filter((t) => t === caution), caution).toHaveLength(1);
+      expect(text.filter((t) => t === UNBLINDED_CAUTION)).toHaveLength(mode === 'unblinded' ? 1 : 0);
+      // The link target is A1, so the cautions must open the sheet.
+      expect(summary.blocks[0]).toMatchObject({ kind: 'paragraph', text: CAUTIONS[0], style: 'caution' });
+    });
+
+    it(`in ${mode} mode every other sheet opens with the one-line caution linked to the summary sheet's A1, and no full caution`, async () => {
+      const out = await runAnalysis(cells, settings(mode));
+      expect(out.ok).toBe(true);
+      if (!out.ok) return;
+      const others = out.sheets.slice(1);
+      expect(others.length).toBeGreaterThanOrEqual(5);
+      for (const sheet of others) {
+        const first = sheet.blocks[0]!;
+        expect(first, sheet.name).toEqual({
+          kind: 'paragraph',
+          text: mode === 'unblinded' ? `${CAUTION_LINE} ${UNBLINDED_LINE}` : CAUTION_LINE,
+          style: 'caution',
+          link: { sheet: SUMMARY_SHEET_NAME, cell: 'A1' },
+        });
         const text = paragraphs(sheet);
-        for (const caution of CAUTIONS) expect(text, `${sheet.name}: ${caution}`).toContain(caution);
-        if (mode === 'unblinded') expect(text, `${sheet.name}: unblinded caution`).toContain(UNBLINDED_CAUTION);
-        else expect(text).not.toContain(UNBLINDED_CAUTION);
+        for (const caution of [...CAUTIONS, UNBLINDED_CAUTION]) expect(text, `${sheet.name}: ${caution}`).not.toContain(caution);
+        expect(sheet.blocks.filter((b) => b.kind === 'paragraph' && b.link !== undefined), sheet.name).toHaveLength(1);
       }
     });
   }
+
+  it('every sheet but the model results opens with a table right after the one-line caution (its header on row 4)', async () => {
+    const out = await runAnalysis(cells, settings('unblinded'));
+    if (!out.ok) throw new Error('the demo must run');
+    for (const sheet of out.sheets.slice(1)) {
+      if (sheet.name === 'Model results') expect(sheet.blocks[1]?.kind, 'the model sheet opens with its plain paragraph').toBe('paragraph');
+      else expect(sheet.blocks[1]?.kind, sheet.name).toBe('table');
+    }
+  });
 });

@@ -177,7 +177,7 @@ describe('runAnalysis', () => {
     ]);
     const sheet = out.sheets.find((s) => s.name === 'Model results');
     const texts = sheet?.blocks.flatMap((b) => (b.kind === 'paragraph' ? [b.text] : [])) ?? [];
-    expect(texts[0]).toBe('No model was fitted: all 11 values are equal (50), so there is no variation for the model to describe. No estimates, intervals or p-values are shown, because any would be wrong. The visit-timing sheets are not affected.');
+    expect(texts[1]).toBe('No model was fitted: all 11 values are equal (50), so there is no variation for the model to describe. No estimates, intervals or p-values are shown, because any would be wrong. The visit-timing sheets are not affected.');
     expect(sheet?.blocks.some((b) => b.kind === 'table')).toBe(false);
   });
 

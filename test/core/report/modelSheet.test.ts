@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { fitRandomIntercept, type FitOptions, type ModelData, type ModelFit } from '../../../src/core/model';
-import { CAUTIONS, UNBLINDED_CAUTION } from '../../../src/core/report/cautions';
+import { CAUTIONS, UNBLINDED_CAUTION, cautionLine } from '../../../src/core/report/cautions';
 import { modelJson } from '../../../src/core/report/modelJson';
 import { ModelReportError, modelSheets, type ModelSheetContext } from '../../../src/core/report/modelSheet';
 import { fitVerdict, num, pPhrase } from '../../../src/core/report/modelText';
@@ -43,23 +43,31 @@ describe('modelSheets', () => {
   it('opens with a plain paragraph naming participants, measurements and the last-visit difference with its interval', () => {
     const [sheet] = modelSheets(fit, ctx('unblinded', false));
     expect(sheet!.name).toBe('Model results');
-    const first = sheet!.blocks[0]!;
+    const first = sheet!.blocks[1]!;
     expect(first.kind).toBe('paragraph');
     const text = first.kind === 'paragraph' ? first.text : '';
     expect(text).toContain('150 measurements from 30 participants');
     const last = fit.treatmentEffects.find((t) => t.label === 'Week 48')!;
     expect(text).toContain('At Week 48 (study day 337) the mean of Drug differed from Placebo');
     expect(text).toContain(`by ${num(last.estimate)} (95% confidence interval ${num(last.lower)} to ${num(last.upper)}; ${pPhrase(last.p)})`);
-    expect(text).toMatch(/cautions below: an interim look is not a final analysis/);
+    expect(text).toMatch(/cautions on the summary sheet: an interim look is not a final analysis/);
   });
 
-  it('carries every caution, and the unblinded caution in unblinded mode only', () => {
+  it('opens each sheet with the one-line caution linked to the summary sheet (unblinded words in unblinded mode only), never the full cautions', () => {
     const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
-    const texts = (mode: 'blinded' | 'unblinded'): string[] =>
-      modelSheets(mode === 'blinded' ? blind : fit, ctx(mode, true)).flatMap((sh) => sh.blocks.flatMap((b) => (b.kind === 'paragraph' && b.style === 'caution' ? [b.text] : [])));
-    // Both sheets (results and per participant) carry them.
-    expect(texts('unblinded')).toEqual([...CAUTIONS, UNBLINDED_CAUTION, ...CAUTIONS, UNBLINDED_CAUTION]);
-    expect(texts('blinded')).toEqual([...CAUTIONS, ...CAUTIONS]);
+    const sheetsOf = (mode: 'blinded' | 'unblinded') => modelSheets(mode === 'blinded' ? blind : fit, ctx(mode, true));
+    for (const mode of ['blinded', 'unblinded'] as const) {
+      // Both sheets (results and per participant) open with it.
+      const sheets = sheetsOf(mode);
+      expect(sheets).toHaveLength(2);
+      for (const sh of sheets) {
+        expect(sh.blocks[0]).toEqual(cautionLine(mode));
+        const texts = sh.blocks.flatMap((b) => (b.kind === 'paragraph' ? [b.text] : []));
+        for (const c of [...CAUTIONS, UNBLINDED_CAUTION]) expect(texts).not.toContain(c);
+      }
+    }
+    expect(cautionLine('unblinded').text).toMatch(/Unblinded/);
+    expect(cautionLine('blinded').text).not.toMatch(/nblinded/);
   });
 
   it('has the fixed-effects, by-visit, slope, variance, model-fit, trajectory and observed tables with consistent shapes', () => {
@@ -98,7 +106,7 @@ describe('modelSheets', () => {
     const all = JSON.stringify(sheets);
     expect(all).not.toContain('Drug');
     expect(all).not.toContain('Placebo');
-    const first = sheets[0]!.blocks[0]!;
+    const first = sheets[0]!.blocks[1]!;
     expect(first.kind === 'paragraph' ? first.text : '').toMatch(/intraclass correlation is 0\.\d+/);
     expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'ModelFit', 'FitCounts', 'NaiveFit', 'Trajectories', 'ObservedMeans']);
   });
@@ -123,7 +131,7 @@ describe('modelSheets', () => {
 
   it('in blinded mode the opening paragraph says nothing by arm: no treatment difference, no slope difference', () => {
     const blind = fitRandomIntercept({ ...egfr(), armIndex: null, arms: [] }, opts);
-    const first = modelSheets(blind, { observed: [], mode: 'blinded', perSubject: false, subjectIds: [] })[0]!.blocks[0]!;
+    const first = modelSheets(blind, { observed: [], mode: 'blinded', perSubject: false, subjectIds: [] })[0]!.blocks[1]!;
     const text = first.kind === 'paragraph' ? first.text : '';
     expect(text).toContain('pooled over all participants');
     expect(text).not.toMatch(/differed|treatment|\barms?\b/i);

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { classifyVisits } from '../../../src/core/schedule/classify';
 import { computeStudyDays } from '../../../src/core/schedule/computeStudyDays';
 import type { ScheduleVisit } from '../../../src/core/schedule/types';
-import { UNBLINDED_CAUTION } from '../../../src/core/report/cautions';
+import { UNBLINDED_CAUTION, UNBLINDED_LINE, cautionLine } from '../../../src/core/report/cautions';
 import { summarizeTiming } from '../../../src/core/report/summarizeTiming';
 import { timingJson } from '../../../src/core/report/timingJson';
 import { timingSheets } from '../../../src/core/report/timingSheets';
@@ -97,12 +97,13 @@ describe('visit-timing reports (hand-worked example above)', () => {
     expect(JSON.parse(JSON.stringify(j))).toEqual(j);
   });
 
-  it('unblinded sheets carry the by-arm table and the unblinded caution', () => {
+  it('unblinded sheets carry the by-arm table and open with the one-line caution in its unblinded form', () => {
     const sheets = timingSheets(s);
     expect(sheets.map((x) => x.name)).toEqual(['Visit timing', 'Visit deviations', 'Visits due']);
     const blocks = sheets[0]!.blocks;
     expect(blocks.some((b) => b.kind === 'table' && b.id === 'ByArmVisit')).toBe(true);
-    expect(blocks.some((b) => b.kind === 'paragraph' && b.text === UNBLINDED_CAUTION)).toBe(true);
+    for (const sheet of sheets) expect(sheet.blocks[0]).toEqual(cautionLine('unblinded'));
+    expect(JSON.stringify(sheets)).not.toContain(UNBLINDED_CAUTION);
     const summary = blocks.find((b) => b.kind === 'paragraph' && b.text.startsWith('As of'));
     expect(summary).toEqual({
       kind: 'paragraph',
@@ -134,6 +135,7 @@ describe('visit-timing reports (hand-worked example above)', () => {
     const text = JSON.stringify(timingSheets(blinded));
     expect(text).not.toContain('ByArmVisit');
     expect(text).not.toContain(UNBLINDED_CAUTION);
+    expect(text).not.toContain(UNBLINDED_LINE);
     expect(text).not.toContain('"Arm"');
   });
 });

@@ -96,10 +96,11 @@ export const WIDENED =
 
 /**
  * How the logit-Wald ICC interval compares with the exact one where both apply: measured by
- * test/core/model/iccInterval.test.ts on the balanced rail (Devore 2000) and dyestuff (Davies 1947) data.
+ * test/core/model/iccInterval.test.ts on the balanced rail (Devore 2000) and dyestuff (Davies 1947) data. Shown to
+ * users, so it names no data set: only what was found.
  */
 export const LOGIT_WALD_VS_EXACT =
-  'on balanced data with 6 participants, where the exact interval is known (Devore 2000 rails; Davies 1947 dyestuff), it differed from the exact F-based interval by up to 0.044 in a limit, so with few participants read it as approximate';
+  'on published balanced data with 6 participants, where the exact interval is known, it differed from the exact F-based interval by up to 0.044 in a limit, so with few participants read it as approximate';
 
 /**
  * Wald interval for the ICC on the logit scale: logit ICC = log σ²_u − log σ², whose variance by the delta method is

@@ -53,6 +53,7 @@ describe('the logit-Wald ICC interval against the exact interval on balanced dat
   });
   it('the note shown with an unbalanced-data ICC interval states these differences', () => {
     expect(LOGIT_WALD_VS_EXACT).toContain('0.044');
-    expect(LOGIT_WALD_VS_EXACT).toMatch(/Devore 2000.*Davies 1947/);
+    // Shown to users: it states the finding without naming the data sets behind the test.
+    expect(LOGIT_WALD_VS_EXACT).not.toMatch(/Devore|Davies|rail|dyestuff/i);
   });
 });

@@ -78,3 +78,19 @@ describe('the cautions of SPEC §2: in full on the summary sheet, a one-line cau
     }
   });
 });
+
+describe('no name of a data set behind the tests appears in what users see', () => {
+  // The data sets the model tests check against (test/core/model/helpers.ts and their sources); user-facing text may
+  // state what those checks found, never which data they used.
+  const NAMES = /\b(rails?|dyestuff|Devore|Davies)\b/i;
+  it('in either mode, no sheet text and no JSON text names them, including the note on how the ICC interval was computed', async () => {
+    for (const mode of ['blinded', 'unblinded'] as const) {
+      const out = await runAnalysis(cells, settings(mode));
+      if (!out.ok) throw new Error('the demo must run');
+      const all = JSON.stringify(out);
+      // The demo is unbalanced, so its ICC interval comes with the note that compares it with the exact interval.
+      expect(all).toContain('0.044');
+      expect(all).not.toMatch(NAMES);
+    }
+  });
+});

@@ -3,6 +3,7 @@ import { readTable } from '../intake/readTable';
 import { fingerprintCells } from '../report/fingerprint';
 import { summarizeTiming } from '../report/summarizeTiming';
 import { timingJson } from '../report/timingJson';
+import { modelTechnicalNotes } from '../report/modelSheet';
 import { summarySheet } from '../report/summarySheet';
 import { timingSheets } from '../report/timingSheets';
 import type { SheetSpec } from '../report/types';
@@ -127,7 +128,8 @@ export async function runAnalysis(
     summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
     ...timingSheets(summary),
     ...model.sheets,
-    recordSheet({ settings, table, excluded, fingerprint, summary, rowsTiming: usedForTiming, rowsModel: usedForModel, referenceArm, notes: modelNote === null ? notes : [...notes, `The model was not fitted: ${modelNote}.`] }),
+    // The model's technical notes (intervals, likelihood, AIC/BIC, convergence) go to the record, not the model sheet.
+    recordSheet({ settings, table, excluded, fingerprint, summary, rowsTiming: usedForTiming, rowsModel: usedForModel, referenceArm, notes: [...notes, ...(fit === null ? [] : modelTechnicalNotes(fit)), ...(modelNote === null ? [] : [`The model was not fitted: ${modelNote}.`])] }),
   ];
   const json = resultsJson({
     settings,

@@ -20,7 +20,7 @@ export { timingJson } from './timingJson';
 export type { JsonDay, VisitJson, VisitsJson } from './timingJson';
 export { analysisRecordSheet, mappingLines } from './record';
 export type { AnalysisRecordInput, MappingLine, RecordExclusion } from './record';
-export { MODEL_SHEET_NAMES, ModelReportError, modelNotFittedSheet, modelSheets } from './modelSheet';
+export { MODEL_SHEET_NAMES, ModelReportError, modelNotFittedSheet, modelSheets, modelTechnicalNotes } from './modelSheet';
 export type { ModelSheetContext, ObservedVisitMean } from './modelSheet';
 export { modelJson } from './modelJson';
 export { FIT_STATUS_WORDS, modelSummaryText } from './modelText';

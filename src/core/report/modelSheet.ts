@@ -8,7 +8,7 @@
 import type { Mode } from '../intake/types';
 import type { ContrastResult, ModelFit } from '../model/types';
 import { cautionLine } from './cautions';
-import { fitVerdict, modelSummaryText } from './modelText';
+import { FIT_STATUS_WORDS, fitVerdict, modelSummaryText } from './modelText';
 import { cell, col, levelPercent, para } from './blockParts';
 import { DF_DESCRIPTIONS } from './dfNotes';
 import { modelExtraBlocks } from './modelExtras';
@@ -122,7 +122,6 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
       ['Intraclass correlation', cell(v.icc), null, cell(v.iccLower), cell(v.iccUpper)],
     ],
   });
-  blocks.push(para(`How the intervals were computed: ${v.intervalMethod}`));
 
   blocks.push({
     kind: 'table',
@@ -132,10 +131,10 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
     rows: [
       ['Estimation', null, fit.method === 'reml' ? 'Restricted maximum likelihood (REML)' : 'Maximum likelihood'],
       ['Degrees of freedom', null, DF_DESCRIPTIONS[fit.dfMethod]],
-      ['Log-likelihood', cell(fit.logLik), fit.method === 'reml' ? 'restricted log-likelihood, constants included' : 'constants included'],
-      ['AIC', cell(fit.aic), `−2 × log-likelihood + 2k, k = ${fit.nParameters} (fixed effects + 2 variances)`],
-      ['BIC', cell(fit.bic), `−2 × log-likelihood + k × log(N), N = ${fit.bicN}${fit.method === 'reml' ? ' (measurements − fixed effects)' : ' (measurements)'}`],
-      ['Verdict', null, fitVerdict(fit)],
+      ['Log-likelihood', cell(fit.logLik), 'higher means a closer fit'],
+      ['AIC', cell(fit.aic), 'for comparing fits of the same data: lower is better'],
+      ['BIC', cell(fit.bic), 'for comparing fits of the same data: lower is better'],
+      ['Verdict', null, FIT_STATUS_WORDS[fit.status]],
     ],
   });
   blocks.push({
@@ -147,7 +146,6 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
       ['Participants', fit.nSubjects],
       ['Measurements', fit.nObservations],
       ['Fixed effects', fit.fixedEffects.length],
-      ['Likelihood evaluations', fit.iterations],
     ],
   });
 
@@ -247,4 +245,20 @@ function perParticipantSheet(fit: ModelFit, mode: Mode, unblinded: boolean): She
       ),
     ],
   };
+}
+
+/**
+ * The model's technical notes, in plain sentences, for the analysis record (the model sheet keeps the tables a reader
+ * needs): how the intervals were computed, what the log-likelihood includes, how AIC and BIC are defined, how many
+ * likelihood evaluations the fit took and the convergence detail.
+ * Example: modelTechnicalNotes(fit)[0] → "How the intervals were computed: Variances: scaled chi-square intervals …"
+ */
+export function modelTechnicalNotes(fit: ModelFit): string[] {
+  const k = fit.nParameters;
+  return [
+    `How the intervals were computed: ${fit.variance.intervalMethod}`,
+    `The log-likelihood is the ${fit.method === 'reml' ? 'restricted log-likelihood' : 'log-likelihood'} with its constants included.`,
+    `AIC = −2 × log-likelihood + 2k and BIC = −2 × log-likelihood + k × log(N), with k = ${k} (the fixed effects and the 2 variances) and N = ${fit.bicN} (${fit.method === 'reml' ? 'measurements minus fixed effects' : 'measurements'}).`,
+    `The fit took ${fit.iterations} likelihood evaluations. Convergence: ${fitVerdict(fit)}`,
+  ];
 }

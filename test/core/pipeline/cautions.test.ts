@@ -94,3 +94,16 @@ describe('no name of a data set behind the tests appears in what users see', () 
     }
   });
 });
+
+describe('the analysis record carries the model technical notes in plain sentences', () => {
+  it('lists how the intervals were computed, the likelihood evaluations and the AIC/BIC definitions under its notes', async () => {
+    const out = await runAnalysis(cells, settings('blinded'));
+    if (!out.ok) throw new Error('the demo must run');
+    const record = out.sheets[out.sheets.length - 1]!;
+    expect(record.name).toBe('Analysis record');
+    const text = paragraphs(record).join('\n');
+    expect(text).toMatch(/How the intervals were computed: /);
+    expect(text).toMatch(/The fit took \d+ likelihood evaluations\. Convergence: Converged/);
+    expect(text).toMatch(/AIC = −2 × log-likelihood \+ 2k/);
+  });
+});

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { fitRandomIntercept, type FitOptions, type ModelData, type ModelFit } from '../../../src/core/model';
 import { CAUTIONS, UNBLINDED_CAUTION, cautionLine } from '../../../src/core/report/cautions';
 import { modelJson } from '../../../src/core/report/modelJson';
-import { ModelReportError, modelSheets, type ModelSheetContext } from '../../../src/core/report/modelSheet';
+import { ModelReportError, modelSheets, modelTechnicalNotes, type ModelSheetContext } from '../../../src/core/report/modelSheet';
 import { fitVerdict, num, pPhrase } from '../../../src/core/report/modelText';
 import { formatCell } from '../../../src/core/report/formats';
 import type { TableBlock } from '../../../src/core/report/types';
@@ -111,9 +111,11 @@ describe('modelSheets', () => {
     expect(tables(sheets).map((t) => t.id)).toEqual(['FixedEffects', 'VarianceICC', 'ModelFit', 'FitCounts', 'NaiveFit', 'Trajectories', 'ObservedMeans']);
   });
 
-  it('the verdict row gives the status word once, then what the engine adds ("Converged. Converged." never appears)', () => {
+  it('the verdict row gives the status word; the detail from the engine goes to the technical notes once ("Converged. Converged." never appears)', () => {
     const fitStats = tables(modelSheets(fit, ctx('unblinded', false))).find((t) => t.id === 'ModelFit')!;
-    const verdict = fitStats.rows.find((r) => r[0] === 'Verdict')![2] as string;
+    expect(fitStats.rows.find((r) => r[0] === 'Verdict')![2]).toBe('Converged');
+    const notes = modelTechnicalNotes(fit);
+    const verdict = notes.find((n) => n.includes('Convergence: '))!.split('Convergence: ')[1]!;
     expect(verdict).toMatch(/^Converged\. The likelihood has its maximum inside the allowed range/);
     expect(verdict).not.toMatch(/Converged\.\s+Converged/);
     expect(fitVerdict({ status: 'converged', message: 'Converged.' })).toBe('Converged.');
@@ -212,5 +214,18 @@ describe('modelJson', () => {
     expect(text).not.toContain('NaN');
     expect(j.logLik).toBeNull();
     expect((j.variance as { subjectUpper: unknown }).subjectUpper).toBeNull();
+  });
+});
+
+describe('technical notes leave the model sheet for the analysis record', () => {
+  const fit: ModelFit = fitRandomIntercept(egfr(), opts);
+  it('the model sheet has no interval method, likelihood evaluation count or AIC/BIC formula; the notes have all of them', () => {
+    const text = JSON.stringify(modelSheets(fit, ctx('unblinded', true)));
+    for (const technical of ['How the intervals were computed', 'Likelihood evaluations', '−2 × log-likelihood', 'constants included', 'Satterthwaite']) expect(text).not.toContain(technical);
+    const notes = modelTechnicalNotes(fit).join(' ');
+    expect(notes).toContain(`How the intervals were computed: ${fit.variance.intervalMethod}`);
+    expect(notes).toContain(`${fit.iterations} likelihood evaluations`);
+    expect(notes).toContain(`k = ${fit.nParameters}`);
+    expect(notes).toContain(`N = ${fit.bicN}`);
   });
 });

@@ -152,11 +152,14 @@ describe('the browser page with the invented demo trial', () => {
   it('reads the demo data, proposes the CDISC columns, and reads the demo schedule', async () => {
     await pane().getByLabel('Visit data file (CSV or Excel .xlsx)').setInputFiles(DEMO_VISITS);
     await pane().getByText('Which column is which?').waitFor();
+    // The picker names the file it read (regression: the browser's own input kept saying "No file chosen").
+    await expect(pane().getByTestId('data-file-name').innerText()).resolves.toBe('egfr-visits.csv');
     expect(await pane().getByRole('combobox', { name: 'Participant', exact: true }).inputValue()).toBe('0'); // USUBJID, first column
     expect(await pane().getByRole('combobox', { name: 'Value', exact: true }).inputValue()).toBe('6'); // AVAL
     await pane().getByRole('button', { name: 'Confirm columns' }).click();
     await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
     await pane().getByRole('region', { name: 'Visit schedule' }).getByText('Week 48').waitFor();
+    await expect(pane().getByTestId('schedule-file-name').innerText()).resolves.toBe('egfr-schedule.csv');
     // The schedule table speaks the glossary's words (README, "Words we use").
     const headers = await pane().getByRole('region', { name: 'Visit schedule' }).getByRole('columnheader').allInnerTexts();
     expect(headers).toEqual(['Visit', 'Target day', 'Days allowed before', 'Days allowed after']);
@@ -408,6 +411,7 @@ describe('the browser page with the invented demo trial', () => {
     await pane()
       .getByText(/^Read egfr-visits\.xlsx \(sheet Visits\): 920 rows\./)
       .waitFor();
+    await expect(pane().getByTestId('data-file-name').innerText()).resolves.toBe('egfr-visits.xlsx (sheet Visits)');
     expect(await pane().getByRole('combobox', { name: 'Value', exact: true }).inputValue()).toBe('6');
   });
 

@@ -283,6 +283,50 @@ describe('the browser page with the invented demo trial', () => {
     await page.screenshot({ path: join(ARTIFACTS, 'page-unblinded-model.png'), fullPage: false });
   }, 180_000);
 
+  it('at 1366 × 768 nothing runs off sideways: the page does not scroll across, and each results table fits its card or scrolls inside it', async () => {
+    // 1366 × 768: a common laptop screen (regression: the arm-by-visit table ran over its card's right edge).
+    await page.setViewportSize({ width: 1366, height: 768 });
+    try {
+      const page_ = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, inner: window.innerWidth }));
+      expect(page_.scroll).toBeLessThanOrEqual(page_.inner);
+      const cards = await results()
+        .locator('section.sheet')
+        .evaluateAll((sections) =>
+          sections.map((card) => {
+            const box = card.getBoundingClientRect();
+            const tables = [...card.querySelectorAll('table')].map((table) => {
+              const wrap = table.closest('.table-wrap');
+              const t = table.getBoundingClientRect();
+              const w = wrap?.getBoundingClientRect();
+              const style = wrap === null ? null : getComputedStyle(wrap);
+              return {
+                id: table.getAttribute('data-table-id') ?? '?',
+                // Fits: the table's right edge is inside the card (half a pixel for sub-pixel layout).
+                fits: t.right <= box.right + 0.5 && t.left >= box.left - 0.5,
+                // Scrolls inside: its frame lies within the card and scrolls across by itself.
+                scrollsInside:
+                  w !== undefined &&
+                  wrap !== null &&
+                  w.right <= box.right + 0.5 &&
+                  (style?.overflowX === 'auto' || style?.overflowX === 'scroll') &&
+                  wrap.scrollWidth > wrap.clientWidth,
+              };
+            });
+            return { id: card.id, overflow: card.scrollWidth - card.clientWidth, tables };
+          }),
+        );
+      expect(cards.length).toBeGreaterThan(0);
+      await results().locator('table[data-table-id="ByArmVisit"]').scrollIntoViewIfNeeded();
+      for (const card of cards) {
+        expect(card.overflow, `card ${card.id} is wider inside than its box`).toBeLessThanOrEqual(0);
+        for (const t of card.tables) expect(t.fits || t.scrollsInside, `table ${t.id} in ${card.id}`).toBe(true);
+      }
+      await page.screenshot({ path: join(ARTIFACTS, 'page-1366.png'), fullPage: false });
+    } finally {
+      await page.setViewportSize({ width: 1280, height: 900 });
+    }
+  });
+
   it('counts show as whole numbers on the page (regression: "Patients 240.0000" in the fit counts)', async () => {
     const counts = results().locator('table[data-table-id="FitCounts"] tbody tr');
     await expect(counts.count()).resolves.toBeGreaterThan(0);

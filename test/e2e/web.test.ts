@@ -64,6 +64,8 @@ let base: string;
 let profile: string;
 const requests: string[] = [];
 const pageErrors: string[] = [];
+/** Every message the page wrote to the browser console as an error (a refused script, a failed load, a React error). */
+const consoleErrors: string[] = [];
 /** Every answer of 400 or more from the local server (regression: the page asked for a favicon that did not exist). */
 const failedResponses: string[] = [];
 
@@ -82,6 +84,9 @@ beforeAll(async () => {
   });
   page = context.pages()[0] ?? (await context.newPage());
   page.on('pageerror', (e) => pageErrors.push(e.message));
+  page.on('console', (m) => {
+    if (m.type() === 'error') consoleErrors.push(`${m.text()} (${m.location().url})`);
+  });
   await page.goto(`${base}/index.html`);
 });
 
@@ -459,12 +464,13 @@ describe('the browser page with the invented demo trial', () => {
     expect(await pane().getByRole('combobox', { name: 'Value', exact: true }).inputValue()).toBe('6');
   });
 
-  it('the page made no request to any address but the local server, and raised no script error', () => {
+  it('the page made no request to any address but the local server, no request failed, and nothing was logged as an error', () => {
     const local = (url: string): boolean =>
       url.startsWith(`${base}/`) || url.startsWith('blob:') || url.startsWith('data:');
     expect(requests.length).toBeGreaterThan(0);
     expect(requests.filter((u) => !local(u))).toEqual([]);
     expect(pageErrors).toEqual([]);
     expect(failedResponses).toEqual([]);
+    expect(consoleErrors).toEqual([]);
   });
 });

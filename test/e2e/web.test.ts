@@ -222,6 +222,25 @@ describe('the browser page with the invented demo trial', () => {
     expect([...order].sort((a, b) => a - b)).toEqual(order);
   });
 
+  it('the cut-off date is plain year-month-day text, not the browser\'s local date widget, and an impossible date is named', async () => {
+    const cutoff = pane().getByRole('textbox', { name: 'Data cut-off date', exact: true });
+    await expect(cutoff.getAttribute('type')).resolves.toBe('text');
+    await expect(cutoff.getAttribute('placeholder')).resolves.toBe('YYYY-MM-DD');
+    const problem = pane().getByText(/^Not a calendar date written year-month-day/);
+    // 30 February does not exist (Gregorian calendar): said once the field is left.
+    await cutoff.fill('2026-02-30');
+    await cutoff.blur();
+    await problem.waitFor();
+    await expect(pane().getByText('The cut-off date is not a valid date (step 3).').count()).resolves.toBe(1);
+    await cutoff.fill('2026-03-30');
+    await cutoff.blur();
+    await problem.waitFor({ state: 'detached' });
+    await expect(cutoff.inputValue()).resolves.toBe('2026-03-30');
+    // Back to empty: the runs below use the latest visit date in the data.
+    await cutoff.fill('');
+    await cutoff.blur();
+  });
+
   it('an unblinded run, after confirming, shows visit timing by visit and the treatment difference', async () => {
     // By keyboard: the arrow key on the mode radios asks first; focus starts on the safe answer, Escape keeps the
     // pane blinded and puts focus back on the mode; the second time, Shift+Tab and Enter confirm.

@@ -79,7 +79,8 @@ export function ScheduleStep(props: ScheduleStepProps): ReactNode {
         />
       )}
       <div>
-        <Button appearance="subtle" disabled={props.busy} onClick={props.onStarter}>
+        {/* The plain (outlined) button: the subtle one had no border and read as text, not as something to press. */}
+        <Button disabled={props.busy} onClick={props.onStarter}>
           {props.allowFile ? 'Use the starter schedule' : 'Write a starter schedule sheet'}
         </Button>
         <Text as="p" size={200} className={styles.hint}>

@@ -197,6 +197,16 @@ describe('the browser page with the invented demo trial', () => {
     for (const [role, name] of controls) {
       await expect(pane().getByRole(role, { name, exact: true }).count(), `${role} "${name}"`).resolves.toBe(1);
     }
+    // The starter-schedule control looks like a button: it has a visible outline (regression: a borderless "subtle"
+    // button that read as plain text).
+    const starter = await pane()
+      .getByRole('button', { name: 'Use the starter schedule', exact: true })
+      .evaluate((el) => {
+        const style = getComputedStyle(el);
+        return { width: style.borderTopWidth, colour: style.borderTopColor };
+      });
+    expect(starter.width).not.toBe('0px');
+    expect(starter.colour).not.toMatch(/^(transparent|rgba\(0, 0, 0, 0\))$/);
     // The run's progress and messages are announced politely by a status region.
     await expect(pane().getByRole('status').getAttribute('aria-live')).resolves.toBe('polite');
     // Tab from the first control of the pane reaches every step's controls in reading order, each with a name,

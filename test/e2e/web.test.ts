@@ -380,6 +380,21 @@ describe('the browser page with the invented demo trial', () => {
     const model = results().locator('section.sheet', { has: page.locator('table[data-table-id="FixedEffects"]') });
     const chart = model.locator('figure.chart', { has: page.locator('svg[role="img"]') });
     await expect(chart.count()).resolves.toBe(1);
+    // Every chart's legend speaks only of what the chart drew: shaded bands (polygons), whiskers (line groups).
+    const legends = await results()
+      .locator('figure.chart')
+      .evaluateAll((figures) =>
+        figures.map((f) => ({
+          note: f.querySelector('.chart-legend-note')?.textContent ?? '',
+          bands: f.querySelectorAll('svg[role="img"] polygon[opacity="0.15"]').length, // markers are polygons too
+          whiskers: f.querySelectorAll('svg[role="img"] g[stroke] line').length,
+        })),
+      );
+    expect(legends.length).toBeGreaterThan(0);
+    for (const l of legends) {
+      expect(/shaded/i.test(l.note), l.note).toBe(l.bands > 0);
+      expect(/whiskers/i.test(l.note), l.note).toBe(l.whiskers > 0);
+    }
     // One picture from the sheet's title down to the chart: the viewport is made tall enough to hold all of it.
     const span = await model.evaluate((el) => {
       const fig = el.querySelector('figure.chart');

@@ -165,6 +165,52 @@ describe('the browser page with the invented demo trial', () => {
     await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
     await pane().getByRole('region', { name: 'Visit schedule' }).getByText('Week 48').waitFor();
     await expect(pane().getByTestId('schedule-file-name').innerText()).resolves.toBe('egfr-schedule.csv');
+    // Every visit of the demo schedule (5) is in view in the preview, each visit name on one line (regression: the
+    // preview's height cap showed 4 of 5, and a name wrapped onto two lines). Checked at the page's 350 px and at
+    // 280 px, about the narrowest an Excel task pane gets, where the headers wrap onto more lines.
+    const preview = pane().getByRole('region', { name: 'Visit schedule', exact: true });
+    const visitsShown = (): Promise<{ name: string; inView: boolean; lines: number }[]> =>
+      preview.evaluate((region) => {
+        const box = region.getBoundingClientRect();
+        return [...region.querySelectorAll('tbody tr')].map((tr) => {
+          const cell = tr.querySelector('td');
+          const r = tr.getBoundingClientRect();
+          const range = document.createRange();
+          if (cell !== null) range.selectNodeContents(cell);
+          // One line box per line of text: the distinct tops of the text's rectangles.
+          const lines = new Set([...range.getClientRects()].map((rect) => Math.round(rect.top))).size;
+          return { name: cell?.textContent ?? '', inView: r.top >= box.top - 0.5 && r.bottom <= box.bottom + 0.5, lines };
+        });
+      });
+    const setPaneWidth = (width: string): Promise<void> =>
+      pane().evaluate((el, w) => {
+        (el as HTMLElement).style.width = w;
+        (el as HTMLElement).style.flexBasis = w;
+      }, width);
+    for (const width of ['350px', '280px']) {
+      await setPaneWidth(width);
+      const shown = await visitsShown();
+      expect(shown.map((v) => v.name)).toEqual(['Baseline', 'Week 12', 'Week 24', 'Week 36', 'Week 48']);
+      for (const v of shown) expect(v, `${v.name} at ${width}`).toEqual({ name: v.name, inView: true, lines: 1 });
+      await preview.screenshot({ path: join(ARTIFACTS, `schedule-preview-${width}.png`) });
+    }
+    await setPaneWidth('');
+    // A longer schedule, generated here: 24 visits with long invented names. Still every visit shown, each name on
+    // one line (a too-wide table scrolls across inside its frame, never the pane).
+    const names = Array.from({ length: 24 }, (_, i) => `Week ${4 * (i + 1)} follow-up with extra sampling`);
+    const csv = ['visit,target_day,days_before,days_after', ...names.map((n, i) => `${n},${28 * (i + 1) + 1},7,7`)].join('\n');
+    await pane()
+      .getByLabel('Schedule file (CSV)')
+      .setInputFiles({ name: 'long-schedule.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+    await preview.getByText('24 scheduled visits').waitFor();
+    const long = await visitsShown();
+    expect(long.map((v) => v.name)).toEqual(names);
+    for (const v of long) expect(v, v.name).toEqual({ name: v.name, inView: true, lines: 1 });
+    const widths = await paneWidths();
+    expect(widths.scroll).toBe(widths.client);
+    // Back to the demo schedule for the runs below.
+    await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
+    await preview.getByText('5 scheduled visits').waitFor();
     // The schedule table speaks the glossary's words (README, "Words we use").
     const headers = await pane().getByRole('region', { name: 'Visit schedule' }).getByRole('columnheader').allInnerTexts();
     expect(headers).toEqual(['Visit', 'Target day', 'Days allowed before', 'Days allowed after']);

@@ -49,9 +49,11 @@ export function ScheduleStep(props: ScheduleStepProps): ReactNode {
       <Text>
         The schedule lists each scheduled visit, its target day and how many days it may be held before or after it.
       </Text>
-      {props.sources.length > 0 && (
+      {/* Excel chooses a sheet of the workbook here; the page has only its file picker below (a list of the files
+          already read there only repeated what the picker and the table below it show). */}
+      {!props.allowFile && props.sources.length > 0 && (
         <div className={styles.row}>
-          <Field label={props.allowFile ? 'Schedule already loaded' : 'Schedule sheet'} className={styles.grow}>
+          <Field label="Schedule sheet" className={styles.grow}>
             <Select value={choice} onChange={(_, d) => setPicked(d.value)}>
               {props.sources.map((s) => (
                 <option key={s.name} value={s.name}>

@@ -211,6 +211,10 @@ describe('the browser page with the invented demo trial', () => {
     // Back to the demo schedule for the runs below.
     await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
     await preview.getByText('5 scheduled visits').waitFor();
+    // Two schedule files have been read, yet the page offers no second control to pick one of them again
+    // (regression: a redundant "schedule already loaded / use this schedule" pair).
+    await expect(pane().getByRole('button', { name: 'Use this schedule' }).count()).resolves.toBe(0);
+    await expect(pane().getByRole('combobox', { name: /schedule/i }).count()).resolves.toBe(0);
     // The schedule table speaks the glossary's words (README, "Words we use").
     const headers = await pane().getByRole('region', { name: 'Visit schedule' }).getByRole('columnheader').allInnerTexts();
     expect(headers).toEqual(['Visit', 'Target day', 'Days allowed before', 'Days allowed after']);

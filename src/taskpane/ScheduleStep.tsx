@@ -21,7 +21,7 @@ const useStyles = makeStyles({
   col: stackStyle,
   row: { display: 'flex', gap: tokens.spacingHorizontalS, alignItems: 'end', flexWrap: 'wrap' },
   grow: { flexGrow: 1, minWidth: '140px' },
-  hint: { margin: 0, color: tokens.colorNeutralForeground2 },
+  hint: { display: 'block', margin: `${tokens.spacingVerticalXS} 0 0 0`, color: tokens.colorNeutralForeground2 },
 });
 
 export interface ScheduleStepProps {

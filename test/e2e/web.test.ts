@@ -5,7 +5,7 @@
  * nothing of any other address, and saves screenshots.
  *
  * Screenshots always go to test-artifacts/ (ignored by git). The committed pictures in docs/ (pane-demo.png for the
- * README, page-results.png) are refreshed only when the environment variable LONGIPANE_UPDATE_DOCS=1 is set:
+ * README: the whole pane after a run, all five steps, laid out in three columns; page-results.png) are refreshed only when the environment variable LONGIPANE_UPDATE_DOCS=1 is set:
  *   LONGIPANE_UPDATE_DOCS=1 npx vitest run test/e2e
  * so that an ordinary `npm test` (and CI) never changes tracked files.
  */
@@ -148,6 +148,46 @@ async function namelessControls(area: ReturnType<Page['locator']> = pane()): Pro
   return tree
     .split('\n')
     .filter((line) => /^\s*- (button|combobox|textbox|spinbutton|checkbox|radio|link|slider)( \[[^\]]*\])*:?$/.test(line));
+}
+
+/**
+ * Lays a tall picture of the whole pane out in three columns, cut where a step starts (the cuts that make the tallest
+ * column shortest), on a page of its own, and saves that: the README's picture of all five steps at a readable size.
+ */
+async function paneInColumns(picture: Buffer, stepTops: readonly number[], height: number, path: string): Promise<void> {
+  let best: [number, number] = [height, height];
+  let tallest = Number.POSITIVE_INFINITY;
+  for (const a of stepTops.slice(1))
+    for (const b of stepTops.filter((t) => t > a)) {
+      const t = Math.max(a, b - a, height - b);
+      if (t < tallest) [tallest, best] = [t, [a, b]];
+    }
+  const spans = [
+    [0, best[0]],
+    [best[0], best[1]],
+    [best[1], height],
+  ].filter(([from, to]) => (to ?? 0) > (from ?? 0)) as [number, number][];
+  const src = `data:image/png;base64,${picture.toString('base64')}`;
+  const sheet = await context.newPage();
+  try {
+    const gap = 16;
+    await sheet.setViewportSize({ width: spans.length * (350 + gap) + gap, height: Math.ceil(tallest) + 2 * gap });
+    await sheet.setContent(
+      `<body style="margin:0;background:#e6e6e6;display:flex;align-items:flex-start;gap:${gap}px;padding:${gap}px">` +
+        spans
+          .map(
+            ([from, to]) =>
+              `<div style="width:350px;height:${to - from}px;overflow:hidden;background:#fff;flex:none">` +
+              `<img src="${src}" style="display:block;margin-top:${-from}px" alt=""></div>`,
+          )
+          .join('') +
+        '</body>',
+    );
+    await sheet.waitForFunction(() => [...document.images].every((i) => i.complete && i.naturalWidth > 0));
+    await sheet.screenshot({ path });
+  } finally {
+    await sheet.close();
+  }
 }
 
 const statusTexts = (): Promise<string[]> =>
@@ -535,9 +575,17 @@ describe('the browser page with the invented demo trial', () => {
     await pane().screenshot({ path: join(ARTIFACTS, 'pane-after-demo-run.png') });
     const height = await pane().evaluate((el) => el.scrollHeight);
     await page.setViewportSize({ width: 1280, height: Math.min(8000, height) });
-    await pane().screenshot({ path: join(ARTIFACTS, 'pane-whole.png') });
+    const whole = await pane().screenshot({ path: join(ARTIFACTS, 'pane-whole.png') });
+    // Where each of the five steps starts in that picture, for the README's picture of all five side by side.
+    const stepTops = await pane().evaluate((el) => {
+      const top = el.getBoundingClientRect().top;
+      return [...el.querySelectorAll('section[id^="step-"]')].map((s) => Math.round(s.getBoundingClientRect().top - top));
+    });
     await page.setViewportSize({ width: 1280, height: 900 });
-    publish('pane-after-demo-run.png', 'pane-demo.png');
+    expect(stepTops).toHaveLength(5);
+    await paneInColumns(whole, stepTops, Math.min(8000, height), join(ARTIFACTS, 'pane-steps.png'));
+    // The README's picture shows all five steps (regression: it showed only the last two).
+    publish('pane-steps.png', 'pane-demo.png');
   }, 180_000);
 
   it('reads the same visits from an .xlsx workbook in the browser, with numbers kept as numbers', async () => {

@@ -58,7 +58,12 @@ export function DataStep(props: DataStepProps): ReactNode {
   const hidden = props.blinded ? hiddenWhileBlinded(props.headers, mapping) : [];
   return (
     <div className={styles.col}>
-      <SourcePicker kinds={props.kinds} busy={props.loading !== null} onPick={props.onPick} />
+      <SourcePicker
+        kinds={props.kinds}
+        busy={props.loading !== null}
+        onPick={props.onPick}
+        fileShown={source?.label ?? null}
+      />
       {props.loading !== null && (
         <ProgressBar
           {...(props.loading > 0 ? { value: props.loading } : {})}

@@ -1,10 +1,9 @@
 /** Step 2: choose where the visit schedule comes from (a sheet, a file, or a starter), and show it or its problem. */
-import type { ChangeEvent, ReactNode } from 'react';
-import { useId, useState } from 'react';
+import type { ReactNode } from 'react';
+import { useState } from 'react';
 import {
   Button,
   Field,
-  Label,
   MessageBar,
   MessageBarBody,
   Select,
@@ -14,6 +13,7 @@ import {
   tokens,
 } from '@fluentui/react-components';
 import type { ScheduleLoad, ScheduleSource } from './actions';
+import { FilePick } from './FilePick';
 import { ScheduleTable } from './ScheduleTable';
 import { stackStyle } from './paneStyles';
 
@@ -21,8 +21,7 @@ const useStyles = makeStyles({
   col: stackStyle,
   row: { display: 'flex', gap: tokens.spacingHorizontalS, alignItems: 'end', flexWrap: 'wrap' },
   grow: { flexGrow: 1, minWidth: '140px' },
-  hint: { margin: 0, color: tokens.colorNeutralForeground2 },
-  file: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalXS },
+  hint: { display: 'block', margin: `${tokens.spacingVerticalXS} 0 0 0`, color: tokens.colorNeutralForeground2 },
 });
 
 export interface ScheduleStepProps {
@@ -40,22 +39,21 @@ export interface ScheduleStepProps {
 
 export function ScheduleStep(props: ScheduleStepProps): ReactNode {
   const styles = useStyles();
-  const fileId = useId();
   const [picked, setPicked] = useState<string>('');
+  const [fileName, setFileName] = useState<string | null>(null);
   const choice = picked !== '' ? picked : (props.current ?? props.sources[0]?.name ?? '');
-  const onFile = (event: ChangeEvent<HTMLInputElement>): void => {
-    const file = event.target.files?.[0];
-    if (file) props.onFile(file);
-    event.target.value = '';
-  };
+  // The picker names the file only while the schedule shown is the one read from it.
+  const fileShown = fileName !== null && props.current === fileName && props.result?.ok === true ? fileName : null;
   return (
     <div className={styles.col}>
       <Text>
         The schedule lists each scheduled visit, its target day and how many days it may be held before or after it.
       </Text>
-      {props.sources.length > 0 && (
+      {/* Excel chooses a sheet of the workbook here; the page has only its file picker below (a list of the files
+          already read there only repeated what the picker and the table below it show). */}
+      {!props.allowFile && props.sources.length > 0 && (
         <div className={styles.row}>
-          <Field label={props.allowFile ? 'Schedule already loaded' : 'Schedule sheet'} className={styles.grow}>
+          <Field label="Schedule sheet" className={styles.grow}>
             <Select value={choice} onChange={(_, d) => setPicked(d.value)}>
               {props.sources.map((s) => (
                 <option key={s.name} value={s.name}>
@@ -70,20 +68,21 @@ export function ScheduleStep(props: ScheduleStepProps): ReactNode {
         </div>
       )}
       {props.allowFile && (
-        <div className={styles.file}>
-          <Label htmlFor={fileId}>Schedule file (CSV)</Label>
-          <input
-            id={fileId}
-            type="file"
-            accept=".csv,.txt"
-            disabled={props.busy}
-            onChange={onFile}
-            data-testid="schedule-file"
-          />
-        </div>
+        <FilePick
+          label="Schedule file (CSV)"
+          accept=".csv,.txt"
+          disabled={props.busy}
+          shown={fileShown}
+          onFile={(file) => {
+            setFileName(file.name);
+            props.onFile(file);
+          }}
+          testId="schedule-file"
+        />
       )}
       <div>
-        <Button appearance="subtle" disabled={props.busy} onClick={props.onStarter}>
+        {/* The plain (outlined) button: the subtle one had no border and read as text, not as something to press. */}
+        <Button disabled={props.busy} onClick={props.onStarter}>
           {props.allowFile ? 'Use the starter schedule' : 'Write a starter schedule sheet'}
         </Button>
         <Text as="p" size={200} className={styles.hint}>

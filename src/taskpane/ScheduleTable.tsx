@@ -4,12 +4,15 @@ import { makeStyles, tokens } from '@fluentui/react-components';
 import type { ScheduleVisit } from '../core/schedule/types';
 import { tableCellStyle, tableFrameStyle, tableHeadStyle } from './paneStyles';
 
+// Every visit is shown (no height cap: a cap hid the last visit of a five-visit schedule) and a visit name stays on
+// one line; a schedule too wide for the pane scrolls across inside its own frame.
 const useStyles = makeStyles({
-  wrap: { ...tableFrameStyle, maxHeight: '220px', overflowY: 'auto' },
+  wrap: { ...tableFrameStyle, overflowX: 'auto' },
   table: { borderCollapse: 'collapse', width: '100%', fontSize: tokens.fontSizeBase200 },
-  th: { ...tableHeadStyle, position: 'sticky', top: 0 },
-  num: { ...tableCellStyle, textAlign: 'right' },
-  td: tableCellStyle,
+  th: { ...tableHeadStyle, verticalAlign: 'bottom' },
+  thNum: { ...tableHeadStyle, verticalAlign: 'bottom', textAlign: 'right' },
+  num: { ...tableCellStyle, textAlign: 'right', whiteSpace: 'nowrap' },
+  td: { ...tableCellStyle, whiteSpace: 'nowrap' },
 });
 
 export function ScheduleTable({ visits }: { readonly visits: readonly ScheduleVisit[] }): ReactNode {
@@ -23,13 +26,13 @@ export function ScheduleTable({ visits }: { readonly visits: readonly ScheduleVi
             <th className={styles.th} scope="col">
               Visit
             </th>
-            <th className={styles.th} scope="col">
+            <th className={styles.thNum} scope="col">
               Target day
             </th>
-            <th className={styles.th} scope="col">
+            <th className={styles.thNum} scope="col">
               Days allowed before
             </th>
-            <th className={styles.th} scope="col">
+            <th className={styles.thNum} scope="col">
               Days allowed after
             </th>
           </tr>

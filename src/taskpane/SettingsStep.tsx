@@ -67,6 +67,10 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
   }, [asking, settings.mode, modesId]);
   const levelNumber = Number(levelText) / 100;
   const cutoffOk = settings.cutoff === '' || isIsoDate(settings.cutoff);
+  // While the cut-off is being typed, a half-written date is not called wrong; once it is ten characters long or
+  // the field is left, it is.
+  const [typingCutoff, setTypingCutoff] = useState(false);
+  const showCutoffError = !cutoffOk && (!typingCutoff || settings.cutoff.length >= 10);
   const cutoffDayOk = settings.cutoffDay === '' || isCutoffDay(settings.cutoffDay);
   return (
     <div className={styles.col}>
@@ -117,12 +121,26 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
           </Select>
         </Field>
       )}
+      {/* Plain text written year-month-day (ISO 8601), like every other date the pane shows; the browser's date
+          widget would show the date in the computer's local order instead. */}
       <Field
         label="Data cut-off date"
-        hint="Leave empty to use the latest visit date in the data."
-        {...(cutoffOk ? {} : { validationState: 'error' as const, validationMessage: 'Use a date like 2026-06-30.' })}
+        hint="Written year-month-day, like 2026-06-30. Leave empty to use the latest visit date in the data."
+        {...(showCutoffError
+          ? { validationState: 'error' as const, validationMessage: 'Not a calendar date written year-month-day: use a date like 2026-06-30.' }
+          : {})}
       >
-        <Input type="date" value={settings.cutoff} onChange={(_, d) => set({ cutoff: d.value })} />
+        <Input
+          type="text"
+          placeholder="YYYY-MM-DD"
+          maxLength={10}
+          autoComplete="off"
+          spellCheck={false}
+          value={settings.cutoff}
+          onFocus={() => setTypingCutoff(true)}
+          onBlur={() => setTypingCutoff(false)}
+          onChange={(_, d) => set({ cutoff: d.value.trim() })}
+        />
       </Field>
       <Field
         label="Data cut-off study day"

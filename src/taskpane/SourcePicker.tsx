@@ -1,11 +1,11 @@
 /** The ways the host offers to bring data in: the selected cells, the whole sheet, or a file on the page. */
-import type { ChangeEvent, ReactNode } from 'react';
-import { useId } from 'react';
-import { Button, Label, makeStyles, tokens } from '@fluentui/react-components';
+import type { ReactNode } from 'react';
+import { Button, makeStyles, tokens } from '@fluentui/react-components';
+import { FilePick } from './FilePick';
 
 const useStyles = makeStyles({
   row: { display: 'flex', flexWrap: 'wrap', gap: tokens.spacingHorizontalS },
-  file: { display: 'flex', flexDirection: 'column', gap: tokens.spacingVerticalXS },
+  file: { flexBasis: '100%', minWidth: 0 },
 });
 
 export type SourceKind = 'selection' | 'usedRange' | 'file';
@@ -14,16 +14,12 @@ export interface SourcePickerProps {
   readonly kinds: readonly SourceKind[];
   readonly busy: boolean;
   readonly onPick: (kind: SourceKind, file?: File) => void;
+  /** What the pane has read from a file (its name), shown beside the file picker; null before any. */
+  readonly fileShown?: string | null;
 }
 
-export function SourcePicker({ kinds, busy, onPick }: SourcePickerProps): ReactNode {
+export function SourcePicker({ kinds, busy, onPick, fileShown = null }: SourcePickerProps): ReactNode {
   const styles = useStyles();
-  const fileId = useId();
-  const onFile = (event: ChangeEvent<HTMLInputElement>): void => {
-    const file = event.target.files?.[0];
-    if (file) onPick('file', file);
-    event.target.value = '';
-  };
   return (
     <div className={styles.row}>
       {kinds.includes('selection') && (
@@ -38,14 +34,13 @@ export function SourcePicker({ kinds, busy, onPick }: SourcePickerProps): ReactN
       )}
       {kinds.includes('file') && (
         <div className={styles.file}>
-          <Label htmlFor={fileId}>Visit data file (CSV or Excel .xlsx)</Label>
-          <input
-            id={fileId}
-            type="file"
+          <FilePick
+            label="Visit data file (CSV or Excel .xlsx)"
             accept=".csv,.txt,.xlsx"
             disabled={busy}
-            onChange={onFile}
-            data-testid="data-file"
+            shown={fileShown}
+            onFile={(file) => onPick('file', file)}
+            testId="data-file"
           />
         </div>
       )}

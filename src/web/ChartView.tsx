@@ -93,6 +93,13 @@ export interface ChartViewProps {
   readonly yAxis?: 'plain' | 'percent';
 }
 
+/** The legend's sentence about intervals, naming only what the chart drew (regression: it spoke of shaded bands on
+ * charts that had whiskers only); null when it drew neither. */
+export function intervalLegend(bands: boolean, whiskers: boolean): string | null {
+  const what = bands && whiskers ? 'Shaded bands and whiskers show' : bands ? 'Shaded bands show' : whiskers ? 'Whiskers show' : null;
+  return what === null ? null : `${what} the interval or range described with the table above.`;
+}
+
 export function ChartView({ chart, yAxis = 'plain' }: ChartViewProps): ReactNode {
   const geo = xGeometry(chart);
   const groups = [...new Set(chart.series.map((s) => colourGroup(s.name)))];
@@ -121,6 +128,8 @@ export function ChartView({ chart, yAxis = 'plain' }: ChartViewProps): ReactNode
     });
     const lineStyle = chart.kind !== 'bar' && (s.style === 'line' || (s.style === undefined && chart.kind === 'line'));
     const intervals = s.lower !== undefined && s.upper !== undefined;
+    let band = false;
+    let whiskers = false;
     if (intervals && lineStyle && geo.band === 0) {
       const top: string[] = [];
       const bottom: string[] = [];
@@ -133,14 +142,17 @@ export function ChartView({ chart, yAxis = 'plain' }: ChartViewProps): ReactNode
           bottom.unshift(`${x},${sy(lo)}`);
         }
       });
-      if (top.length > 1)
+      if (top.length > 1) {
         parts.push(<polygon key="band" points={[...top, ...bottom].join(' ')} fill={colour} opacity={0.15} />);
+        band = true;
+      }
     } else if (intervals) {
       s.y.forEach((_, i) => {
         const x = xs[i];
         const lo = s.lower?.[i];
         const hi = s.upper?.[i];
         if (x === null || x === undefined || !fin(lo) || !fin(hi)) return;
+        whiskers = true;
         parts.push(
           <g key={`w${i}`} stroke={colour} strokeWidth={1.5}>
             <line x1={x} x2={x} y1={sy(lo)} y2={sy(hi)} />
@@ -192,8 +204,12 @@ export function ChartView({ chart, yAxis = 'plain' }: ChartViewProps): ReactNode
         if (p && showMarkers) parts.push(marker(shape, p.x, p.y, colour, `m${i}`));
       });
     }
-    return { name: s.name, colour, shape, line: lineStyle, node: <g key={k}>{parts}</g> };
+    return { name: s.name, colour, shape, line: lineStyle, band, whiskers, node: <g key={k}>{parts}</g> };
   });
+  const intervalNote = intervalLegend(
+    drawn.some((d) => d.band),
+    drawn.some((d) => d.whiskers),
+  );
 
   const description = `${chart.title}. ${chart.yLabel} against ${chart.xLabel}; series: ${chart.series.map((s) => s.name).join(', ')}.`;
   return (
@@ -253,7 +269,7 @@ export function ChartView({ chart, yAxis = 'plain' }: ChartViewProps): ReactNode
           {chart.yLabel}
         </text>
       </svg>
-      {drawn.length > 1 || chart.series.some((s) => s.lower !== undefined) ? (
+      {drawn.length > 1 || intervalNote !== null ? (
         <ul className="chart-legend" aria-label="Legend">
           {drawn.map((d) => (
             <li key={d.name}>
@@ -267,11 +283,7 @@ export function ChartView({ chart, yAxis = 'plain' }: ChartViewProps): ReactNode
               {d.name}
             </li>
           ))}
-          {chart.series.some((s) => s.lower !== undefined) && (
-            <li className="chart-legend-note">
-              Shaded bands and whiskers show the interval or range described with the table above.
-            </li>
-          )}
+          {intervalNote !== null && <li className="chart-legend-note">{intervalNote}</li>}
         </ul>
       ) : null}
     </figure>

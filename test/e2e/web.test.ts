@@ -5,7 +5,7 @@
  * nothing of any other address, and saves screenshots.
  *
  * Screenshots always go to test-artifacts/ (ignored by git). The committed pictures in docs/ (pane-demo.png for the
- * README, page-results.png) are refreshed only when the environment variable LONGIPANE_UPDATE_DOCS=1 is set:
+ * README: the whole pane after a run, all five steps, laid out in three columns; page-results.png) are refreshed only when the environment variable LONGIPANE_UPDATE_DOCS=1 is set:
  *   LONGIPANE_UPDATE_DOCS=1 npx vitest run test/e2e
  * so that an ordinary `npm test` (and CI) never changes tracked files.
  */
@@ -64,6 +64,8 @@ let base: string;
 let profile: string;
 const requests: string[] = [];
 const pageErrors: string[] = [];
+/** Every message the page wrote to the browser console as an error (a refused script, a failed load, a React error). */
+const consoleErrors: string[] = [];
 /** Every answer of 400 or more from the local server (regression: the page asked for a favicon that did not exist). */
 const failedResponses: string[] = [];
 
@@ -82,6 +84,9 @@ beforeAll(async () => {
   });
   page = context.pages()[0] ?? (await context.newPage());
   page.on('pageerror', (e) => pageErrors.push(e.message));
+  page.on('console', (m) => {
+    if (m.type() === 'error') consoleErrors.push(`${m.text()} (${m.location().url})`);
+  });
   await page.goto(`${base}/index.html`);
 });
 
@@ -145,6 +150,46 @@ async function namelessControls(area: ReturnType<Page['locator']> = pane()): Pro
     .filter((line) => /^\s*- (button|combobox|textbox|spinbutton|checkbox|radio|link|slider)( \[[^\]]*\])*:?$/.test(line));
 }
 
+/**
+ * Lays a tall picture of the whole pane out in three columns, cut where a step starts (the cuts that make the tallest
+ * column shortest), on a page of its own, and saves that: the README's picture of all five steps at a readable size.
+ */
+async function paneInColumns(picture: Buffer, stepTops: readonly number[], height: number, path: string): Promise<void> {
+  let best: [number, number] = [height, height];
+  let tallest = Number.POSITIVE_INFINITY;
+  for (const a of stepTops.slice(1))
+    for (const b of stepTops.filter((t) => t > a)) {
+      const t = Math.max(a, b - a, height - b);
+      if (t < tallest) [tallest, best] = [t, [a, b]];
+    }
+  const spans = [
+    [0, best[0]],
+    [best[0], best[1]],
+    [best[1], height],
+  ].filter(([from, to]) => (to ?? 0) > (from ?? 0)) as [number, number][];
+  const src = `data:image/png;base64,${picture.toString('base64')}`;
+  const sheet = await context.newPage();
+  try {
+    const gap = 16;
+    await sheet.setViewportSize({ width: spans.length * (350 + gap) + gap, height: Math.ceil(tallest) + 2 * gap });
+    await sheet.setContent(
+      `<body style="margin:0;background:#e6e6e6;display:flex;align-items:flex-start;gap:${gap}px;padding:${gap}px">` +
+        spans
+          .map(
+            ([from, to]) =>
+              `<div style="width:350px;height:${to - from}px;overflow:hidden;background:#fff;flex:none">` +
+              `<img src="${src}" style="display:block;margin-top:${-from}px" alt=""></div>`,
+          )
+          .join('') +
+        '</body>',
+    );
+    await sheet.waitForFunction(() => [...document.images].every((i) => i.complete && i.naturalWidth > 0));
+    await sheet.screenshot({ path });
+  } finally {
+    await sheet.close();
+  }
+}
+
 const statusTexts = (): Promise<string[]> =>
   page.evaluate(() => (window as unknown as { statusTexts?: string[] }).statusTexts ?? []);
 
@@ -152,11 +197,64 @@ describe('the browser page with the invented demo trial', () => {
   it('reads the demo data, proposes the CDISC columns, and reads the demo schedule', async () => {
     await pane().getByLabel('Visit data file (CSV or Excel .xlsx)').setInputFiles(DEMO_VISITS);
     await pane().getByText('Which column is which?').waitFor();
+    // The picker names the file it read (regression: the browser's own input kept saying "No file chosen").
+    await expect(pane().getByTestId('data-file-name').innerText()).resolves.toBe('egfr-visits.csv');
     expect(await pane().getByRole('combobox', { name: 'Participant', exact: true }).inputValue()).toBe('0'); // USUBJID, first column
     expect(await pane().getByRole('combobox', { name: 'Value', exact: true }).inputValue()).toBe('6'); // AVAL
     await pane().getByRole('button', { name: 'Confirm columns' }).click();
     await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
     await pane().getByRole('region', { name: 'Visit schedule' }).getByText('Week 48').waitFor();
+    await expect(pane().getByTestId('schedule-file-name').innerText()).resolves.toBe('egfr-schedule.csv');
+    // Every visit of the demo schedule (5) is in view in the preview, each visit name on one line (regression: the
+    // preview's height cap showed 4 of 5, and a name wrapped onto two lines). Checked at the page's 350 px and at
+    // 280 px, about the narrowest an Excel task pane gets, where the headers wrap onto more lines.
+    const preview = pane().getByRole('region', { name: 'Visit schedule', exact: true });
+    const visitsShown = (): Promise<{ name: string; inView: boolean; lines: number }[]> =>
+      preview.evaluate((region) => {
+        const box = region.getBoundingClientRect();
+        return [...region.querySelectorAll('tbody tr')].map((tr) => {
+          const cell = tr.querySelector('td');
+          const r = tr.getBoundingClientRect();
+          const range = document.createRange();
+          if (cell !== null) range.selectNodeContents(cell);
+          // One line box per line of text: the distinct tops of the text's rectangles.
+          const lines = new Set([...range.getClientRects()].map((rect) => Math.round(rect.top))).size;
+          return { name: cell?.textContent ?? '', inView: r.top >= box.top - 0.5 && r.bottom <= box.bottom + 0.5, lines };
+        });
+      });
+    const setPaneWidth = (width: string): Promise<void> =>
+      pane().evaluate((el, w) => {
+        (el as HTMLElement).style.width = w;
+        (el as HTMLElement).style.flexBasis = w;
+      }, width);
+    for (const width of ['350px', '280px']) {
+      await setPaneWidth(width);
+      const shown = await visitsShown();
+      expect(shown.map((v) => v.name)).toEqual(['Baseline', 'Week 12', 'Week 24', 'Week 36', 'Week 48']);
+      for (const v of shown) expect(v, `${v.name} at ${width}`).toEqual({ name: v.name, inView: true, lines: 1 });
+      await preview.screenshot({ path: join(ARTIFACTS, `schedule-preview-${width}.png`) });
+    }
+    await setPaneWidth('');
+    // A longer schedule, generated here: 24 visits with long invented names. Still every visit shown, each name on
+    // one line (a too-wide table scrolls across inside its frame, never the pane).
+    const names = Array.from({ length: 24 }, (_, i) => `Week ${4 * (i + 1)} follow-up with extra sampling`);
+    const csv = ['visit,target_day,days_before,days_after', ...names.map((n, i) => `${n},${28 * (i + 1) + 1},7,7`)].join('\n');
+    await pane()
+      .getByLabel('Schedule file (CSV)')
+      .setInputFiles({ name: 'long-schedule.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+    await preview.getByText('24 scheduled visits').waitFor();
+    const long = await visitsShown();
+    expect(long.map((v) => v.name)).toEqual(names);
+    for (const v of long) expect(v, v.name).toEqual({ name: v.name, inView: true, lines: 1 });
+    const widths = await paneWidths();
+    expect(widths.scroll).toBe(widths.client);
+    // Back to the demo schedule for the runs below.
+    await pane().getByLabel('Schedule file (CSV)').setInputFiles(DEMO_SCHEDULE);
+    await preview.getByText('5 scheduled visits').waitFor();
+    // Two schedule files have been read, yet the page offers no second control to pick one of them again
+    // (regression: a redundant "schedule already loaded / use this schedule" pair).
+    await expect(pane().getByRole('button', { name: 'Use this schedule' }).count()).resolves.toBe(0);
+    await expect(pane().getByRole('combobox', { name: /schedule/i }).count()).resolves.toBe(0);
     // The schedule table speaks the glossary's words (README, "Words we use").
     const headers = await pane().getByRole('region', { name: 'Visit schedule' }).getByRole('columnheader').allInnerTexts();
     expect(headers).toEqual(['Visit', 'Target day', 'Days allowed before', 'Days allowed after']);
@@ -189,6 +287,16 @@ describe('the browser page with the invented demo trial', () => {
     for (const [role, name] of controls) {
       await expect(pane().getByRole(role, { name, exact: true }).count(), `${role} "${name}"`).resolves.toBe(1);
     }
+    // The starter-schedule control looks like a button: it has a visible outline (regression: a borderless "subtle"
+    // button that read as plain text).
+    const starter = await pane()
+      .getByRole('button', { name: 'Use the starter schedule', exact: true })
+      .evaluate((el) => {
+        const style = getComputedStyle(el);
+        return { width: style.borderTopWidth, colour: style.borderTopColor };
+      });
+    expect(starter.width).not.toBe('0px');
+    expect(starter.colour).not.toMatch(/^(transparent|rgba\(0, 0, 0, 0\))$/);
     // The run's progress and messages are announced politely by a status region.
     await expect(pane().getByRole('status').getAttribute('aria-live')).resolves.toBe('polite');
     // Tab from the first control of the pane reaches every step's controls in reading order, each with a name,
@@ -212,6 +320,25 @@ describe('the browser page with the invented demo trial', () => {
     ].map((name) => stops.indexOf(name));
     expect(order.every((i) => i >= 0), stops.join(' | ')).toBe(true);
     expect([...order].sort((a, b) => a - b)).toEqual(order);
+  });
+
+  it('the cut-off date is plain year-month-day text, not the browser\'s local date widget, and an impossible date is named', async () => {
+    const cutoff = pane().getByRole('textbox', { name: 'Data cut-off date', exact: true });
+    await expect(cutoff.getAttribute('type')).resolves.toBe('text');
+    await expect(cutoff.getAttribute('placeholder')).resolves.toBe('YYYY-MM-DD');
+    const problem = pane().getByText(/^Not a calendar date written year-month-day/);
+    // 30 February does not exist (Gregorian calendar): said once the field is left.
+    await cutoff.fill('2026-02-30');
+    await cutoff.blur();
+    await problem.waitFor();
+    await expect(pane().getByText('The cut-off date is not a valid date (step 3).').count()).resolves.toBe(1);
+    await cutoff.fill('2026-03-30');
+    await cutoff.blur();
+    await problem.waitFor({ state: 'detached' });
+    await expect(cutoff.inputValue()).resolves.toBe('2026-03-30');
+    // Back to empty: the runs below use the latest visit date in the data.
+    await cutoff.fill('');
+    await cutoff.blur();
   });
 
   it('an unblinded run, after confirming, shows visit timing by visit and the treatment difference', async () => {
@@ -280,6 +407,50 @@ describe('the browser page with the invented demo trial', () => {
     await page.screenshot({ path: join(ARTIFACTS, 'page-unblinded-model.png'), fullPage: false });
   }, 180_000);
 
+  it('at 1366 × 768 nothing runs off sideways: the page does not scroll across, and each results table fits its card or scrolls inside it', async () => {
+    // 1366 × 768: a common laptop screen (regression: the arm-by-visit table ran over its card's right edge).
+    await page.setViewportSize({ width: 1366, height: 768 });
+    try {
+      const page_ = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, inner: window.innerWidth }));
+      expect(page_.scroll).toBeLessThanOrEqual(page_.inner);
+      const cards = await results()
+        .locator('section.sheet')
+        .evaluateAll((sections) =>
+          sections.map((card) => {
+            const box = card.getBoundingClientRect();
+            const tables = [...card.querySelectorAll('table')].map((table) => {
+              const wrap = table.closest('.table-wrap');
+              const t = table.getBoundingClientRect();
+              const w = wrap?.getBoundingClientRect();
+              const style = wrap === null ? null : getComputedStyle(wrap);
+              return {
+                id: table.getAttribute('data-table-id') ?? '?',
+                // Fits: the table's right edge is inside the card (half a pixel for sub-pixel layout).
+                fits: t.right <= box.right + 0.5 && t.left >= box.left - 0.5,
+                // Scrolls inside: its frame lies within the card and scrolls across by itself.
+                scrollsInside:
+                  w !== undefined &&
+                  wrap !== null &&
+                  w.right <= box.right + 0.5 &&
+                  (style?.overflowX === 'auto' || style?.overflowX === 'scroll') &&
+                  wrap.scrollWidth > wrap.clientWidth,
+              };
+            });
+            return { id: card.id, overflow: card.scrollWidth - card.clientWidth, tables };
+          }),
+        );
+      expect(cards.length).toBeGreaterThan(0);
+      await results().locator('table[data-table-id="ByArmVisit"]').scrollIntoViewIfNeeded();
+      for (const card of cards) {
+        expect(card.overflow, `card ${card.id} is wider inside than its box`).toBeLessThanOrEqual(0);
+        for (const t of card.tables) expect(t.fits || t.scrollsInside, `table ${t.id} in ${card.id}`).toBe(true);
+      }
+      await page.screenshot({ path: join(ARTIFACTS, 'page-1366.png'), fullPage: false });
+    } finally {
+      await page.setViewportSize({ width: 1280, height: 900 });
+    }
+  });
+
   it('counts show as whole numbers on the page (regression: "Patients 240.0000" in the fit counts)', async () => {
     const counts = results().locator('table[data-table-id="FitCounts"] tbody tr');
     await expect(counts.count()).resolves.toBeGreaterThan(0);
@@ -299,6 +470,21 @@ describe('the browser page with the invented demo trial', () => {
     const model = results().locator('section.sheet', { has: page.locator('table[data-table-id="FixedEffects"]') });
     const chart = model.locator('figure.chart', { has: page.locator('svg[role="img"]') });
     await expect(chart.count()).resolves.toBe(1);
+    // Every chart's legend speaks only of what the chart drew: shaded bands (polygons), whiskers (line groups).
+    const legends = await results()
+      .locator('figure.chart')
+      .evaluateAll((figures) =>
+        figures.map((f) => ({
+          note: f.querySelector('.chart-legend-note')?.textContent ?? '',
+          bands: f.querySelectorAll('svg[role="img"] polygon[opacity="0.15"]').length, // markers are polygons too
+          whiskers: f.querySelectorAll('svg[role="img"] g[stroke] line').length,
+        })),
+      );
+    expect(legends.length).toBeGreaterThan(0);
+    for (const l of legends) {
+      expect(/shaded/i.test(l.note), l.note).toBe(l.bands > 0);
+      expect(/whiskers/i.test(l.note), l.note).toBe(l.whiskers > 0);
+    }
     // One picture from the sheet's title down to the chart: the viewport is made tall enough to hold all of it.
     const span = await model.evaluate((el) => {
       const fig = el.querySelector('figure.chart');
@@ -389,9 +575,17 @@ describe('the browser page with the invented demo trial', () => {
     await pane().screenshot({ path: join(ARTIFACTS, 'pane-after-demo-run.png') });
     const height = await pane().evaluate((el) => el.scrollHeight);
     await page.setViewportSize({ width: 1280, height: Math.min(8000, height) });
-    await pane().screenshot({ path: join(ARTIFACTS, 'pane-whole.png') });
+    const whole = await pane().screenshot({ path: join(ARTIFACTS, 'pane-whole.png') });
+    // Where each of the five steps starts in that picture, for the README's picture of all five side by side.
+    const stepTops = await pane().evaluate((el) => {
+      const top = el.getBoundingClientRect().top;
+      return [...el.querySelectorAll('section[id^="step-"]')].map((s) => Math.round(s.getBoundingClientRect().top - top));
+    });
     await page.setViewportSize({ width: 1280, height: 900 });
-    publish('pane-after-demo-run.png', 'pane-demo.png');
+    expect(stepTops).toHaveLength(5);
+    await paneInColumns(whole, stepTops, Math.min(8000, height), join(ARTIFACTS, 'pane-steps.png'));
+    // The README's picture shows all five steps (regression: it showed only the last two).
+    publish('pane-steps.png', 'pane-demo.png');
   }, 180_000);
 
   it('reads the same visits from an .xlsx workbook in the browser, with numbers kept as numbers', async () => {
@@ -408,15 +602,17 @@ describe('the browser page with the invented demo trial', () => {
     await pane()
       .getByText(/^Read egfr-visits\.xlsx \(sheet Visits\): 920 rows\./)
       .waitFor();
+    await expect(pane().getByTestId('data-file-name').innerText()).resolves.toBe('egfr-visits.xlsx (sheet Visits)');
     expect(await pane().getByRole('combobox', { name: 'Value', exact: true }).inputValue()).toBe('6');
   });
 
-  it('the page made no request to any address but the local server, and raised no script error', () => {
+  it('the page made no request to any address but the local server, no request failed, and nothing was logged as an error', () => {
     const local = (url: string): boolean =>
       url.startsWith(`${base}/`) || url.startsWith('blob:') || url.startsWith('data:');
     expect(requests.length).toBeGreaterThan(0);
     expect(requests.filter((u) => !local(u))).toEqual([]);
     expect(pageErrors).toEqual([]);
     expect(failedResponses).toEqual([]);
+    expect(consoleErrors).toEqual([]);
   });
 });

@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import type { AnalysisOutput } from '../../src/core/pipeline/types';
 import { columnLetters, distinctValues, headersOf } from '../../src/taskpane/cells';
@@ -66,6 +67,30 @@ describe('pane settings', () => {
   it('isIsoDate accepts real calendar dates only (2024 is a leap year, 2025 is not: exact calendar fact)', () => {
     expect(['2024-02-29', '2025-02-28'].map(isIsoDate)).toEqual([true, true]);
     expect(['2025-02-29', '2025-13-01', '25-01-01', '2025-1-1', ''].map(isIsoDate)).toEqual([
+      false,
+      false,
+      false,
+      false,
+      false,
+    ]);
+  });
+
+  it('isIsoDate, now that the cut-off is typed as text, agrees with the Gregorian calendar rule for any year, month and day written YYYY-MM-DD', () => {
+    // The rule (ISO 8601 uses the Gregorian calendar): 30 days hath September, April, June and November, February 28
+    // or 29 in a leap year, a year divisible by 4 is leap unless divisible by 100 but not by 400. Written here
+    // independently of Date, which isIsoDate uses.
+    const leap = (y: number): boolean => (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0;
+    const daysIn = (y: number, m: number): number =>
+      m === 2 ? (leap(y) ? 29 : 28) : [4, 6, 9, 11].includes(m) ? 30 : 31;
+    const pad = (n: number, w: number): string => String(n).padStart(w, '0');
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 9999 }), fc.integer({ min: 0, max: 13 }), fc.integer({ min: 0, max: 32 }), (y, m, d) => {
+        const real = m >= 1 && m <= 12 && d >= 1 && d <= daysIn(y, m);
+        expect(isIsoDate(`${pad(y, 4)}-${pad(m, 2)}-${pad(d, 2)}`)).toBe(real);
+      }),
+    );
+    // Text around a date, or another order, is not a date written year-month-day.
+    expect([' 2026-06-30', '2026-06-30 ', '30-06-2026', '2026/06/30', '2026-06-30T00'].map(isIsoDate)).toEqual([
       false,
       false,
       false,

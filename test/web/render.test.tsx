@@ -36,6 +36,9 @@ describe('ChartView', () => {
     expect(container.querySelectorAll('polygon[opacity="0.15"]')).toHaveLength(1);
     expect(screen.getByRole('img').getAttribute('aria-label')).toContain('Mean eGFR over time (invented data)');
     expect(screen.getByText('Months since randomisation')).toBeTruthy();
+    // The legend names what was drawn: a band, no whiskers.
+    expect(screen.getByText('Shaded bands show the interval or range described with the table above.')).toBeTruthy();
+    expect(screen.queryByText(/whiskers/i)).toBeNull();
   });
 
   it('draws bars from zero for categories, with whiskers for intervals', () => {
@@ -62,6 +65,23 @@ describe('ChartView', () => {
     expect(bottoms[0]).toBeCloseTo(bottoms[1] ?? NaN, 9); // both bars stand on the zero line (exact identity)
     expect(container.querySelectorAll('svg[role="img"] g[stroke] line')).toHaveLength(2 * 3);
     expect(screen.getByText('S03')).toBeTruthy();
+    // The legend names what was drawn: whiskers, no shaded band (regression: it spoke of bands here too).
+    expect(screen.getByText('Whiskers show the interval or range described with the table above.')).toBeTruthy();
+    expect(screen.queryByText(/shaded/i)).toBeNull();
+  });
+
+  it('a chart whose interval columns hold no finite limits draws none and says nothing about intervals', () => {
+    const chart: ChartSpec = {
+      kind: 'line',
+      id: 'NoLimits',
+      title: 'Mean over time',
+      xLabel: 'Months',
+      yLabel: 'Value',
+      series: [{ name: 'All', x: [0, 3], y: [1, 2], lower: [null, null], upper: [null, null] }],
+    };
+    const { container } = render(<ChartView chart={chart} />);
+    expect(container.querySelectorAll('polygon')).toHaveLength(0);
+    expect(container.querySelector('.chart-legend-note')).toBeNull();
   });
 });
 

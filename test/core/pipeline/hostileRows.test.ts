@@ -3,30 +3,21 @@ import fc from 'fast-check';
 import { compactIssues, excludedRows, rowsLeftOut, runAnalysis } from '../../../src/core/pipeline';
 import type { AnalysisSettings } from '../../../src/core/pipeline';
 import { renderMessage, type CellValue, type Issue, type IssueCode, type Role, type Use } from '../../../src/core/intake';
+import { testSettings } from './testSettings';
 
 // Issue item 2: a stray cell far below a table, or a column of "NA", must cost one summary or one entry per kind,
 // not one issue object per row, and still account for every row. Generated grids; exact counts, no tolerance.
 // (Speed itself is measured on the command line and reported, not asserted here: no timed tests.)
 
-const SETTINGS: AnalysisSettings = {
+const SETTINGS: AnalysisSettings = testSettings({
   sheet: 'Data',
-  topLeft: 'A1',
-  dateSystem: 1900,
-  mode: 'blinded',
   schedule: [
     { label: 'Day 1', targetDay: 1, before: 0, after: 0 },
     { label: 'Week 1', targetDay: 8, before: 2, after: 2 },
   ],
-  timeUnit: 'week',
-  dfMethod: 'kenward-roger',
-  method: 'reml',
-  level: 0.95,
-  scheduledOnly: false,
-  perSubject: false,
   inputLabel: 'invented generated grid',
-  runAt: '2026-01-01T00:00:00.000Z',
   numericText: 'accept',
-};
+});
 
 /** 120 invented data rows (30 participants, study days 1, 8, 15, 22), as the issue's workbook had. */
 function table120(): CellValue[][] {

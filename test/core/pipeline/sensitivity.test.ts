@@ -7,6 +7,7 @@ import { runAnalysis } from '../../../src/core/pipeline';
 import type { AnalysisSettings } from '../../../src/core/pipeline';
 import type { CellValue } from '../../../src/core/intake/types';
 import { normals, seeded } from '../model/helpers';
+import { testSettings } from './testSettings';
 
 const TARGETS = [1, 29, 57, 85];
 const SCHEDULE = TARGETS.map((d) => ({ label: `Day ${d}`, targetDay: d, before: d === 1 ? 0 : 3, after: d === 1 ? 0 : 3 }));
@@ -27,22 +28,8 @@ function cells(shift: (i: number, v: number) => number, unscheduled = false): Ce
   return rows;
 }
 
-const settings = (mode: 'blinded' | 'unblinded'): AnalysisSettings => ({
-  sheet: 'Visits',
-  topLeft: 'A1',
-  dateSystem: 1900,
-  mode,
-  ...(mode === 'unblinded' ? { referenceArm: 'Control' } : {}),
-  schedule: SCHEDULE,
-  timeUnit: 'week',
-  dfMethod: 'kenward-roger',
-  method: 'reml',
-  level: 0.95,
-  scheduledOnly: false,
-  perSubject: false,
-  inputLabel: 'invented test data',
-  runAt: '2026-01-01T00:00:00.000Z',
-});
+const settings = (mode: 'blinded' | 'unblinded'): AnalysisSettings =>
+  testSettings({ mode, ...(mode === 'unblinded' ? { referenceArm: 'Control' } : {}), schedule: SCHEDULE });
 
 type Json = Record<string, unknown>;
 const model = (json: Json): Json => json.model as Json;

@@ -5,8 +5,8 @@
 import { cellText, readTextCell } from './cellText';
 import { dayNumberToIso } from './dates';
 import type { IssueList } from './issueList';
-import { readDate } from './readCell';
-import type { CellValue, ColumnMapping, DateOrder, DateSystem } from './types';
+import { DATE_PROBLEMS, type DateColumn } from './dateColumn';
+import type { CellValue, ColumnMapping } from './types';
 
 export interface ExitColumns {
   /** Per subject: the exit date as a day number (the latest given), NaN when none. */
@@ -16,7 +16,8 @@ export interface ExitColumns {
 }
 
 /**
- * One pass over the data rows (cells[1..]), reading dates in the column's decided order of day and month (readDateRole): per participant, the exit date (the latest one when rows disagree, with
+ * One pass over the data rows (cells[1..]), with the exit column as readDateRole already read it (`exitColumn`, in the
+ * column's decided order of day and month; null when no exit column is mapped): per participant, the exit date (the latest one when rows disagree, with
  * an 'exit-date-differs' warning at each row that differs from the latest), and the first non-blank status and
  * reason. An unreadable exit date is a 'bad-exit-date' warning (use null: the row is kept). Rows without a subject
  * are skipped. O(rows).
@@ -27,7 +28,7 @@ export function readExit(
   mapping: ColumnMapping,
   subjectIndex: Int32Array,
   subjectIds: readonly string[],
-  dates: { readonly dateSystem: DateSystem; readonly order: DateOrder | null },
+  exitColumn: DateColumn | null,
   issues: IssueList,
 ): ExitColumns {
   const S = subjectIds.length;
@@ -35,18 +36,20 @@ export function readExit(
   const status = mapping.exitStatus === undefined ? null : new Array<string>(S).fill('');
   const reason = mapping.exitReason === undefined ? null : new Array<string>(S).fill('');
   const ec = mapping.exit;
-  const rowExit = ec === undefined ? null : new Float64Array(subjectIndex.length).fill(NaN);
+  // The exit column was read once, in its decided order of day and month (readDateRole); only its day numbers and
+  // problem codes are used here.
+  const rowExit = ec === undefined || exitColumn === null ? null : exitColumn.days;
   for (let i = 0; i < subjectIndex.length; i++) {
     const s = subjectIndex[i]!;
     if (s < 0) continue;
     const row = cells[i + 1] ?? [];
-    if (ec !== undefined) {
-      const d = readDate(row[ec], dates.dateSystem, dates.order);
-      if (typeof d === 'number') {
-        rowExit![i] = d;
+    if (rowExit !== null) {
+      const d = rowExit[i]!;
+      const problem = DATE_PROBLEMS[exitColumn!.problems[i]!];
+      if (!Number.isNaN(d)) {
         if (!(d <= subjectExit[s]!)) subjectExit[s] = d;
-      } else if (d !== 'blank-time') {
-        issues.at(d === 'error-value' ? 'error-value' : 'bad-exit-date', 'warning', i, ec, 'exit', cellText(row[ec]), null);
+      } else if (problem !== 'blank') {
+        issues.at(problem === 'error-value' ? 'error-value' : 'bad-exit-date', 'warning', i, ec!, 'exit', cellText(row[ec!]), null);
       }
     }
     if (status !== null && status[s] === '') status[s] = readTextCell(row[mapping.exitStatus!]) ?? '';

@@ -101,7 +101,7 @@ export function readTable(cells: readonly (readonly CellValue[])[], options: Int
   const cols = readRows(cells, { mapping, plans, width, top, acceptText: accept, unblinded: mode === 'unblinded', dates }, issues);
   const arms = cols.arm === null ? [] : checkArms(cols.arm, cols.subjectIndex, cols.subjectIds, cols.usableTiming, mapping.arm!, issues);
   if (mapping.reference !== undefined) checkReference(cols.reference, cols.subjectIndex, cols.subjectIds, mapping.reference, issues);
-  const exit = readExit(cells, mapping, cols.subjectIndex, cols.subjectIds, { dateSystem: options.dateSystem, order: exitRead?.order ?? null }, issues);
+  const exit = readExit(cells, mapping, cols.subjectIndex, cols.subjectIds, exitRead?.column ?? null, issues);
   if (!cols.usableTiming.includes(1)) issues.range('no-usable-rows', 'error', null, '', null);
   else if (mapping.value !== undefined && !cols.usableModel.includes(1)) issues.range('no-usable-rows', 'warning', null, '', 'model');
   if (issues.hasErrors) return { ok: false, issues: issues.items };

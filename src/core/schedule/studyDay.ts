@@ -18,8 +18,7 @@ export class StudyDayError extends Error {
  * Example: studyDay(45001, 45000) → 2; studyDay(45000, 45000) → 1; studyDay(44999, 45000) → −1.
  */
 export function studyDay(date: number, reference: number): number {
-  const d = date - reference;
-  return d >= 0 ? d + 1 : d;
+  return studyDayOfOffset(date - reference);
 }
 
 /**

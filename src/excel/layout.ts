@@ -4,7 +4,8 @@
  */
 import type { DateSystem } from '../core/intake/types';
 import type { ChartSpec, NumberFormat, SheetCell, SheetSpec } from '../core/report/types';
-import { FORMAT_CODES, GENERAL_FORMAT, TEXT_FORMAT } from './formatCodes';
+import { numberFormatFor } from '../core/report/formats';
+import { GENERAL_FORMAT, TEXT_FORMAT } from './formatCodes';
 import type { WrapArea } from './wrapAreas';
 import { planWrapAreas, textColumns } from './wrapAreas';
 
@@ -90,10 +91,12 @@ interface LaidColumn {
 
 /**
  * One cell of a table as written, with its format: text always gets "@" (so "=1+1" stays text), a number in a
- * text column keeps the general format, non-finite numbers and nulls become "" with the column's format.
+ * text column keeps the general format, a number in a 'significant' column gets the code that shows its 4
+ * significant digits (numberFormatFor, the same text the page shows), non-finite numbers and nulls become "" with the
+ * column's format.
  */
 function cell(value: SheetCell, format: NumberFormat | 'general', dateSystem: DateSystem): [WrittenValue, string] {
-  const code = format === 'general' ? GENERAL_FORMAT : FORMAT_CODES[format];
+  const code = format === 'general' ? GENERAL_FORMAT : numberFormatFor(value, format);
   if (typeof value === 'string') return [value, TEXT_FORMAT];
   if (typeof value === 'number' && Number.isFinite(value)) {
     if (format === 'text') return [value, GENERAL_FORMAT];
@@ -156,7 +159,7 @@ function chartTable(spec: ChartSpec): { columns: LaidColumn[]; rows: SheetCell[]
         if (at !== undefined) col[at] = ys[i] ?? null;
       });
       cols.push(col);
-      columns.push({ header: name, format: 'decimal4' });
+      columns.push({ header: name, format: 'significant' });
       series.push({ name, dashed, markersOnly: !dashed && markersOnly(s.style) });
     }
   }

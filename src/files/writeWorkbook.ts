@@ -1,6 +1,6 @@
 import ExcelJS from 'exceljs';
 import type { ChartSpec, NumberFormat, ParagraphBlock, SheetCell, SheetSpec, TableBlock } from '../core/report/types';
-import { EXCEL_FORMAT_CODES } from '../core/report/formats';
+import { numberFormatFor } from '../core/report/formats';
 import { uniqueSheetNames, uniqueTableName } from './sheetNames';
 import { addCharts, type PlacedChart } from './addCharts';
 import type { PlacedLink } from './addLinks';
@@ -19,15 +19,16 @@ const CAUTION_FONT: Partial<ExcelJS.Font> = { bold: true, italic: true, color: {
 const MIN_WIDTH = 8;
 const MAX_WIDTH = 60;
 
-/** One style object per number format, shared by every cell of that format: exceljs recognises a style object it has
- * seen before and skips building and comparing its XML, which per cell cost a good part of writing a long listing.
- * Shared objects are never changed after they are made (no font or fill is set on table data cells). */
-const FORMAT_STYLES = new Map<NumberFormat, Partial<ExcelJS.Style>>();
-function formatStyle(format: NumberFormat): Partial<ExcelJS.Style> {
-  let style = FORMAT_STYLES.get(format);
+/** One style object per number-format code, shared by every cell with that code: exceljs recognises a style object it
+ * has seen before and skips building and comparing its XML, which per cell cost a good part of writing a long listing.
+ * A 'significant' column has a few codes, one per magnitude (numberFormatFor), so a few shared objects. Shared objects
+ * are never changed after they are made (no font or fill is set on table data cells). */
+const FORMAT_STYLES = new Map<string, Partial<ExcelJS.Style>>();
+function formatStyle(code: string): Partial<ExcelJS.Style> {
+  let style = FORMAT_STYLES.get(code);
   if (style === undefined) {
-    style = Object.freeze({ numFmt: EXCEL_FORMAT_CODES[format] }) as Partial<ExcelJS.Style>;
-    FORMAT_STYLES.set(format, style);
+    style = Object.freeze({ numFmt: code }) as Partial<ExcelJS.Style>;
+    FORMAT_STYLES.set(code, style);
   }
   return style;
 }
@@ -67,7 +68,7 @@ function chartTable(chart: ChartSpec): TableBlock {
     }
   }
   const allNumeric = xs.every((x) => typeof x === 'number');
-  const columns: { header: string; format: NumberFormat }[] = [{ header: chart.xLabel || 'x', format: allNumeric ? 'decimal2' : 'text' }];
+  const columns: { header: string; format: NumberFormat }[] = [{ header: chart.xLabel || 'x', format: allNumeric ? 'significant' : 'text' }];
   const rows: SheetCell[][] = xs.map((x) => [x]);
   for (const s of chart.series) {
     const parts: [string, readonly (number | null)[] | undefined][] = [
@@ -77,7 +78,7 @@ function chartTable(chart: ChartSpec): TableBlock {
     ];
     for (const [header, values] of parts) {
       if (!values) continue;
-      columns.push({ header, format: 'decimal2' });
+      columns.push({ header, format: 'significant' });
       for (const row of rows) row.push(null);
       s.x.forEach((x, i) => {
         const at = seen.get(`${typeof x}:${String(x)}`);
@@ -232,8 +233,8 @@ function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): num
     rows,
   });
   t.columns.forEach((c, j) => {
-    const style = formatStyle(c.format);
-    for (let i = 0; i < rows.length; i++) st.ws.getCell(headerRow + 1 + i, j + 1).style = style;
+    // Each cell's code from its value (the same text the page shows); one code for a whole column but 'significant'.
+    for (let i = 0; i < rows.length; i++) st.ws.getCell(headerRow + 1 + i, j + 1).style = formatStyle(numberFormatFor(rows[i]![j] ?? null, c.format));
     const wanted = Math.min(MAX_WIDTH, Math.max(MIN_WIDTH, c.width ?? 0, (headers[j] ?? '').length + 3));
     st.widths[j] = Math.max(st.widths[j] ?? 0, wanted);
   });
@@ -296,7 +297,7 @@ function printSettings(st: SheetState, repeatRow: number, stamp: PrintStamp): vo
  * block in order — a linking paragraph (the one-line caution) as an internal hyperlink (addLinks.ts) on row 2 when it comes first, so
  * the first table's header is on row 4 at the latest; paragraphs on consecutive rows, each merged and wrapped across the sheet's text width (cautions in
  * bold italic), headings and tables set apart by a blank row, tables as real Excel tables with header row, filter
- * buttons, number formats from EXCEL_FORMAT_CODES and column widths, and each chart as a native chart (addCharts.ts)
+ * buttons, number formats from numberFormatFor (per cell) and column widths, and each chart as a native chart (addCharts.ts)
  * across the text width whose series read the sheet's own table cells (bindChart.ts); a chart whose numbers are not
  * all in a table of the sheet gets a table of its numbers first. A sheet that is one big table gets its header frozen
  * and repeated on every printed page; every sheet prints one page wide with a footer naming the sheet, the page, the

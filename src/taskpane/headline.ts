@@ -6,7 +6,7 @@
 import type { Issue } from '../core/intake/types';
 import type { AnalysisOutput } from '../core/pipeline/types';
 import { CAUTIONS, INVENTED_DATA_NOTE } from '../core/report/cautions';
-import { formatCell } from '../core/report/formats';
+import { formatCell, shownNumber } from '../core/report/formats';
 import type { SheetSpec } from '../core/report/types';
 
 type Done = Extract<AnalysisOutput, { ok: true }>;
@@ -18,20 +18,21 @@ const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFi
 const str = (v: unknown): string | null => (typeof v === 'string' ? v : null);
 const list = (v: unknown): Json[] => (Array.isArray(v) ? v.map(obj).filter((x): x is Json => x !== null) : []);
 const whole = (n: number): string => n.toLocaleString('en-US');
-const two = (n: number): string => formatCell(n, 'decimal2');
+/** Estimates and limits as every table and sentence of the run shows them (4 significant digits, formats.ts). */
+const shown = (n: number): string => shownNumber(n);
 
-/** "95% confidence interval 0.76 to 7.33" from a JSON result with lower and upper. */
+/** "95% CI 0.7623 to 7.330" from a JSON result with lower and upper. */
 function interval(r: Json, level: number | null): string {
   const lo = num(r.lower);
   const hi = num(r.upper);
   if (lo === null || hi === null) return '';
-  return `${level === null ? '' : `${formatCell(level * 100, 'decimal1').replace(/\.0$/, '')}% `}CI ${two(lo)} to ${two(hi)}`;
+  return `${level === null ? '' : `${formatCell(level * 100, 'decimal1').replace(/\.0$/, '')}% `}CI ${shown(lo)} to ${shown(hi)}`;
 }
 
 /**
  * Lines for the results step. Example, for the invented demo run unblinded: "920 rows read from 240 participants: 918
  * used for visit timing, 916 in the model.", "820 of 975 visits due were on time (84.1%); 86 missed.", "At Week 48,
- * Active differed from Placebo by 4.05 (95% CI 0.76 to 7.33; p = 0.0159)."
+ * Active differed from Placebo by 4.051 (95% CI 0.7623 to 7.330; p = 0.0159)."
  */
 export function headlineOf(output: Done, rowsRead: number): string[] {
   const json = output.json;
@@ -86,14 +87,14 @@ function modelHeadline(fit: Json): string | null {
       const rest = [ci, p === null ? '' : p < 0.0001 ? 'p < 0.0001' : `p = ${formatCell(p, 'pvalue')}`].filter(
         (s) => s !== '',
       );
-      return `At ${where}, ${arm} differed${reference} by ${two(est)}${rest.length > 0 ? ` (${rest.join('; ')})` : ''}.${status}`;
+      return `At ${where}, ${arm} differed${reference} by ${shown(est)}${rest.length > 0 ? ` (${rest.join('; ')})` : ''}.${status}`;
     }
   }
   const variance = obj(fit.variance);
   const icc = num(variance?.icc);
   if (icc !== null && variance !== null) {
     const ci = interval({ lower: variance.iccLower, upper: variance.iccUpper }, level);
-    return `Intraclass correlation ${two(icc)}${ci === '' ? '' : ` (${ci})`}: the share of the variation that lies between participants.${status}`;
+    return `Intraclass correlation ${shown(icc)}${ci === '' ? '' : ` (${ci})`}: the share of the variation that lies between participants.${status}`;
   }
   return status === '' ? null : status.trim();
 }

@@ -12,7 +12,7 @@ export interface TableViewProps {
   readonly previewRows?: number;
 }
 
-const NUMERIC = new Set(['integer', 'decimal1', 'decimal2', 'decimal3', 'decimal4', 'decimal6', 'percent1', 'pvalue']);
+const NUMERIC = new Set(['integer', 'decimal1', 'decimal2', 'decimal3', 'decimal4', 'decimal6', 'significant', 'percent1', 'pvalue']);
 
 /** Text columns at least this wide (in characters, TableColumn.width) wrap their cells instead of running off. */
 const WRAP_FROM_WIDTH = 40;

@@ -182,7 +182,8 @@ describe('headline', () => {
     expect(headlineOf(output({ input, visits, model }), 920)).toEqual([
       '920 rows read from 240 participants: 918 used for visit timing, 916 in the model.',
       '820 of 975 visits due were on time (84.1%); 86 missed.',
-      'At Week 48, Active differed from Placebo by 4.05 (95% CI 0.76 to 7.33; p = 0.0159).',
+      // 4 significant digits, as the sheets and the page show the same numbers (formats.ts)
+      'At Week 48, Active differed from Placebo by 4.051 (95% CI 0.7623 to 7.330; p = 0.0159).',
     ]);
   });
 
@@ -196,7 +197,7 @@ describe('headline', () => {
       variance: { icc: 0.904, iccLower: 0.884, iccUpper: 0.921 },
     };
     expect(headlineOf(output({ input, visits, model }), 920)[2]).toBe(
-      'Intraclass correlation 0.90 (95% CI 0.88 to 0.92): the share of the variation that lies between participants. The fit did not converge: the iteration limit was reached.',
+      'Intraclass correlation 0.9040 (95% CI 0.8840 to 0.9210): the share of the variation that lies between participants. The fit did not converge: the iteration limit was reached.',
     );
   });
 

@@ -1,7 +1,7 @@
 /** Results → sheet specs and JSON: plain tables, formats, chart specs, the visit-timing reports and the analysis record. */
 export * from './types';
 export { CAUTIONS, CAUTION_LINE, INVENTED_DATA_NOTE, SUMMARY_SHEET_NAME, UNBLINDED_CAUTION, UNBLINDED_LINE, cautionBlocks, cautionLine } from './cautions';
-export { EXCEL_FORMAT_CODES, formatCell } from './formats';
+export { EXCEL_FORMAT_CODES, SIGNIFICANT_DIGITS, formatCell, numberFormatFor, shownNumber } from './formats';
 export { HashUsageError, Sha256, sha256Hex } from './sha256';
 export { CellFingerprint, fingerprintCells, serialiseCell } from './fingerprint';
 export type { FingerprintCell } from './fingerprint';

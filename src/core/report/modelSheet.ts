@@ -50,13 +50,13 @@ const UNIT = { month: 'month', week: 'week', day: 'day' } as const;
 function inferenceColumns(level: number): TableColumn[] {
   const pct = levelPercent(level);
   return [
-    col('Estimate', 'decimal4'),
-    col('Standard error', 'decimal4'),
+    col('Estimate', 'significant'),
+    col('Standard error', 'significant'),
     col('Degrees of freedom', 'decimal1'),
     col('t', 'decimal2'),
     col('p-value', 'pvalue'),
-    col(`Lower ${pct} limit`, 'decimal4'),
-    col(`Upper ${pct} limit`, 'decimal4'),
+    col(`Lower ${pct} limit`, 'significant'),
+    col(`Upper ${pct} limit`, 'significant'),
   ];
 }
 const inferenceCells = (r: ContrastResult): SheetCell[] => [cell(r.estimate), cell(r.se), cell(r.df), cell(r.t), cell(r.p), cell(r.lower), cell(r.upper)];
@@ -87,7 +87,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
       kind: 'table',
       id: 'DifferenceByVisit',
       caption: `Difference in mean from ${fit.arms[0]!} at each scheduled visit (model-based, at the visit's target day)`,
-      columns: [col('Arm', 'text', 16), col('Visit', 'text', 14), col('Study day', 'integer'), col(`Time (${unit}s)`, 'decimal2'), ...inferenceColumns(fit.level)],
+      columns: [col('Arm', 'text', 16), col('Visit', 'text', 14), col('Study day', 'integer'), col(`Time (${unit}s)`, 'significant'), ...inferenceColumns(fit.level)],
       rows: fit.treatmentEffects.map((t) => [t.arm, t.label, t.day, cell(t.time), ...inferenceCells(t)]),
     });
     blocks.push({
@@ -103,7 +103,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
         kind: 'table',
         id: 'SlopeJointTest',
         caption: 'Joint test that all arms change at the same rate',
-        columns: [col('Numerator df', 'integer'), col('Denominator df', 'decimal1'), col('F', 'decimal3'), col('p-value', 'pvalue')],
+        columns: [col('Numerator df', 'integer'), col('Denominator df', 'decimal1'), col('F', 'significant'), col('p-value', 'pvalue')],
         rows: [[j.numDf, cell(j.denDf), cell(j.F), cell(j.p)]],
       });
     }
@@ -115,7 +115,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
     kind: 'table',
     id: 'VarianceICC',
     caption: 'Variation between and within participants',
-    columns: [col('Component', 'text', 30), col('Estimate', 'decimal4'), col('Standard deviation', 'decimal4'), col(`Lower ${pct} limit`, 'decimal4'), col(`Upper ${pct} limit`, 'decimal4')],
+    columns: [col('Component', 'text', 30), col('Estimate', 'significant'), col('Standard deviation', 'significant'), col(`Lower ${pct} limit`, 'significant'), col(`Upper ${pct} limit`, 'significant')],
     rows: [
       ['Between-participant variance', cell(v.subject), cell(Math.sqrt(v.subject)), cell(v.subjectLower), cell(v.subjectUpper)],
       ['Within-participant variance', cell(v.residual), cell(Math.sqrt(v.residual)), cell(v.residualLower), cell(v.residualUpper)],
@@ -127,7 +127,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
     kind: 'table',
     id: 'ModelFit',
     caption: 'How well the model fits, and whether the fit converged',
-    columns: [col('Item', 'text', 24), col('Value', 'decimal3'), col('Note', 'text', 60)],
+    columns: [col('Item', 'text', 24), col('Value', 'significant'), col('Note', 'text', 60)],
     rows: [
       ['Estimation', null, fit.method === 'reml' ? 'Restricted maximum likelihood (REML)' : 'Maximum likelihood'],
       ['Degrees of freedom', null, DF_DESCRIPTIONS[fit.dfMethod]],
@@ -177,7 +177,8 @@ export function modelNotFittedSheet(reason: string, mode: Mode): SheetSpec {
 
 /** A trajectory's study day as the table shows it (one decimal); the chart uses the same numbers, so a front end that
  * charts from cells finds them in the table. */
-const shownDay = (d: number): number => Math.round(d * 10) / 10;
+/** Study days are shown as whole days (the model's time column keeps the exact time). */
+const shownDay = (d: number): number => Math.round(d);
 
 function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: string, pct: string): Block[] {
   if (fit.trajectories.length === 0) return [];
@@ -209,14 +210,14 @@ function trajectoryBlocks(fit: ModelFit, context: ModelSheetContext, unit: strin
       kind: 'table',
       id: 'Trajectories',
       caption: `Predicted mean over time with ${pct} pointwise intervals (covariates at their averages)`,
-      columns: [...armCol, col('Study day', 'decimal1'), col(`Time (${unit}s)`, 'decimal2'), col('Predicted mean', 'decimal3'), col(`Lower ${pct} limit`, 'decimal3'), col(`Upper ${pct} limit`, 'decimal3')],
+      columns: [...armCol, col('Study day', 'integer'), col(`Time (${unit}s)`, 'significant'), col('Predicted mean', 'significant'), col(`Lower ${pct} limit`, 'significant'), col(`Upper ${pct} limit`, 'significant')],
       rows,
     },
     {
       kind: 'table',
       id: 'ObservedMeans',
       caption: 'Observed mean at each scheduled visit',
-      columns: [...armCol, col('Visit', 'text', 14), col('Study day', 'integer'), col('Observed mean', 'decimal3'), col('Participants', 'integer')],
+      columns: [...armCol, col('Visit', 'text', 14), col('Study day', 'integer'), col('Observed mean', 'significant'), col('Participants', 'integer')],
       rows: observed.map((o) => [...armCell(o.arm), o.label, o.day, cell(o.mean), o.n]),
     },
     {
@@ -237,7 +238,7 @@ function perParticipantSheet(fit: ModelFit, mode: Mode, unblinded: boolean): She
         kind: 'table',
         id: 'ParticipantIntercepts',
         caption: 'Random intercept and mean residual per participant',
-        columns: [col('Participant', 'text', 16), col('Measurements', 'integer'), col('Random intercept', 'decimal3'), col('Mean residual', 'decimal3')],
+        columns: [col('Participant', 'text', 16), col('Measurements', 'integer'), col('Random intercept', 'significant'), col('Mean residual', 'significant')],
         rows: fit.subjects.map((s) => [s.id, s.n, cell(s.blup), cell(s.meanResidual)]),
       },
       para(

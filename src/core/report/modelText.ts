@@ -2,6 +2,7 @@
 import type { ModelFit, FitStatus } from '../model/types';
 import type { Mode } from '../intake/types';
 import { DF_NAMES } from './dfNotes';
+import { formatCell, shownNumber } from './formats';
 
 /** Status words shown in the sheets (JSON keeps the status keys). */
 export const FIT_STATUS_WORDS: Readonly<Record<FitStatus, string>> = {
@@ -25,20 +26,16 @@ export function fitVerdict(fit: Pick<ModelFit, 'status' | 'message'>): string {
 
 const UNIT_WORDS = { month: 'month', week: 'week', day: 'day' } as const;
 
-/** A number for a sentence: 1 decimal from 100 up, 2 from 1 up, else 3 significant digits; "n/a" when not finite. */
+/** A number for a sentence: the same text a 'significant' table cell shows (4 significant digits by magnitude,
+ * formats.ts), so a sentence and its table agree; "n/a" when not finite. Example: num(4.0512) → "4.051". */
 export function num(x: number): string {
-  if (!Number.isFinite(x)) return 'n/a';
-  const a = Math.abs(x);
-  if (a >= 100) return x.toFixed(1);
-  if (a >= 1) return x.toFixed(2);
-  if (a === 0) return '0';
-  return x.toPrecision(3);
+  return shownNumber(x);
 }
 
-/** A p-value for a sentence: "p < 0.0001" or "p = 0.0123". */
+/** A p-value for a sentence, as a 'pvalue' cell shows it: "p < 0.0001" or "p = 0.0123". */
 export function pPhrase(p: number): string {
   if (!Number.isFinite(p)) return 'p not available';
-  return p < 0.0001 ? 'p < 0.0001' : `p = ${p.toFixed(4)}`;
+  return p < 0.0001 ? 'p < 0.0001' : `p = ${formatCell(p, 'pvalue')}`;
 }
 
 const methodWords = (fit: ModelFit): string =>

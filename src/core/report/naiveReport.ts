@@ -82,7 +82,7 @@ export function naiveBlocks(fit: ModelFit): Block[] {
       kind: 'table',
       id: 'NaiveFit',
       caption: 'The same terms by ordinary least squares, treating every value as independent (naive fit)',
-      columns: [col('Term', 'text', 28), col('Naive estimate', 'decimal4'), col('Naive standard error', 'decimal4'), col('Model standard error', 'decimal4'), col('Ratio (naive ÷ model)', 'decimal2')],
+      columns: [col('Term', 'text', 28), col('Naive estimate', 'significant'), col('Naive standard error', 'significant'), col('Model standard error', 'significant'), col('Ratio (naive ÷ model)', 'decimal2')],
       rows: nv.fixedEffects.map((f, j) => [f.term, cell(f.estimate), cell(f.se), cell(fit.fixedEffects[j]?.se ?? NaN), cell(f.seRatio)]),
     },
     ...naiveSentences(fit).map((s) => para(s)),

@@ -7,6 +7,7 @@ import type { Mode } from '../intake/types';
 import type { ModelFit } from '../model/types';
 import { cell, col, heading, levelPercent, para } from './blockParts';
 import { cautionBlocks, SUMMARY_SHEET_NAME } from './cautions';
+import { formatCell } from './formats';
 import { lastVisitEffects, num, pPhrase } from './modelText';
 import { statusChart } from './timingSheets';
 import type { TimingSummary, VisitSummaryRow } from './timingTypes';
@@ -59,7 +60,7 @@ export function timingHeadline(summary: Pick<TimingSummary, 'byVisit' | 'deviati
 }
 
 const plural = (n: number, one: string, many: string): string => `${n} ${n === 1 ? one : many}`;
-const percentWords = (x: number | null): string => (x === null ? 'no on-time rate (no visit is due yet)' : `${(100 * x).toFixed(1)}%`);
+const percentWords = (x: number | null): string => (x === null ? 'no on-time rate (no visit is due yet)' : formatCell(x, 'percent1'));
 
 /** The opening paragraph: the timing numbers in one sentence, then the model's headline in another. */
 function plainParagraph(input: SummaryInput, h: TimingHeadline): string {
@@ -118,7 +119,7 @@ function modelTable(fit: ModelFit, mode: Mode): Block | null {
       kind: 'table',
       id: 'DifferenceAtLastVisit',
       caption: `Treatment difference at the last scheduled visit (${pct} confidence interval)`,
-      columns: [col('Arm', 'text', 14), col('Compared with', 'text', 14), col('Visit', 'text', 12), col('Difference', 'decimal3'), col('Lower limit', 'decimal3'), col('Upper limit', 'decimal3'), col('p', 'pvalue')],
+      columns: [col('Arm', 'text', 14), col('Compared with', 'text', 14), col('Visit', 'text', 12), col('Difference', 'significant'), col('Lower limit', 'significant'), col('Upper limit', 'significant'), col('p', 'pvalue')],
       rows: effects.map((te) => [te.arm, fit.arms[0] ?? '', te.label, cell(te.estimate), cell(te.lower), cell(te.upper), cell(te.p)]),
     };
   }
@@ -128,7 +129,7 @@ function modelTable(fit: ModelFit, mode: Mode): Block | null {
     kind: 'table',
     id: 'ModelAtAGlance',
     caption: `The model at a glance, all participants together (${pct} confidence interval)`,
-    columns: [col('Measure', 'text', 36), col('Estimate', 'decimal3'), col('Lower limit', 'decimal3'), col('Upper limit', 'decimal3')],
+    columns: [col('Measure', 'text', 36), col('Estimate', 'significant'), col('Lower limit', 'significant'), col('Upper limit', 'significant')],
     rows: [
       ['Intraclass correlation (share of the variation between participants)', cell(v.icc), cell(v.iccLower), cell(v.iccUpper)],
       ...(slope === undefined ? [] : [[`Overall change in the value per ${fit.timeUnit}`, cell(slope.estimate), cell(slope.lower), cell(slope.upper)]]),

@@ -1,11 +1,12 @@
 /** The plain sentences of the visit-timing sheets: the cut-off, the summary of counts and the on-time rate note. */
 import { isoDate } from '../schedule/dates';
+import { formatCell } from './formats';
 import type { TimingSummary } from './timingTypes';
 
 export const ON_TIME_RATE_NOTE =
   'On-time rate = visits on time ÷ visits due. A visit is due unless its window is still open or yet to open at the cut-off ("not yet due"); missed visits count as due. Deviation = calendar days from the target date to the visit (negative = early), over the records that are the visits’ own (on time, early, late).';
 
-const pct = (x: number | null): string => (x === null ? 'n/a' : `${(100 * x).toFixed(1)}%`);
+const pct = (x: number | null): string => (x === null ? 'n/a' : formatCell(x, 'percent1'));
 const plural = (n: number, one: string, many: string): string => `${n} ${n === 1 ? one : many}`;
 
 /** How the cut-off reads in a sentence, e.g. "As of 2024-06-30 (the latest visit date in the data)". */

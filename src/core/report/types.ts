@@ -3,7 +3,12 @@
  * Plain 2-D tables plus number formats and chart specs; no host objects.
  */
 
-/** Number formats by meaning; each front end maps them to its own format codes (see formats.ts). */
+/**
+ * Number formats by meaning; each front end shows them through formats.ts (formatCell for text, numberFormatFor for a
+ * cell's spreadsheet code). Estimates, standard errors, limits, variances and means are 'significant'; counts and
+ * study days 'integer'; the fixed-decimal formats are for numbers whose precision is fixed by their meaning (degrees
+ * of freedom, a median of whole days, a t statistic).
+ */
 export type NumberFormat =
   | 'text' // written as text, never parsed as a formula or number
   | 'integer'
@@ -12,6 +17,7 @@ export type NumberFormat =
   | 'decimal3'
   | 'decimal4'
   | 'decimal6'
+  | 'significant' // 4 significant digits, decimals chosen per value from its magnitude (formats.ts)
   | 'percent1'
   | 'pvalue' // 4 decimals, shown as "<0.0001" below that
   | 'date'; // a day number (0 = 1899-12-30), shown as yyyy-mm-dd

@@ -140,8 +140,10 @@ describe('modelSheets', () => {
     expect(text).toMatch(/changed by -?\d/);
   });
 
-  it('number phrasing: 1 decimal from 100, 2 from 1, 3 significant below; p below 0.0001 as "< 0.0001"', () => {
-    expect([num(123.456), num(-2.345), num(0.012345), num(NaN)]).toEqual(['123.5', '-2.35', '0.0123', 'n/a']);
+  // Hand-worked decimal rounding (exact): 4 significant digits, half away from zero on the decimal value.
+  it('number phrasing: a sentence shows 4 significant digits like a significant cell; p below 0.0001 as "< 0.0001"', () => {
+    expect([num(123.456), num(-2.345), num(0.012345), num(NaN)]).toEqual(['123.5', '-2.345', '0.01235', 'n/a']);
+    expect(num(0.00062)).toBe(formatCell(0.00062, 'significant'));
     expect([pPhrase(0.00001), pPhrase(0.01234)]).toEqual(['p < 0.0001', 'p = 0.0123']);
   });
 

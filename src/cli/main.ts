@@ -4,6 +4,7 @@ import type { Issue } from '../core/intake/types';
 import { PipelineUsageError, runAnalysis } from '../core/pipeline';
 import type { AnalysisSettings } from '../core/pipeline/types';
 import { CAUTIONS, UNBLINDED_CAUTION } from '../core/report/cautions';
+import { isoWithOffset } from '../core/report/runTime';
 import { STATUS_WORDS } from '../core/schedule/types';
 import type { VisitStatus } from '../core/schedule/types';
 import { FileFormatError, printStampOf, writeWorkbook } from '../files';
@@ -55,6 +56,8 @@ function printSummary(json: Record<string, unknown>, io: CliOutput): void {
   else if (typeof json.modelNote === 'string') io.out(`Model: not fitted (${json.modelNote.replace(/\.+$/, '')}).`);
 }
 
+/** The run time as ISO 8601 with this computer's UTC offset at that moment (results JSON settings.runAt). */
+const localRunAt = (d: Date): string => isoWithOffset(d.getTime(), Math.round(-d.getTimezoneOffset()));
 const rowsWord = (n: number): string => `${n.toLocaleString('en-US')} row${n === 1 ? '' : 's'}`;
 
 /**
@@ -115,7 +118,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     perSubject: args.perSubject,
     inputLabel: data.label,
     ...(data.notes.length > 0 ? { fileNotes: data.notes } : {}),
-    runAt: now().toISOString(),
+    runAt: localRunAt(now()),
     numericText: data.numericText,
     toolVersion: VERSION,
   };

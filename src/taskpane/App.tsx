@@ -31,6 +31,10 @@ import { SettingsStep } from './SettingsStep';
 import type { SourceKind } from './SourcePicker';
 import { StepSection } from './StepSection';
 import { PANE_VERSION } from './version';
+import { isoWithOffset } from '../core/report/runTime';
+
+/** The run time as ISO 8601 with the browser's UTC offset at that moment (results JSON settings.runAt). */
+const localRunAt = (d: Date): string => isoWithOffset(d.getTime(), Math.round(-d.getTimezoneOffset()));
 
 const useStyles = makeStyles({
   root: {
@@ -229,7 +233,7 @@ export function App({ actions, engine = CORE_ENGINE }: AppProps): ReactNode {
         : settings;
     try {
       const run = {
-        ...toAnalysisSettings(source, mapping, scheduleResult.schedule, effective, new Date().toISOString()),
+        ...toAnalysisSettings(source, mapping, scheduleResult.schedule, effective, localRunAt(new Date())),
         toolVersion: PANE_VERSION,
       };
       const output = await engine.runAnalysis(source.cells, run, {

@@ -7,6 +7,7 @@ import type { Issue } from '../core/intake/types';
 import type { AnalysisOutput } from '../core/pipeline/types';
 import { CAUTIONS, INVENTED_DATA_NOTE } from '../core/report/cautions';
 import { formatCell, shownNumber } from '../core/report/formats';
+import { readableRunTime } from '../core/report/runTime';
 import type { SheetSpec } from '../core/report/types';
 
 type Done = Extract<AnalysisOutput, { ok: true }>;
@@ -32,7 +33,7 @@ function interval(r: Json, level: number | null): string {
 /**
  * Lines for the results step. Example, for the invented demo run unblinded: "920 rows read from 240 participants: 918
  * used for visit timing, 916 in the model.", "820 of 975 visits due were on time (84.1%); 86 missed.", "At Week 48,
- * Active differed from Placebo by 4.051 (95% CI 0.7623 to 7.330; p = 0.0159)."
+ * Active differed from Placebo by 4.051 (95% CI 0.7623 to 7.330; p = 0.0159).", "Run at 2026-12-02 14:05 (UTC+01:00)."
  */
 export function headlineOf(output: Done, rowsRead: number): string[] {
   const json = output.json;
@@ -65,6 +66,8 @@ export function headlineOf(output: Done, rowsRead: number): string[] {
     const summary = note ?? modelSummary(output.sheets);
     if (summary !== null) lines.push(summary);
   }
+  const runAt = str(obj(json.settings)?.runAt);
+  if (runAt !== null && runAt !== '') lines.push(`Run at ${readableRunTime(runAt)}.`);
   return lines;
 }
 

@@ -201,6 +201,11 @@ describe('headline', () => {
     );
   });
 
+  it('ends with the run time as a readable local date-time with its offset (the JSON keeps ISO 8601)', () => {
+    const lines = headlineOf(output({ settings: { runAt: '2026-12-02T14:05:09+01:00' } }), 1);
+    expect(lines[lines.length - 1]).toBe('Run at 2026-12-02 14:05 (UTC+01:00).');
+  });
+
   it('falls back to the model sheet summary when the JSON has no model part', () => {
     expect(headlineOf(output({}), 1)).toEqual(['1 row read.', 'The model summary.']);
   });

@@ -125,7 +125,7 @@ export async function runAnalysis(
   const fingerprint = fingerprintCells(cells);
   const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote, sensitivity: stage.sensitivity });
   const sheets: SheetSpec[] = [
-    summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
+    summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, runAt: settings.runAt, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
     ...timingSheets(summary),
     ...model.sheets,
     // The model's technical notes (intervals, likelihood, AIC/BIC, convergence) go to the record, not the model sheet.

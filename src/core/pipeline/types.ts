@@ -38,7 +38,9 @@ export interface AnalysisSettings {
   readonly inputLabel: string;
   /** Notes about reading the input file (encoding repairs, stray fields), first among the run's notes. */
   readonly fileNotes?: readonly string[];
-  /** ISO timestamp of the run; passed in so the core stays pure and testable. */
+  /** ISO 8601 timestamp of the run with the local UTC offset, e.g. "2026-12-02T14:05:09+01:00" (isoWithOffset in
+   * report/runTime.ts; a "Z" timestamp is read as UTC); passed in so the core stays pure and testable. Its date is
+   * the run's local day (implausible dates, the printed footer). */
   readonly runAt: string;
   /** How intake treats numbers written as text: 'reject' (default, spreadsheet cells) or 'accept' (CSV input, where
    * every cell is text). Passed on to readTable as IntakeOptions.numericText. */

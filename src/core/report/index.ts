@@ -19,6 +19,7 @@ export type { SummaryInput, TimingHeadline } from './summarySheet';
 export { timingJson } from './timingJson';
 export type { JsonDay, VisitJson, VisitsJson } from './timingJson';
 export { analysisRecordSheet, mappingLines } from './record';
+export { isoWithOffset, readableRunTime } from './runTime';
 export type { AnalysisRecordInput, MappingLine, RecordExclusion } from './record';
 export { MODEL_SHEET_NAMES, ModelReportError, modelNotFittedSheet, modelSheets, modelTechnicalNotes } from './modelSheet';
 export type { ModelSheetContext, ObservedVisitMean } from './modelSheet';

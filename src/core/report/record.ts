@@ -4,6 +4,7 @@ import { cautionLine } from './cautions';
 import { col, heading } from './blockParts';
 import type { Block, SheetSpec } from './types';
 import { rowsLeftOut } from './rowsLeftOut';
+import { readableRunTime } from './runTime';
 
 /** One row left out of one use, as the analysis record lists it. */
 export interface RecordExclusion {
@@ -34,7 +35,7 @@ export interface AnalysisRecordInput {
   readonly cutoff: string;
   readonly mode: Mode;
   readonly version: string;
-  /** ISO timestamp of the run. */
+  /** ISO 8601 timestamp of the run with its UTC offset; shown as "2026-12-02 14:05 (UTC+01:00)" (runTime.ts). */
   readonly runAt: string;
   /** Further plain notes about the run (e.g. a cut-off that could not be applied). */
   readonly notes?: readonly string[];
@@ -98,7 +99,7 @@ export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
         ['Mode', input.mode === 'unblinded' ? 'Unblinded (results by arm)' : 'Blinded (pooled, no arm read)'],
         ['Data cut-off', input.cutoff],
         ['Program version', input.version],
-        ['Run at', input.runAt],
+        ['Run at', readableRunTime(input.runAt)],
       ],
     },
     {

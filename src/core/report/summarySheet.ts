@@ -9,6 +9,7 @@ import { cell, col, heading, levelPercent, para } from './blockParts';
 import { cautionBlocks, SUMMARY_SHEET_NAME } from './cautions';
 import { formatCell } from './formats';
 import { lastVisitEffects, num, pPhrase } from './modelText';
+import { readableRunTime } from './runTime';
 import { statusChart } from './timingSheets';
 import type { TimingSummary, VisitSummaryRow } from './timingTypes';
 import { cutoffPhrase } from './timingWords';
@@ -20,6 +21,8 @@ export interface SummaryInput {
   /** The file or range the data came from, as the analysis record names it. */
   readonly inputLabel: string;
   readonly rowsRead: number;
+  /** ISO 8601 timestamp of the run with its UTC offset (settings.runAt), shown readable (runTime.ts). */
+  readonly runAt: string;
   readonly mode: Mode;
   readonly summary: TimingSummary;
   /** The model fit; null when no model was fitted. */
@@ -94,6 +97,7 @@ function analysedTable(input: SummaryInput): Block {
     ['Participants', String(input.summary.subjects)],
     ['Cut-off', cutoffPhrase(input.summary)],
     ['Mode', input.mode === 'unblinded' ? 'Unblinded (results by treatment arm)' : 'Blinded (no results by treatment arm)'],
+    ['Run at', readableRunTime(input.runAt)],
   ];
   return { kind: 'table', id: 'WhatWasAnalysed', caption: 'What was analysed', columns: [col('Item', 'text', 16), col('Detail', 'text', 50)], rows };
 }

@@ -83,7 +83,8 @@ describe('the summary sheet of a run', () => {
       const opening = first.blocks.slice(0, mode === 'unblinded' ? 4 : 3).map((b) => (b.kind === 'paragraph' ? b.text : ''));
       expect(opening).toEqual(mode === 'unblinded' ? [...CAUTIONS, UNBLINDED_CAUTION] : [...CAUTIONS]);
       const analysed = tables(first).find((t) => t.id === 'WhatWasAnalysed')!;
-      expect(analysed.rows.map((r) => r[0])).toEqual(['File', 'Rows read', 'Participants', 'Cut-off', 'Mode']);
+      expect(analysed.rows.map((r) => r[0])).toEqual(['File', 'Rows read', 'Participants', 'Cut-off', 'Mode', 'Run at']);
+      expect(analysed.rows[5]![1]).toBe('2026-01-01 00:00 (UTC+00:00)');
       expect(analysed.rows[0]![1]).toBe('egfr-visits.csv');
       expect(first.blocks.filter((b) => b.kind === 'chart')).toHaveLength(2);
     }

@@ -5,7 +5,10 @@
  *   - the conversion succeeds and every sheet is present (each sheet's name stands in the footer of some page),
  *   - the page count is reasonable (at least one page a sheet, at most MAX_PAGES),
  *   - no table is split across pages sideways (some page shows every column heading of each table),
- *   - each chart renders: below its title on the page, the chart area holds coloured pixels (series, not only text).
+ *   - each chart renders: below its title on the page, the chart area holds coloured pixels (series, not only text),
+ *   - every wrapped paragraph of the summary sheet, the longest caution among them, is whole: its last words are
+ *     printed and no other text is printed over its lines (a row too short for its text is either cut or overrun by
+ *     the next row, depending on the reader); at least one of them wraps onto more than one line.
  * Not part of `npm test`: it needs the Debian packages named in INSTALL. With LONGIPANE_UPDATE_DOCS=1 it refreshes
  * docs/report-page.png (the first page) for the README.
  */
@@ -14,6 +17,7 @@ import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import JSZip from 'jszip';
+import { CAUTIONS, UNBLINDED_CAUTION } from '../src/core/report/cautions';
 import { colouredPixels, readPng } from './render/png';
 
 const INSTALL = 'apt-get install -y --no-install-recommends libreoffice-calc-nogui poppler-utils fonts-crosextra-carlito';
@@ -93,7 +97,7 @@ function findPhrase(words: readonly Word[], phrase: string): Word | undefined {
 }
 
 /** Sheet names, table column headings and chart titles, read from the package itself. */
-async function packageFacts(bytes: Uint8Array): Promise<{ sheets: string[]; tables: string[][]; charts: string[] }> {
+async function packageFacts(bytes: Uint8Array): Promise<{ sheets: string[]; tables: string[][]; charts: string[]; summaryParagraphs: string[] }> {
   const zip = await JSZip.loadAsync(bytes);
   const text = async (name: string): Promise<string> => (await zip.file(name)?.async('string')) ?? '';
   const decode = (s: string): string => s.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&amp;/g, '&');
@@ -107,7 +111,15 @@ async function packageFacts(bytes: Uint8Array): Promise<{ sheets: string[]; tabl
       if (title !== null) charts.push(decode(title[1]!));
     }
   }
-  return { sheets, tables, charts };
+  // The summary sheet (the first, sheet1.xml as the writer names it): the texts of its merged cells, which are its
+  // wrapped paragraphs (shared strings, ECMA-376 Part 1 §18.4).
+  const shared = [...(await text('xl/sharedStrings.xml')).matchAll(/<si>([\s\S]*?)<\/si>/g)].map((m) => decode([...m[1]!.matchAll(/<t[^>]*>([^<]*)<\/t>/g)].map((t) => t[1]).join('')));
+  const first = await text('xl/worksheets/sheet1.xml');
+  const summaryParagraphs = [...first.matchAll(/<mergeCell ref="([A-Z]+\d+):[A-Z]+\d+"\/>/g)].flatMap((m) => {
+    const cell = new RegExp(`<c r="${m[1]}"[^>]*t="s"[^>]*><v>(\\d+)</v>`).exec(first);
+    return cell === null ? [] : [shared[Number(cell[1])] ?? ''];
+  });
+  return { sheets, tables, charts, summaryParagraphs };
 }
 
 async function main(): Promise<void> {
@@ -168,6 +180,7 @@ async function main(): Promise<void> {
     else if (drawn.length < count) fail(`chart "${title}": ${count} expected, ${drawn.length} drawn (at least ${MIN_CHART_PIXELS} coloured pixels below the title)`);
     else console.log(`chart "${title}" (${count}) drawn on ${drawn.join('; ')}`);
   }
+  wholeParagraphs(words, facts.summaryParagraphs, [...CAUTIONS, UNBLINDED_CAUTION]);
   if (facts.charts.length < 3) fail(`the demo report has ${facts.charts.length} charts; at least 3 expected (means over time, on-time rate by site, visits by status)`);
 
   if (process.env.LONGIPANE_UPDATE_DOCS === '1' && pngs[0] !== undefined) {
@@ -179,6 +192,55 @@ async function main(): Promise<void> {
     process.exit(1);
   }
   console.log(`Render check passed: ${facts.sheets.length} sheets, ${facts.tables.length} tables whole, ${facts.charts.length} charts drawn.`);
+}
+
+/** A paragraph's words as pdftotext may print them: whole, and split after a hyphen at a line break. */
+function ownWords(text: string): Set<string> {
+  const own = new Set<string>();
+  for (const w of text.split(/\s+/)) {
+    own.add(w);
+    const parts = w.split(/(?<=-)/);
+    for (const p of parts) own.add(p);
+  }
+  return own;
+}
+
+/**
+ * Each wrapped paragraph of the summary sheet (`paragraphs`, its merged cells' texts, the cautions among them) stands
+ * whole on the first page that shows its opening words: its closing words printed on that line or below, and every
+ * word printed between its first line's top and its last line's bottom one of its own. At least one of them must wrap
+ * onto more than one line (else the check proves nothing), and the longest caution must be among those checked.
+ */
+function wholeParagraphs(words: readonly (readonly Word[])[], paragraphs: readonly string[], cautions: readonly string[]): void {
+  const longest = cautions.reduce((a, b) => (b.length > a.length ? b : a), '');
+  if (!paragraphs.includes(longest)) fail(`the longest caution is not a wrapped paragraph of the summary sheet`);
+  let wrapped = 0;
+  for (const text of paragraphs) {
+    const tokens = text.split(/\s+/).filter((w) => w !== '');
+    const opening = tokens.slice(0, 3).join(' ');
+    const closing = tokens.slice(-2).join(' ');
+    const page = words.findIndex((ws) => findPhrase(ws, opening) !== undefined);
+    if (page < 0) {
+      fail(`the paragraph "${opening} …" is on no page as one line of words (cut, or overrun by another row)`);
+      continue;
+    }
+    const first = findPhrase(words[page]!, opening)!;
+    const last = findPhrases(words[page]!, closing).find((w) => w.yMin >= first.yMin - 1);
+    if (last === undefined) {
+      fail(`the paragraph "${opening} …" is cut: its last words "${closing}" are not printed on page ${page + 1}`);
+      continue;
+    }
+    const own = ownWords(text);
+    const intruders = words[page]!.filter((w) => w.yMax > first.yMin + 1 && w.yMin < last.yMax - 1 && !own.has(w.text));
+    if (intruders.length > 0) {
+      fail(`the paragraph "${opening} …" is overrun on page ${page + 1}: ${intruders.slice(0, 5).map((w) => `"${w.text}"`).join(', ')} printed over its lines (its row is too short)`);
+      continue;
+    }
+    const lines = new Set(words[page]!.filter((w) => w.yMin >= first.yMin - 1 && w.yMax <= last.yMax + 1).map((w) => Math.round(w.yMin))).size;
+    if (lines > 1) wrapped++;
+    console.log(`paragraph "${opening} …" (${text.length} characters${text === longest ? ', the longest caution' : ''}) whole on page ${page + 1}: ${lines} line${lines === 1 ? '' : 's'}, ending "${closing}"`);
+  }
+  if (wrapped === 0) fail('no paragraph of the summary sheet wraps, so the check of whole paragraphs proves nothing');
 }
 
 /** The lowest word on any page, which is in the footer. */

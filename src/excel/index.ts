@@ -15,5 +15,5 @@ export { loadSavedSettings, parseSaved, saveSettings, SETTINGS_KEY } from './set
 export { legalSheetName, MAX_SHEET_NAME_LENGTH, uniqueSheetName, uniqueTableName } from './sheetNames';
 export { halvePatch, planWrites } from './writePlan';
 export { MINIMUM_EXCEL_API, supportsExcelApi } from './features';
-export { fitHeight, planWrapAreas, textColumns } from './wrapAreas';
+export { planWrapAreas, POINTS_PER_CHARACTER, textColumns } from './wrapAreas';
 export type { WrapArea } from './wrapAreas';

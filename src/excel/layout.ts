@@ -194,7 +194,7 @@ export function layoutSheet(spec: SheetSpec, dateSystem: DateSystem): SheetLayou
     while (widths.length <= column) widths.push(0);
     widths[column] = Math.max(widths[column] ?? 0, Math.min(60, chars));
   };
-  const paragraphs: { row: number; characters: number }[] = [];
+  const paragraphs: { row: number; text: string; bold: boolean }[] = [];
   const links: LinkPlan[] = [];
   let row = 2;
   for (const [i, block] of spec.blocks.entries()) {
@@ -207,7 +207,8 @@ export function layoutSheet(spec: SheetSpec, dateSystem: DateSystem): SheetLayou
     } else if (block.kind === 'paragraph') {
       const style = block.style === 'caution' ? 'caution' : block.style === 'heading' ? 'heading' : 'normal';
       patches.push(textPatch(row, block.text, style));
-      if (style !== 'heading') paragraphs.push({ row, characters: block.text.length });
+      // Cautions are bold (renderSheet's style), so they are measured with the bold widths.
+      if (style !== 'heading') paragraphs.push({ row, text: block.text, bold: style === 'caution' });
       row += 2;
     } else if (block.kind === 'table') {
       patches.push(textPatch(row, block.caption, 'caption'));

@@ -14,6 +14,7 @@ import { layoutSheet } from './layout';
 import { isPayloadTooLarge } from './readRange';
 import { uniqueSheetName, uniqueTableName } from './sheetNames';
 import { halvePatch, planWrites } from './writePlan';
+import { POINTS_PER_CHARACTER } from './wrapAreas';
 
 export interface RenderOptions {
   readonly dateSystem: DateSystem;
@@ -30,8 +31,6 @@ export interface RenderOptions {
 /** A place in the workbook as a hyperlink's document reference, e.g. 'Summary (2)'!A1 (inner apostrophes doubled). */
 export const documentReference = (sheet: string, cell: string): string => `'${sheet.replace(/'/g, "''")}'!${cell}`;
 
-/** Points per character of column width: an approximation for the default font (common practice: about 7). */
-const POINTS_PER_CHARACTER = 7;
 
 const CAUTION_COLOUR = '#9C2B00';
 

@@ -2,6 +2,9 @@
  * Readable paragraphs: instead of one cell whose text runs off to the right, a paragraph gets a merged, wrapped area
  * from column A across the sheet's text width, on a row tall enough for its text. Pure; the renderer carries it out.
  */
+import { paragraphHeight } from '../core/report/paragraphHeight';
+
+export { LINE_POINTS, MAX_ROW_POINTS } from '../core/report/paragraphHeight';
 
 /** A paragraph's merged, wrapped area: its row (0-based), from column A across `columnCount` columns. */
 export interface WrapArea {
@@ -16,15 +19,8 @@ export const MIN_TEXT_COLUMNS = 6;
 /** … nor grows past this (a very wide table would make lines too long to read). */
 export const MAX_TEXT_COLUMNS = 12;
 
-/** Height of one line of text at the default font size, in points (common practice: Excel's standard row, 15). */
-export const LINE_POINTS = 15;
-/** Excel's maximum row height in points (Excel specifications and limits: 409 points). */
-export const MAX_ROW_POINTS = 409;
-/**
- * Prose characters per character of column width: widths count the digit "0", and an average character of prose
- * is a little narrower (common practice approximation).
- */
-const PROSE_PER_WIDTH = 1.1;
+/** Points per character of column width the add-in sets (renderSheet; common practice: about 7). */
+export const POINTS_PER_CHARACTER = 7;
 
 /**
  * Columns a sheet's paragraphs span: those of its widest table, kept within 6 to 12.
@@ -37,28 +33,19 @@ export function textColumns(tableColumnCounts: readonly number[]): number {
 }
 
 /**
- * Row height in points for `characters` of text in an area `widthCharacters` wide:
- * lines = ceil(characters / (width × 1.1)), at least 1; height = lines × 15, at most 409.
- * Example: fitHeight(300, 96) → 3 lines → 45. Cost O(1).
- */
-export function fitHeight(characters: number, widthCharacters: number): number {
-  const perLine = Math.max(1, widthCharacters) * PROSE_PER_WIDTH;
-  const lines = Math.max(1, Math.ceil(characters / perLine));
-  return Math.min(MAX_ROW_POINTS, lines * LINE_POINTS);
-}
-
-/**
- * Plans the wrap areas of paragraphs (their rows and text lengths) across `columnCount` columns of the given widths
- * in characters. Cost O(paragraphs + columns).
- * Example: planWrapAreas([{ row: 2, characters: 300 }], 8, [12, 12, 12, 12, 12, 12, 12, 12])
- * → [{ row: 2, columnCount: 8, heightPoints: 45 }].
+ * Plans the wrap areas of paragraphs (their rows, text and weight) across `columnCount` columns of the given widths
+ * in characters, each `POINTS_PER_CHARACTER` points wide as the add-in sets them; the height is paragraphHeight's
+ * (src/core/report/paragraphHeight.ts, the same function as the .xlsx writer's). Cost O(characters + columns).
+ * Example: planWrapAreas([{ row: 2, text: 'Short note.', bold: false }], 8, [12, 12, 12, 12, 12, 12, 12, 12])
+ * → [{ row: 2, columnCount: 8, heightPoints: 15 }].
  */
 export function planWrapAreas(
-  paragraphs: readonly { readonly row: number; readonly characters: number }[],
+  paragraphs: readonly { readonly row: number; readonly text: string; readonly bold: boolean }[],
   columnCount: number,
   widths: readonly number[],
 ): WrapArea[] {
-  let width = 0;
-  for (let j = 0; j < columnCount; j++) width += widths[j] ?? 0;
-  return paragraphs.map((p) => ({ row: p.row, columnCount, heightPoints: fitHeight(p.characters, width) }));
+  let chars = 0;
+  for (let j = 0; j < columnCount; j++) chars += widths[j] ?? 0;
+  const points = chars * POINTS_PER_CHARACTER;
+  return paragraphs.map((p) => ({ row: p.row, columnCount, heightPoints: paragraphHeight(p.text, points, p.bold) }));
 }

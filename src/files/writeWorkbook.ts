@@ -1,6 +1,7 @@
 import ExcelJS from 'exceljs';
 import type { ChartSpec, NumberFormat, ParagraphBlock, SheetCell, SheetSpec, TableBlock } from '../core/report/types';
 import { numberFormatFor } from '../core/report/formats';
+import { columnWidthPoints, LINE_POINTS, paragraphHeight } from '../core/report/paragraphHeight';
 import { uniqueSheetNames, uniqueTableName } from './sheetNames';
 import { addCharts, type PlacedChart } from './addCharts';
 import type { PlacedLink } from './addLinks';
@@ -12,10 +13,14 @@ export const CHART_DATA_CAPTION = (title: string): string => `Numbers behind the
 /** Rows a chart covers (about 20 × 15 points, some 10 cm tall). */
 export const CHART_ROWS = 20;
 
-const TITLE_FONT: Partial<ExcelJS.Font> = { bold: true, size: 14 };
-const HEADING_FONT: Partial<ExcelJS.Font> = { bold: true, size: 12 };
-const CAPTION_FONT: Partial<ExcelJS.Font> = { bold: true };
-const CAUTION_FONT: Partial<ExcelJS.Font> = { bold: true, italic: true, color: { argb: 'FF9C2A00' } };
+/** Every font we set names the workbook's default face, Calibri (LibreOffice shows it with the metric-compatible
+ * Carlito): a font without a name is shown in the reader's own default face, wider than the widths row heights are
+ * measured with (paragraphHeight.ts). */
+const FACE = { name: 'Calibri', family: 2 } as const;
+const TITLE_FONT: Partial<ExcelJS.Font> = { ...FACE, bold: true, size: 14 };
+const HEADING_FONT: Partial<ExcelJS.Font> = { ...FACE, bold: true, size: 12 };
+const CAPTION_FONT: Partial<ExcelJS.Font> = { ...FACE, bold: true, size: 11 };
+const CAUTION_FONT: Partial<ExcelJS.Font> = { ...FACE, bold: true, italic: true, size: 11, color: { argb: 'FF9C2A00' } };
 const MIN_WIDTH = 8;
 const MAX_WIDTH = 60;
 
@@ -130,8 +135,8 @@ interface SheetState {
   /** Table ids on this sheet → the names their Excel tables got (unique in the workbook). */
   readonly tableIds: Map<string, string>;
   readonly widths: number[];
-  /** Rows of wrapped paragraphs and their text, laid out once the column widths are known. */
-  readonly wraps: { readonly row: number; readonly text: string }[];
+  /** Rows of wrapped paragraphs, their text and weight, laid out once the column widths are known. */
+  readonly wraps: { readonly row: number; readonly text: string; readonly bold: boolean }[];
   /** The tables written so far, where they stand and what their cells hold (charts are bound to them). */
   readonly written: WrittenTable[];
   /** Charts placed so far: first row (1-based) and bound series; their width is set once column widths are known. */
@@ -144,30 +149,30 @@ interface SheetState {
 
 /** Widths of columns no table sets (Excel's default is about 8.43 characters). */
 const DEFAULT_COLUMN_WIDTH = 8.43;
-/** Excel's largest row height in points, and the height of one line of the default 11-point font. */
-const MAX_ROW_HEIGHT = 409;
-const LINE_HEIGHT = 15;
+/** The height of one line of the default 11-point font, in points. */
+const LINE_HEIGHT = LINE_POINTS;
 
-/**
- * Lays each long paragraph over a merged, wrapped area from column A across the sheet's text width (the widest table,
- * at least 6 and at most 12 columns), with a row height that fits it, so a reader never scrolls sideways to read a
- * sentence. Lines are estimated from the characters that fit the area's width (column width counts characters of the
- * default font; 1.1 allows for proportional text). Short paragraphs that fit in the area stay on one line.
- */
+/** The sheet's text width in columns: the widest table's, at least 6 and at most 12. */
 function textColumnCount(st: SheetState): number {
   return Math.min(12, Math.max(6, st.widths.length));
 }
 
+/**
+ * Lays each long paragraph over a merged, wrapped area from column A across the sheet's text width, so a reader never
+ * scrolls sideways to read a sentence, on a row as tall as its wrapped lines (paragraphHeight, measured with the
+ * default font's character widths and a margin, the same function the add-in uses). A paragraph that fits on one
+ * line keeps the default height.
+ */
 function wrapParagraphs(st: SheetState): void {
   const columns = textColumnCount(st);
-  let chars = 0;
-  for (let j = 0; j < columns; j++) chars += st.widths[j] ?? DEFAULT_COLUMN_WIDTH;
-  for (const { row, text } of st.wraps) {
+  let points = 0;
+  for (let j = 0; j < columns; j++) points += columnWidthPoints(st.widths[j] ?? DEFAULT_COLUMN_WIDTH);
+  for (const { row, text, bold } of st.wraps) {
     st.ws.mergeCells(row, 1, row, columns);
     const cell = st.ws.getCell(row, 1);
     cell.alignment = { wrapText: true, vertical: 'top' };
-    const lines = Math.max(1, Math.ceil(text.length / (chars * 1.1)));
-    if (lines > 1) st.ws.getRow(row).height = Math.min(MAX_ROW_HEIGHT, lines * LINE_HEIGHT);
+    const height = paragraphHeight(text, points, bold);
+    if (height > LINE_HEIGHT) st.ws.getRow(row).height = height;
   }
 }
 
@@ -184,7 +189,7 @@ function writeParagraph(st: SheetState, text: string, font: Partial<ExcelJS.Font
   const cell = st.ws.getCell(st.row, 1);
   cell.value = fitCell(text);
   if (font) cell.font = font;
-  if (!heading) st.wraps.push({ row: st.row, text });
+  if (!heading) st.wraps.push({ row: st.row, text, bold: font?.bold === true });
   st.row += 1;
   st.spaced = false;
 }

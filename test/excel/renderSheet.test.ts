@@ -1,6 +1,7 @@
 /** Rendering a SheetSpec into a new worksheet (src/excel/renderSheet.ts) against a recording fake (see fakeExcel.ts). */
 import { afterEach, describe, expect, it } from 'vitest';
 import type { SheetSpec } from '../../src/core/report/types';
+import { paragraphHeight } from '../../src/core/report/paragraphHeight';
 import { renderSheet } from '../../src/excel/renderSheet';
 import { installFakeExcel, type Op } from './fakeExcel';
 
@@ -164,12 +165,14 @@ describe('renderSheet', () => {
     // The caution is on row 5 (title 1, heading 3); its area spans the table's 8 columns, A to H.
     expect(ofKind(wb.ops, 'merge')).toEqual([{ op: 'merge', sheet: 'Results', address: 'A5:H5', across: false }]);
     const format = ofKind(wb.ops, 'format').filter((o) => o.address === 'A5:H5');
-    // 8 columns × 12 characters = 96; the caution's 359 characters / 105.6 → 4 lines of 15 points.
+    // 8 columns × 12 characters × 7 points = 672 points; the caution's 359 bold characters take 3 lines of 15 points
+    // (the shared core function, paragraphHeight.test.ts).
     expect(long.length).toBe(359);
+    expect(paragraphHeight(long, 96 * 7, true)).toBe(45);
     expect(format.map((o) => [o.key, o.value])).toEqual([
       ['wrapText', true],
       ['verticalAlignment', 'Top'],
-      ['rowHeight', 60],
+      ['rowHeight', 45],
     ]);
     // The text went in as text ("@" first, then the value) before the area was merged around it; the merge writes
     // no values or formats of its own, so the top-left cell keeps both.

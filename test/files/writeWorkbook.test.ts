@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import ExcelJS from 'exceljs';
 import { writeWorkbook, CHART_DATA_CAPTION } from '../../src/files/writeWorkbook';
 import { CAUTIONS } from '../../src/core/report/cautions';
+import { columnWidthPoints, paragraphHeight } from '../../src/core/report/paragraphHeight';
 import type { SheetSpec } from '../../src/core/report/types';
 
 async function load(bytes: Uint8Array): Promise<ExcelJS.Workbook> {
@@ -190,11 +191,12 @@ describe('writeWorkbook lays long sentences out to be read without scrolling sid
     expect(ws.getCell(headingRow, 2).isMerged).toBe(false);
   });
 
-  it('gives a long paragraph a taller row, lines estimated from the characters that fit the merged width', async () => {
+  it('gives a long paragraph a taller row, its lines measured with the font widths across the merged width', async () => {
     const ws = (await load(await writeWorkbook([spec]))).getWorksheet('Wrapped')!;
-    // 8 columns × 10 characters × 1.1 = 88 characters a line; the long text is 6 × 87 = 522 characters → 6 lines of
-    // 15 points (arithmetic on the rule in wrapParagraphs).
+    // 8 columns of 10 characters, (7 × 10 + 5) × 0.75 = 56.25 points each: 450 points; the shared core function
+    // (paragraphHeight.test.ts pins its arithmetic) gives the 522-character text 6 lines of 15 points.
     expect(long.length).toBe(522);
+    expect(ws.getRow(5).height).toBe(paragraphHeight(long, 8 * columnWidthPoints(10)));
     expect(ws.getRow(5).height).toBe(6 * 15);
     expect(ws.getRow(4).height ?? 15).toBe(15);
     expect(ws.getCell(5, 1).value).toBe(long);

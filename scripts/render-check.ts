@@ -6,6 +6,7 @@
  *   - the page count is reasonable (at least one page a sheet, at most MAX_PAGES),
  *   - no table is split across pages sideways (some page shows every column heading of each table),
  *   - each chart renders: below its title on the page, the chart area holds coloured pixels (series, not only text),
+ *   - the summary page shows the treatment difference at the last visit with the digits formatCell gives,
  *   - every wrapped paragraph of the summary sheet, the longest caution among them, is whole: its last words are
  *     printed and no other text is printed over its lines (a row too short for its text is either cut or overrun by
  *     the next row, depending on the reader); at least one of them wraps onto more than one line.
@@ -18,6 +19,7 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import JSZip from 'jszip';
 import { CAUTIONS, UNBLINDED_CAUTION } from '../src/core/report/cautions';
+import { formatCell } from '../src/core/report/formats';
 import { colouredPixels, readPng } from './render/png';
 
 const INSTALL = 'apt-get install -y --no-install-recommends libreoffice-calc-nogui poppler-utils fonts-crosextra-carlito';
@@ -181,6 +183,7 @@ async function main(): Promise<void> {
     else console.log(`chart "${title}" (${count}) drawn on ${drawn.join('; ')}`);
   }
   wholeParagraphs(words, facts.summaryParagraphs, [...CAUTIONS, UNBLINDED_CAUTION]);
+  sameDigits(words);
   if (facts.charts.length < 3) fail(`the demo report has ${facts.charts.length} charts; at least 3 expected (means over time, on-time rate by site, visits by status)`);
 
   if (process.env.LONGIPANE_UPDATE_DOCS === '1' && pngs[0] !== undefined) {
@@ -241,6 +244,27 @@ function wholeParagraphs(words: readonly (readonly Word[])[], paragraphs: readon
     console.log(`paragraph "${opening} …" (${text.length} characters${text === longest ? ', the longest caution' : ''}) whole on page ${page + 1}: ${lines} line${lines === 1 ? '' : 's'}, ending "${closing}"`);
   }
   if (wrapped === 0) fail('no paragraph of the summary sheet wraps, so the check of whole paragraphs proves nothing');
+}
+
+/**
+ * The second reader shows a number's digits as the page and the pane do: the treatment difference at the last visit
+ * (from the results JSON) stands on the summary page's table row for that visit exactly as formatCell writes it, so
+ * each cell's stored number-format code gives the same text in LibreOffice.
+ */
+function sameDigits(words: readonly (readonly Word[])[]): void {
+  const json = JSON.parse(readFileSync(join(ROOT, 'out', 'demo-results.json'), 'utf8')) as { model?: { treatmentEffects?: { label: string; estimate: number; lower: number; upper: number }[] } };
+  const last = json.model?.treatmentEffects?.at(-1);
+  if (last === undefined) return fail('the demo results have no treatment difference to compare digits with');
+  const want = [last.estimate, last.lower, last.upper].map((x) => formatCell(x, 'significant'));
+  const label = last.label.split(/\s+/);
+  const page = words[0] ?? [];
+  const lines = new Map<number, string[]>();
+  for (const w of page) lines.set(Math.round(w.yMin), [...(lines.get(Math.round(w.yMin)) ?? []), w.text]);
+  const row = [...lines.values()].find((ws) => label.every((l) => ws.includes(l)) && want.some((t) => ws.includes(t)));
+  if (row === undefined || !want.every((t) => row.includes(t))) {
+    return fail(`the summary page does not show the difference at ${last.label} as ${want.join(', ')} (found: ${row?.join(' ') ?? 'no such row'})`);
+  }
+  console.log(`the summary page shows the difference at ${last.label} as the page and pane do: ${want.join(', ')}`);
 }
 
 /** The lowest word on any page, which is in the footer. */

@@ -7,9 +7,12 @@ const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.s
 /** Builds the workbook (its printed pages stamped with the run) and starts the download; the Blob URL is released
  * once the click has been handled. */
 export async function downloadReport(sheets: readonly SheetSpec[], fileName: string, stamp: PrintStamp = {}): Promise<void> {
-  const bytes = await writeWorkbook(sheets, stamp);
-  const blob = new Blob([bytes as Uint8Array<ArrayBuffer>], { type: XLSX_TYPE });
-  downloadBlob(blob, fileName);
+  downloadBytes(await writeWorkbook(sheets, stamp), fileName);
+}
+
+/** Starts the download of a report's .xlsx bytes under `fileName`. */
+export function downloadBytes(bytes: Uint8Array, fileName: string): void {
+  downloadBlob(new Blob([bytes as Uint8Array<ArrayBuffer>], { type: XLSX_TYPE }), fileName);
 }
 
 /** Starts a download of `blob` under `fileName`. */

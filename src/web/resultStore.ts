@@ -23,11 +23,13 @@ export interface PageState {
   readonly shownHeaders: readonly string[] | null;
   /** The last run's date and input fingerprint, for the footer of the downloaded report's printed pages. */
   readonly stamp: PrintStamp;
+  /** Writes the last run's report (.xlsx bytes): in the engine worker on the page; null before a run. */
+  readonly report: (() => Promise<Uint8Array>) | null;
 }
 
 /** A tiny observable holder, read by React through useSyncExternalStore. */
 export class ResultStore {
-  private state: PageState = { sheets: [], source: null, highlight: null, notice: null, shownHeaders: null, stamp: {} };
+  private state: PageState = { sheets: [], source: null, highlight: null, notice: null, shownHeaders: null, stamp: {}, report: null };
   private readonly listeners = new Set<() => void>();
 
   readonly subscribe = (listener: () => void): (() => void) => {

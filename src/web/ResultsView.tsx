@@ -73,7 +73,7 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
             ))}
           </nav>
           {state.sheets.map((s) => (
-            <SheetView key={s.name} name={s.name} spec={s.spec} />
+            <SheetView key={s.name} name={s.name} spec={s.spec} {...(s.tableRows !== undefined ? { tableRows: s.tableRows } : {})} />
           ))}
         </>
       )}

@@ -5,13 +5,15 @@
  * A run reports each stage and then waits for the page's answer before going on, so the page has drawn the stage
  * before the next one starts and a cancel pressed meanwhile stops the run at that boundary (as runAnalysis checks its
  * signal between stages). The worker keeps the latest data file's cells and the latest finished run's sheets, so a
- * report request carries only the sheet names, never the sheets themselves.
+ * report request carries only the sheet names, never the sheets themselves; the page receives only what it shows
+ * (pageView.ts).
  */
 import type { CellValue } from '../core/intake/types';
 import { runAnalysis } from '../core/pipeline/runAnalysis';
 import type { SheetSpec } from '../core/report/types';
 import { writeWorkbook } from '../files';
 import type { FromEngine, Post, ToEngine } from './engineMessages';
+import { pageViewOf } from './pageView';
 import { readDataBytes } from './readData';
 
 type Cells = readonly (readonly CellValue[])[];
@@ -56,7 +58,8 @@ export function createEngineHost(post: Post<FromEngine>): EngineHost {
           }),
       });
       if (output.ok) lastRun = { id, sheets: output.sheets };
-      post({ kind: 'done', run: id, output }, []);
+      const view = pageViewOf(output);
+      post({ kind: 'done', run: id, output: view.output, tableRows: view.tableRows }, []);
     } catch (e) {
       post({ kind: 'failed', run: id, message: messageOf(e) }, []);
     } finally {

@@ -8,6 +8,7 @@ import type { AnalysisOutput, AnalysisSettings, Stage } from '../core/pipeline/t
 import type { CellValue } from '../core/intake/types';
 import type { PrintStamp } from '../files';
 import type { SheetSpec } from '../core/report/types';
+import type { TableRowCounts } from './pageView';
 
 /** Page → worker. */
 export type ToEngine =
@@ -36,7 +37,9 @@ export type ToEngine =
 /** Worker → page. */
 export type FromEngine =
   | { readonly kind: 'stage'; readonly run: number; readonly stage: Stage }
-  | { readonly kind: 'done'; readonly run: number; readonly output: AnalysisOutput }
+  /** The page's copy of the output (pageView.ts: long tables cut, long JSON lists left out), with the full row
+   * counts of the cut tables. */
+  | { readonly kind: 'done'; readonly run: number; readonly output: AnalysisOutput; readonly tableRows: TableRowCounts }
   | { readonly kind: 'failed'; readonly run: number; readonly message: string }
   | { readonly kind: 'written'; readonly request: number; readonly bytes: ArrayBuffer }
   | { readonly kind: 'writeFailed'; readonly request: number; readonly message: string };

@@ -14,7 +14,12 @@ export interface HighlightedCell {
 
 export interface PageState {
   /** The sheets of the last run, each with the unique name it was given. */
-  readonly sheets: readonly { readonly name: string; readonly spec: SheetSpec }[];
+  readonly sheets: readonly {
+    readonly name: string;
+    readonly spec: SheetSpec;
+    /** Per block, the table's full row count where the page's copy holds only its first rows (pageView.ts). */
+    readonly tableRows?: readonly (number | null)[];
+  }[];
   readonly source: DataSource | null;
   readonly highlight: HighlightedCell | null;
   /** A message about a cell address the page could not show, or null. */

@@ -119,7 +119,11 @@ export function createWebActions(store: ResultStore = new ResultStore(), worker?
 
     async writeResults(output, onProgress) {
       const names = uniqueSheetNames(output.sheets.map((s) => s.name));
-      const sheets = output.sheets.map((spec, i) => ({ name: names[i] ?? spec.name, spec }));
+      const counts = worker?.tableRowsOf(output);
+      const sheets = output.sheets.map((spec, i) => {
+        const tableRows = counts?.[i];
+        return { name: names[i] ?? spec.name, spec, ...(tableRows !== undefined ? { tableRows } : {}) };
+      });
       const stamp = printStampOf(output.json);
       const report =
         worker !== undefined

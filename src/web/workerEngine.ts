@@ -12,6 +12,7 @@ import type { SheetSpec } from '../core/report/types';
 import type { PrintStamp } from '../files';
 import type { PaneEngine } from '../taskpane/engine';
 import type { FromEngine, ToEngine } from './engineMessages';
+import type { TableRowCounts } from './pageView';
 
 type Cells = readonly (readonly CellValue[])[];
 
@@ -46,6 +47,8 @@ export class WorkerEngine {
   private sources = new WeakMap<object, number>();
   /** Outputs that came from the worker → their run number (the worker keeps the latest run's sheets). */
   private runs = new WeakMap<object, number>();
+  /** Outputs that came from the worker → the full row counts of their tables cut for the page (pageView.ts). */
+  private readonly tableRows = new WeakMap<object, TableRowCounts>();
   /** Sources sent and not yet matched to the page's cells → the worker generation they were sent to. */
   private readonly sent = new Map<number, number>();
   /** Counts workers that stopped: what a stopped worker held is gone. */
@@ -90,6 +93,11 @@ export class WorkerEngine {
     });
   }
 
+  /** For an output from the worker: per sheet and block, the full row count of each table cut for the page. */
+  tableRowsOf(output: AnalysisOutput): TableRowCounts | undefined {
+    return this.tableRows.get(output);
+  }
+
   /** Stops the worker (a page that goes away); the next call starts a new one. */
   dispose(): void {
     this.fail('The page\'s engine was stopped.');
@@ -129,7 +137,10 @@ export class WorkerEngine {
       case 'done': {
         const pending = this.pendingRuns.get(message.run);
         this.pendingRuns.delete(message.run);
-        if (message.output.ok) this.runs.set(message.output, message.run);
+        if (message.output.ok) {
+          this.runs.set(message.output, message.run);
+          this.tableRows.set(message.output, message.tableRows);
+        }
         pending?.resolve(message.output);
         return;
       }

@@ -126,6 +126,39 @@ async function readMonitor(page: Page): Promise<{ task: number; gap: number }> {
   return page.evaluate('({ task: Math.round(window.benchMonitor.longest), gap: Math.round(window.benchMonitor.gap) })');
 }
 
+/** With LONGIPANE_PAGE_PROFILE=1: the page thread's CPU profile (Chrome DevTools Protocol) around a phase, printed as
+ * the functions with the most time of their own, to say what a long task was made of. */
+const PROFILE = process.env.LONGIPANE_PAGE_PROFILE === '1';
+
+interface ProfileNode {
+  readonly id: number;
+  readonly callFrame: { readonly functionName: string; readonly url: string; readonly lineNumber: number };
+}
+
+async function profiled<T>(page: Page, label: string, work: () => Promise<T>): Promise<T> {
+  if (!PROFILE) return work();
+  const cdp = await page.context().newCDPSession(page);
+  await cdp.send('Profiler.enable');
+  await cdp.send('Profiler.setSamplingInterval', { interval: 1000 });
+  await cdp.send('Profiler.start');
+  const result = await work();
+  const { profile } = (await cdp.send('Profiler.stop')) as unknown as {
+    profile: { nodes: ProfileNode[]; samples: number[]; timeDeltas: number[] };
+  };
+  const self = new Map<number, number>();
+  profile.samples.forEach((id, i) => self.set(id, (self.get(id) ?? 0) + (profile.timeDeltas[i] ?? 0)));
+  const byName = new Map<string, number>();
+  for (const n of profile.nodes) {
+    const f = n.callFrame;
+    const name = `${f.functionName || '(anonymous)'} ${f.url.replace(/^.*\//, '')}:${f.lineNumber}`;
+    byName.set(name, (byName.get(name) ?? 0) + (self.get(n.id) ?? 0) / 1000);
+  }
+  const top = [...byName].filter(([n]) => !n.startsWith('(idle)') && !n.startsWith('(program)')).sort((a, b) => b[1] - a[1]).slice(0, 10);
+  process.stdout.write(`${label}: page thread, most self time (ms)\n${top.map(([n, ms]) => `  ${ms.toFixed(0).padStart(6)}  ${n}`).join('\n')}\n`);
+  await cdp.detach();
+  return result;
+}
+
 async function measure(page: Page, base: string, rows: number, dir: string): Promise<PageBenchEntry> {
   const data = join(dir, `listing-${rows}.csv`);
   const schedule = join(dir, 'schedule.csv');
@@ -152,21 +185,26 @@ async function measure(page: Page, base: string, rows: number, dir: string): Pro
 
   await resetMonitor(page);
   t0 = performance.now();
-  await pane.getByRole('button', { name: 'Run the analysis' }).click();
-  await pane.getByRole('heading', { name: 'Sheets written' }).waitFor({ timeout: 900_000 });
-  const runSeconds = seconds(t0);
-  const run = await readMonitor(page);
+  const run = await profiled(page, `run at ${rows} rows`, async () => {
+    await pane.getByRole('button', { name: 'Run the analysis' }).click();
+    await pane.getByRole('heading', { name: 'Sheets written' }).waitFor({ timeout: 900_000 });
+    return readMonitor(page);
+  });
+  const runSeconds = seconds(t0) - 0.5; // less readMonitor's settle
 
   await resetMonitor(page);
   t0 = performance.now();
-  const [download] = await Promise.all([
-    page.waitForEvent('download', { timeout: 900_000 }),
-    page.locator('.results-area').getByRole('button', { name: 'Download report (.xlsx)' }).click(),
-  ]);
-  const downloadSeconds = seconds(t0);
+  let downloadSeconds = 0;
   const saved = join(dir, `report-${rows}.xlsx`);
-  await download.saveAs(saved);
-  const dl = await readMonitor(page);
+  const dl = await profiled(page, `download at ${rows} rows`, async () => {
+    const [download] = await Promise.all([
+      page.waitForEvent('download', { timeout: 900_000 }),
+      page.locator('.results-area').getByRole('button', { name: 'Download report (.xlsx)' }).click(),
+    ]);
+    downloadSeconds = seconds(t0);
+    await download.saveAs(saved);
+    return readMonitor(page);
+  });
   return {
     rows,
     fileMB: Math.round(statSync(data).size / 1e5) / 10,

@@ -3,7 +3,7 @@ import type { ReactNode } from 'react';
 import { useState, useSyncExternalStore } from 'react';
 import { INVENTED_DATA_NOTE } from '../core/report/cautions';
 import { isDemoSource } from './demoData';
-import { downloadBytes, downloadReport, reportFileName } from './download';
+import { downloadReport, downloadReportFile, reportFileName } from './download';
 import type { ResultStore } from './resultStore';
 import { sheetDomId } from './resultStore';
 import { SheetView } from './SheetView';
@@ -18,7 +18,7 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
     setError(null);
     try {
       // The workbook is written in the engine worker (state.report), so the page keeps answering meanwhile.
-      if (state.report !== null) downloadBytes(await state.report(), reportFileName(new Date()));
+      if (state.report !== null) downloadReportFile(await state.report(), reportFileName(new Date()));
       else await downloadReport(state.sheets.map((s) => ({ ...s.spec, name: s.name })), reportFileName(new Date()), state.stamp);
     } catch (e) {
       setError(`The report could not be built: ${e instanceof Error ? e.message : String(e)}`);

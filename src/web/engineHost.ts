@@ -13,18 +13,16 @@ import { runAnalysis } from '../core/pipeline/runAnalysis';
 import type { SheetSpec } from '../core/report/types';
 import { writeWorkbook } from '../files';
 import type { FromEngine, Post, ToEngine } from './engineMessages';
+import { packCells, packedBuffers } from './packedCells';
 import { pageViewOf } from './pageView';
 import { readDataBytes } from './readData';
 
 type Cells = readonly (readonly CellValue[])[];
 
-const messageOf = (e: unknown): string => (e instanceof Error ? e.message : String(e));
+/** The media type of an .xlsx file (ECMA-376 Part 2 / IANA). */
+const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
 
-/** The bytes of a view as a buffer of their own, ready to transfer (no copy when the view already spans its buffer). */
-export function ownBuffer(bytes: Uint8Array): ArrayBuffer {
-  const whole = bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer;
-  return whole ? (bytes.buffer as ArrayBuffer) : (bytes.slice().buffer as ArrayBuffer);
-}
+const messageOf = (e: unknown): string => (e instanceof Error ? e.message : String(e));
 
 export interface EngineHost {
   readonly handle: (message: ToEngine) => void;
@@ -72,8 +70,10 @@ export function createEngineHost(post: Post<FromEngine>): EngineHost {
       const sheets = message.sheets ?? (lastRun !== null && lastRun.id === message.run ? lastRun.sheets : null);
       if (sheets === null) throw new Error('The results of that run are no longer kept: run the analysis again.');
       const named = sheets.map((s, i) => ({ ...s, name: message.names[i] ?? s.name }));
-      const bytes = ownBuffer(await writeWorkbook(named, message.stamp));
-      post({ kind: 'written', request: message.request, bytes }, [bytes]);
+      const bytes = await writeWorkbook(named, message.stamp);
+      const blob = new Blob([bytes as Uint8Array<ArrayBuffer>], { type: XLSX_TYPE });
+      const url = typeof URL.createObjectURL === 'function' ? URL.createObjectURL(blob) : null;
+      post({ kind: 'written', request: message.request, blob, url }, []);
     } catch (e) {
       post({ kind: 'writeFailed', request: message.request, message: messageOf(e) }, []);
     }
@@ -83,11 +83,22 @@ export function createEngineHost(post: Post<FromEngine>): EngineHost {
     handle(message) {
       switch (message.kind) {
         case 'load': {
-          const cells = readDataBytes(new Uint8Array(message.bytes), message.name).then((s) => s.cells);
-          cells.catch(() => undefined); // a failed read is reported by the run that needs it
-          source = { id: message.source, cells };
+          const id = message.source;
+          const read = readDataBytes(new Uint8Array(message.bytes), message.name);
+          source = { id, cells: read.then((s) => s.cells) };
+          read.then(
+            ({ cells, ...rest }) => {
+              const packed = packCells(cells);
+              post({ kind: 'read', source: id, data: { ...rest, packed } }, packedBuffers(packed));
+            },
+            (e: unknown) => post({ kind: 'readFailed', source: id, message: messageOf(e) }, []),
+          );
+          source.cells.catch(() => undefined); // a failed read is reported above, and by a run that needs it
           break;
         }
+        case 'release':
+          URL.revokeObjectURL(message.url);
+          break;
         case 'run':
           void run(message);
           break;

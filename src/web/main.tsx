@@ -6,10 +6,12 @@ import { createWebActions } from './webActions';
 import { WorkerEngine } from './workerEngine';
 import { ResultStore } from './resultStore';
 
+const engine = new WorkerEngine();
+engine.warmUp();
 const root = document.getElementById('root');
 if (root === null) throw new Error('The page has no element with id "root".');
 createRoot(root).render(
   <StrictMode>
-    <Page actions={createWebActions(new ResultStore(), new WorkerEngine())} />
+    <Page actions={createWebActions(new ResultStore(), engine)} />
   </StrictMode>,
 );

@@ -2,6 +2,7 @@
 import type { SheetSpec } from '../core/report/types';
 import type { DataSource } from '../taskpane/actions';
 import type { PrintStamp } from '../files';
+import type { ReportFile } from './workerEngine';
 
 export interface HighlightedCell {
   /** The address as given, e.g. "'egfr-visits'!F17". */
@@ -28,8 +29,8 @@ export interface PageState {
   readonly shownHeaders: readonly string[] | null;
   /** The last run's date and input fingerprint, for the footer of the downloaded report's printed pages. */
   readonly stamp: PrintStamp;
-  /** Writes the last run's report (.xlsx bytes): in the engine worker on the page; null before a run. */
-  readonly report: (() => Promise<Uint8Array>) | null;
+  /** Writes the last run's report (.xlsx): in the engine worker on the page; null before a run. */
+  readonly report: (() => Promise<ReportFile>) | null;
 }
 
 /** A tiny observable holder, read by React through useSyncExternalStore. */

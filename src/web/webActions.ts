@@ -8,10 +8,10 @@ import { STARTER_SCHEDULE, parseCell, parseSchedule, starterScheduleCells } from
 import { printStampOf, readCsvFile, readXlsxBuffer, uniqueSheetNames, writeWorkbook } from '../files';
 import type { DataSource, PaneActions, SavedSettings, ScheduleLoad, WrittenSheet } from '../taskpane/actions';
 import type { PaneEngine } from '../taskpane/engine';
-import { downloadBlob } from './download';
+import { downloadBlob, xlsxBlob } from './download';
 import { baseName, isXlsx, readDataBytes } from './readData';
 import { ResultStore, blindedHeaders, sheetDomId } from './resultStore';
-import type { WorkerEngine } from './workerEngine';
+import type { ReportFile, WorkerEngine } from './workerEngine';
 
 export { baseName } from './readData';
 
@@ -50,9 +50,9 @@ export function splitAddress(address: string): { readonly sheet: string; readonl
 }
 
 /**
- * The page's actions. With `worker` (the page itself), a chosen data file's bytes go to the engine worker at once
- * (a copy, transferred) while the page reads its own copy, runs happen there, and so does the report's writing;
- * without it (tests), everything runs on the calling thread.
+ * The page's actions. With `worker` (the page itself), a chosen data file is read in the engine worker (the page
+ * gets its cells packed), runs happen there, and so does the report's writing; without it (tests), everything runs
+ * on the calling thread.
  */
 export function createWebActions(store: ResultStore = new ResultStore(), worker?: WorkerEngine): WebActions {
   const schedules = new Map<string, readonly ScheduleVisit[]>();
@@ -83,10 +83,8 @@ export function createWebActions(store: ResultStore = new ResultStore(), worker?
       if (kind !== 'file' || file === undefined)
         throw new Error('On this page, data come from a file: choose a CSV or .xlsx file.');
       onProgress?.(0.1);
-      const buffer = await file.arrayBuffer();
-      const sent = worker?.sendSource(buffer.slice(0), file.name);
-      const source = await readDataBytes(new Uint8Array(buffer), file.name);
-      if (sent !== undefined) worker?.sourceRead(sent, source.cells);
+      const source =
+        worker !== undefined ? await worker.readSource(await file.arrayBuffer(), file.name) : await readDataFile(file);
       onProgress?.(1);
       store.update({ source, highlight: null, notice: null, shownHeaders: null });
       return source;
@@ -128,7 +126,10 @@ export function createWebActions(store: ResultStore = new ResultStore(), worker?
       const report =
         worker !== undefined
           ? () => worker.writeReport(output, names, stamp)
-          : () => writeWorkbook(sheets.map((s) => ({ ...s.spec, name: s.name })), stamp);
+          : async (): Promise<ReportFile> => ({
+              blob: xlsxBlob(await writeWorkbook(sheets.map((s) => ({ ...s.spec, name: s.name })), stamp)),
+              url: null,
+            });
       store.update({ sheets, highlight: null, notice: null, shownHeaders: blindedHeaders(output.json), stamp, report });
       onProgress?.(1);
       return sheets.map((s): WrittenSheet => ({ name: s.name, title: s.spec.title }));

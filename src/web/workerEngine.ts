@@ -1,8 +1,7 @@
 /**
- * The page's side of the engine worker: a PaneEngine whose runAnalysis happens in the worker, and the report's
- * writing there too. The page keeps its own copy of the cells (for the column choices and "go to cell"); the worker
- * reads the same file's bytes, handed over once when the file is chosen, so a run sends only the settings and the
- * results come back as one message. Progress (each stage) and cancel work as in the page's own thread: the worker
+ * The page's side of the engine worker: the data file is read there (its bytes handed over once), and so are the
+ * runs (runAnalysis) and the report's writing. The page receives the cells packed (for the column choices and "go to
+ * cell"), the results cut to what it shows, and the report as a file with its address; a run sends only the settings. Progress (each stage) and cancel work as in the page's own thread: the worker
  * waits at each stage for the page's go-ahead, which says whether the run was cancelled.
  */
 import type { CellValue } from '../core/intake/types';
@@ -10,8 +9,10 @@ import { detectMapping } from '../core/intake';
 import type { AnalysisOutput, AnalysisSettings, RunHooks } from '../core/pipeline/types';
 import type { SheetSpec } from '../core/report/types';
 import type { PrintStamp } from '../files';
+import type { DataSource } from '../taskpane/actions';
 import type { PaneEngine } from '../taskpane/engine';
 import type { FromEngine, ToEngine } from './engineMessages';
+import { unpackCells } from './packedCells';
 import type { TableRowCounts } from './pageView';
 
 type Cells = readonly (readonly CellValue[])[];
@@ -30,8 +31,21 @@ interface PendingRun {
   readonly reject: (error: Error) => void;
 }
 
+/** A written report: the file, and its blob: address when the worker registered one (release it when done). */
+export interface ReportFile {
+  readonly blob: Blob;
+  readonly url: string | null;
+  /** Lets go of `url` (the worker revokes it). */
+  readonly release?: () => void;
+}
+
 interface PendingWrite {
-  readonly resolve: (bytes: Uint8Array) => void;
+  readonly resolve: (file: ReportFile) => void;
+  readonly reject: (error: Error) => void;
+}
+
+interface PendingRead {
+  readonly resolve: (source: DataSource) => void;
   readonly reject: (error: Error) => void;
 }
 
@@ -49,12 +63,9 @@ export class WorkerEngine {
   private runs = new WeakMap<object, number>();
   /** Outputs that came from the worker → the full row counts of their tables cut for the page (pageView.ts). */
   private readonly tableRows = new WeakMap<object, TableRowCounts>();
-  /** Sources sent and not yet matched to the page's cells → the worker generation they were sent to. */
-  private readonly sent = new Map<number, number>();
-  /** Counts workers that stopped: what a stopped worker held is gone. */
-  private generation = 0;
   private readonly pendingRuns = new Map<number, PendingRun>();
   private readonly pendingWrites = new Map<number, PendingWrite>();
+  private readonly pendingReads = new Map<number, PendingRead>();
 
   /** The engine the pane calls: mappings are proposed here (cheap), runs happen in the worker. */
   readonly engine: PaneEngine = {
@@ -66,27 +77,29 @@ export class WorkerEngine {
 
   /** Hands a data file's bytes to the worker (transferred: `bytes` is unusable afterwards) and notes that `cells`,
    * the page's own reading of the same bytes, are held there too. */
-  /** Hands a data file's bytes to the worker, which starts reading them at once (transferred: `bytes` is unusable
-   * afterwards); returns the number to pass to `sourceRead` with the page's own reading of the same bytes. */
-  sendSource(bytes: ArrayBuffer, name: string): number {
+  /**
+   * Reads a data file in the worker (the bytes are transferred: unusable here afterwards). The worker keeps the
+   * cells for runs; the page gets them packed (packedCells.ts), seen as rows built when read, so it holds no object
+   * per cell. Rejects with the reader's message when the file cannot be read.
+   */
+  readSource(bytes: ArrayBuffer, name: string): Promise<DataSource> {
     const id = this.nextId++;
-    this.post({ kind: 'load', source: id, name, bytes }, [bytes]);
-    this.sent.set(id, this.generation);
-    return id;
+    return new Promise<DataSource>((resolve, reject) => {
+      this.pendingReads.set(id, { resolve, reject });
+      this.post({ kind: 'load', source: id, name, bytes }, [bytes]);
+    });
   }
 
-  /** Notes that `cells`, the page's own reading of the bytes sent as `source`, are held by the worker too, so runs on
-   * them send no cells. */
-  sourceRead(source: number, cells: Cells): void {
-    if (this.sent.get(source) === this.generation) this.sources.set(cells, source);
-    this.sent.delete(source);
+  /** Lets the worker release a report's blob: address (after the download has started). */
+  releaseReport(url: string): void {
+    this.worker?.postMessage({ kind: 'release', url }, []);
   }
 
   /** The report's .xlsx bytes for a run's output, with its sheets named `names`, written in the worker. */
-  writeReport(output: Extract<AnalysisOutput, { ok: true }>, names: readonly string[], stamp: PrintStamp): Promise<Uint8Array> {
+  writeReport(output: Extract<AnalysisOutput, { ok: true }>, names: readonly string[], stamp: PrintStamp): Promise<ReportFile> {
     const request = this.nextId++;
     const run = this.runs.get(output);
-    return new Promise<Uint8Array>((resolve, reject) => {
+    return new Promise<ReportFile>((resolve, reject) => {
       this.pendingWrites.set(request, { resolve, reject });
       const sheets: readonly SheetSpec[] | null = run === undefined ? output.sheets : null;
       this.post({ kind: 'write', request, run: run ?? null, names, sheets, stamp }, []);
@@ -108,11 +121,22 @@ export class WorkerEngine {
     const source = this.sources.get(cells);
     return new Promise<AnalysisOutput>((resolve, reject) => {
       this.pendingRuns.set(run, { hooks, resolve, reject });
-      this.post({ kind: 'run', run, source: source ?? null, cells: source === undefined ? cells : null, settings }, []);
+      // Cells the worker does not hold go with the run, as plain arrays (a packed view cannot be cloned).
+      const copy = source === undefined ? Array.from(cells, (row) => [...row]) : null;
+      this.post({ kind: 'run', run, source: source ?? null, cells: copy, settings }, []);
     });
   }
 
+  /** Starts the worker now (the page does at load, so its script is ready by the time a file is chosen). */
+  warmUp(): void {
+    this.ensureWorker();
+  }
+
   private post(message: ToEngine, transfer: Transferable[]): void {
+    this.ensureWorker().postMessage(message, transfer);
+  }
+
+  private ensureWorker(): WorkerLike {
     if (this.worker === null) {
       const worker = this.start();
       worker.addEventListener('message', (event) => void this.receive(event.data));
@@ -121,11 +145,26 @@ export class WorkerEngine {
       );
       this.worker = worker;
     }
-    this.worker.postMessage(message, transfer);
+    return this.worker;
   }
 
   private async receive(message: FromEngine): Promise<void> {
     switch (message.kind) {
+      case 'read': {
+        const pending = this.pendingReads.get(message.source);
+        this.pendingReads.delete(message.source);
+        const { packed, ...rest } = message.data;
+        const cells = unpackCells(packed);
+        this.sources.set(cells, message.source);
+        pending?.resolve({ ...rest, cells });
+        return;
+      }
+      case 'readFailed': {
+        const pending = this.pendingReads.get(message.source);
+        this.pendingReads.delete(message.source);
+        pending?.reject(new Error(message.message));
+        return;
+      }
       case 'stage': {
         const pending = this.pendingRuns.get(message.run);
         if (pending === undefined) return;
@@ -153,7 +192,8 @@ export class WorkerEngine {
       case 'written': {
         const pending = this.pendingWrites.get(message.request);
         this.pendingWrites.delete(message.request);
-        pending?.resolve(new Uint8Array(message.bytes));
+        const url = message.url;
+        pending?.resolve(url === null ? { blob: message.blob, url } : { blob: message.blob, url, release: () => this.releaseReport(url) });
         return;
       }
       case 'writeFailed': {
@@ -169,11 +209,12 @@ export class WorkerEngine {
   private fail(reason: string): void {
     this.worker?.terminate();
     this.worker = null;
-    this.generation++;
     this.sources = new WeakMap();
     this.runs = new WeakMap();
     for (const p of this.pendingRuns.values()) p.reject(new Error(reason));
     for (const p of this.pendingWrites.values()) p.reject(new Error(reason));
+    for (const p of this.pendingReads.values()) p.reject(new Error(reason));
+    this.pendingReads.clear();
     this.pendingRuns.clear();
     this.pendingWrites.clear();
   }

@@ -19,6 +19,8 @@ import { fromSaved, toAnalysisSettings } from '../../src/taskpane/paneSettings';
 import { createEngineHost } from '../../src/web/engineHost';
 import type { FromEngine, ToEngine } from '../../src/web/engineMessages';
 import { PAGE_LIST_LIMIT, PAGE_TABLE_ROWS, pageViewOf } from '../../src/web/pageView';
+import { packCells, packedBuffers, unpackCells } from '../../src/web/packedCells';
+import fc from 'fast-check';
 import { readDataBytes } from '../../src/web/readData';
 import { WorkerEngine, type WorkerLike } from '../../src/web/workerEngine';
 
@@ -89,16 +91,21 @@ describe('the page engine in a worker', () => {
   it('a run on a file sent to the worker gives the page what a run on its own thread gives, with every stage in order, and sends no cells', async () => {
     const { source, settings } = await demoRun();
     const { engine, workers } = engineWith();
-    const id = engine.sendSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
-    engine.sourceRead(id, source.cells);
+    const read = await engine.readSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
+    // The page's reading, from the worker, is the reading on its own thread: the same label, places and cells.
+    const { cells: packedView, ...rest } = read;
+    const { cells: own, ...ownRest } = source;
+    expect(rest).toEqual(ownRest);
+    expect(packedView.length).toBe(own.length);
+    expect([...packedView]).toEqual(own);
     const stages: Stage[] = [];
-    const output = await engine.engine.runAnalysis(source.cells, settings, { onStage: (s) => stages.push(s) });
+    const output = await engine.engine.runAnalysis(read.cells, settings, { onStage: (s) => stages.push(s) });
     const direct = await runAnalysis(source.cells, settings);
     expect(stages).toEqual(['reading', 'windowing', 'fitting', 'writing']);
     expect(output).toEqual(pageViewOf(direct).output);
     expect(output.ok).toBe(true);
     const run = workers[0]!.sent.find((m) => m.kind === 'run');
-    expect(run).toMatchObject({ kind: 'run', source: id, cells: null });
+    expect(run).toMatchObject({ kind: 'run', source: expect.any(Number), cells: null });
     // Four "go" answers, one per stage, none cancelling.
     expect(workers[0]!.sent.filter((m) => m.kind === 'go')).toEqual(
       [1, 2, 3, 4].map(() => expect.objectContaining({ kind: 'go', cancel: false })),
@@ -106,13 +113,12 @@ describe('the page engine in a worker', () => {
   });
 
   it('a cancel pressed during a stage stops the run before the next stage and nothing is written', async () => {
-    const { source, settings } = await demoRun();
+    const { settings } = await demoRun();
     const { engine } = engineWith();
-    const id = engine.sendSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
-    engine.sourceRead(id, source.cells);
+    const read = await engine.readSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
     const controller = new AbortController();
     const stages: Stage[] = [];
-    const output = await engine.engine.runAnalysis(source.cells, settings, {
+    const output = await engine.engine.runAnalysis(read.cells, settings, {
       signal: controller.signal,
       onStage: (s) => {
         stages.push(s);
@@ -132,13 +138,16 @@ describe('the page engine in a worker', () => {
   });
 
   it('the report is written in the worker from its own copy of the run, under the names the page gave the sheets', async () => {
-    const { source, settings } = await demoRun();
+    const { settings } = await demoRun();
     const { engine, workers } = engineWith();
-    const id = engine.sendSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
-    engine.sourceRead(id, source.cells);
-    const output = (await engine.engine.runAnalysis(source.cells, settings, {})) as Extract<AnalysisOutput, { ok: true }>;
+    const read = await engine.readSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
+    const output = (await engine.engine.runAnalysis(read.cells, settings, {})) as Extract<AnalysisOutput, { ok: true }>;
     const names = output.sheets.map((s, i) => (i === 0 ? 'Front page' : s.name));
-    const bytes = await engine.writeReport(output, names, { runAt: '2026-12-02T10:00:00.000Z' });
+    const file = await engine.writeReport(output, names, { runAt: '2026-12-02T10:00:00.000Z' });
+    expect(file.blob.type).toBe('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet');
+    expect(file.url).toMatch(/^blob:/);
+    file.release?.();
+    const bytes = new Uint8Array(await file.blob.arrayBuffer());
     expect(Buffer.from(bytes.subarray(0, 2)).toString('latin1')).toBe('PK'); // an .xlsx is a ZIP (ECMA-376 Part 2)
     const book = new ExcelJS.Workbook();
     await book.xlsx.load(Buffer.from(bytes) as unknown as ArrayBuffer);
@@ -151,18 +160,21 @@ describe('the page engine in a worker', () => {
     const { source, settings } = await demoRun();
     const { engine, workers } = engineWith();
     await expect(engine.engine.runAnalysis(source.cells, { ...settings, schedule: [] }, {})).rejects.toThrow(/the schedule has no visits/);
-    const id = engine.sendSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
-    engine.sourceRead(id, source.cells);
-    const waiting = engine.engine.runAnalysis(source.cells, settings, {
+    const read = await engine.readSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
+    const waiting = engine.engine.runAnalysis(read.cells, settings, {
       onStage: () => workers[0]!.crash('out of memory'),
     });
     await expect(waiting).rejects.toThrow("The page's engine stopped: out of memory.");
     expect(workers[0]!.terminated).toBe(true);
-    // The new worker does not hold the file, so the cells go with the run.
-    const again = await engine.engine.runAnalysis(source.cells, settings, {});
+    // The new worker does not hold the file, so the cells go with the run (copied out of the packed view).
+    const again = await engine.engine.runAnalysis(read.cells, settings, {});
     expect(again.ok).toBe(true);
     expect(workers).toHaveLength(2);
-    expect(workers[1]!.sent.find((m) => m.kind === 'run')).toMatchObject({ source: null });
+    expect(workers[1]!.sent.find((m) => m.kind === 'run')).toMatchObject({ source: null, cells: source.cells });
+    // A file the reader refuses: the page gets the reader's own message.
+    await expect(readDataBytes(new Uint8Array(0), 'empty.csv')).rejects.toThrow();
+    const direct = await readDataBytes(new Uint8Array(0), 'empty.csv').catch((e: unknown) => (e as Error).message);
+    await expect(engine.readSource(new ArrayBuffer(0), 'empty.csv')).rejects.toThrow(direct);
   });
 });
 
@@ -201,5 +213,28 @@ describe("the page's copy of a run (pageViewOf)", () => {
     });
     // The output itself is untouched (the worker writes the report from it).
     expect(output.ok && output.sheets[0]!.blocks[1]!.kind === 'table' && output.sheets[0]!.blocks[1]!.rows.length).toBe(PAGE_TABLE_ROWS + 5);
+  });
+});
+
+describe('packed cells (packedCells.ts)', () => {
+  it('round-trip: any rows of text, numbers (−0 included), booleans and blanks, of any lengths, read back the same after crossing as a clone', () => {
+    const cell = fc.oneof(fc.string(), fc.double(), fc.constant(-0), fc.boolean(), fc.constant(null), fc.constantFrom('1', 1, ''));
+    fc.assert(
+      fc.property(fc.array(fc.array(cell, { maxLength: 6 }), { maxLength: 30 }), (rows) => {
+        const packed = packCells(rows);
+        const view = unpackCells(structuredClone(packed, { transfer: packedBuffers(packed) }));
+        expect(view.length).toBe(rows.length);
+        const back = Array.from(view, (r) => [...r]);
+        expect(back).toEqual(rows);
+        back.forEach((r, i) => r.forEach((v, j) => expect(Object.is(v, rows[i]![j])).toBe(true)));
+        expect(view[rows.length]).toBeUndefined();
+      }),
+    );
+  });
+
+  it('holds each distinct value of a column once', () => {
+    const packed = packCells([['USUBJID', 'AVAL'], ['K-1', '61.5'], ['K-1', '61.5'], ['K-2', '61.5']]);
+    expect(packed.columns.map((c) => c.values)).toEqual([['USUBJID', 'K-1', 'K-2'], ['AVAL', '61.5']]);
+    expect(packed.lengths).toBeNull();
   });
 });

@@ -3,6 +3,7 @@
  * entries (bench/model-bench.ts), each beside its baseline measured in the same run. Writes bench/latest.json and
  * prints a table. Sizes can be given as arguments: `npm run bench -- 10000 50000`. Then the hostile-workbook cases
  * (bench/hostile-bench.ts), written to bench/hostile-latest.json; `npm run bench -- hostile` runs only those.
+ * `npm run bench -- page [rows…]` runs only the browser page's bench (bench/page-bench.ts, bench/page-latest.json).
  */
 import { writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -10,7 +11,18 @@ import { fileURLToPath } from 'node:url';
 import { runModelBench } from './model-bench';
 import { runTimingBench } from './timing-bench';
 import { runHostileBench } from './hostile-bench';
+import { pageBenchTable, runPageBench } from './page-bench';
 import type { BenchEntry } from './types';
+
+// `npm run bench -- page [rows…]`: the browser page only (bench/page-bench.ts), at 300,000 and 1,000,000 rows by
+// default; writes bench/page-latest.json.
+if (process.argv[2] === 'page') {
+  const given = process.argv.slice(3).map(Number).filter((n) => Number.isInteger(n) && n > 0);
+  const page = await runPageBench(given.length > 0 ? given : [300_000, 1_000_000]);
+  writeFileSync(join(dirname(fileURLToPath(import.meta.url)), 'page-latest.json'), `${JSON.stringify(page, null, 2)}\n`);
+  process.stdout.write(`${pageBenchTable(page)}\nWrote bench/page-latest.json\n`);
+  process.exit(0);
+}
 
 const onlyHostile = process.argv.includes('hostile');
 const sizes = process.argv.slice(2).map(Number).filter((n) => Number.isInteger(n) && n > 0);

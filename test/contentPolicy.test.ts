@@ -11,12 +11,14 @@ function policy(file: string): Map<string, string[]> {
 }
 
 describe('Content-Security-Policy (issue item 15)', () => {
-  it('the page allows scripts and everything else from itself only, and no connections at all', () => {
+  it('the page allows scripts, its engine worker and everything else from itself only, and no connections at all', () => {
     const p = policy('src/web/index.html');
     expect(p.get('default-src')).toEqual(["'self'"]);
     expect(p.get('script-src')).toEqual(["'self'"]);
     expect(p.get('connect-src')).toEqual(["'none'"]);
     expect(p.get('object-src')).toEqual(["'none'"]);
+    // The engine runs in a worker (src/web/engine.worker.ts), a script of the page's own origin; nothing else.
+    expect(p.get('worker-src')).toEqual(["'self'"]);
     for (const sources of p.values()) for (const s of sources) expect(s).not.toMatch(/^https?:|^\*|'unsafe-eval'/);
   });
 

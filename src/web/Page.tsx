@@ -8,7 +8,7 @@ export function Page({ actions }: { readonly actions: WebActions }): ReactNode {
   return (
     <div className="page">
       <div className="pane" aria-label="Analysis steps">
-        <App actions={actions} />
+        {actions.engine !== undefined ? <App actions={actions} engine={actions.engine} /> : <App actions={actions} />}
       </div>
       <div className="results-area">
         <ResultsView store={actions.store} />

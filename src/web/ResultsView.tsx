@@ -3,7 +3,7 @@ import type { ReactNode } from 'react';
 import { useState, useSyncExternalStore } from 'react';
 import { INVENTED_DATA_NOTE } from '../core/report/cautions';
 import { isDemoSource } from './demoData';
-import { downloadReport, reportFileName } from './download';
+import { downloadReport, downloadReportFile, reportFileName } from './download';
 import type { ResultStore } from './resultStore';
 import { sheetDomId } from './resultStore';
 import { SheetView } from './SheetView';
@@ -17,11 +17,9 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
     setBusy(true);
     setError(null);
     try {
-      await downloadReport(
-        state.sheets.map((s) => ({ ...s.spec, name: s.name })),
-        reportFileName(new Date()),
-        state.stamp,
-      );
+      // The workbook is written in the engine worker (state.report), so the page keeps answering meanwhile.
+      if (state.report !== null) downloadReportFile(await state.report(), reportFileName(new Date()));
+      else await downloadReport(state.sheets.map((s) => ({ ...s.spec, name: s.name })), reportFileName(new Date()), state.stamp);
     } catch (e) {
       setError(`The report could not be built: ${e instanceof Error ? e.message : String(e)}`);
     } finally {
@@ -75,7 +73,7 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
             ))}
           </nav>
           {state.sheets.map((s) => (
-            <SheetView key={s.name} name={s.name} spec={s.spec} />
+            <SheetView key={s.name} name={s.name} spec={s.spec} {...(s.tableRows !== undefined ? { tableRows: s.tableRows } : {})} />
           ))}
         </>
       )}

@@ -14,7 +14,14 @@ export function yAxisOf(chart: ChartSpec, sheet: SheetSpec): 'plain' | 'percent'
   return columns.length > 0 && columns.every((c) => c.format === 'percent1') ? 'percent' : 'plain';
 }
 
-export function SheetView({ name, spec }: { readonly name: string; readonly spec: SheetSpec }): ReactNode {
+export interface SheetViewProps {
+  readonly name: string;
+  readonly spec: SheetSpec;
+  /** Per block, the table's full row count where `spec` holds only its first rows (pageView.ts). */
+  readonly tableRows?: readonly (number | null)[];
+}
+
+export function SheetView({ name, spec, tableRows }: SheetViewProps): ReactNode {
   return (
     <section className="sheet" id={sheetDomId(name)} aria-labelledby={`${sheetDomId(name)}-title`}>
       <h2 id={`${sheetDomId(name)}-title`} tabIndex={-1}>
@@ -30,7 +37,10 @@ export function SheetView({ name, spec }: { readonly name: string; readonly spec
             </p>
           );
         }
-        if (block.kind === 'table') return <TableView key={i} table={block} />;
+        if (block.kind === 'table') {
+          const total = tableRows?.[i];
+          return <TableView key={i} table={block} {...(typeof total === 'number' ? { totalRows: total } : {})} />;
+        }
         return <ChartView key={i} chart={block.chart} yAxis={yAxisOf(block.chart, spec)} />;
       })}
     </section>

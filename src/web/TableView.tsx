@@ -3,6 +3,7 @@ import type { ReactNode } from 'react';
 import { useEffect, useId, useRef, useState } from 'react';
 import type { TableBlock } from '../core/report/types';
 import { formatCell } from '../core/report/formats';
+import { PAGE_TABLE_ROWS } from './pageView';
 
 export interface TableViewProps {
   readonly table: TableBlock;
@@ -10,6 +11,8 @@ export interface TableViewProps {
   readonly maxRows?: number;
   /** Rows shown at first when the table is long (more than twice this); a button shows the rest (default 12). */
   readonly previewRows?: number;
+  /** The table's full row count when `table` holds only its first rows (the page's copy, pageView.ts). */
+  readonly totalRows?: number;
 }
 
 const NUMERIC = new Set(['integer', 'decimal1', 'decimal2', 'decimal3', 'decimal4', 'decimal6', 'significant', 'percent1', 'pvalue']);
@@ -24,8 +27,9 @@ function cellClass(column: TableBlock['columns'][number]): string | undefined {
   return undefined;
 }
 
-export function TableView({ table, maxRows = 200, previewRows = 12 }: TableViewProps): ReactNode {
-  const long = table.rows.length > 2 * previewRows;
+export function TableView({ table, maxRows = PAGE_TABLE_ROWS, previewRows = 12, totalRows }: TableViewProps): ReactNode {
+  const total = Math.max(totalRows ?? 0, table.rows.length);
+  const long = total > 2 * previewRows;
   const [open, setOpen] = useState(!long);
   // "Show all" disappears once pressed: keyboard focus goes to the table's scrolling region, not the page's top.
   const regionId = useId();
@@ -70,12 +74,12 @@ export function TableView({ table, maxRows = 200, previewRows = 12 }: TableViewP
             setOpen(true);
           }}
         >
-          Show all {table.rows.length.toLocaleString('en-US')} rows
+          Show all {total.toLocaleString('en-US')} rows
         </button>
       )}
-      {open && table.rows.length > maxRows && (
+      {open && total > maxRows && (
         <p className="table-note">
-          Showing the first {maxRows.toLocaleString('en-US')} of {table.rows.length.toLocaleString('en-US')} rows. The
+          Showing the first {maxRows.toLocaleString('en-US')} of {total.toLocaleString('en-US')} rows. The
           downloaded report has them all.
         </p>
       )}

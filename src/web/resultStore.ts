@@ -2,6 +2,7 @@
 import type { SheetSpec } from '../core/report/types';
 import type { DataSource } from '../taskpane/actions';
 import type { PrintStamp } from '../files';
+import type { ReportFile } from './workerEngine';
 
 export interface HighlightedCell {
   /** The address as given, e.g. "'egfr-visits'!F17". */
@@ -14,7 +15,12 @@ export interface HighlightedCell {
 
 export interface PageState {
   /** The sheets of the last run, each with the unique name it was given. */
-  readonly sheets: readonly { readonly name: string; readonly spec: SheetSpec }[];
+  readonly sheets: readonly {
+    readonly name: string;
+    readonly spec: SheetSpec;
+    /** Per block, the table's full row count where the page's copy holds only its first rows (pageView.ts). */
+    readonly tableRows?: readonly (number | null)[];
+  }[];
   readonly source: DataSource | null;
   readonly highlight: HighlightedCell | null;
   /** A message about a cell address the page could not show, or null. */
@@ -23,11 +29,13 @@ export interface PageState {
   readonly shownHeaders: readonly string[] | null;
   /** The last run's date and input fingerprint, for the footer of the downloaded report's printed pages. */
   readonly stamp: PrintStamp;
+  /** Writes the last run's report (.xlsx): in the engine worker on the page; null before a run. */
+  readonly report: (() => Promise<ReportFile>) | null;
 }
 
 /** A tiny observable holder, read by React through useSyncExternalStore. */
 export class ResultStore {
-  private state: PageState = { sheets: [], source: null, highlight: null, notice: null, shownHeaders: null, stamp: {} };
+  private state: PageState = { sheets: [], source: null, highlight: null, notice: null, shownHeaders: null, stamp: {}, report: null };
   private readonly listeners = new Set<() => void>();
 
   readonly subscribe = (listener: () => void): (() => void) => {

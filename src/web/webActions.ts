@@ -5,53 +5,29 @@
 import type { CellValue } from '../core/intake/types';
 import type { ScheduleVisit } from '../core/schedule/types';
 import { STARTER_SCHEDULE, parseCell, parseSchedule, starterScheduleCells } from '../core/schedule';
-import { printStampOf, readCsvFile, readXlsxBuffer, uniqueSheetNames } from '../files';
+import { printStampOf, readCsvFile, readXlsxBuffer, uniqueSheetNames, writeWorkbook } from '../files';
 import type { DataSource, PaneActions, SavedSettings, ScheduleLoad, WrittenSheet } from '../taskpane/actions';
-import { downloadBlob } from './download';
+import type { PaneEngine } from '../taskpane/engine';
+import { downloadBlob, xlsxBlob } from './download';
+import { baseName, isXlsx, readDataBytes } from './readData';
 import { ResultStore, blindedHeaders, sheetDomId } from './resultStore';
+import type { ReportFile, WorkerEngine } from './workerEngine';
+
+export { baseName } from './readData';
 
 export const STARTER_NAME = 'Starter schedule';
 
 export interface WebActions extends PaneActions {
   readonly store: ResultStore;
+  /** The engine the pane runs with: the worker's when the page has one, else (tests) the pane's default. */
+  readonly engine?: PaneEngine;
 }
 
-const isXlsx = (name: string): boolean => /\.xlsx$/i.test(name);
-
-/** The file name without its extension, used as the "sheet" in cell addresses of CSV data ("egfr-visits"). */
-export function baseName(name: string): string {
-  const stem = name.replace(/^.*[\\/]/, '').replace(/\.[^.]+$/, '');
-  return stem === '' ? 'Data' : stem;
-}
-
-/** Reads a picked file into a block of cells: CSV as text (intake reads numbers from text; read as the command line
- * reads it, with the same notes about the file), XLSX's first sheet. */
+/** Reads a picked file into a block of cells (readDataBytes: CSV as text, XLSX's first sheet). */
 export async function readDataFile(file: File): Promise<DataSource> {
-  if (isXlsx(file.name)) {
-    // A byte view rather than the bare ArrayBuffer: readers that test `instanceof ArrayBuffer` can then not be misled
-    // by a buffer from another realm (a worker, a frame, or the test environment's own File).
-    const sheet = await readXlsxBuffer(new Uint8Array(await file.arrayBuffer()));
-    return {
-      label: `${file.name} (sheet ${sheet.sheet})`,
-      sheet: sheet.sheet,
-      topLeft: sheet.topLeft,
-      dateSystem: sheet.dateSystem,
-      cells: sheet.cells,
-      numericText: 'reject',
-    };
-  }
-  // The same CSV reading as the command line: decoding with its notes, the splitter with its notes, the size check.
-  const read = readCsvFile(new Uint8Array(await file.arrayBuffer()), file.name, baseName(file.name));
-  return {
-    // The page's label stays the file name (the page shows it beside each cell, and knows the demo by it).
-    label: file.name,
-    sheet: baseName(file.name),
-    topLeft: 'A1',
-    dateSystem: 1900,
-    cells: read.cells,
-    numericText: 'accept',
-    ...(read.notes.length > 0 ? { fileNotes: read.notes } : {}),
-  };
+  // A byte view rather than the bare ArrayBuffer: readers that test `instanceof ArrayBuffer` can then not be misled
+  // by a buffer from another realm (a worker, a frame, or the test environment's own File).
+  return readDataBytes(new Uint8Array(await file.arrayBuffer()), file.name);
 }
 
 /** The message shown when a schedule table has errors: each problem with its cell, at most five. */
@@ -73,7 +49,12 @@ export function splitAddress(address: string): { readonly sheet: string; readonl
   return { sheet, cell: address.slice(bang + 1) };
 }
 
-export function createWebActions(store: ResultStore = new ResultStore()): WebActions {
+/**
+ * The page's actions. With `worker` (the page itself), a chosen data file is read in the engine worker (the page
+ * gets its cells packed), runs happen there, and so does the report's writing; without it (tests), everything runs
+ * on the calling thread.
+ */
+export function createWebActions(store: ResultStore = new ResultStore(), worker?: WorkerEngine): WebActions {
   const schedules = new Map<string, readonly ScheduleVisit[]>();
   let saved: SavedSettings | null = null;
 
@@ -95,13 +76,15 @@ export function createWebActions(store: ResultStore = new ResultStore()): WebAct
 
   return {
     store,
+    ...(worker !== undefined ? { engine: worker.engine } : {}),
     sourceKinds: ['file'],
 
     async loadData(kind, file, onProgress) {
       if (kind !== 'file' || file === undefined)
         throw new Error('On this page, data come from a file: choose a CSV or .xlsx file.');
       onProgress?.(0.1);
-      const source = await readDataFile(file);
+      const source =
+        worker !== undefined ? await worker.readSource(await file.arrayBuffer(), file.name) : await readDataFile(file);
       onProgress?.(1);
       store.update({ source, highlight: null, notice: null, shownHeaders: null });
       return source;
@@ -134,8 +117,20 @@ export function createWebActions(store: ResultStore = new ResultStore()): WebAct
 
     async writeResults(output, onProgress) {
       const names = uniqueSheetNames(output.sheets.map((s) => s.name));
-      const sheets = output.sheets.map((spec, i) => ({ name: names[i] ?? spec.name, spec }));
-      store.update({ sheets, highlight: null, notice: null, shownHeaders: blindedHeaders(output.json), stamp: printStampOf(output.json) });
+      const counts = worker?.tableRowsOf(output);
+      const sheets = output.sheets.map((spec, i) => {
+        const tableRows = counts?.[i];
+        return { name: names[i] ?? spec.name, spec, ...(tableRows !== undefined ? { tableRows } : {}) };
+      });
+      const stamp = printStampOf(output.json);
+      const report =
+        worker !== undefined
+          ? () => worker.writeReport(output, names, stamp)
+          : async (): Promise<ReportFile> => ({
+              blob: xlsxBlob(await writeWorkbook(sheets.map((s) => ({ ...s.spec, name: s.name })), stamp)),
+              url: null,
+            });
+      store.update({ sheets, highlight: null, notice: null, shownHeaders: blindedHeaders(output.json), stamp, report });
       onProgress?.(1);
       return sheets.map((s): WrittenSheet => ({ name: s.name, title: s.spec.title }));
     },

@@ -158,6 +158,11 @@ describe('dist/ served under a path prefix over HTTPS', () => {
     await page.getByRole('link', { name: 'open the browser page' }).click();
     await page.waitForURL(`${origin}${PREFIX}index.html`);
     await page.locator('.pane').getByRole('heading', { name: 'Longipane' }).waitFor({ timeout: 30_000 });
+    // The page's engine worker starts with the page, from a script addressed relative to it: under the prefix, and
+    // it runs (its message handler is set once its script and the library chunk it imports have loaded).
+    await expect.poll(() => page.workers().filter((w) => w.url().startsWith(`${origin}${PREFIX}`)).length).toBe(1);
+    const worker = page.workers().find((w) => w.url().startsWith(`${origin}${PREFIX}`));
+    await expect.poll(() => worker?.evaluate('typeof self.onmessage')).toBe('function');
     expectClean(['taskpane.html', 'index.html']);
   });
 

@@ -10,7 +10,7 @@
  * so that an ordinary `npm test` (and CI) never changes tracked files.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
@@ -605,6 +605,36 @@ describe('the browser page with the invented demo trial', () => {
     await expect(pane().getByTestId('data-file-name').innerText()).resolves.toBe('egfr-visits.xlsx (sheet Visits)');
     expect(await pane().getByRole('combobox', { name: 'Value', exact: true }).inputValue()).toBe('6');
   });
+
+  it('runs happen in the page\'s engine worker, and a cancel pressed during a run stops it with nothing written', async () => {
+    // The engine worker is a script of the page's own origin (CSP worker-src 'self').
+    expect(page.workers().map((w) => w.url()).filter((u) => u.startsWith(`${base}/`) && u.endsWith('.js'))).toHaveLength(1);
+    // An invented listing large enough that its first stage takes a while: 60,000 participants × 3 visits of the
+    // demo schedule's first three, generated here (invented data, for this test only).
+    const lines = ['USUBJID,SITEID,TRT01P,AVISIT,ADT,RANDDT,AVAL'];
+    const day = (d: number): string => new Date(Date.UTC(2025, 0, 6 + d)).toISOString().slice(0, 10);
+    for (let p = 0; p < 60_000; p++) {
+      const id = `KFT-${String(p % 12 + 1).padStart(2, '0')}-${String(p).padStart(6, '0')}`;
+      const arm = p % 2 === 0 ? 'Placebo' : 'Active';
+      const rand = p % 270;
+      [['Baseline', 0], ['Week 12', 84], ['Week 24', 168]].forEach(([visit, target]) =>
+        lines.push(`${id},Site ${p % 12 + 1},${arm},${visit},${day(rand + Number(target) + (p % 7) - 3)},${day(rand)},${50 + (p % 30)}.5`),
+      );
+    }
+    const big = join(ARTIFACTS, 'cancel-listing.csv');
+    writeFileSync(big, `${lines.join('\n')}\n`);
+    await pane().getByLabel('Visit data file (CSV or Excel .xlsx)').setInputFiles(big);
+    await pane().getByText(/^Read cancel-listing\.csv: 180000 rows\./).waitFor({ timeout: 120_000 });
+    await pane().getByRole('button', { name: 'Confirm columns' }).click();
+    await recordStatus();
+    await pane().getByRole('button', { name: 'Run the analysis' }).click();
+    await pane().getByRole('button', { name: 'Cancel' }).click();
+    await pane().getByText('The run was stopped. Nothing was written.').first().waitFor({ timeout: 120_000 });
+    const said = await statusTexts();
+    expect(said).toContain('Stopping the run…');
+    expect(said.some((t) => t.startsWith('Writing the result sheets'))).toBe(false);
+    await expect(pane().getByRole('heading', { name: 'Sheets written' }).count()).resolves.toBe(0);
+  }, 240_000);
 
   it('the page made no request to any address but the local server, no request failed, and nothing was logged as an error', () => {
     const local = (url: string): boolean =>

@@ -1,0 +1,18 @@
+/**
+ * The page's engine worker: runs the analysis and writes the report off the page's thread, so the page keeps
+ * drawing and answering while they work (see engineHost.ts for what it does, engineMessages.ts for the messages).
+ * Started by workerEngine.ts with `new Worker(new URL('./engine.worker.ts', import.meta.url))`; webpack builds it as
+ * a script of its own beside the page, addressed relative to the page, so any path prefix works.
+ */
+import type { FromEngine, ToEngine } from './engineMessages';
+import { createEngineHost } from './engineHost';
+
+/** The few members of the worker's global scope used here (the project type-checks with the DOM library). */
+interface WorkerScope {
+  postMessage(message: FromEngine, transfer: Transferable[]): void;
+  onmessage: ((event: MessageEvent<ToEngine>) => void) | null;
+}
+
+const scope = self as unknown as WorkerScope;
+const host = createEngineHost((message, transfer) => scope.postMessage(message, transfer));
+scope.onmessage = (event) => host.handle(event.data);

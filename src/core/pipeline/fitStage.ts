@@ -1,6 +1,6 @@
 import type { IntakeTable } from '../intake/types';
-import { DegenerateDataError, fitFromTable, ModelInputError, RankDeficiencyError } from '../model';
-import type { FitOptions, ModelFit } from '../model/types';
+import { compareModels, DegenerateDataError, fitFromTable, fitSlopeFromTable, ModelInputError, RankDeficiencyError, type ModelComparison } from '../model';
+import type { FitOptions, ModelFit, ModelKind } from '../model/types';
 import { dfMethodNote } from '../report/dfNotes';
 import type { SensitivityRun } from '../report/sensitivityReport';
 import type { StudyDays, VisitTiming } from '../schedule/types';
@@ -20,6 +20,8 @@ export interface FitStage {
   readonly notes: readonly string[];
   /** The refits with nominal time and on on-time visits only (empty when the main model was not fitted). */
   readonly sensitivity: readonly SensitivityRun[];
+  /** The model comparison (every model fitted to the main rows, the slope test); null when the main model was not fitted. */
+  readonly comparison: ModelComparison | null;
 }
 
 /**
@@ -40,6 +42,8 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
   let fit: ModelFit | null = null;
   let note: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
   let sensitivity: SensitivityRun[] = [];
+  let comparison: ModelComparison | null = null;
+  const kind: ModelKind = settings.model ?? 'intercept';
   if (note === null) {
     const options: FitOptions & { referenceArm?: string } = {
       method: settings.method,
@@ -50,9 +54,10 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
       residuals: settings.perSubject,
       ...(referenceArm === undefined ? {} : { referenceArm }),
     };
-    const tryFit = (offsets: Float64Array, rows: Uint8Array, opts: typeof options): { fit: ModelFit | null; note: string | null } => {
+    const fitterOf = (k: ModelKind): typeof fitFromTable => (k === 'slope' ? fitSlopeFromTable : fitFromTable);
+    const tryKind = (k: ModelKind, offsets: Float64Array, rows: Uint8Array, opts: typeof options): { fit: ModelFit | null; note: string | null } => {
       try {
-        const f = fitFromTable(table, offsets, rows, opts);
+        const f = fitterOf(k)(table, offsets, rows, opts);
         // A fit that did not converge has no numbers to show: no model, the engine's reason as the note.
         return f.status === 'failed' ? { fit: null, note: `the fit did not converge: ${f.message}` } : { fit: f, note: null };
       } catch (e) {
@@ -60,13 +65,19 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
         return { fit: null, note: e.message };
       }
     };
+    const tryFit = (offsets: Float64Array, rows: Uint8Array, opts: typeof options): { fit: ModelFit | null; note: string | null } => tryKind(kind, offsets, rows, opts);
     ({ fit, note } = tryFit(days.offsets, include, options));
     if (fit !== null) {
       sensitivity = sensitivityRuns(days, timing, settings.schedule, include, options, tryFit);
+      // The model comparison: the other of the intercept and slope models on the same rows, when it can be fitted.
+      const other: ModelKind = kind === 'slope' ? 'intercept' : 'slope';
+      const otherFit = tryKind(other, days.offsets, include, { ...options, residuals: false }).fit;
+      const fits = [{ kind, fit }, ...(otherFit === null ? [] : [{ kind: other, fit: otherFit }])].sort((a, b) => (a.kind === 'intercept' ? -1 : b.kind === 'intercept' ? 1 : 0));
+      comparison = compareModels(fits, settings.level);
       const dfNote = dfMethodNote(settings.method, settings.dfMethod);
       if (dfNote !== null) notes.push(dfNote);
     }
   }
   const arms = unblinded ? (fit?.arms ?? orderedArms(table.arms, referenceArm)) : [];
-  return { fit, note, arms, means: observedMeans(table, timing, settings.schedule, include, arms), notes, sensitivity };
+  return { fit, note, arms, means: observedMeans(table, timing, settings.schedule, include, arms), notes, sensitivity, comparison };
 }

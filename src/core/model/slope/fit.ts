@@ -47,11 +47,15 @@ const UNSOUND = 'the fit gave numbers that cannot be reported, so no model is re
 export function fitRandomSlope(data: ModelData, options: FitOptions): SlopeFit {
   validateModelShape(data, options);
   if (options.design === 'intercept-only') throw new ModelInputError("the random intercept and slope model needs time in the design; design 'intercept-only' is for the random-intercept model.");
-  validateModelRows(data);
   const scaled = scaleModelData(data);
   const sc = scaled.scaling;
   const design = buildDesign(scaled.data, false);
+  // Values and times are finite (scaleModelData refuses others). Subject indices out of range would be dropped by the
+  // typed arrays, so the participants' counts must add up to the rows; otherwise, or with arm indices out of range
+  // (the general layout), the row-by-row validation names the row.
+  if (design.armCol >= 0 && data.covariates.length === 0) validateArms(data, design.nArms);
   const sums = slopeSums(scaled.data, design);
+  if (countTotal(sums) !== data.y.length || (design.armCol >= 0 && sums.group === null)) validateModelRows(data);
   const p = design.p;
   const N = sums.nObs;
   if (sums.nP < 2) throw new DegenerateDataError('one-subject', ONE_SUBJECT);
@@ -222,6 +226,13 @@ function slopeResiduals(data: ModelData, scaledData: ModelData, design: Design, 
  */
 function slopeContainment(s: SlopeSums): ContainmentDf {
   const p = s.p;
+  if (s.group !== null) {
+    // Grouped layout: a column is between-participant exactly when it takes nothing from time (row 1 of every E_a),
+    // given that some participant has two different times (checked before).
+    const between: boolean[] = [];
+    for (let j = 0; j < p; j++) between.push(s.E.every((E) => E[p + j] === 0));
+    return containmentOf(s, between);
+  }
   const pooled = new Float64Array(p);
   const row = new Float64Array(p);
   for (let i = 0; i < s.nP; i++) {
@@ -239,6 +250,11 @@ function slopeContainment(s: SlopeSums): ContainmentDf {
     const total = s.xtx[j * p + j]!;
     between.push(total - pooled[j]! <= 1e-12 * total);
   }
+  return containmentOf(s, between);
+}
+
+function containmentOf(s: SlopeSums, between: readonly boolean[]): ContainmentDf {
+  const p = s.p;
   const nBetween = between.filter((b) => b).length;
   const betweenDf = s.nP - nBetween;
   const withinDf = s.nObs - s.nP - (p - nBetween);
@@ -259,6 +275,25 @@ function slopeContainment(s: SlopeSums): ContainmentDf {
 const RANK_ONE =
   'The between-participant covariance matrix is at its boundary (singular): the intercepts and slopes are perfectly correlated, or one of them does not vary, so the fit has one random effect fewer than the model allows.';
 const ZERO_G = 'The between-participant covariance matrix is zero: participants differ neither in level nor in rate of change beyond the within-participant variation.';
+
+function countTotal(s: SlopeSums): number {
+  let total = 0;
+  for (let i = 0; i < s.nP; i++) total += s.n[i]!;
+  return total;
+}
+
+/** Throws (through validateModelRows, naming the row) when an arm index is out of range. Cost O(n). */
+function validateArms(data: ModelData, nArms: number): void {
+  const arm = data.armIndex;
+  if (arm === null) return;
+  for (let r = 0; r < arm.length; r++) {
+    const a = arm[r]!;
+    if (!(a >= 0 && a < nArms)) {
+      validateModelRows(data);
+      return;
+    }
+  }
+}
 
 /** True when some participant has two different times (within-participant time spread above rounding). */
 function hasTwoTimes(s: SlopeSums): boolean {

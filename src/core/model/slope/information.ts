@@ -28,12 +28,23 @@ export interface SlopeInformation {
   readonly information: Float64Array;
 }
 
-/** A symmetric 2 × 2 matrix [a00, a01, a10, a11]. */
+/** A 2 × 2 matrix [a00, a01, a10, a11]. */
 export type M2 = [number, number, number, number];
-const mul = (a: M2, b: M2): M2 => [a[0] * b[0] + a[1] * b[2], a[0] * b[1] + a[1] * b[3], a[2] * b[0] + a[3] * b[2], a[2] * b[1] + a[3] * b[3]];
-const tr = (a: M2): number => a[0] + a[3];
-const tp = (a: M2): M2 => [a[0], a[2], a[1], a[3]];
-const add = (a: M2, b: M2, k = 1): M2 => [a[0] + k * b[0], a[1] + k * b[1], a[2] + k * b[2], a[3] + k * b[3]];
+
+/** out = a b for 2 × 2 matrices (out must not be a or b). */
+function mulInto(a: ArrayLike<number>, b: ArrayLike<number>, out: Float64Array): void {
+  out[0] = a[0]! * b[0]! + a[1]! * b[2]!;
+  out[1] = a[0]! * b[1]! + a[1]! * b[3]!;
+  out[2] = a[2]! * b[0]! + a[3]! * b[2]!;
+  out[3] = a[2]! * b[1]! + a[3]! * b[3]!;
+}
+
+function transposeInto(a: Float64Array, out: Float64Array): void {
+  out[0] = a[0]!;
+  out[1] = a[2]!;
+  out[2] = a[1]!;
+  out[3] = a[3]!;
+}
 /** G = G11 E11 + G12 E12 + G22 E22: the basis of the unstructured G (θ = (G11, G12, G22, σ²)). */
 export const FULL_BASIS: readonly M2[] = [
   [1, 0, 0, 0],
@@ -56,38 +67,68 @@ export function slopeInformation(s: SlopeSums, D: RelativeG, sigma2: number, phi
   const P = Array.from({ length: q }, () => new SandwichSum(s));
   const Q = Array.from({ length: q * q }, () => new SandwichSum(s));
   const T = new Float64Array(q * q);
-  const f = new Float64Array(4);
+  // Scratch 2 × 2 matrices (row-major), reused for every participant: no allocation in the loop.
+  const F = new Float64Array(4);
+  const Ft = new Float64Array(4);
+  const C = new Float64Array(4);
+  const M = new Float64Array(4);
+  const K = new Float64Array(4);
+  const MC = new Float64Array(4);
+  const MCM = new Float64Array(4);
+  const FCFt = new Float64Array(4);
+  const w1 = new Float64Array(4);
+  const w2 = new Float64Array(4);
+  const w3 = new Float64Array(4);
+  const Eb = E.map((e) => Float64Array.from(e));
+  const FtErF = E.map(() => new Float64Array(4));
+  const KE = E.map(() => new Float64Array(4));
+  const FtEr = E.map(() => new Float64Array(4));
+  const D4 = Float64Array.from(Dm);
   for (let i = 0; i < s.nP; i++) {
     const n = s.n[i]!;
     const t = s.st[i]!;
     const tt = s.stt[i]!;
-    inverseOfIPlusCD(n, t, tt, d11, d12, d22, f);
-    const F: M2 = [f[0]!, f[1]!, f[2]!, f[3]!];
-    const Ft = tp(F);
-    const C: M2 = [n, t, t, tt];
-    const M = mul(Dm, F);
-    const K = mul(F, C);
-    const MC = mul(M, C);
-    const MCM = mul(MC, M);
-    const FtErF = E.map((Er) => mul(mul(Ft, Er), F));
-    const KE = E.map((Er) => mul(K, Er));
+    inverseOfIPlusCD(n, t, tt, d11, d12, d22, F);
+    transposeInto(F, Ft);
+    C[0] = n;
+    C[1] = t;
+    C[2] = t;
+    C[3] = tt;
+    mulInto(D4, F, M);
+    mulInto(F, C, K);
+    mulInto(M, C, MC);
+    mulInto(MC, M, MCM);
+    mulInto(F, C, w1);
+    mulInto(w1, Ft, FCFt);
+    for (let r = 0; r < nb; r++) {
+      mulInto(Ft, Eb[r]!, FtEr[r]!);
+      mulInto(FtEr[r]!, F, FtErF[r]!);
+      mulInto(K, Eb[r]!, KE[r]!);
+    }
     for (let r = 0; r < nb; r++) {
       const a = FtErF[r]!;
-      P[r]!.add(i, a[0], a[1], a[2], a[3]);
+      P[r]!.add(i, a[0]!, a[1]!, a[2]!, a[3]!);
       for (let c = r; c < nb; c++) {
-        const qm = mul(mul(mul(Ft, E[r]!), mul(K, E[c]!)), F);
-        Q[r * q + c]!.add(i, qm[0], qm[1], qm[2], qm[3]);
-        T[r * q + c] = T[r * q + c]! + tr(mul(KE[r]!, KE[c]!));
+        // F'E_r K E_c F
+        mulInto(FtEr[r]!, KE[c]!, w2);
+        mulInto(w2, F, w3);
+        Q[r * q + c]!.add(i, w3[0]!, w3[1]!, w3[2]!, w3[3]!);
+        mulInto(KE[r]!, KE[c]!, w2);
+        T[r * q + c] = T[r * q + c]! + w2[0]! + w2[3]!;
       }
-      const q3 = mul(a, F); // F'E_rF·F
-      Q[r * q + nb]!.add(i, q3[0], q3[1], q3[2], q3[3]);
-      T[r * q + nb] = T[r * q + nb]! + tr(mul(E[r]!, mul(mul(F, C), Ft)));
+      mulInto(a, F, w3); // F'E_rF·F
+      Q[r * q + nb]!.add(i, w3[0]!, w3[1]!, w3[2]!, w3[3]!);
+      mulInto(Eb[r]!, FCFt, w2);
+      T[r * q + nb] = T[r * q + nb]! + w2[0]! + w2[3]!;
     }
-    const h2 = add(MCM, M, -2);
-    P[nb]!.add(i, h2[0], h2[1], h2[2], h2[3]);
-    const h3 = add(h2, mul(mul(Ft, M), F), -1);
-    Q[q * q - 1]!.add(i, h3[0], h3[1], h3[2], h3[3]);
-    T[q * q - 1] = T[q * q - 1]! + n - 2 * tr(MC) + tr(mul(MC, MC));
+    // X'H⁻²X piece −2M + MCM, X'H⁻³X piece −2M + MCM − F'MF.
+    for (let k = 0; k < 4; k++) w1[k] = MCM[k]! - 2 * M[k]!;
+    P[nb]!.add(i, w1[0]!, w1[1]!, w1[2]!, w1[3]!);
+    mulInto(Ft, M, w2);
+    mulInto(w2, F, w3);
+    Q[q * q - 1]!.add(i, w1[0]! - w3[0]!, w1[1]! - w3[1]!, w1[2]! - w3[2]!, w1[3]! - w3[3]!);
+    mulInto(MC, MC, w2);
+    T[q * q - 1] = T[q * q - 1]! + n - 2 * (MC[0]! + MC[3]!) + w2[0]! + w2[3]!;
   }
   const s4 = sigma2 * sigma2;
   const s6 = s4 * sigma2;

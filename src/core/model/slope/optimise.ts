@@ -52,6 +52,7 @@ export function thetaOf(D: RelativeG, shape: SlopeShape): number[] {
 
 /** Largest step in θ per iteration: keeps exp(θ) finite and the line search sensible. */
 const MAX_STEP = 4;
+const FIRST_STEP = 0.25;
 const MAX_ITER = 400;
 
 interface BfgsResult {
@@ -89,7 +90,9 @@ function bfgs(s: SlopeSums, method: FitMethod, shape: SlopeShape, theta0: readon
     const f0 = -cur.pt.logLik;
     if (-slope <= 1e-13 * (1 + Math.abs(f0))) return { theta: th, point: cur.pt, iterations: iter, converged: true };
     const big = Math.max(...d.map(Math.abs));
-    let step = big > MAX_STEP ? MAX_STEP / big : 1;
+    // Before the first update H is the identity, so the step has the gradient's size: start it at FIRST_STEP in θ.
+    const cap = scaled ? MAX_STEP : FIRST_STEP;
+    let step = big > cap ? cap / big : 1;
     let next: { pt: SlopeProfile; g: number[] } | null = null;
     let thNext = th;
     for (let tries = 0; tries < 60; tries++) {

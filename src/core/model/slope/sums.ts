@@ -67,7 +67,7 @@ export function slopeSums(data: ModelData, design: Design): SlopeSums {
   const sty = new Float64Array(nS);
   const groupedDesign = design.timeCol >= 0 && data.covariates.length === 0 && p === (design.armCol >= 0 ? 2 * design.nArms : 2);
   const arm = design.armCol >= 0 ? data.armIndex : null;
-  let group: Int32Array | null = groupedDesign ? new Int32Array(nS).fill(-1) : null;
+  const groupOf = new Int32Array(groupedDesign ? nS : 0).fill(-1);
   let yty = 0;
   for (let r = 0; r < nRows; r++) {
     const s = subject[r]!;
@@ -79,13 +79,27 @@ export function slopeSums(data: ModelData, design: Design): SlopeSums {
     sy[s] = sy[s]! + v;
     sty[s] = sty[s]! + t * v;
     yty += v * v;
-    if (group !== null) {
-      const a = arm === null ? 0 : arm[r]!;
-      const g = group[s]!;
-      if (g === -1) group[s] = a;
-      else if (g !== a) group = null; // a participant in two arms: the general layout handles it
-    }
   }
+  // The grouped layout needs every participant in one arm; a participant in two arms sends the data to the general one.
+  let grouped = groupedDesign;
+  if (grouped && arm !== null) {
+    const nArms = design.nArms;
+    for (let r = 0; r < nRows; r++) {
+      const s = subject[r]!;
+      const a = arm[r]!;
+      if (!(a >= 0 && a < nArms)) {
+        grouped = false;
+        break;
+      }
+      const g = groupOf[s]!;
+      if (g === -1) groupOf[s] = a;
+      else if (g !== a) {
+        grouped = false;
+        break;
+      }
+    }
+  } else if (grouped) groupOf.fill(0);
+  const group = grouped ? groupOf : null;
   let nP = 0;
   for (let s = 0; s < nS; s++) if (n[s]! > 0) nP++;
   const subjectOf = new Int32Array(nP);

@@ -13,6 +13,7 @@ import { describe, expect, it } from 'vitest';
 import type { FitMethod, ModelData } from '../../../../src/core/model';
 import { buildDesign } from '../../../../src/core/model/design';
 import { slopeProfile, type RelativeG } from '../../../../src/core/model/slope/profile';
+import { slopeAdjustedCovariance, slopeInformation } from '../../../../src/core/model/slope/information';
 import { slopeSums } from '../../../../src/core/model/slope/sums';
 import { normals, seeded } from '../helpers';
 
@@ -112,6 +113,72 @@ describe('slope model: the per-participant 2 × 2 algebra equals the dense n × 
           for (let k = 0; k < 3; k++) close(fast.gradient![k]!, ref.gradient[k]!, 1e-8);
         });
       }
+    }
+  }
+});
+
+/**
+ * The Kenward–Roger pieces in θ = (G11, G12, G22, σ²) against the dense formulas (Kenward & Roger 1997):
+ * V = Z(I⊗G)Z' + σ²I, V_r = ∂V/∂θ_r, P_r = X'V⁻¹V_rV⁻¹X, Q_rs = X'V⁻¹V_rV⁻¹V_sV⁻¹X, Φ = (X'V⁻¹X)⁻¹,
+ * REML information ½ tr(ΠV_rΠV_s) with Π = V⁻¹ − V⁻¹XΦX'V⁻¹ (ML: ½ tr(V⁻¹V_rV⁻¹V_s)), Φ_A = Φ + 2Φ[Σ W_rs(Q_rs −
+ * P_rΦP_s)]Φ. Same data and tolerance reasoning as above (1e-8 relative to each matrix's largest entry).
+ */
+describe('slope model: the Kenward–Roger pieces equal the dense n × n formulas', () => {
+  for (const withCovariate of [false, true]) {
+    for (const method of ['reml', 'ml'] as const) {
+      it(`${withCovariate ? 'general' : 'grouped'} layout, ${method}: expected information and Φ_A to 1e-8`, () => {
+        const data = smallData(withCovariate);
+        const design = buildDesign(data, false);
+        const sums = slopeSums(data, design);
+        const D: RelativeG = [2.5, 0.3, 0.4];
+        const s2 = 1.7;
+        const n = data.y.length;
+        const p = design.p;
+        const X = new Matrix(n, p);
+        const x = new Float64Array(p);
+        for (let r = 0; r < n; r++) {
+          design.fillRow(r, x);
+          for (let j = 0; j < p; j++) X.set(r, j, x[j]!);
+        }
+        const Vr = ([[1, 0, 0], [0, 1, 0], [0, 0, 1]] as const).map((E) => {
+          const m = new Matrix(n, n);
+          for (let a = 0; a < n; a++) {
+            for (let b = 0; b < n; b++) {
+              if (data.subject[a] !== data.subject[b]) continue;
+              const ta = data.time[a]!;
+              const tb = data.time[b]!;
+              m.set(a, b, E[0] + E[1] * (ta + tb) + E[2] * ta * tb);
+            }
+          }
+          return m;
+        });
+        Vr.push(Matrix.eye(n));
+        const V = Matrix.eye(n).mul(s2);
+        [D[0] * s2, D[1] * s2, D[2] * s2].forEach((g, r) => V.add(Vr[r]!.clone().mul(g)));
+        const Vi = inverse(V);
+        const Phi = inverse(X.transpose().mmul(Vi).mmul(X));
+        const Pi = method === 'reml' ? Vi.clone().sub(Vi.mmul(X).mmul(Phi).mmul(X.transpose()).mmul(Vi)) : Vi;
+        const info = new Matrix(4, 4);
+        for (let r = 0; r < 4; r++) for (let c = 0; c < 4; c++) info.set(r, c, 0.5 * Pi.mmul(Vr[r]!).mmul(Pi).mmul(Vr[c]!).trace());
+        const phi = Float64Array.from(Phi.to1DArray());
+        const fast = slopeInformation(sums, D, s2, phi, method);
+        const maxInfo = Math.max(...info.to1DArray().map(Math.abs));
+        for (let k = 0; k < 16; k++) expect(Math.abs(fast.information[k]! - info.to1DArray()[k]!)).toBeLessThan(1e-8 * maxInfo);
+        // Φ_A with W = inverse information.
+        const W = inverse(info);
+        const P = Vr.map((v) => X.transpose().mmul(Vi).mmul(v).mmul(Vi).mmul(X));
+        const inner = new Matrix(p, p);
+        for (let r = 0; r < 4; r++) {
+          for (let c = 0; c < 4; c++) {
+            const Q = X.transpose().mmul(Vi).mmul(Vr[r]!).mmul(Vi).mmul(Vr[c]!).mmul(Vi).mmul(X);
+            inner.add(Q.sub(P[r]!.mmul(Phi).mmul(P[c]!)).mul(W.get(r, c)));
+          }
+        }
+        const phiA = Phi.clone().add(Phi.mmul(inner).mmul(Phi).mul(2)).to1DArray();
+        const fastA = slopeAdjustedCovariance(phi, fast, Float64Array.from(W.to1DArray()), p);
+        const maxA = Math.max(...phiA.map(Math.abs));
+        for (let k = 0; k < p * p; k++) expect(Math.abs(fastA[k]! - phiA[k]!)).toBeLessThan(1e-8 * maxA);
+      });
     }
   }
 });

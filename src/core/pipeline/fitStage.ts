@@ -31,7 +31,9 @@ export interface FitStage {
  * measurement per participant, values that do not vary or vary below their floating-point resolution, magnitudes out of
  * range, not of full rank, numbers that fail the engine's checks) and a fit that did not converge are properties of
  * the data: fit null and the engine's reason as `note`, never a model with wrong numbers. When the main model is
- * fitted, the two sensitivity refits (sensitivity.ts) follow the same path. Cost: O(rows) plus three engine passes.
+ * fitted, the two sensitivity refits (sensitivity.ts) follow the same path, with the same model (settings.model), and
+ * the other of the random-intercept and the random intercept and slope models is fitted to the main rows for the model
+ * comparison (absent, with a note, when it cannot be). Cost: O(rows) plus four engine passes.
  */
 export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTiming, settings: AnalysisSettings): FitStage {
   const include = modelRows(table, timing, settings.scheduledOnly);
@@ -71,7 +73,15 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
       sensitivity = sensitivityRuns(days, timing, settings.schedule, include, options, tryFit);
       // The model comparison: the other of the intercept and slope models on the same rows, when it can be fitted.
       const other: ModelKind = kind === 'slope' ? 'intercept' : 'slope';
-      const otherFit = tryKind(other, days.offsets, include, { ...options, residuals: false }).fit;
+      let otherFit: ModelFit | null = null;
+      let otherNote: string | null = null;
+      try {
+        ({ fit: otherFit, note: otherNote } = tryKind(other, days.offsets, include, { ...options, residuals: false }));
+      } catch (e) {
+        // The comparison is secondary: whatever goes wrong in it must not cost the run its main model.
+        otherNote = e instanceof Error ? e.message : String(e);
+      }
+      if (otherFit === null && otherNote !== null) notes.push(`The ${other === 'slope' ? 'random intercept and slope' : 'random-intercept'} model could not be fitted for the model comparison: ${otherNote.trim().replace(/\.+$/, '')}.`);
       const fits = [{ kind, fit }, ...(otherFit === null ? [] : [{ kind: other, fit: otherFit }])].sort((a, b) => (a.kind === 'intercept' ? -1 : b.kind === 'intercept' ? 1 : 0));
       comparison = compareModels(fits, settings.level);
       const dfNote = dfMethodNote(settings.method, settings.dfMethod);

@@ -2,7 +2,7 @@
 import type { IntakeTable } from '../intake/types';
 import type { ModelFit } from '../model/types';
 import type { ModelComparison } from '../model/slope/compare';
-import { comparisonJson } from '../report/comparisonReport';
+import { comparisonJson, MODEL_WORDS } from '../report/comparisonReport';
 import { analysisRecordSheet, mappingLines } from '../report/record';
 import { modelJson } from '../report/modelJson';
 import { DF_NAMES } from '../report/dfNotes';
@@ -60,6 +60,7 @@ const UNIT_WORDS = { month: 'month (30.4375 days)', week: 'week (7 days)', day: 
 export function recordSheet(r: RecordInput): SheetSpec {
   const s = r.settings;
   const settingLines = [
+    { name: 'Model', value: MODEL_WORDS[s.model ?? 'intercept'] },
     { name: 'Estimation', value: s.method === 'reml' ? 'REML' : 'Maximum likelihood (ML)' },
     { name: 'Degrees of freedom', value: DF_NAMES[s.dfMethod] },
     { name: 'Confidence level', value: `${Math.round(s.level * 1000) / 10}%` },

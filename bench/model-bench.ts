@@ -8,13 +8,14 @@
  * Each timing is the best of five runs (after one warm-up at a small size), so the ratio reflects the code rather
  * than a noisy neighbour on a shared machine.
  */
-import { fitRandomIntercept, type FitOptions, type ModelData } from '../src/core/model';
+import { fitRandomIntercept, fitRandomSlope, type FitOptions, type ModelData } from '../src/core/model';
 import { mulberry32 as seeded } from '../scripts/random';
 import type { BenchEntry } from './types';
 
 
-/** Invented eGFR-like data: rows/5 patients x 5 visits, arms alternating, time in months. */
-export function benchData(rows: number, seed = 2026): ModelData {
+/** Invented eGFR-like data: rows/5 patients x 5 visits, arms alternating, time in months; with slopeSd > 0 each
+ * patient also has an own rate of change (SD slopeSd per month, correlated 0.3 with the level). */
+export function benchData(rows: number, seed = 2026, slopeSd = 0): ModelData {
   const u = seeded(seed);
   const z = (): number => Math.sqrt(-2 * Math.log(1 - u())) * Math.cos(2 * Math.PI * u());
   const nSubjects = Math.max(2, Math.floor(rows / 5));
@@ -27,10 +28,11 @@ export function benchData(rows: number, seed = 2026): ModelData {
   for (let i = 0; i < nSubjects; i++) {
     const a = i % 2;
     const ui = 10 * z();
+    const si = slopeSd > 0 ? slopeSd * (0.3 * (ui / 10) + Math.sqrt(1 - 0.09) * z()) : 0;
     for (let v = 0; v < 5; v++) {
       const day = 1 + 84 * v + (v === 0 ? 0 : Math.round(5 * z()));
       const t = (day - 1) / 30.4375;
-      y[r] = 60 + ui - 0.45 * t + a * 0.2 * t + 4 * z();
+      y[r] = 60 + ui + si * t - 0.45 * t + a * 0.2 * t + 4 * z();
       time[r] = t;
       subject[r] = i;
       armIndex[r] = a;
@@ -126,6 +128,7 @@ export async function runModelBench(rows: number): Promise<BenchEntry[]> {
   const warm = benchData(5_000, 1);
   fitRandomIntercept(warm, { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: visits });
   fitRandomIntercept(withBaseline(warm), { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: visits });
+  fitRandomSlope(benchData(5_000, 1, 0.15), { method: 'reml', dfMethod: 'kenward-roger', level: 0.95, timeUnit: 'month', contrastDays: visits });
   olsPass(warm);
   olsPass(withBaseline(warm));
   const data = benchData(rows);
@@ -144,5 +147,12 @@ export async function runModelBench(rows: number): Promise<BenchEntry[]> {
   const fitCov = best(RUNS, () => fitRandomIntercept(dataCov, optionsCov));
   if (fitCov.value.status === 'failed') throw new Error(`benchmark fit failed: ${fitCov.value.message}`);
   entries.push({ name: 'model fit + covariate, KR', rows: dataCov.y.length, seconds: fitCov.seconds, baselineSeconds: olsCov.seconds, ratio: fitCov.seconds / olsCov.seconds, peakMB: peakMB() });
+  // The random intercept and slope model (issue 11: target within 5 × one OLS pass at 1,000,000 rows), on data whose
+  // patients differ in their rate of change, against one OLS pass over the same data.
+  const dataSlope = benchData(rows, 2026, 0.15);
+  const olsSlope = best(RUNS, () => olsPass(dataSlope));
+  const fitSlope = best(RUNS, () => fitRandomSlope(dataSlope, optionsCov));
+  if (fitSlope.value.status === 'failed') throw new Error(`benchmark slope fit failed: ${fitSlope.value.message}`);
+  entries.push({ name: 'slope model fit, KR', rows: dataSlope.y.length, seconds: fitSlope.seconds, baselineSeconds: olsSlope.seconds, ratio: fitSlope.seconds / olsSlope.seconds, peakMB: peakMB() });
   return entries;
 }

@@ -24,6 +24,8 @@ export interface AnalyzeArgs {
   readonly timeUnit: TimeUnit;
   readonly df: DfMethod;
   readonly method: FitMethod;
+  /** The main model: intercept (default) or slope. */
+  readonly model: 'intercept' | 'slope';
   readonly level: number;
   readonly covariates: readonly string[];
   readonly scheduledOnly: boolean;
@@ -32,7 +34,7 @@ export interface AnalyzeArgs {
   readonly dateOrder?: DateOrder;
 }
 
-const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate', 'date-order'] as const;
+const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'model', 'level', 'covariate', 'date-order'] as const;
 /** `--per-subject` is the older spelling of `--per-participant`, still accepted. */
 const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-participant', 'per-subject'] as const;
 type ValueFlag = (typeof VALUE_FLAGS)[number];
@@ -41,6 +43,14 @@ type BooleanFlag = (typeof BOOLEAN_FLAGS)[number];
 function oneOf<T extends string>(flag: string, value: string, allowed: readonly T[]): T {
   if ((allowed as readonly string[]).includes(value)) return value as T;
   throw new UsageError(`--${flag} must be one of ${allowed.join(', ')}; got "${value}".`);
+}
+
+/** The models --model can name now; the other kinds of ModelKind are not available yet and get the same usage error. */
+export const AVAILABLE_MODELS = ['intercept', 'slope'] as const;
+
+function modelKind(value: string): (typeof AVAILABLE_MODELS)[number] {
+  if ((AVAILABLE_MODELS as readonly string[]).includes(value)) return value as (typeof AVAILABLE_MODELS)[number];
+  throw new UsageError(`--model must be one of the available models: ${AVAILABLE_MODELS.join(', ')} (random intercept; random intercept and slope); got "${value}".`);
 }
 
 /** True when text is a real calendar date written YYYY-MM-DD (ISO 8601 calendar date, extended format). */
@@ -133,6 +143,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     ...(one('date-order') === undefined ? {} : { dateOrder: oneOf('date-order', one('date-order')!, ['dmy', 'mdy'] as const) }),
   };
   const method = oneOf('method', one('method') ?? 'reml', ['reml', 'ml'] as const);
+  const model = modelKind(one('model') ?? 'intercept');
   return {
     data,
     schedule,
@@ -144,6 +155,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     // Satterthwaite (Kenward–Roger after ML is allowed, with a note in the report).
     df: oneOf('df', one('df') ?? (method === 'ml' ? 'satterthwaite' : 'kenward-roger'), ['kenward-roger', 'satterthwaite', 'residual', 'containment'] as const),
     method,
+    model,
     level,
     covariates: values.get('covariate') ?? [],
     scheduledOnly: flags.has('scheduled-only'),
@@ -186,6 +198,9 @@ Model:
   --df METHOD             kenward-roger (default with REML), satterthwaite (default with ML),
                           residual or containment (between/within)
   --method METHOD         reml (default) or ml
+  --model KIND            intercept (random intercept, default) or slope (random intercept and
+                          slope: participants may also differ in their rate of change); both are
+                          fitted and compared on the model sheet
   --level P               confidence level (default 0.95)
   --scheduled-only        fit only records matched to scheduled visits (default: all valid rows)
   --per-participant       add a sheet of each participant's random intercept and mean residual

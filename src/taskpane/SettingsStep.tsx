@@ -14,7 +14,7 @@ import {
 } from '@fluentui/react-components';
 import type { DateOrder } from '../core/intake/types';
 import { DAYS_PER_UNIT, type DfMethod, type FitMethod, type TimeUnit } from '../core/pipeline/types';
-import { isCutoffDay, isIsoDate, isLevel, type PaneSettings } from './paneSettings';
+import { isCutoffDay, isIsoDate, isLevel, type PaneModel, type PaneSettings } from './paneSettings';
 import { UnblindDialog } from './UnblindDialog';
 import { stackStyle } from './paneStyles';
 
@@ -38,6 +38,10 @@ const DF_METHODS: readonly { value: DfMethod; label: string }[] = [
   { value: 'satterthwaite', label: 'Satterthwaite' },
   { value: 'residual', label: 'Residual (liberal for arm differences)' },
   { value: 'containment', label: 'Between/within (containment)' },
+];
+const MODELS: readonly { value: PaneModel; label: string }[] = [
+  { value: 'intercept', label: 'Random intercept (participants differ in level)' },
+  { value: 'slope', label: 'Random intercept and slope (participants also differ in rate of change)' },
 ];
 const FIT_METHODS: readonly { value: FitMethod; label: string }[] = [
   { value: 'reml', label: 'REML (recommended)' },
@@ -173,6 +177,15 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
       <Field label="Degrees of freedom">
         <Select value={settings.dfMethod} onChange={(_, d) => set({ dfMethod: d.value as DfMethod })}>
           {DF_METHODS.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </Select>
+      </Field>
+      <Field label="Model" hint="Both models are fitted and compared on the model sheet; this one is reported in full.">
+        <Select value={settings.model} onChange={(_, d) => set({ model: d.value as PaneModel })}>
+          {MODELS.map((o) => (
             <option key={o.value} value={o.value}>
               {o.label}
             </option>

@@ -36,7 +36,7 @@ export type ScheduleLoad =
 export interface SavedSettings {
   readonly mapping?: AnalysisSettings['mapping'];
   readonly scheduleSource?: string;
-  readonly settings?: Partial<Pick<AnalysisSettings, 'mode' | 'referenceArm' | 'timeUnit' | 'dfMethod' | 'method' | 'level' | 'cutoff'>>;
+  readonly settings?: Partial<Pick<AnalysisSettings, 'mode' | 'referenceArm' | 'timeUnit' | 'dfMethod' | 'method' | 'model' | 'level' | 'cutoff'>>;
 }
 
 export interface WrittenSheet {

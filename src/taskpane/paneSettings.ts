@@ -17,7 +17,13 @@ export interface PaneSettings
   readonly cutoffDay: string;
   /** How dates like 03/04/2025 are read; '' means each date column decides from its values. */
   readonly dateOrder: DateOrder | '';
+  /** The main model; the pane offers the two available now. */
+  readonly model: PaneModel;
 }
+
+/** The models the pane offers. */
+export type PaneModel = 'intercept' | 'slope';
+export const PANE_MODELS: readonly PaneModel[] = ['intercept', 'slope'];
 
 /** Blinded by default (SPEC §2); REML with Kenward–Roger and 95% intervals (SPEC §5). */
 export const DEFAULT_SETTINGS: PaneSettings = {
@@ -29,6 +35,7 @@ export const DEFAULT_SETTINGS: PaneSettings = {
   timeUnit: 'month',
   dfMethod: 'kenward-roger',
   method: 'reml',
+  model: 'intercept',
   level: 0.95,
   scheduledOnly: false,
   perSubject: false,
@@ -66,6 +73,7 @@ export function fromSaved(saved: SavedSettings | null): PaneSettings {
     ...(s.timeUnit !== undefined ? { timeUnit: s.timeUnit } : {}),
     ...(s.dfMethod !== undefined ? { dfMethod: s.dfMethod } : {}),
     ...(s.method !== undefined ? { method: s.method } : {}),
+    ...(s.model !== undefined && (PANE_MODELS as readonly string[]).includes(s.model) ? { model: s.model as PaneModel } : {}),
     ...(s.level !== undefined && isLevel(s.level) ? { level: s.level } : {}),
   };
 }
@@ -80,6 +88,7 @@ export function toSaved(settings: PaneSettings, mapping: ColumnMapping, schedule
       timeUnit: settings.timeUnit,
       dfMethod: settings.dfMethod,
       method: settings.method,
+      model: settings.model,
       level: settings.level,
       ...(settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
       ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),
@@ -106,6 +115,7 @@ export function toAnalysisSettings(
     timeUnit: settings.timeUnit,
     dfMethod: settings.dfMethod,
     method: settings.method,
+    model: settings.model,
     level: settings.level,
     scheduledOnly: settings.scheduledOnly,
     perSubject: settings.perSubject,

@@ -112,6 +112,13 @@ describe('pane settings', () => {
     expect(fromSaved(null)).toEqual(DEFAULT_SETTINGS);
   });
 
+  it('the model choice is remembered and passed on; a remembered kind the pane does not offer falls back to the default', () => {
+    expect(fromSaved({ settings: { model: 'slope' } }).model).toBe('slope');
+    expect(fromSaved({ settings: { model: 'gee' } }).model).toBe('intercept');
+    expect(toSaved({ ...DEFAULT_SETTINGS, model: 'slope' }, { subject: 0, covariates: [] }, null).settings?.model).toBe('slope');
+    expect(toAnalysisSettings(SOURCE, { subject: 0, covariates: [] }, SCHEDULE, { ...DEFAULT_SETTINGS, model: 'slope' }, 'T').model).toBe('slope');
+  });
+
   it('toAnalysisSettings drops the arm and reference arm in blinded mode and passes the source through', () => {
     const mapping = { subject: 0, arm: 2, value: 6, date: 4, covariates: [] };
     const blinded = toAnalysisSettings(SOURCE, mapping, SCHEDULE, { ...DEFAULT_SETTINGS, referenceArm: 'Active' }, 'T');
@@ -152,7 +159,7 @@ describe('pane settings', () => {
     expect(toSaved(DEFAULT_SETTINGS, mapping, 'Schedule')).toEqual({
       mapping,
       scheduleSource: 'Schedule',
-      settings: { mode: 'blinded', timeUnit: 'month', dfMethod: 'kenward-roger', method: 'reml', level: 0.95 },
+      settings: { mode: 'blinded', timeUnit: 'month', dfMethod: 'kenward-roger', method: 'reml', model: 'intercept', level: 0.95 },
     });
   });
 });

@@ -4,3 +4,4 @@ export { ModelInputError, RankDeficiencyError, DegenerateDataError, type Degener
 export { tQuantile, tTwoSided, fQuantile, fUpper, chiSquareQuantile, normalQuantile } from './distributions';
 export type * from './types';
 export { fitFromTable, modelDataFromTable } from './fromTable';
+export { isSlopeFit, modelKindOf, fitRandomSlope, fitSlopeFromTable, slopeTest, mixtureUpperTail, compareModels, type SlopeTest, type ComparedModel, type ModelComparison } from './slope';

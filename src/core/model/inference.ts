@@ -26,9 +26,9 @@ export interface InferenceContext {
   readonly phi: Float64Array;
   /** Φ_A (Kenward–Roger) — equal to Φ for the other methods. */
   readonly phiA: Float64Array;
-  /** M_r = Φ P_r Φ for r = 1, 2. */
-  readonly M: readonly [Float64Array, Float64Array];
-  /** Inverse expected information (2 x 2). */
+  /** M_r = Φ P_r Φ, one per covariance parameter (2 for the random-intercept model, 4 for the slope model). */
+  readonly M: readonly Float64Array[];
+  /** Inverse expected information (q x q, q = M.length). */
   readonly W: Float64Array;
   readonly dfMethod: DfMethod;
   readonly residualDf: number;
@@ -37,10 +37,11 @@ export interface InferenceContext {
 
 function satterthwaiteDf(ctx: InferenceContext, l: ArrayLike<number>, v: number): number {
   const p = ctx.p;
-  const g1 = quadForm(l, ctx.M[0], l, p);
-  const g2 = quadForm(l, ctx.M[1], l, p);
+  const q = ctx.M.length;
+  const g = ctx.M.map((m) => quadForm(l, m, l, p));
   const W = ctx.W;
-  const gwg = W[0]! * g1 * g1 + 2 * W[1]! * g1 * g2 + W[3]! * g2 * g2;
+  let gwg = 0;
+  for (let r = 0; r < q; r++) for (let s = 0; s < q; s++) gwg += W[r * q + s]! * g[r]! * g[s]!;
   if (!(gwg > 0)) return Infinity;
   return (2 * v * v) / gwg;
 }
@@ -82,7 +83,7 @@ export function jointTest(ctx: InferenceContext, rows: readonly (readonly number
       const denDf = ctx.dfMethod === 'residual' ? ctx.residualDf : containmentDf;
       return { numDf: ell, denDf, F, p: fUpper(F, ell, denDf) };
     }
-    const { lambda, m } = krScale(ctx, LPhiL, lml(ctx.M[0]), lml(ctx.M[1]), ell);
+    const { lambda, m } = krScale(ctx, LPhiL, ctx.M.map(lml), ell);
     const Fs = lambda * F;
     return { numDf: ell, denDf: m, F: Fs, p: fUpper(Fs, ell, m) };
   }
@@ -117,7 +118,7 @@ export function jointTest(ctx: InferenceContext, rows: readonly (readonly number
  * m = 4 + (ℓ+2)/(ℓρ − 1), λ = m/(E(m − 2)).
  * Here the traces are taken in the ℓ-dimensional space: tr(ΘΦP_rΦ) = tr((LΦL')⁻¹ L M_r L').
  */
-export function krScale(ctx: InferenceContext, LPhiL: Float64Array, LM1L: Float64Array, LM2L: Float64Array, ell: number): { lambda: number; m: number } {
+export function krScale(ctx: InferenceContext, LPhiL: Float64Array, LML: readonly Float64Array[], ell: number): { lambda: number; m: number } {
   const inv = spdInverse(LPhiL, ell);
   if (inv === null) return { lambda: NaN, m: NaN };
   const mul = (a: Float64Array, b: Float64Array): Float64Array => {
@@ -130,16 +131,15 @@ export function krScale(ctx: InferenceContext, LPhiL: Float64Array, LM1L: Float6
     for (let i = 0; i < ell; i++) s += a[i * ell + i]!;
     return s;
   };
-  const B1 = mul(inv, LM1L);
-  const B2 = mul(inv, LM2L);
-  const Bs = [B1, B2];
-  const t = [tr(B1), tr(B2)];
+  const Bs = LML.map((m) => mul(inv, m));
+  const t = Bs.map(tr);
+  const q = Bs.length;
   const W = ctx.W;
   let A1 = 0;
   let A2 = 0;
-  for (let r = 0; r < 2; r++) {
-    for (let s = 0; s < 2; s++) {
-      const w = W[r * 2 + s]!;
+  for (let r = 0; r < q; r++) {
+    for (let s = 0; s < q; s++) {
+      const w = W[r * q + s]!;
       if (w === 0) continue;
       A1 += w * t[r]! * t[s]!;
       A2 += w * tr(mul(Bs[r]!, Bs[s]!));

@@ -18,7 +18,7 @@ import type { FixedEffect, NaiveFit } from './types';
  * or the residual sum of squares is not positive (the values lie on the fitted lines).
  * Example: y = [1, 2, 2, 4] at time [0, 1, 0, 1] -> intercept 1.5, time 1.5, s² = 2.5 / 2 = 1.25.
  */
-export function naiveFit(st: SufficientStats, design: Design, sc: Scaling, mixed: readonly FixedEffect[], between: readonly boolean[], level: number): NaiveFit | null {
+export function naiveFit(st: Pick<SufficientStats, 'p' | 'nObs' | 'xtx' | 'xty' | 'yty'>, design: Design, sc: Scaling, mixed: readonly FixedEffect[], between: readonly boolean[], level: number): NaiveFit | null {
   const p = st.p;
   const N = st.nObs;
   const df = N - p;

@@ -12,7 +12,7 @@ import type { ContrastResult, Trajectory } from './types';
 
 export function trajectories(
   design: Design,
-  st: SufficientStats,
+  st: Pick<SufficientStats, 'xtx' | 'nObs'>,
   contrastOf: (l: Float64Array) => ContrastResult,
   arms: readonly string[],
   tMin: number,

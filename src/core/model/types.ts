@@ -174,3 +174,40 @@ export interface ModelFit extends Pick<FitOptions, 'method' | 'dfMethod' | 'leve
   /** Conditional residuals per observation, only when FitOptions.residuals is true. */
   readonly residuals?: Float64Array;
 }
+
+/** The models Longipane can fit; the command line, the pane and the JSON use these names. */
+export type ModelKind = 'intercept' | 'slope' | 'repeated' | 'gee' | 'logistic';
+
+/** Between-participant covariance G of the random intercept and slope, on the original time unit. */
+export interface SlopeVariance {
+  /** Variance of the random intercepts at time 0 (study day 1). */
+  readonly intercept: number;
+  /** Variance of the random slopes, per time unit². */
+  readonly slope: number;
+  /** Covariance of intercept and slope. */
+  readonly covariance: number;
+  /** Intercept–slope correlation; NaN when either variance is 0. */
+  readonly correlation: number;
+  readonly interceptLower: number;
+  readonly interceptUpper: number;
+  readonly slopeLower: number;
+  readonly slopeUpper: number;
+}
+
+/** A participant's predicted random intercept (at time 0) and slope. */
+export interface SlopeSubjectEffect extends SubjectEffect {
+  readonly slopeBlup: number;
+}
+
+/**
+ * The random intercept and slope fit: the intercept model's shape (fixed effects, contrasts at the scheduled days,
+ * trajectories, naive fit beside it) plus G. `variance.subject` is G's intercept variance at time 0, `variance.icc`
+ * the share of the variation between participants at time 0.
+ */
+export interface SlopeFit extends ModelFit {
+  readonly kind: 'slope';
+  readonly randomEffects: SlopeVariance;
+  /** 'rank-one' or 'zero' when G is singular (status 'boundary'), else 'full'. */
+  readonly covarianceShape: 'full' | 'rank-one' | 'zero';
+  readonly subjects: readonly SlopeSubjectEffect[];
+}

@@ -1,6 +1,8 @@
 /** The run's writing stage: the report layer's model sheets, model JSON and analysis record, fed from the run. */
 import type { IntakeTable } from '../intake/types';
 import type { ModelFit } from '../model/types';
+import type { ModelComparison } from '../model/slope/compare';
+import { comparisonJson, MODEL_WORDS } from '../report/comparisonReport';
 import { analysisRecordSheet, mappingLines } from '../report/record';
 import { modelJson } from '../report/modelJson';
 import { DF_NAMES } from '../report/dfNotes';
@@ -21,11 +23,13 @@ export interface ModelPartsInput {
   readonly notFitted: string | null;
   /** The sensitivity refits beside the main fit. */
   readonly sensitivity: readonly SensitivityRun[];
+  /** The model comparison (fitStage); null or absent when there is none. */
+  readonly comparison?: ModelComparison | null;
 }
 
 /** The model sheets and the JSON `model` section (the report's modelJson plus its plain-language `summary`); when the
  * model was not fitted, null and — if a model was asked for — one sheet that says why. */
-export function modelOutputs({ fit, means, settings, notFitted, sensitivity }: ModelPartsInput): { sheets: SheetSpec[]; json: Record<string, unknown> | null } {
+export function modelOutputs({ fit, means, settings, notFitted, sensitivity, comparison }: ModelPartsInput): { sheets: SheetSpec[]; json: Record<string, unknown> | null } {
   if (fit === null) return { sheets: notFitted === null ? [] : [modelNotFittedSheet(notFitted, settings.mode)], json: null };
   const sheets = modelSheets(fit, {
     observed: means.map((m) => ({ label: m.visit, day: m.targetDay, arm: m.arm, mean: m.mean, n: m.n })),
@@ -33,8 +37,9 @@ export function modelOutputs({ fit, means, settings, notFitted, sensitivity }: M
     perSubject: settings.perSubject,
     subjectIds: fit.subjects.map((s) => s.id),
     sensitivity,
+    comparison: comparison ?? null,
   });
-  return { sheets, json: { summary: modelSummaryText(fit, settings.mode), ...modelJson(fit), sensitivity: sensitivityJson(sensitivity, settings.mode) } };
+  return { sheets, json: { summary: modelSummaryText(fit, settings.mode), ...modelJson(fit), sensitivity: sensitivityJson(sensitivity, settings.mode), ...comparisonJson(comparison) } };
 }
 
 export interface RecordInput {
@@ -55,6 +60,7 @@ const UNIT_WORDS = { month: 'month (30.4375 days)', week: 'week (7 days)', day: 
 export function recordSheet(r: RecordInput): SheetSpec {
   const s = r.settings;
   const settingLines = [
+    { name: 'Model', value: MODEL_WORDS[s.model ?? 'intercept'] },
     { name: 'Estimation', value: s.method === 'reml' ? 'REML' : 'Maximum likelihood (ML)' },
     { name: 'Degrees of freedom', value: DF_NAMES[s.dfMethod] },
     { name: 'Confidence level', value: `${Math.round(s.level * 1000) / 10}%` },

@@ -123,7 +123,7 @@ export async function runAnalysis(
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);
   const fingerprint = fingerprintCells(cells);
-  const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote, sensitivity: stage.sensitivity });
+  const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote, sensitivity: stage.sensitivity, comparison: stage.comparison });
   const sheets: SheetSpec[] = [
     summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, runAt: settings.runAt, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
     ...timingSheets(summary),

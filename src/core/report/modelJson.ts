@@ -4,6 +4,8 @@
  */
 import type { ContrastResult, ModelFit } from '../model/types';
 import { naiveJson } from './naiveReport';
+import { modelKindOf } from '../model/slope/kind';
+import { slopeVarianceJson } from './slopeReport';
 
 const n = (x: number): number | null => (Number.isFinite(x) ? x : null);
 const inf = (r: ContrastResult): Record<string, number | null> => ({ estimate: n(r.estimate), se: n(r.se), df: n(r.df), t: n(r.t), p: n(r.p), lower: n(r.lower), upper: n(r.upper) });
@@ -12,6 +14,7 @@ const inf = (r: ContrastResult): Record<string, number | null> => ({ estimate: n
 export function modelJson(fit: ModelFit): Record<string, unknown> {
   const v = fit.variance;
   return {
+    kind: modelKindOf(fit),
     method: fit.method,
     dfMethod: fit.dfMethod,
     level: fit.level,
@@ -40,6 +43,7 @@ export function modelJson(fit: ModelFit): Record<string, unknown> {
       iccLower: n(v.iccLower),
       iccUpper: n(v.iccUpper),
       intervalMethod: v.intervalMethod,
+      ...slopeVarianceJson(fit),
     },
     treatmentEffects: fit.treatmentEffects.map((t) => ({ arm: t.arm, label: t.label, day: t.day, time: n(t.time), ...inf(t) })),
     slopeDifferences: fit.slopeDifferences.map((s) => ({ arm: s.arm, ...inf(s) })),

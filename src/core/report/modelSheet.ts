@@ -8,12 +8,15 @@
 import type { Mode } from '../intake/types';
 import type { ContrastResult, ModelFit } from '../model/types';
 import { cautionLine } from './cautions';
-import { FIT_STATUS_WORDS, fitVerdict, modelSummaryText } from './modelText';
+import { fitVerdict, modelSummaryText, statusWords } from './modelText';
 import { cell, col, levelPercent, para } from './blockParts';
 import { DF_DESCRIPTIONS } from './dfNotes';
 import { modelExtraBlocks } from './modelExtras';
 import type { SensitivityRun } from './sensitivityReport';
 import type { Block, ChartSeries, SheetCell, SheetSpec, TableColumn } from './types';
+import type { ModelComparison } from '../model/slope/compare';
+import { comparisonBlocks } from './comparisonReport';
+import { modelTitle, slopeBlocks } from './slopeReport';
 
 export interface ObservedVisitMean {
   readonly label: string;
@@ -31,6 +34,8 @@ export interface ModelSheetContext {
   readonly subjectIds: readonly string[];
   /** The sensitivity refits (nominal time, on-time only); none when absent. */
   readonly sensitivity?: readonly SensitivityRun[];
+  /** The model comparison (every model fitted, the slope test); none when absent. */
+  readonly comparison?: ModelComparison | null;
 }
 
 /** Thrown when the report is asked for something the fit cannot support, e.g. a blinded report of a fit with arms. */
@@ -122,6 +127,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
       ['Intraclass correlation', cell(v.icc), null, cell(v.iccLower), cell(v.iccUpper)],
     ],
   });
+  blocks.push(...slopeBlocks(fit, unit));
 
   blocks.push({
     kind: 'table',
@@ -134,7 +140,7 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
       ['Log-likelihood', cell(fit.logLik), 'higher means a closer fit'],
       ['AIC', cell(fit.aic), 'for comparing fits of the same data: lower is better'],
       ['BIC', cell(fit.bic), 'for comparing fits of the same data: lower is better'],
-      ['Verdict', null, FIT_STATUS_WORDS[fit.status]],
+      ['Verdict', null, statusWords(fit)],
     ],
   });
   blocks.push({
@@ -150,9 +156,10 @@ export function modelSheets(fit: ModelFit, context: ModelSheetContext): SheetSpe
   });
 
   blocks.push(...modelExtraBlocks(fit, context.sensitivity ?? [], context.mode, unit));
+  blocks.push(...comparisonBlocks(context.comparison));
   blocks.push(...trajectoryBlocks(fit, context, unit, pct));
 
-  const sheets: SheetSpec[] = [{ name: MODEL_SHEET_NAMES.results, title: 'Random-intercept model', blocks }];
+  const sheets: SheetSpec[] = [{ name: MODEL_SHEET_NAMES.results, title: modelTitle(fit), blocks }];
   if (context.perSubject) sheets.push(perParticipantSheet(fit, context.mode, unblinded));
   return sheets;
 }
@@ -259,7 +266,7 @@ export function modelTechnicalNotes(fit: ModelFit): string[] {
   return [
     `How the intervals were computed: ${fit.variance.intervalMethod}`,
     `The log-likelihood is the ${fit.method === 'reml' ? 'restricted log-likelihood' : 'log-likelihood'} with its constants included.`,
-    `AIC = −2 × log-likelihood + 2k and BIC = −2 × log-likelihood + k × log(N), with k = ${k} (the fixed effects and the 2 variances) and N = ${fit.bicN} (${fit.method === 'reml' ? 'measurements minus fixed effects' : 'measurements'}).`,
+    `AIC = −2 × log-likelihood + 2k and BIC = −2 × log-likelihood + k × log(N), with k = ${k} (the fixed effects and the ${k - fit.fixedEffects.length === 2 ? '2 variances' : `${k - fit.fixedEffects.length} covariance parameters`}) and N = ${fit.bicN} (${fit.method === 'reml' ? 'measurements minus fixed effects' : 'measurements'}).`,
     `The fit took ${fit.iterations} likelihood evaluations. Convergence: ${fitVerdict(fit)}`,
   ];
 }

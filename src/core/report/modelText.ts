@@ -1,4 +1,5 @@
 /** Plain-language pieces of the model report: number phrasing, status words and the opening summary paragraph. */
+import { isSlopeFit } from '../model/slope/kind';
 import type { ModelFit, FitStatus } from '../model/types';
 import type { Mode } from '../intake/types';
 import { DF_NAMES } from './dfNotes';
@@ -17,7 +18,7 @@ export const FIT_STATUS_WORDS: Readonly<Record<FitStatus, string>> = {
  * maximum inside the allowed range: ...".
  */
 export function fitVerdict(fit: Pick<ModelFit, 'status' | 'message'>): string {
-  const word = FIT_STATUS_WORDS[fit.status];
+  const word = statusWords(fit);
   const norm = (s: string): string => s.toLowerCase().replace(/[^a-z]+/g, ' ').trim();
   const msg = fit.message.trim();
   if (msg === '' || norm(msg) === norm(word) || norm(word).startsWith(norm(msg))) return `${word}.`;
@@ -57,8 +58,8 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
     : `the outcome on time (in ${unit}s from the actual visit day), pooled over all participants`;
   const covs = fit.terms.filter((t) => t.kind === 'covariate').length;
   let text =
-    `A random-intercept linear mixed model, ${methodWords(fit)}, regressed ${what}${covs > 0 ? ', adjusted for the chosen covariates' : ''}, ` +
-    `with each participant's own level as a random intercept. It used ${fit.nObservations} measurements from ${fit.nSubjects} participants. `;
+    `${isSlopeFit(fit) ? 'A linear mixed model with a random intercept and slope' : 'A random-intercept linear mixed model'}, ${methodWords(fit)}, regressed ${what}${covs > 0 ? ', adjusted for the chosen covariates' : ''}, ` +
+    `with each participant's own ${isSlopeFit(fit) ? 'level and rate of change as random effects' : 'level as a random intercept'}. It used ${fit.nObservations} measurements from ${fit.nSubjects} participants. `;
   if (fit.status === 'failed') return text + `The fit did not converge: ${fit.message} Read the cautions on the summary sheet.`;
   if (armed) {
     const last = lastVisitEffects(fit);
@@ -79,10 +80,18 @@ export function modelSummaryText(fit: ModelFit, mode: Mode): string {
     `Participants differ from one another with a standard deviation of ${num(Math.sqrt(v.subject))} and measurements within a participant vary with a standard deviation of ${num(Math.sqrt(v.residual))}; ` +
     `the intraclass correlation is ${num(v.icc)} (${pct}% confidence interval ${num(v.iccLower)} to ${num(v.iccUpper)}), ` +
     `the share of the total variation that lies between participants. `;
-  text += `Fit: ${FIT_STATUS_WORDS[fit.status].toLowerCase()}. `;
+  text += `Fit: ${statusWords(fit).toLowerCase()}. `;
   text += 'Read this with the cautions on the summary sheet: an interim look is not a final analysis, and repeated looks inflate the chance of a false-positive finding.';
   return text;
 }
+
+/** The status in words; a random intercept and slope fit at its boundary has a singular covariance matrix, not a zero variance. */
+export function statusWords(fit: Pick<ModelFit, 'status'>): string {
+  if (fit.status === 'boundary' && isSlopeFit(fit as ModelFit)) return SLOPE_BOUNDARY_WORDS;
+  return FIT_STATUS_WORDS[fit.status];
+}
+
+export const SLOPE_BOUNDARY_WORDS = 'Converged at the boundary (the between-participant covariance matrix is singular)';
 
 /** Treatment differences at the latest contrast day, one per non-reference arm. */
 export function lastVisitEffects(fit: ModelFit): ModelFit['treatmentEffects'] {

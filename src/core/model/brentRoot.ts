@@ -3,7 +3,7 @@
  * Minimization without Derivatives, ch. 4). Needs f(a) and f(b) of opposite signs (or one of them zero); every step
  * keeps the root bracketed, so it cannot wander off or diverge. It stops when the bracket is within 2·(ε|x| + tol)
  * (default tol 1e-13, for arguments of order 1 such as a log-variance), when f is exactly zero, or after maxIter steps.
- * Cost: one function value per step, at most about (log₂ of the bracket over tol)² and usually ~10.
+ * f(lo) and f(hi) may be passed when known (fLo, fHi). Cost: one function value per step, at most about (log₂ of the bracket over tol)² and usually ~10.
  * Example: brentRoot((x) => x * x - 2, 0, 2) -> { x: 1.41421356237…, converged: true }.
  */
 export interface RootResult {
@@ -13,12 +13,12 @@ export interface RootResult {
   readonly converged: boolean;
 }
 
-export function brentRoot(f: (x: number) => number, lo: number, hi: number, tol = 1e-13, maxIter = 200): RootResult {
+export function brentRoot(f: (x: number) => number, lo: number, hi: number, tol = 1e-13, maxIter = 200, fLo?: number, fHi?: number): RootResult {
   const eps = 2.220446049250313e-16;
   let a = lo;
   let b = hi;
-  let fa = f(a);
-  let fb = f(b);
+  let fa = fLo ?? f(a);
+  let fb = fHi ?? f(b);
   if (fa === 0) return { x: a, fx: 0, iterations: 0, converged: true };
   if (fb === 0) return { x: b, fx: 0, iterations: 0, converged: true };
   if (!(Math.sign(fa) !== Math.sign(fb)) || Number.isNaN(fa) || Number.isNaN(fb)) return { x: NaN, fx: NaN, iterations: 0, converged: false };

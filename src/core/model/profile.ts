@@ -7,7 +7,7 @@
  * The likelihood in both variances, with the fixed effects profiled out (REML: integrated out), is, from the pieces of
  * likelihood.ts at γ (R = σ² r'V⁻¹r, D = Σ log(1 + n_iγ), A = σ² X'V⁻¹X, m = N − p for REML, N for ML):
  *   ℓ(γ, σ²) = −½ [m log(2πσ²) + D + (log|A| for REML) + R/σ²]  =  ℓ_p(γ) − (m/2)[log(σ²/s²_γ) + s²_γ/σ² − 1],
- * s²_γ = R/m, so every value comes from profileAt. The three profiles are
+ * s²_γ = R/m; profilePieces.ts evaluates both without allocating. The three profiles are
  *   ratio:    ℓ_p(γ) itself (σ² maximised out in closed form);
  *   σ²_u = τ: max over σ² of ℓ(τ/σ², σ²) (one-dimensional, Brent's minimiser on log γ);
  *   σ² = s:   max over γ ≥ 0 of ℓ(γ, s) (the same, with the end γ = 0 checked).
@@ -20,9 +20,8 @@
  * Cost: the ratio profile ~30 evaluations of O(K p² + p³) per limit; each variance limit ~30 outer points × ~30 inner
  * evaluations. Everything is scale-free: the fit calls it on its centred and scaled data (scaling.ts).
  */
-import { brentMinimise } from './brent';
 import { brentRoot } from './brentRoot';
-import { profileAt } from './likelihood';
+import { piecesEvaluator, type PiecesEvaluator } from './profilePieces';
 import type { SufficientStats } from './sufficient';
 import type { FitMethod } from './types';
 
@@ -52,19 +51,25 @@ const RESIDUAL_SEARCH_FLOOR = 1e-10;
 const RHO_LO = -40;
 const RHO_HI = 40;
 
-/** ℓ(γ, σ²) = ℓ_p(γ) − (m/2)[log(σ²/s²_γ) + s²_γ/σ² − 1]; −∞ where the likelihood cannot be evaluated. */
+/** ℓ(γ, σ²) (profilePieces.ts); −∞ where the likelihood cannot be evaluated. */
 export function fullLogLik(base: Pick<ProfileBase, 'st' | 'method'>, gamma: number, sigma2: number): number {
-  const pt = profileAt(base.st, gamma, base.method);
-  if (pt === null || !Number.isFinite(pt.logLik) || !(pt.sigma2 > 0)) return -Infinity;
-  const m = base.method === 'reml' ? base.st.nObs - base.st.p : base.st.nObs;
-  const r = sigma2 / pt.sigma2;
-  return pt.logLik - 0.5 * m * (Math.log(r) + 1 / r - 1);
+  return evaluator(base).full(gamma, sigma2);
 }
 
 /** ℓ_p(γ), the log-likelihood with σ² maximised out; −∞ where it cannot be evaluated. */
 export function ratioLogLik(base: Pick<ProfileBase, 'st' | 'method'>, gamma: number): number {
-  const pt = profileAt(base.st, gamma, base.method);
-  return pt === null || !Number.isFinite(pt.logLik) ? -Infinity : pt.logLik;
+  return evaluator(base).ratio(gamma);
+}
+
+/** One evaluator (and workspace) per data set and method, kept while the data set is in use. */
+const evaluators = new WeakMap<SufficientStats, { reml?: PiecesEvaluator; ml?: PiecesEvaluator }>();
+function evaluator(base: Pick<ProfileBase, 'st' | 'method'>): PiecesEvaluator {
+  let entry = evaluators.get(base.st);
+  if (entry === undefined) {
+    entry = {};
+    evaluators.set(base.st, entry);
+  }
+  return (entry[base.method] ??= piecesEvaluator(base.st, base.method));
 }
 
 /**
@@ -79,12 +84,21 @@ export function zeroStatistic(base: ProfileBase): number {
 
 /** Profile of the between-participant variance τ: max over σ² of ℓ(τ/σ², σ²); at τ = 0 it is ℓ_p(0). */
 export function subjectProfile(base: ProfileBase): (tau: number) => number {
+  const ev = evaluator(base);
   let warm = Math.log(Math.max(base.gamma, 1e-8));
-  return (tau: number): number => {
-    if (tau === 0) return ratioLogLik(base, 0);
-    const g = (rho: number): number => fullLogLik(base, Math.exp(rho), tau * Math.exp(-rho));
-    const guess = Math.log(tau / base.sigma2);
-    const best = maximiseLine(g, guess, warm, guess - 200, guess + 200);
+  // On ρ = log γ with σ² = τ e^−ρ: d/dρ = γ ∂ℓ/∂γ − σ² ∂ℓ/∂σ².
+  let tau = 0;
+  const vs = (rho: number, out: Float64Array): void => {
+    const g = Math.exp(rho);
+    const s2 = tau / g;
+    out[0] = ev.fullSlope(g, s2);
+    out[1] = g * ev.slope[0]! - s2 * ev.slope[1]!;
+  };
+  return (t: number): number => {
+    if (t === 0) return ev.ratio(0);
+    tau = t;
+    const guess = Math.log(t / base.sigma2);
+    const best = maximiseBySlope(vs, guess, warm, guess - 200, guess + 200);
     warm = best.x;
     return best.fx;
   };
@@ -96,62 +110,69 @@ export function residualProfile(base: ProfileBase): (s: number) => number {
   // γ gives every participant's mean weight 1), so a start left there alone could stop on the plateau.
   const home = base.gamma > 0 ? Math.log(base.gamma) : RHO_LO;
   let warm = home;
+  const ev = evaluator(base);
+  let s2 = 1;
+  const vs = (rho: number, out: Float64Array): void => {
+    const g = Math.exp(rho);
+    out[0] = ev.fullSlope(g, s2);
+    out[1] = g * ev.slope[0]!;
+  };
   return (s: number): number => {
-    const g = (rho: number): number => fullLogLik(base, Math.exp(rho), s);
-    const best = maximiseLine(g, home, warm, RHO_LO, RHO_HI);
+    s2 = s;
+    const best = maximiseBySlope(vs, home, warm, RHO_LO, RHO_HI);
     warm = best.x;
-    if (best.x <= RHO_LO) return Math.max(best.fx, fullLogLik(base, 0, s));
+    if (best.x <= RHO_LO) return Math.max(best.fx, ev.full(0, s));
     return best.fx;
   };
 }
 
 /**
- * Maximises g on [lo, hi] from a start (the better of two guesses): steps uphill in growing steps until g falls
- * (a bracket) or the end is reached, then Brent's minimiser on −g inside the bracket. Returns the end when g still
- * rises there. Cost: a few evaluations to bracket, ~20–30 for Brent.
+ * Maximises a smooth g on [lo, hi] from the better of two starts, using its slope: steps uphill in doubling steps
+ * until the slope changes sign (or g cannot be evaluated), then Brent's root finder on the slope inside that bracket
+ * (to 1e-10, so g is within ~g''·1e-20 of its maximum). Returns the end when the slope keeps its sign up to it.
+ * `vs(x, out)` writes g(x) to out[0] and g'(x) to out[1]. Cost: ~3 evaluations to bracket, ~8 for the root.
  */
-function maximiseLine(g: (x: number) => number, guess: number, warm: number, lo: number, hi: number): { x: number; fx: number } {
+function maximiseBySlope(vs: (x: number, out: Float64Array) => void, guess: number, warm: number, lo: number, hi: number): { x: number; fx: number } {
+  const out = new Float64Array(2);
   const clamp = (x: number): number => Math.min(hi, Math.max(lo, x));
-  const fGuess = g(clamp(guess));
-  const fWarm = warm === guess ? fGuess : g(clamp(warm));
-  let x0 = fWarm > fGuess ? clamp(warm) : clamp(guess);
-  let f0 = Math.max(fWarm, fGuess);
-  const h = 0.25;
-  const fr = x0 + h <= hi ? g(x0 + h) : -Infinity;
-  const fl = x0 - h >= lo ? g(x0 - h) : -Infinity;
-  let a: number;
-  let b: number;
-  if (f0 >= fr && f0 >= fl) {
-    a = Math.max(lo, x0 - h);
-    b = Math.min(hi, x0 + h);
-  } else {
-    const dir = fr >= fl ? 1 : -1;
-    let prev = x0;
-    let cur = x0 + dir * h;
-    let fcur = dir > 0 ? fr : fl;
-    let step = h;
-    for (;;) {
-      step *= 2;
-      const next = clamp(cur + dir * step);
-      const fnext = g(next);
-      if (fnext < fcur) {
-        a = Math.min(prev, next);
-        b = Math.max(prev, next);
-        break;
-      }
-      if (next === lo || next === hi) return { x: next, fx: fnext };
-      prev = cur;
-      cur = next;
-      fcur = fnext;
+  let x0 = clamp(guess);
+  vs(x0, out);
+  let f0 = out[0]!;
+  let s0 = out[1]!;
+  if (warm !== guess) {
+    const xw = clamp(warm);
+    vs(xw, out);
+    if (out[0]! > f0 || !Number.isFinite(f0)) {
+      x0 = xw;
+      f0 = out[0]!;
+      s0 = out[1]!;
     }
-    x0 = cur;
-    f0 = fcur;
   }
-  const opt = brentMinimise((x) => {
-    const v = g(x);
-    return Number.isFinite(v) ? -v : Infinity;
-  }, a, b);
-  return -opt.fx >= f0 ? { x: opt.x, fx: -opt.fx } : { x: x0, fx: f0 };
+  if (!Number.isFinite(f0) || !Number.isFinite(s0)) return { x: x0, fx: f0 };
+  if (s0 === 0) return { x: x0, fx: f0 };
+  const dir = s0 > 0 ? 1 : -1;
+  // The slope towards the maximum, with −∞ (no likelihood) read as "turn back".
+  const slopeAt = (x: number): number => {
+    vs(x, out);
+    return Number.isFinite(out[0]!) && Number.isFinite(out[1]!) ? out[1]! : -dir * 1e300;
+  };
+  let prev = x0;
+  let sPrev = s0;
+  let h = 0.25;
+  for (;;) {
+    const next = clamp(prev + dir * h);
+    const sNext = slopeAt(next);
+    if (Math.sign(sNext) !== dir) {
+      const root = brentRoot(slopeAt, prev, next, 1e-10, 200, sPrev, sNext);
+      const x = root.converged ? root.x : prev;
+      vs(x, out);
+      return { x, fx: out[0]! };
+    }
+    if (next === lo || next === hi) return { x: next, fx: out[0]! };
+    prev = next;
+    sPrev = sNext;
+    h *= 2;
+  }
 }
 
 /**
@@ -217,7 +238,8 @@ function profileInterval(
  * Example: balanced data where the ratio is well determined -> { lower: 0 < γ_L < γ̂, upper: γ̂ < γ_U < ∞, note: null }.
  */
 export function ratioInterval(base: ProfileBase, cut: number, lowerIsZero: boolean): ProfileInterval {
-  return profileInterval((g) => ratioLogLik(base, g), base.logLik, base.gamma, cut, lowerIsZero, 1e-12 * Math.max(1, base.gamma), RATIO_SEARCH_CAP * Math.max(1, base.gamma), {
+  const ev = evaluator(base);
+  return profileInterval((g) => ev.ratio(g), base.logLik, base.gamma, cut, lowerIsZero, 1e-12 * Math.max(1, base.gamma), RATIO_SEARCH_CAP * Math.max(1, base.gamma), {
     what: 'intraclass correlation',
     capWords: `a ratio of the two variances ${RATIO_SEARCH_CAP.toExponential(0)} times its estimate`,
     floorWords: 'down to a ratio of the two variances of 1e-12',

@@ -11,7 +11,8 @@
  * χ²₁(0.90) = 2.71 (the 50:50 χ²₀:χ²₁ mixture, Self & Liang 1987); a lower limit of 0 with zero itself excluded (the
  * statistic between 2.71 and 3.84) is a miss.
  * With R replications a coverage near 0.95 has Monte Carlo SE √(0.95·0.05/R) (0.0069 at R = 1000, so ±1.5% ≈ 2.2 SE).
- * Prints a table and writes bench/coverage-latest.json. `npm run bench:coverage -- 200` runs 200 replications per cell.
+ * Prints a table and writes bench/coverage-latest.json (the full table only). `npm run bench:coverage -- 200` runs 200
+ * replications per cell; `-- 3000 --seed 7 --cell 40/0` one cell (40 per arm, true ICC 0) with another seed.
  */
 import { writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -19,11 +20,17 @@ import { fileURLToPath } from 'node:url';
 import { DegenerateDataError, fitRandomIntercept, type FitOptions, type ModelData } from '../src/core/model';
 import { mulberry32 } from '../scripts/random';
 
-const argReps = process.argv.slice(2).map(Number).find((n) => Number.isInteger(n) && n > 0);
+const args = process.argv.slice(2);
+const option = (name: string): string | undefined => {
+  const i = args.indexOf(name);
+  return i >= 0 ? args[i + 1] : undefined;
+};
+const argReps = args.filter((a, i) => i === 0 || !args[i - 1]!.startsWith('--')).map(Number).find((n) => Number.isInteger(n) && n > 0);
 const REPS = argReps ?? 1000;
-const SEED = 20261202;
-const ICCS = [0, 0.05, 0.2, 0.6] as const;
-const PER_ARM = [12, 40] as const;
+const SEED = Number(option('--seed') ?? 20261202);
+const only = option('--cell')?.split('/').map(Number); // e.g. --cell 40/0: 40 per arm, true ICC 0
+const ICCS = only === undefined ? [0, 0.05, 0.2, 0.6] : [only[1]!];
+const PER_ARM = only === undefined ? [12, 40] : [only[0]!];
 const SIGMA2 = 16;
 const VISIT_DAYS = [1, 85, 169, 253, 337];
 const DROPOUT = 0.08;
@@ -121,6 +128,8 @@ process.stdout.write(
   `Coverage of 95% intervals, ${REPS} replications per row (Monte Carlo SE ≈ ${Math.sqrt((0.95 * 0.05) / REPS).toFixed(4)}); target 0.93–0.97.\n` +
     "'at zero': share of fits with the between-participant variance estimated at 0. 'no model': fits that gave no model.\n",
 );
-const out = join(dirname(fileURLToPath(import.meta.url)), 'coverage-latest.json');
-writeFileSync(out, `${JSON.stringify({ seed: SEED, reps: REPS, level: LEVEL, sigma2: SIGMA2, visitDays: VISIT_DAYS, dropoutPerVisit: DROPOUT, method: 'reml', cells }, null, 2)}\n`);
-process.stdout.write(`Wrote ${out}\n`);
+if (only === undefined) {
+  const out = join(dirname(fileURLToPath(import.meta.url)), 'coverage-latest.json');
+  writeFileSync(out, `${JSON.stringify({ seed: SEED, reps: REPS, level: LEVEL, sigma2: SIGMA2, visitDays: VISIT_DAYS, dropoutPerVisit: DROPOUT, method: 'reml', cells }, null, 2)}\n`);
+  process.stdout.write(`Wrote ${out}\n`);
+}

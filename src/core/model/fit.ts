@@ -82,7 +82,6 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
   const phi = pt.aInv.map((v) => v * s2);
   const pieces = informationPieces(st, gamma, s2, phi, options.method);
   const W = inverseInformation(pieces.information, atBoundary);
-  const Wfull = inverseInformation(pieces.information, false);
   const phiA = options.dfMethod === 'kenward-roger' ? adjustedCovariance(phi, pieces, W, p) : phi;
   const shifted = Float64Array.from(pt.beta);
   shifted[0] = shifted[0]! + sc.yCentre / sc.yScale;
@@ -137,17 +136,8 @@ export function fitRandomIntercept(data: ModelData, options: FitOptions): ModelF
     }
   }
 
-  const vs = varianceIntervals(st, gamma * s2, s2, W, Wfull, options.level, atBoundary);
   const y2 = sc.yScale * sc.yScale;
-  const variance = {
-    ...vs,
-    subject: y2 * vs.subject,
-    residual: y2 * vs.residual,
-    subjectLower: y2 * vs.subjectLower,
-    subjectUpper: y2 * vs.subjectUpper,
-    residualLower: y2 * vs.residualLower,
-    residualUpper: y2 * vs.residualUpper,
-  };
+  const variance = varianceIntervals(st, options.method, gamma, s2, pt.logLik, options.level, y2);
   const k = p + 2;
   const bicN = options.method === 'reml' ? N - p : N;
   const logLik = pt.logLik + logLikShift(sc, design, N, options.method);

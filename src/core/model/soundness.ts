@@ -8,7 +8,7 @@ import type { ContrastResult, ModelFit } from './types';
 
 const ok = (x: number): boolean => Number.isFinite(x);
 const ordered = (lo: number, est: number, hi: number): boolean => ok(lo) && ok(est) && ok(hi) && lo <= est && est <= hi;
-/** For variance limits an upper limit of +∞ is honest: a scaled chi-square with ν near 0 bounds nothing above. */
+/** For variance limits an upper limit of +∞ is honest: when the likelihood does not fall enough, nothing above is ruled out. */
 const orderedOpen = (lo: number, est: number, hi: number): boolean => ok(lo) && ok(est) && lo <= est && est <= hi;
 const shown = (x: number): string => (Number.isFinite(x) ? String(Number(x.toPrecision(4))) : String(x));
 

@@ -84,6 +84,25 @@ export interface VarianceResult {
   readonly iccUpper: number;
   /** Plain words saying how the intervals were computed. */
   readonly intervalMethod: string;
+  /** Per quantity: its interval, how it was computed, and why a limit is unbounded (absent for a failed fit). */
+  readonly intervals?: { readonly subject: VarianceInterval; readonly residual: VarianceInterval; readonly icc: VarianceInterval };
+  /**
+   * Likelihood-ratio test of no between-participant variation (σ²_u = 0) against the 50:50 mixture of χ²₀ and χ²₁
+   * (Self & Liang 1987): statistic 2(ℓ̂ − ℓ(σ²_u = 0)) and its p-value (absent for a failed fit).
+   */
+  readonly zeroTest?: { readonly statistic: number; readonly p: number };
+}
+
+/** How one variance or ICC interval was computed. */
+export type IntervalMethod = 'profile-likelihood' | 'exact-chi-square' | 'exact-f';
+
+/** One interval of a variance or of the ICC; `upper` +∞ (a variance) or 1 (the ICC) when the data do not bound it. */
+export interface VarianceInterval {
+  readonly lower: number;
+  readonly upper: number;
+  readonly method: IntervalMethod;
+  /** Plain words when a limit could not be found or zero is a limit for a reason worth saying; else null. */
+  readonly note: string | null;
 }
 
 export interface TreatmentEffect extends ContrastResult {

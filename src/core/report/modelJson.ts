@@ -2,13 +2,16 @@
  * The JSON `model` section of the machine-readable results: the fit's numbers with non-finite values as null (JSON has
  * no NaN or Infinity).
  */
-import type { ContrastResult, ModelFit } from '../model/types';
+import type { ContrastResult, ModelFit, VarianceInterval } from '../model/types';
 import { naiveJson } from './naiveReport';
 import { modelKindOf } from '../model/slope/kind';
 import { slopeVarianceJson } from './slopeReport';
 
 const n = (x: number): number | null => (Number.isFinite(x) ? x : null);
 const inf = (r: ContrastResult): Record<string, number | null> => ({ estimate: n(r.estimate), se: n(r.se), df: n(r.df), t: n(r.t), p: n(r.p), lower: n(r.lower), upper: n(r.upper) });
+
+/** One variance or the ICC with its interval; an unbounded upper limit is null, its reason in `note`. */
+const intervalJson = (estimate: number, i: VarianceInterval): Record<string, unknown> => ({ estimate: n(estimate), lower: n(i.lower), upper: n(i.upper), intervalMethod: i.method, note: i.note });
 
 /** Example: modelJson(fit).fixedEffects[0] -> { term: 'Intercept', kind: 'intercept', arm: null, estimate: 66.5, ... }. */
 export function modelJson(fit: ModelFit): Record<string, unknown> {
@@ -44,6 +47,12 @@ export function modelJson(fit: ModelFit): Record<string, unknown> {
       iccUpper: n(v.iccUpper),
       intervalMethod: v.intervalMethod,
       ...slopeVarianceJson(fit),
+      intervals: v.intervals === undefined ? null : {
+        subject: intervalJson(v.subject, v.intervals.subject),
+        residual: intervalJson(v.residual, v.intervals.residual),
+        icc: intervalJson(v.icc, v.intervals.icc),
+      },
+      zeroTest: v.zeroTest === undefined ? null : { statistic: n(v.zeroTest.statistic), p: n(v.zeroTest.p) },
     },
     treatmentEffects: fit.treatmentEffects.map((t) => ({ arm: t.arm, label: t.label, day: t.day, time: n(t.time), ...inf(t) })),
     slopeDifferences: fit.slopeDifferences.map((s) => ({ arm: s.arm, ...inf(s) })),

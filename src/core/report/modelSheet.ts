@@ -259,7 +259,7 @@ function perParticipantSheet(fit: ModelFit, mode: Mode, unblinded: boolean): She
  * The model's technical notes, in plain sentences, for the analysis record (the model sheet keeps the tables a reader
  * needs): how the intervals were computed, what the log-likelihood includes, how AIC and BIC are defined, how many
  * likelihood evaluations the fit took and the convergence detail.
- * Example: modelTechnicalNotes(fit)[0] → "How the intervals were computed: Variances: scaled chi-square intervals …"
+ * Example: modelTechnicalNotes(fit)[0] → "How the intervals were computed: Profile-likelihood intervals from the restricted (REML) likelihood …"
  */
 export function modelTechnicalNotes(fit: ModelFit): string[] {
   const k = fit.nParameters;

@@ -21,16 +21,6 @@ describe('variance-component intervals', () => {
       expectRelClose(v.residualLower, (nu * msw) / chiSquareQuantile(0.975, nu), 1e-9);
       expectRelClose(v.residualUpper, (nu * msw) / chiSquareQuantile(0.025, nu), 1e-9);
     });
-    it(`${name}: the between-participant interval uses Satterthwaite's df for (MSB − MSW)/n (Satterthwaite 1946, exact identity)`, () => {
-      const v = fitRandomIntercept(oneWay(groups), oneWayOpts).variance;
-      const { msb, msw, a, n } = balancedAnova(groups);
-      const s2u = (msb - msw) / n;
-      const nu = (msb - msw) ** 2 / (msb ** 2 / (a - 1) + msw ** 2 / (a * (n - 1)));
-      // Relative 1e-9, for the same reason as above: the REML σ²_u equals (MSB − MSW)/n at the optimum, so only the
-      // stopping rule on log γ and rounding separate the two (about 1e-13 relative on these data).
-      expectRelClose(v.subjectLower, (nu * s2u) / chiSquareQuantile(0.975, nu), 1e-9);
-      expectRelClose(v.subjectUpper, (nu * s2u) / chiSquareQuantile(0.025, nu), 1e-9);
-    });
   }
   it('rails (Devore 2000): the within-participant interval 8.313 to 44.05 would be 7.26 to 35.99 by a log-scale Wald interval', () => {
     // Documents the choice: the Wald log-scale interval σ² exp(±1.96 √(2/12)) is 13% low at the bottom and 18% low
@@ -141,16 +131,20 @@ describe('contrasts, trajectories, AIC and BIC', () => {
     expect(() => fitRandomIntercept(single, { ...opts, contrastDays: [] })).toThrow(/no participant has more than one measurement/);
   });
 
-  it('unbalanced data at the zero boundary: the ICC interval runs from 0 to the ICC of the between-participant upper limit', () => {
+  it('unbalanced data at the zero boundary: both lower limits are 0, the zero test is 0 with p = 1, the upper limits are finite', () => {
     // Invented one-way data with equal group means (5.5) and unequal group sizes, so the REML between-participant variance
-    // is 0 and the balanced exact interval does not apply; exact identity ICC_U = U/(U + σ²) for the upper limit U.
+    // is 0 and the balanced exact interval does not apply; the upper limits' likelihood-ratio equation is checked against
+    // a dense likelihood in profileIntervals.test.ts.
     const f = fitRandomIntercept(oneWay([[1, 10], [2, 9, 5.5], [3, 8], [4, 7, 5.5, 5.5]]), oneWayOpts);
     expect(f.status).toBe('boundary');
     const v = f.variance;
     expect(v.iccLower).toBe(0);
+    expect(v.subjectLower).toBe(0);
+    expect(v.zeroTest).toEqual({ statistic: 0, p: 1 });
     expect(v.subjectUpper).toBeGreaterThan(0);
-    expect(v.iccUpper).toBeCloseTo(v.subjectUpper / (v.subjectUpper + v.residual), 12); // same expression, rounding only
+    expect(Number.isFinite(v.subjectUpper)).toBe(true);
+    expect(v.iccUpper).toBeGreaterThan(0);
     expect(v.iccUpper).toBeLessThan(1);
-    expect(v.intervalMethod).toMatch(/zero boundary/);
+    expect(v.intervalMethod).toMatch(/mixture of chi-square distributions with 0 and 1 degrees of freedom/);
   });
 });

@@ -362,8 +362,9 @@ const ROW_BUFFER = 64 * 1024;
 /** Writes the worksheet part of `plan` row by row; `tableRel(k)` is the relationship id of the sheet's k-th table. */
 async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Record<Look, number>; format: Map<NumberFormat, number> }, tableRel: (k: number) => string, drawingRel: string | null, selected: boolean): Promise<void> {
   const { st } = plan;
-  const widest = Math.max(1, ...st.tables.map((t) => t.block.columns.length));
-  const letters = lettersFor(Math.max(widest, textColumnCount(st)));
+  const across = textColumnCount(st);
+  const widest = Math.max(1, ...st.tables.map((t) => t.block.columns.length), st.wraps.length > 0 ? across : 1);
+  const letters = lettersFor(Math.max(widest, across));
   const lastRow = Math.max(plan.allHeightsTo, ...[...st.lines.keys()], ...st.tables.map((t) => t.headerRow + t.bodyRows));
   let head = `${XML_HEAD}<worksheet xmlns="${MAIN_NS}" xmlns:r="${REL_NS}"><sheetPr><pageSetUpPr fitToPage="1"/></sheetPr>`;
   head += `<dimension ref="A1:${letters[widest - 1]}${lastRow}"/>`;
@@ -417,7 +418,14 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
       continue;
     }
     const line = st.lines.get(r);
-    if (line !== undefined) buf += `${rowOpen(r)}${textCell(`A${r}`, styles.look[line.look], line.text)}</row>`;
+    if (line !== undefined) {
+      const style = styles.look[line.look];
+      buf += `${rowOpen(r)}${textCell(`A${r}`, style, line.text)}`;
+      // The rest of a wrapped paragraph's merged area is written too (blank, same look), so readers count the whole
+      // area as used: a printed page fitted to the width then holds the paragraph whole.
+      if (line.look === 'wrapped' || line.look === 'wrappedCaution') for (let j = 1; j < across; j++) buf += `<c r="${letters[j]}${r}" s="${style}"/>`;
+      buf += '</row>';
+    }
     else if (r <= plan.allHeightsTo || st.heights.has(r)) buf += `${rowOpen(r)}</row>`;
     if (buf.length >= ROW_BUFFER) {
       await out.write(buf);

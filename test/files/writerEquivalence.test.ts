@@ -1,7 +1,7 @@
 /**
  * The streaming writer (src/files/writeWorkbook.ts) against the exceljs-based writer it replaced (kept unchanged in
  * test/support/exceljsWriter/ for this test only): the invented demo trial's report (demo/, `npm run demo` settings),
- * written by both, holds the same content cell by cell — values, types, number formats, merged ranges, column widths,
+ * written by both, holds the same content cell by cell — values, types, number formats, the used area (which sets the printed width), merged ranges, column widths,
  * row heights, tables with their names, ranges, filters and columns, internal links, frozen rows, print settings and the
  * charts' anchors and series references. The old writer is run rather than a committed snapshot compared, so the test
  * keeps holding when the report's sheets change (a snapshot would go stale with every new column).
@@ -60,6 +60,7 @@ describe('the streaming writer writes the same report as the exceljs writer it r
         const a = after[k]!;
         expect(Object.keys(a.cells).length, b.name).toBe(Object.keys(b.cells).length);
         expect(a.cells, b.name).toEqual(b.cells);
+        expect(a.used, b.name).toEqual(b.used);
         expect(a.merges, b.name).toEqual(b.merges);
         expect(a.widths, b.name).toEqual(b.widths);
         expect(a.heights, b.name).toEqual(b.heights);

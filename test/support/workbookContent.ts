@@ -17,6 +17,8 @@ export interface CellContent {
 
 export interface SheetContent {
   readonly name: string;
+  /** The last row and column (1-based) holding any cell element, blank or not: the area a reader counts as used. */
+  readonly used: { rows: number; columns: number };
   readonly cells: Record<string, CellContent>;
   readonly merges: string[];
   readonly widths: Record<number, number>;
@@ -40,7 +42,8 @@ export interface SheetContent {
 /** Built-in number formats the writers use (ECMA-376 Part 1 §18.8.30). */
 const BUILT_IN: Record<string, string> = { '0': 'General', '1': '0', '2': '0.00', '9': '0%', '10': '0.00%', '49': '@' };
 
-async function parts(bytes: Uint8Array): Promise<Map<string, string>> {
+/** Every part of the package as text, by name. */
+export async function packageParts(bytes: Uint8Array): Promise<Map<string, string>> {
   const out = new Map<string, string>();
   const budget = { used: 0, total: 1 << 30 };
   const decoder = new TextDecoder();
@@ -86,7 +89,7 @@ function runText(xml: string): string {
 
 /** The content of every sheet, in workbook order. */
 export async function workbookContent(bytes: Uint8Array): Promise<SheetContent[]> {
-  const all = await parts(bytes);
+  const all = await packageParts(bytes);
   const workbook = all.get('xl/workbook.xml') ?? '';
   const wbRels = rels(all, 'xl/workbook.xml');
   const shared = [...(all.get('xl/sharedStrings.xml') ?? '').matchAll(/<si>([\s\S]*?)<\/si>/g)].map((m) => runText(m[1]!));
@@ -105,8 +108,12 @@ export async function workbookContent(bytes: Uint8Array): Promise<SheetContent[]
     const part = wbRels.get(attr(m[0], 'r:id')!)!;
     const xml = all.get(part) ?? '';
     const cells: Record<string, CellContent> = {};
+    const used = { rows: 0, columns: 0 };
     for (const c of xml.matchAll(/<c\b([^>]*?)(?:\/>|>([\s\S]*?)<\/c>)/g)) {
       const ref = attr(c[1]!, 'r')!;
+      const at = /^([A-Z]+)(\d+)$/.exec(ref)!;
+      used.rows = Math.max(used.rows, Number(at[2]));
+      used.columns = Math.max(used.columns, [...at[1]!].reduce((n, ch) => n * 26 + ch.charCodeAt(0) - 64, 0));
       const t = attr(c[1]!, 't') ?? 'n';
       const inner = c[2] ?? '';
       const v = /<v>([\s\S]*?)<\/v>/.exec(inner)?.[1];
@@ -172,6 +179,7 @@ export async function workbookContent(bytes: Uint8Array): Promise<SheetContent[]
     }
     sheets.push({
       name,
+      used,
       cells,
       merges,
       widths,

@@ -79,13 +79,17 @@ export class ZipWriter {
     let crc = 0;
     let size = 0;
     let pending = '';
+    let inFlight: Promise<void> = Promise.resolve();
     const flush = async (): Promise<void> => {
       if (pending.length === 0) return;
       const bytes = encoder.encode(pending);
       pending = '';
       crc = crc32Update(crc, bytes);
       size += bytes.length;
-      await writer.write(bytes);
+      // At most one piece in the compressor while the next is made (deflate runs on Node's thread pool and off the
+      // page's main work in browsers), so memory stays at two pieces.
+      await inFlight;
+      inFlight = writer.write(bytes);
     };
     return {
       write: async (text: string): Promise<void> => {
@@ -94,6 +98,7 @@ export class ZipWriter {
       },
       end: async (): Promise<void> => {
         await flush();
+        await inFlight;
         await writer.close();
         await drain;
         if (size > LIMIT || compressedSize > LIMIT || this.offset > LIMIT) {

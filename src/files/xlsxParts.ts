@@ -90,7 +90,7 @@ export function workbookXml(sheets: readonly WorkbookSheet[]): string {
     .join('');
   return (
     `${XML_HEAD}<workbook xmlns="${MAIN_NS}" xmlns:r="${REL_NS}"><bookViews><workbookView activeTab="0"/></bookViews>` +
-    `<sheets>${list}</sheets>${titles === '' ? '' : `<definedNames>${titles}</definedNames>`}<calcPr calcId="0"/></workbook>`
+    `<sheets>${list}</sheets>${titles === '' ? '' : `<definedNames>${titles}</definedNames>`}</workbook>`
   );
 }
 

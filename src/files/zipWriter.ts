@@ -9,9 +9,9 @@
 import { crc32Update } from './crc32';
 import { FileFormatError } from './errors';
 
-/** Characters gathered before they are encoded and handed to the compressor: large enough that the per-chunk cost
- * vanishes, small enough that memory stays flat. */
-const TEXT_CHUNK = 256 * 1024;
+/** Bytes gathered before they are handed to the compressor: large enough that the per-piece cost vanishes, small
+ * enough that memory stays flat. */
+const BYTE_CHUNK = 1024 * 1024;
 /** Fixed date and time of every part (1980-01-01 00:00, the zip format's earliest), so the same report gives the same
  * bytes; the run date is printed in the footer instead. */
 const DOS_TIME = 0;
@@ -78,23 +78,32 @@ export class ZipWriter {
     })();
     let crc = 0;
     let size = 0;
-    let pending = '';
+    // Text is encoded straight into a byte buffer (no intermediate strings or arrays); a full buffer goes to the
+    // compressor and a fresh one is started, since the compressor may still read the one it was given.
+    let bytes = new Uint8Array(BYTE_CHUNK);
+    let used = 0;
     let inFlight: Promise<void> = Promise.resolve();
     const flush = async (): Promise<void> => {
-      if (pending.length === 0) return;
-      const bytes = encoder.encode(pending);
-      pending = '';
-      crc = crc32Update(crc, bytes);
-      size += bytes.length;
+      if (used === 0) return;
+      const piece = bytes.subarray(0, used);
+      bytes = new Uint8Array(BYTE_CHUNK);
+      used = 0;
+      await send(piece);
+    };
+    const send = async (piece: Uint8Array<ArrayBuffer>): Promise<void> => {
+      crc = crc32Update(crc, piece);
+      size += piece.length;
       // At most one piece in the compressor while the next is made (deflate runs on Node's thread pool and off the
       // page's main work in browsers), so memory stays at two pieces.
       await inFlight;
-      inFlight = writer.write(bytes);
+      inFlight = writer.write(piece);
     };
     return {
       write: async (text: string): Promise<void> => {
-        pending += text;
-        if (pending.length >= TEXT_CHUNK) await flush();
+        // UTF-8 takes at most 3 bytes per UTF-16 code unit.
+        if (used + text.length * 3 > BYTE_CHUNK) await flush();
+        if (text.length * 3 > BYTE_CHUNK) await send(encoder.encode(text));
+        else used += encoder.encodeInto(text, bytes.subarray(used)).written;
       },
       end: async (): Promise<void> => {
         await flush();

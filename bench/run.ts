@@ -2,7 +2,9 @@
  * `npm run bench`: visit timing (intake + windowing) at 10k, 100k and 1,000,000 rows, plus the model engine's
  * entries (bench/model-bench.ts), each beside its baseline measured in the same run. Writes bench/latest.json and
  * prints a table. Sizes can be given as arguments: `npm run bench -- 10000 50000`. Then the hostile-workbook cases
- * (bench/hostile-bench.ts), written to bench/hostile-latest.json; `npm run bench -- hostile` runs only those.
+ * (bench/hostile-bench.ts), written to bench/hostile-latest.json; `npm run bench -- hostile` runs only those. The report
+ * writer before and after (bench/writer-bench.ts), written to bench/writer-latest.json; `npm run bench -- writer` runs
+ * only that (sizes may follow: `npm run bench -- writer 200000`).
  * `npm run bench -- page [rows…]` runs only the browser page's bench (bench/page-bench.ts, bench/page-latest.json).
  */
 import { writeFileSync } from 'node:fs';
@@ -12,6 +14,7 @@ import { runModelBench } from './model-bench';
 import { runTimingBench } from './timing-bench';
 import { runHostileBench } from './hostile-bench';
 import { pageBenchTable, runPageBench } from './page-bench';
+import { runWriterBench, writerTable } from './writer-bench';
 import type { BenchEntry } from './types';
 
 // `npm run bench -- page [rows…]`: the browser page only (bench/page-bench.ts), at 300,000 and 1,000,000 rows by
@@ -25,10 +28,19 @@ if (process.argv[2] === 'page') {
 }
 
 const onlyHostile = process.argv.includes('hostile');
+const onlyWriter = process.argv.includes('writer');
 const sizes = process.argv.slice(2).map(Number).filter((n) => Number.isInteger(n) && n > 0);
 const rowsList = sizes.length > 0 ? sizes : [10_000, 100_000, 1_000_000];
 
 const entries: BenchEntry[] = [];
+if (onlyWriter) {
+  // `npm run bench -- writer [sizes]`: only the report writer, before and after (bench/writer-bench.ts).
+  const writer = runWriterBench(sizes.length > 0 ? sizes : undefined);
+  writeFileSync(join(dirname(fileURLToPath(import.meta.url)), 'writer-latest.json'), `${JSON.stringify(writer, null, 2)}\n`);
+  process.stdout.write(`${writerTable(writer)}\nWrote bench/writer-latest.json\n`);
+  process.exit(0);
+}
+
 for (const rows of onlyHostile ? [] : rowsList) {
   entries.push(runTimingBench(rows));
   entries.push(...(await runModelBench(rows)));
@@ -51,6 +63,13 @@ process.stdout.write(
     'peak MB: the process high-water mark of resident memory (it includes the generated cells and earlier sizes).\n' +
     (onlyHostile ? '' : `Wrote ${out}\n`),
 );
+
+// The report writer at a 200,000- and a 1,000,000-row run, before and after.
+if (!onlyHostile) {
+  const writer = runWriterBench();
+  writeFileSync(join(dirname(out), 'writer-latest.json'), `${JSON.stringify(writer, null, 2)}\n`);
+  process.stdout.write(`\n${writerTable(writer)}\nWrote bench/writer-latest.json\n`);
+}
 
 // The hostile workbooks of the reader (each read in a process of its own, so the peak is the case's alone).
 const hostile = await runHostileBench();

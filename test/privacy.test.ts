@@ -41,16 +41,6 @@ const LIBRARY_USES: readonly { readonly word: string; readonly around: RegExp; r
     reason: "react-dom's resource hoisting (preinit/preload, or a <script async src> rendered in JSX): runs only if our components render a <script> or call preinit; they do neither (checked in our sources below).",
   },
   {
-    word: 'createElement("script")',
-    around: /onreadystatechange/,
-    reason: 'setImmediate polyfills in the exceljs browser bundle: an old-IE scheduling trick that inserts an empty <script> with no src; loads nothing.',
-  },
-  {
-    word: 'importScripts',
-    around: /!\w+\.importScripts|\.importScripts&&/,
-    reason: 'setImmediate polyfills in the exceljs browser bundle test whether they run in a worker; they never call it.',
-  },
-  {
     word: 'XMLHttpRequest',
     around: /_readChunk|withCredentials/,
     reason: "papaparse's network streamer, used only with its `download: true` option; our CSV reading passes text, never that option (checked in our sources below).",
@@ -59,16 +49,11 @@ const LIBRARY_USES: readonly { readonly word: string; readonly around: RegExp; r
 
 /** Hosts whose addresses appear in library code as text only (namespace names, links in error messages). */
 const TEXT_ONLY_HOSTS: Readonly<Record<string, string>> = {
-  'www.w3.org': 'XML, SVG and MathML namespace names (react-dom, exceljs); namespaces are names, never fetched',
-  'schemas.openxmlformats.org': 'ECMA-376 namespace names written into .xlsx files by exceljs',
-  'schemas.microsoft.com': 'Office namespace names written into .xlsx files by exceljs',
-  'purl.org': 'Dublin Core namespace names in .xlsx document properties (exceljs)',
+  'www.w3.org': 'XML, SVG and MathML namespace names (react-dom); namespaces are names, never fetched',
+  'schemas.openxmlformats.org': 'ECMA-376 namespace names written into .xlsx files by the report writer (src/files)',
+  'purl.org': 'the Dublin Core namespace name in the .xlsx document properties (src/files/xlsxParts.ts)',
   'react.dev': "react's production error messages link to its error decoder; shown as text, not fetched",
-  'github.com': 'links inside error messages and package metadata of exceljs dependencies',
-  'stuk.github.io': "a link in jszip's error message about unreadable zip files",
-  'stuartk.com': "jszip's licence comment (kept by the minifier as a legal comment)",
-  'raw.github.com': "jszip's licence comment, pointing at its licence text",
-  'feross.org': 'licence comments of ieee754 and safe-buffer (exceljs dependencies)',
+  'github.com': "a link in the Fluent UI styling library's (griffel) message asking to report an issue; shown as text, not fetched",
   'aka.ms': "a link in a Fluent UI styling library's message about CSS shorthands; shown as text, not fetched",
 };
 

@@ -32,11 +32,13 @@ export interface AnalyzeArgs {
   readonly perSubject: boolean;
   /** How dates with numeric day and month are read; absent: each date column decides from its values. */
   readonly dateOrder?: DateOrder;
+  /** The results JSON indented for reading (default: compact, one line). */
+  readonly pretty: boolean;
 }
 
 const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'model', 'level', 'covariate', 'date-order'] as const;
 /** `--per-subject` is the older spelling of `--per-participant`, still accepted. */
-const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-participant', 'per-subject'] as const;
+const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-participant', 'per-subject', 'pretty'] as const;
 type ValueFlag = (typeof VALUE_FLAGS)[number];
 type BooleanFlag = (typeof BOOLEAN_FLAGS)[number];
 
@@ -160,6 +162,7 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     covariates: values.get('covariate') ?? [],
     scheduledOnly: flags.has('scheduled-only'),
     perSubject: flags.has('per-participant') || flags.has('per-subject'),
+    pretty: flags.has('pretty'),
   };
 }
 
@@ -208,7 +211,8 @@ Model:
 Output:
   --out FILE.xlsx         write the report workbook
   --json FILE.json        write the machine-readable results (also when the data stop the run:
-                          then "ok" is false and "issues" says why)
+                          then "ok" is false and "issues" says why); compact, on one line
+  --pretty                indent the JSON results for reading (larger file)
 Files are written under a temporary name and renamed when complete; an existing file is only replaced by a
 finished one. Exit codes: 0 done, 1 the data could not be analysed, 2 wrong command line or unreadable file.
 `;

@@ -40,6 +40,12 @@ function countsLine(counts: unknown): string | null {
   return (Object.keys(STATUS_WORDS) as VisitStatus[]).map((k) => `${STATUS_WORDS[k].toLowerCase()} ${String(c[k] ?? 0)}`).join(', ');
 }
 
+/** The results JSON as written: compact on one line by default (smaller and quicker to write), indented with
+ * `--pretty`; always ending with a newline. */
+export function jsonText(json: unknown, pretty: boolean): string {
+  return `${pretty ? JSON.stringify(json, null, 2) : JSON.stringify(json)}\n`;
+}
+
 function printSummary(json: Record<string, unknown>, io: CliOutput): void {
   const input = (json.input ?? {}) as Record<string, unknown>;
   const visits = (json.visits ?? {}) as Record<string, unknown>;
@@ -144,7 +150,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     }
     // A script reading the JSON learns why the run stopped: write it even now (all or nothing, as below).
     if (args.json !== undefined && output.json !== undefined) {
-      await writeFilesAtomic([{ target: args.json, data: `${JSON.stringify(output.json, null, 2)}\n` }]);
+      await writeFilesAtomic([{ target: args.json, data: jsonText(output.json, args.pretty) }]);
       io.err(`Wrote ${args.json} (the reasons the run stopped).`);
     }
     return 1;
@@ -156,7 +162,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
   // Build every output in memory first, then write all or nothing, so a failure leaves no file half-written.
   const files: { target: string; data: Uint8Array | string }[] = [];
   if (args.out !== undefined) files.push({ target: args.out, data: await writeWorkbook(output.sheets, printStampOf(output.json)) });
-  if (args.json !== undefined) files.push({ target: args.json, data: `${JSON.stringify(output.json, null, 2)}\n` });
+  if (args.json !== undefined) files.push({ target: args.json, data: jsonText(output.json, args.pretty) });
   await writeFilesAtomic(files);
   for (const f of files) io.out(`Wrote ${f.target}`);
   if (args.out === undefined && args.json === undefined) io.out('Nothing written: give --out FILE.xlsx and/or --json FILE.json to save the results.');

@@ -102,6 +102,21 @@ describe('longipane analyze on the invented demo trial', () => {
     expect((await readdir(join(dir, 'demo'))).sort()).toEqual(['report.xlsx', 'results.json']);
   });
 
+  it('writes the JSON compact on one line by default, and indented with --pretty (the same object)', async () => {
+    const compact = await readFile(join(dir, 'demo', 'results.json'), 'utf8');
+    expect(compact.endsWith('}\n')).toBe(true);
+    expect(compact.slice(0, -1)).not.toContain('\n');
+    const again = await run(
+      'analyze', '--data', DEMO_DATA, '--schedule', DEMO_SCHEDULE, '--json', join(dir, 'demo-pretty', 'results.json'),
+      '--unblinded', '--reference-arm', 'Placebo', '--pretty',
+    );
+    expect(again.code).toBe(0);
+    const pretty = await readFile(join(dir, 'demo-pretty', 'results.json'), 'utf8');
+    expect(pretty.startsWith('{\n  "ok": true,')).toBe(true);
+    // The run time is fixed by the test's clock, so both runs give the same object.
+    expect(JSON.parse(pretty)).toEqual(JSON.parse(compact));
+  });
+
   it('lists the four deliberately bad cells of the demo with their cell addresses', () => {
     const cells = new Set(json.input.excluded.map((e) => e.cell));
     // demo/README.md names the four cells (G42, A157, E304, G519), on the sheet named after the file (quoted, as A1 references quote a name with a hyphen).

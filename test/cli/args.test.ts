@@ -19,6 +19,7 @@ describe('parseAnalyzeArgs', () => {
       covariates: [],
       scheduledOnly: false,
       perSubject: false,
+      pretty: false,
     });
   });
 
@@ -31,6 +32,12 @@ describe('parseAnalyzeArgs', () => {
     ]);
     expect(a.covariates).toEqual(['BASE', 'AGE']);
     expect(a).toMatchObject({ unblinded: true, referenceArm: 'Placebo', perSubject: true, scheduledOnly: false });
+  });
+
+  it('--pretty asks for indented JSON results; without it they are compact', () => {
+    expect(parseAnalyzeArgs([...BASE, '--pretty']).pretty).toBe(true);
+    expect(parseAnalyzeArgs(BASE).pretty).toBe(false);
+    expect(HELP_TEXT).toContain('--pretty');
   });
 
   it('--per-participant asks for the per-participant sheet; --per-subject, its older spelling, still does', () => {

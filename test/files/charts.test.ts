@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import JSZip from 'jszip';
 import { writeWorkbook, CHART_DATA_CAPTION } from '../../src/files/writeWorkbook';
 import { readXlsxBuffer } from '../../src/files/readXlsx';
-import { CHART_CONTENT_TYPE, DRAWING_CONTENT_TYPE, withDrawingElement } from '../../src/files/addCharts';
+import { CHART_CONTENT_TYPE, DRAWING_CONTENT_TYPE } from '../../src/files/xlsxParts';
 import { CHART_NS, runReference } from '../../src/files/chartXml';
 import type { ChartSpec, SheetSpec, TableBlock } from '../../src/core/report/types';
 
@@ -157,13 +157,13 @@ describe('native charts in the written workbook (ECMA-376 Part 1 §21.2)', () =>
     expect([...parts.keys()].some((p) => p.startsWith('xl/charts/'))).toBe(false);
   });
 
-  it('puts the drawing element before the first element that must follow it, and declares the r prefix when missing', () => {
-    expect(withDrawingElement('<worksheet xmlns:r="R"><sheetData/><pageSetup/><tableParts count="1"/></worksheet>', 'rId3')).toBe(
-      '<worksheet xmlns:r="R"><sheetData/><pageSetup/><drawing r:id="rId3"/><tableParts count="1"/></worksheet>',
-    );
-    expect(withDrawingElement('<worksheet xmlns="M"><sheetData/></worksheet>', 'rId1')).toBe(
-      '<worksheet xmlns:r="http://schemas.openxmlformats.org/officeDocument/2006/relationships" xmlns="M"><sheetData/><drawing r:id="rId1"/></worksheet>',
-    );
+  it('puts the drawing element after the print settings and before the table parts (CT_Worksheet order, ECMA-376 Part 1 §18.3.1.99)', async () => {
+    const parts = await partsOf(await writeWorkbook([{ name: 'S', title: 'T', blocks: [bySite, { kind: 'chart', chart: rateChart }] }]));
+    const xml = parts.get('xl/worksheets/sheet1.xml')!;
+    parseXml(xml, 'sheet1');
+    const order = ['<sheetData', '<pageMargins', '<pageSetup', '<headerFooter', '<drawing ', '<tableParts'].map((tag) => xml.indexOf(tag));
+    expect(order.every((at) => at >= 0)).toBe(true);
+    expect([...order].sort((a, b) => a - b)).toEqual(order);
   });
 
   it("quotes every sheet name in a reference and doubles an apostrophe: 'Visit timing'!$B$12:$B$16", () => {

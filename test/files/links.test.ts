@@ -4,7 +4,6 @@ import ExcelJS from 'exceljs';
 import { describe, expect, it } from 'vitest';
 import { CAUTIONS, cautionLine } from '../../src/core/report/cautions';
 import type { SheetSpec } from '../../src/core/report/types';
-import { linkLocation, withHyperlinks } from '../../src/files/addLinks';
 import { writeWorkbook } from '../../src/files/writeWorkbook';
 
 // Invented sheets: a summary with the full cautions and a listing that links to it.
@@ -25,7 +24,7 @@ describe('internal links in the written workbook', () => {
     const bytes = await writeWorkbook([summary, listing]);
     const xml = await sheetXml(bytes, 2);
     // ECMA-376 Part 1, §18.3.1.47: an in-workbook link has a location and no relationship id.
-    expect(xml).toMatch(/<hyperlinks><hyperlink ref="A2" location="&apos;Summary&apos;!A1" display="[^"]+"\/><\/hyperlinks><pageMargins/);
+    expect(xml).toMatch(/<hyperlinks><hyperlink ref="A2" location="'Summary'!A1" display="[^"]+"\/><\/hyperlinks><pageMargins/);
     expect(xml).not.toMatch(/<hyperlink [^>]*r:id=/);
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(bytes as unknown as Parameters<typeof wb.xlsx.load>[0]);
@@ -40,17 +39,17 @@ describe('internal links in the written workbook', () => {
   it('follows the name the summary sheet got, and leaves plain text when there is no summary sheet', async () => {
     const renamed = await writeWorkbook([{ ...summary, name: 'summary', title: 'Another sheet' }, summary, listing]);
     // "summary" and "Summary" clash ignoring case, so the summary sheet is written as "Summary (2)" and the link follows.
-    expect(await sheetXml(renamed, 3)).toContain('location="&apos;Summary (2)&apos;!A1"');
+    expect(await sheetXml(renamed, 3)).toContain(`location="'Summary (2)'!A1"`);
     const alone = await writeWorkbook([listing]);
     expect(await sheetXml(alone, 1)).not.toContain('<hyperlink');
   });
 
-  it('withHyperlinks places the element before the first one that must follow it and escapes the location', () => {
-    const link = { ref: 'A2', sheet: "Tom's & co", cell: 'A1', display: 'x' };
-    expect(linkLocation("Tom's & co", 'A1')).toBe("'Tom''s & co'!A1");
-    expect(withHyperlinks('<worksheet><sheetData/><pageMargins/><tableParts/></worksheet>', [link])).toBe(
-      '<worksheet><sheetData/><hyperlinks><hyperlink ref="A2" location="&apos;Tom&apos;&apos;s &amp; co&apos;!A1" display="x"/></hyperlinks><pageMargins/><tableParts/></worksheet>',
-    );
-    expect(withHyperlinks('<worksheet><sheetData/></worksheet>', [])).toBe('<worksheet><sheetData/></worksheet>');
+  it("escapes the location of a sheet whose name holds an apostrophe and an ampersand: 'Tom''s & co'!A1", async () => {
+    const bytes = await writeWorkbook([{ ...summary, name: "Tom's & co" }, { ...listing, blocks: [{ ...cautionLine('unblinded'), link: { sheet: "Tom's & co", cell: 'A1' } }] }]);
+    // The sheet name quoted, its apostrophe doubled (a formula reference), then XML-escaped inside the attribute.
+    expect(await sheetXml(bytes, 2)).toContain('location="\'Tom\'\'s &amp; co\'!A1"');
+    const wb = new ExcelJS.Workbook();
+    await wb.xlsx.load(bytes as unknown as Parameters<typeof wb.xlsx.load>[0]);
+    expect(wb.getWorksheet("Tom's & co")).toBeDefined();
   });
 });

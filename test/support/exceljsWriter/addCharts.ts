@@ -6,10 +6,10 @@
  * extLst). Parts the function does not touch are copied as they are. Runs in Node and in the browser.
  */
 import JSZip from 'jszip';
-import type { ChartSpec } from '../core/report/types';
-import type { BoundSeries } from './bindChart';
-import { FileFormatError } from './errors';
-import { chartXml, DRAWING_NS, REL_NS, xmlText } from './chartXml';
+import type { ChartSpec } from '../../../src/core/report/types';
+import type { BoundSeries } from '../../../src/files/bindChart';
+import { FileFormatError } from '../../../src/files/errors';
+import { chartXml, DRAWING_NS, REL_NS, xmlText } from '../../../src/files/chartXml';
 import { withHyperlinks, type PlacedLink } from './addLinks';
 
 /** A chart to place: its cells (0-based, the `to` cell is the first one past the chart) and its bound series. */

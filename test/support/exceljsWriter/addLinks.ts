@@ -5,7 +5,7 @@
  * link with an external relationship as well, which Excel reads as a broken address (exceljs issue #3027), so the
  * writer adds the links here instead. Pure string work on one part.
  */
-import { xmlText } from './chartXml';
+import { xmlText } from '../../../src/files/chartXml';
 
 /** One link: the cell that holds it, the place it leads to, and the text shown. */
 export interface PlacedLink {

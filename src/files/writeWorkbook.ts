@@ -238,8 +238,9 @@ function writeTable(st: SheetState, t: TableBlock, tableNames: Set<string>): num
     rows,
   });
   t.columns.forEach((c, j) => {
-    // Each cell's code from its value (the same text the page shows); one code for a whole column but 'significant'.
-    for (let i = 0; i < rows.length; i++) st.ws.getCell(headerRow + 1 + i, j + 1).style = formatStyle(numberFormatFor(rows[i]![j] ?? null, c.format));
+    // Each cell's code from its value (the same text the page shows): one code for a whole column but 'significant'.
+    const whole = c.format === 'significant' ? null : formatStyle(numberFormatFor(null, c.format));
+    for (let i = 0; i < rows.length; i++) st.ws.getCell(headerRow + 1 + i, j + 1).style = whole ?? formatStyle(numberFormatFor(rows[i]![j] ?? null, c.format));
     const wanted = Math.min(MAX_WIDTH, Math.max(MIN_WIDTH, c.width ?? 0, (headers[j] ?? '').length + 3));
     st.widths[j] = Math.max(st.widths[j] ?? 0, wanted);
   });

@@ -5,7 +5,8 @@
 import { isBlankCell, isErrorCell } from './cellText';
 import { serialToDayNumber } from './dates';
 import { parseDateText } from './dateText';
-import type { CellValue, DateOrder, DateSystem, IssueCode } from './types';
+import { toCellSource, type CellInput } from './cellSource';
+import type { DateOrder, DateSystem, IssueCode } from './types';
 
 /** Why a date cell gives no day number; index 0 ('') means it gives one. */
 export const DATE_PROBLEMS = ['', 'blank', 'error-value', 'serial', 'malformed', 'impossible', 'two-digit-year', 'partial', 'wrong-order', 'needs-order'] as const;
@@ -40,8 +41,9 @@ export interface DateColumn {
  * §18.17.4), text is read by parseDateText with the column's `order`, booleans are not dates. Never throws. O(rows).
  * @example readDateColumn([["ADT"], ["12JAN2025"], [45669], ["2025-01"]], 0, 1900, null).days // Float64Array [45669, 45669, NaN]
  */
-export function readDateColumn(cells: readonly (readonly CellValue[])[], col: number, system: DateSystem, order: DateOrder | null): DateColumn {
-  const n = Math.max(0, cells.length - 1);
+export function readDateColumn(cells: CellInput, col: number, system: DateSystem, order: DateOrder | null): DateColumn {
+  const source = toCellSource(cells);
+  const n = Math.max(0, source.rowCount - 1);
   const days = new Float64Array(n).fill(NaN);
   const problems = new Uint8Array(n);
   const examples: string[] = [];
@@ -49,7 +51,7 @@ export function readDateColumn(cells: readonly (readonly CellValue[])[], col: nu
   let partials = 0;
   let twoDigitYears = false;
   for (let i = 0; i < n; i++) {
-    const cell = cells[i + 1]?.[col];
+    const cell = source.cell(i + 1, col);
     let problem = 0;
     if (typeof cell === 'number') {
       const d = serialToDayNumber(cell, system);

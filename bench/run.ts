@@ -3,6 +3,7 @@
  * entries (bench/model-bench.ts), each beside its baseline measured in the same run. Writes bench/latest.json and
  * prints a table. Sizes can be given as arguments: `npm run bench -- 10000 50000`. Then the hostile-workbook cases
  * (bench/hostile-bench.ts), written to bench/hostile-latest.json; `npm run bench -- hostile` runs only those.
+ * `npm run bench -- whole [sizes]` runs only the whole command-line run against papaparse (bench/whole-run.ts).
  */
 import { writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -10,11 +11,18 @@ import { fileURLToPath } from 'node:url';
 import { runModelBench } from './model-bench';
 import { runTimingBench } from './timing-bench';
 import { runHostileBench } from './hostile-bench';
+import { mainWhole } from './whole-run';
 import type { BenchEntry } from './types';
 
 const onlyHostile = process.argv.includes('hostile');
 const sizes = process.argv.slice(2).map(Number).filter((n) => Number.isInteger(n) && n > 0);
 const rowsList = sizes.length > 0 ? sizes : [10_000, 100_000, 1_000_000];
+
+// `npm run bench -- whole [sizes]`: the whole command-line run against papaparse (bench/whole-run.ts), nothing else.
+if (process.argv.includes('whole')) {
+  mainWhole(sizes);
+  process.exit(0);
+}
 
 const entries: BenchEntry[] = [];
 for (const rows of onlyHostile ? [] : rowsList) {

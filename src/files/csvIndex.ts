@@ -58,6 +58,8 @@ export class CsvIndex implements CellSource {
     readonly rowCount: number,
     /** Columns of the range: the widest row after dropping fields that are blank in every row. */
     readonly width: number,
+    /** The longest field's length in characters (CellSource.longestText). */
+    readonly longestText: number,
   ) {}
 
   /** The text of field `f`. */
@@ -150,6 +152,7 @@ export function indexCsv(text: string, watchOffset = -1): CsvIndexRead {
   let i = 0;
   let col = 0;
   let lastFilled = 0;
+  let longest = 0;
   rowFirst.push(0);
   for (;;) {
     const start = i;
@@ -184,6 +187,7 @@ export function indexCsv(text: string, watchOffset = -1): CsvIndexRead {
       starts.push(start);
       ends.push(~quotedValues.length);
       quotedValues.push(value);
+      if (value.length > longest) longest = value.length;
       blank = value.trim() === '';
     } else {
       let k = i;
@@ -195,6 +199,7 @@ export function indexCsv(text: string, watchOffset = -1): CsvIndexRead {
       i = k;
       starts.push(start);
       ends.push(k);
+      if (k - start > longest) longest = k - start;
       if (k === start) blank = true;
       else {
         const c = body.charCodeAt(start);
@@ -228,7 +233,7 @@ export function indexCsv(text: string, watchOffset = -1): CsvIndexRead {
   for (let r = 0; r < rows; r++) if (widths[r]! > width) width = widths[r]!;
   const firsts = rowFirst.done();
   const headerWidth = rows === 0 ? 0 : Math.min(firsts[1]! - firsts[0]!, width);
-  const source = new CsvIndex(body, starts.done(), ends.done(), firsts.subarray(0, rows + 1), quotedValues, rows, width);
+  const source = new CsvIndex(body, starts.done(), ends.done(), firsts.subarray(0, rows + 1), quotedValues, rows, width, longest);
   const extra: string[] = [];
   let extraRows = 0;
   for (let r = 1; r < rows; r++) {

@@ -17,6 +17,9 @@ export interface CellSource {
   rowCells(row: number): readonly CellValue[];
   /** True when cells 0..width-1 of row `row` are all blank (isBlankCell). Stops at the first non-blank cell. */
   isBlankRow(row: number, width: number): boolean;
+  /** When the source knows it: no text cell is longer than this many characters (lets checks of long text skip the
+   * cells when none can be too long). */
+  readonly longestText?: number;
 }
 
 /** The cells a front end holds: a 2-D array (row 0 the header) or a CellSource. */

@@ -20,6 +20,11 @@ const PROBLEM_OF: Readonly<Record<string, number>> = { impossible: 5, 'two-digit
 
 /** How many unreadable values a column keeps as examples for its message. */
 const EXAMPLES = 3;
+/** How many distinct date texts a column remembers the reading of: a listing repeats each visit date and each
+ * reference date many times (about a thousand distinct days in a million rows), so each text is parsed once. */
+const REMEMBERED_TEXTS = 65_536;
+/** A remembered reading that is a problem, not a day: PROBLEM_BASE - problem (day numbers lie far above it). */
+const PROBLEM_BASE = -1e9;
 
 /** One date column read into day numbers. Index i is data row i (worksheet row top + 1 + i). */
 export interface DateColumn {
@@ -50,6 +55,8 @@ export function readDateColumn(cells: CellInput, col: number, system: DateSystem
   let dates = 0;
   let partials = 0;
   let twoDigitYears = false;
+  // Text → day number, or PROBLEM_BASE - problem; the same text always reads the same way in one column.
+  const seen = new Map<string, number>();
   for (let i = 0; i < n; i++) {
     const cell = source.cell(i + 1, col);
     let problem = 0;
@@ -61,10 +68,17 @@ export function readDateColumn(cells: CellInput, col: number, system: DateSystem
     else if (typeof cell !== 'string') problem = MALFORMED;
     else if (isErrorCell(cell)) problem = ERROR_VALUE;
     else {
-      const r = parseDateText(cell, order);
-      if (r.kind === 'date') days[i] = r.day;
-      else problem = PROBLEM_OF[r.kind] ?? MALFORMED;
-      if (r.kind === 'two-digit-year') twoDigitYears = true;
+      const known = seen.get(cell);
+      if (known !== undefined) {
+        if (known > PROBLEM_BASE) days[i] = known;
+        else problem = PROBLEM_BASE - known;
+      } else {
+        const r = parseDateText(cell, order);
+        if (r.kind === 'date') days[i] = r.day;
+        else problem = PROBLEM_OF[r.kind] ?? MALFORMED;
+        if (r.kind === 'two-digit-year') twoDigitYears = true;
+        if (seen.size < REMEMBERED_TEXTS) seen.set(cell, r.kind === 'date' ? r.day : PROBLEM_BASE - problem);
+      }
     }
     problems[i] = problem;
     if (problem === 0) dates++;

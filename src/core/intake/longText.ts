@@ -40,6 +40,8 @@ export function checkLongText(cells: CellInput, mapping: ColumnMapping, issues: 
   // Column by column: a source reads one column's cells in a row without building the rows (the order of the
   // warnings is by row, then column, as before).
   const found: [number, number, string][] = [];
+  // A source that knows its longest text (a CSV file's index) is not read cell by cell when none can be too long.
+  if (source.longestText !== undefined && source.longestText <= CELL_TEXT_LIMIT) columns.length = 0;
   columns.forEach(([col], k) => {
     for (let r = 1; r < source.rowCount; r++) {
       const v = source.cell(r, col);

@@ -21,17 +21,25 @@ const CR = 0x0d;
 /** Cells named in a grouped note before "…". */
 const NAMED_CELLS = 5;
 
-/** A growable Int32Array. */
+/** A growable Int32Array; `push` is for the few pushes per row, `reserve` + `data[length++]` for one per field. */
 class IntList {
-  data = new Int32Array(1024);
+  data: Int32Array;
   length = 0;
 
+  constructor(capacity: number) {
+    this.data = new Int32Array(Math.max(16, capacity));
+  }
+
+  /** Makes room for `more` values. */
+  reserve(more: number): void {
+    if (this.length + more <= this.data.length) return;
+    const next = new Int32Array(Math.max(this.data.length * 2, this.length + more));
+    next.set(this.data.subarray(0, this.length));
+    this.data = next;
+  }
+
   push(v: number): void {
-    if (this.length === this.data.length) {
-      const next = new Int32Array(this.data.length * 2);
-      next.set(this.data);
-      this.data = next;
-    }
+    this.reserve(1);
     this.data[this.length++] = v;
   }
 
@@ -141,12 +149,13 @@ export function indexCsv(text: string, watchOffset = -1): CsvIndexRead {
   const body = bom === 1 ? text.slice(1) : text;
   const watch = watchOffset < 0 ? -1 : watchOffset - bom;
   const delimiter = headerDelimiter(body);
-  const starts = new IntList();
-  const ends = new IntList();
-  const rowFirst = new IntList();
+  // A first guess of the sizes from the text's length (a field of a listing is rarely under 6 characters).
+  const starts = new IntList(Math.ceil(body.length / 6));
+  const ends = new IntList(Math.ceil(body.length / 6));
+  const rowFirst = new IntList(Math.ceil(body.length / 48));
   const quotedValues: string[] = [];
   /** Per row: 1 + the index of its last field that is not blank (0 for a blank row). */
-  const filled = new IntList();
+  const filled = new IntList(Math.ceil(body.length / 48));
   let watched: { row: number; col: number } | undefined;
   const n = body.length;
   let i = 0;

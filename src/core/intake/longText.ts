@@ -58,28 +58,35 @@ export function checkLongText(cells: CellInput, mapping: ColumnMapping, issues: 
  * @example capJsonText({ a: "xxxxx" }, 3) // { a: "xxx … [cut: 5 characters in all]" }
  */
 export function capJsonText<T>(value: T, cap: number = JSON_TEXT_CAP): T {
+  // Nothing is copied unless something in it is cut: a results object of a million rows is walked without allocating.
   const walk = (v: unknown): unknown => {
     if (typeof v === 'string') return v.length <= cap ? v : `${v.slice(0, cap)} … [cut: ${v.length.toLocaleString('en-US')} characters in all]`;
+    if (v === null || typeof v !== 'object') return v;
     if (Array.isArray(v)) {
-      let changed = false;
-      const out = v.map((x) => {
+      let out: unknown[] | null = null;
+      for (let k = 0; k < v.length; k++) {
+        const x: unknown = v[k];
         const y = walk(x);
-        if (y !== x) changed = true;
-        return y;
-      });
-      return changed ? out : v;
-    }
-    if (v !== null && typeof v === 'object') {
-      let changed = false;
-      const out: Record<string, unknown> = {};
-      for (const [k, x] of Object.entries(v)) {
-        const y = walk(x);
-        if (y !== x) changed = true;
-        out[k] = y;
+        if (y !== x && out === null) out = v.slice(0, k);
+        if (out !== null) out.push(y);
       }
-      return changed ? out : v;
+      return out ?? v;
     }
-    return v;
+    let out: Record<string, unknown> | null = null;
+    const entries = v as Record<string, unknown>;
+    for (const key of Object.keys(entries)) {
+      const x = entries[key];
+      const y = walk(x);
+      if (y !== x && out === null) {
+        out = {};
+        for (const before of Object.keys(entries)) {
+          if (before === key) break;
+          out[before] = entries[before];
+        }
+      }
+      if (out !== null) out[key] = y;
+    }
+    return out ?? v;
   };
   return walk(value) as T;
 }

@@ -20,7 +20,11 @@ export function modelDataFromTable(table: IntakeTable, offsets: Float64Array, in
     throw new ModelInputError(`offsets (${offsets.length}) and include (${include.length}) must have one entry per table row (${table.nRows}).`);
   }
   // The rows that enter, as indices in a typed array (counted first): no per-row objects or boxed numbers.
-  const enters = (i: number): boolean => include[i] === 1 && table.usableModel[i] === 1 && Number.isFinite(offsets[i]!) && table.subjectIndex[i]! >= 0;
+  // The table's columns are read into locals once (the table is a large object; a property read per row costs).
+  const usable = table.usableModel;
+  const subjectIndex = table.subjectIndex;
+  const value = table.value;
+  const enters = (i: number): boolean => include[i] === 1 && usable[i] === 1 && Number.isFinite(offsets[i]!) && subjectIndex[i]! >= 0;
   let n = 0;
   for (let i = 0; i < table.nRows; i++) if (enters(i)) n++;
   const picked = new Int32Array(n);
@@ -34,14 +38,14 @@ export function modelDataFromTable(table: IntakeTable, offsets: Float64Array, in
   const ids: string[] = [];
   for (let j = 0; j < n; j++) {
     const i = picked[j]!;
-    const s = table.subjectIndex[i]!;
+    const s = subjectIndex[i]!;
     let k = renumber[s]!;
     if (k < 0) {
       k = ids.length;
       renumber[s] = k;
       ids.push(table.subjectIds[s]!);
     }
-    y[j] = table.value[i]!;
+    y[j] = value[i]!;
     time[j] = offsets[i]! / unit;
     subject[j] = k;
   }

@@ -6,6 +6,7 @@
  * writer before and after (bench/writer-bench.ts), written to bench/writer-latest.json; `npm run bench -- writer` runs
  * only that (sizes may follow: `npm run bench -- writer 200000`).
  * `npm run bench -- page [rows…]` runs only the browser page's bench (bench/page-bench.ts, bench/page-latest.json).
+ * `npm run bench -- whole [sizes]` runs only the whole command-line run against papaparse (bench/whole-run.ts).
  */
 import { writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -15,6 +16,7 @@ import { runTimingBench } from './timing-bench';
 import { runHostileBench } from './hostile-bench';
 import { pageBenchTable, runPageBench } from './page-bench';
 import { runWriterBench, writerTable } from './writer-bench';
+import { mainWhole } from './whole-run';
 import type { BenchEntry } from './types';
 
 // `npm run bench -- page [rows…]`: the browser page only (bench/page-bench.ts), at 300,000 and 1,000,000 rows by
@@ -31,6 +33,12 @@ const onlyHostile = process.argv.includes('hostile');
 const onlyWriter = process.argv.includes('writer');
 const sizes = process.argv.slice(2).map(Number).filter((n) => Number.isInteger(n) && n > 0);
 const rowsList = sizes.length > 0 ? sizes : [10_000, 100_000, 1_000_000];
+
+// `npm run bench -- whole [sizes]`: the whole command-line run against papaparse (bench/whole-run.ts), nothing else.
+if (process.argv.includes('whole')) {
+  mainWhole(sizes);
+  process.exit(0);
+}
 
 const entries: BenchEntry[] = [];
 if (onlyWriter) {

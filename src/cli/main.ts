@@ -16,6 +16,7 @@ export { removeTemporariesOnSignal } from './atomicWrite';
 import { buildMapping } from './mapping';
 import { readDataFile, readScheduleFile } from './readInputs';
 import { groupLines, groupWarnings, leftOutOf, otherWarnings, where } from './groupWarnings';
+import { stageClock } from './profile';
 import type { Printable } from './groupWarnings';
 
 /** Errors that --map can cure: a role with no column. */
@@ -94,7 +95,9 @@ function printLeftOut(issues: readonly Issue[], fileNotes: readonly Printable[],
 }
 
 async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promise<number> {
+  const clock = stageClock((line) => io.err(line));
   const data = await readDataFile(args.data, args.sheet);
+  clock.mark('read data file');
   const schedule = await readScheduleFile(args.schedule);
   if (!schedule.ok) {
     io.err(`The schedule "${args.schedule}" cannot be used:`);
@@ -102,7 +105,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     return 1;
   }
   for (const w of schedule.warnings) io.out(`Schedule note: ${w}`);
-  const headers = (data.cells[0] ?? []).map((h) => (h === null || h === undefined ? '' : String(h)));
+  const headers = (data.source.rowCount > 0 ? data.source.rowCells(0) : []).map((h) => (h === null || h === undefined ? '' : String(h)));
   const custom = args.map.length > 0 || args.covariates.length > 0;
   const mode = args.unblinded ? 'unblinded' : 'blinded';
   const settings: AnalysisSettings = {
@@ -124,13 +127,22 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     scheduledOnly: args.scheduledOnly,
     perSubject: args.perSubject,
     inputLabel: data.label,
+    fileFingerprint: data.fingerprint,
     ...(data.notes.length > 0 ? { fileNotes: data.notes } : {}),
     runAt: localRunAt(now()),
     numericText: data.numericText,
     toolVersion: VERSION,
   };
   if (args.unblinded) io.out(UNBLINDED_CAUTION);
-  const output = await runAnalysis(data.cells, settings);
+  // With LONGIPANE_PROFILE set, each of the pipeline's stages is timed from its start to the next one's.
+  const running: { stage: string | null } = { stage: null };
+  const output = await runAnalysis(data.source, settings, {
+    onStage: (next) => {
+      if (running.stage !== null) clock.mark(running.stage);
+      running.stage = next;
+    },
+  });
+  if (running.stage !== null) clock.mark(running.stage);
   const errors = output.issues.filter((i: Issue) => i.severity === 'error');
   // The reader's notes about the file lead; then intake's warnings, grouped by kind (linear in their number).
   const fileNotes: Printable[] = data.notes.map((n) => ({ code: `file:${n}`, cell: null, message: n }));
@@ -162,8 +174,11 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
   // Build every output in memory first, then write all or nothing, so a failure leaves no file half-written.
   const files: { target: string; data: Uint8Array | string }[] = [];
   if (args.out !== undefined) files.push({ target: args.out, data: await writeWorkbook(output.sheets, printStampOf(output.json)) });
+  clock.mark('report workbook');
   if (args.json !== undefined) files.push({ target: args.json, data: jsonText(output.json, args.pretty) });
+  clock.mark('results JSON text');
   await writeFilesAtomic(files);
+  clock.mark('write files');
   for (const f of files) io.out(`Wrote ${f.target}`);
   if (args.out === undefined && args.json === undefined) io.out('Nothing written: give --out FILE.xlsx and/or --json FILE.json to save the results.');
   return 0;

@@ -1,9 +1,10 @@
 import { readFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
-import type { CellValue, DateSystem } from '../core/intake/types';
+import type { DateSystem } from '../core/intake/types';
+import { GridSource, type CellSource } from '../core/intake/cellSource';
 import { parseSchedule } from '../core/schedule';
 import type { ScheduleVisit } from '../core/schedule/types';
-import { FileFormatError, gridRange, readCsvFile, readXlsxBuffer } from '../files';
+import { fileFingerprint, FileFormatError, gridRange, readCsvFile, readCsvSource, readXlsxBuffer } from '../files';
 import { UsageError } from './args';
 
 /** The data file as cells, with where they came from (for cell addresses and the analysis record). */
@@ -12,7 +13,10 @@ export interface DataInput {
   readonly sheet: string;
   readonly topLeft: string;
   readonly dateSystem: DateSystem;
-  readonly cells: CellValue[][];
+  /** The cells, read cell by cell by intake (a CSV file stays an index over its text, csvIndex.ts). */
+  readonly source: CellSource;
+  /** SHA-256 of the file's bytes (fileFingerprint), the run's input fingerprint. */
+  readonly fingerprint: string;
   /** CSV cells are all text, so intake accepts numbers written as text. */
   readonly numericText: 'accept' | 'reject';
   /** Warnings about the file itself (a repaired encoding, fields past the header), each led by its first cell. */
@@ -37,13 +41,14 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
   if (ext === '.csv' || ext === '.txt') {
     if (sheet !== undefined) throw new UsageError('--sheet applies to .xlsx files only.');
     const name = basename(path, extname(path));
-    const read = readCsvFile(bytes, path, name);
+    const read = readCsvSource(bytes, path, name);
     return {
       label: read.label,
       sheet: name,
       topLeft: 'A1',
       dateSystem: 1900,
-      cells: read.cells,
+      source: read.source,
+      fingerprint: await fileFingerprint(bytes),
       numericText: 'accept',
       notes: read.notes,
     };
@@ -61,7 +66,8 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
       sheet: read.sheet,
       topLeft: read.topLeft,
       dateSystem: read.dateSystem,
-      cells: read.cells,
+      source: new GridSource(read.cells),
+      fingerprint: await fileFingerprint(bytes),
       numericText: 'reject',
       notes: [],
     };

@@ -79,6 +79,13 @@ export function decodeCsv(bytes: Uint8Array, label: string): DecodedText {
   if (nul >= 0) {
     throw new FileFormatError(`"${label}" is not CSV text: it holds binary data (a zero byte at byte ${nul + 1}). Save the data as CSV (UTF-8) or .xlsx.`);
   }
+  // Valid UTF-8, the usual case, is decoded by the platform in one call (a strict decoder throws on the first
+  // ill-formed sequence); only then are the sequences counted, to choose between Windows-1252 and repaired UTF-8.
+  try {
+    return { text: new TextDecoder('utf-8', { ignoreBOM: true, fatal: true }).decode(bytes), encoding: 'UTF-8', ...clean };
+  } catch {
+    // not valid UTF-8: decided below
+  }
   const census = utf8Census(bytes);
   if (census.invalid === 0) return { text: new TextDecoder('utf-8', { ignoreBOM: true }).decode(bytes), encoding: 'UTF-8', ...clean };
   if (census.invalid > census.valid) return { text: new TextDecoder('windows-1252').decode(bytes), encoding: 'Windows-1252', ...clean };

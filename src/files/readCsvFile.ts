@@ -5,9 +5,10 @@
  */
 import type { CellValue } from '../core/intake/types';
 import { columnLetters, MAX_COLUMN_INDEX, MAX_ROW, parseCell } from '../core/intake/cellAddress';
+import { sourceGrid } from '../core/intake/cellSource';
 import { decodeCsv } from './decodeText';
 import { FileFormatError } from './errors';
-import { readCsv } from './readCsv';
+import { indexCsv, type CsvIndex } from './csvIndex';
 
 export interface CsvFile {
   readonly cells: CellValue[][];
@@ -16,6 +17,21 @@ export interface CsvFile {
   readonly encoding: string;
   /** For the analysis record: "visits.csv (A1:G921), read as UTF-8". */
   readonly label: string;
+}
+
+/** A CSV file read as an index of its fields (csvIndex.ts), for intake to read cell by cell. */
+export interface CsvSourceFile {
+  readonly source: CsvIndex;
+  readonly notes: readonly string[];
+  readonly encoding: string;
+  readonly label: string;
+}
+
+/** The A1 range `rows` × `width` cells cover from their top-left cell, e.g. "A1:G921". */
+export function rangeOf(topLeft: string, rows: number, width: number): string {
+  if (rows === 0) return topLeft;
+  const { row, col } = parseCell(topLeft);
+  return `${topLeft}:${columnLetters(col + Math.max(width, 1) - 1)}${row + rows - 1}`;
 }
 
 /** The A1 range a grid covers from its top-left cell, e.g. "A1:G921". */
@@ -34,10 +50,20 @@ export function gridRange(topLeft: string, cells: readonly (readonly CellValue[]
  * O(bytes).
  */
 export function readCsvFile(bytes: Uint8Array, fileName: string, sheet: string, emptyMessage?: string): CsvFile {
+  const read = readCsvSource(bytes, fileName, sheet, emptyMessage);
+  return { cells: sourceGrid(read.source), notes: read.notes, encoding: read.encoding, label: read.label };
+}
+
+/**
+ * readCsvFile without the grid: the same checks, notes and label, with the cells left in the file's text behind a
+ * CellSource (csvIndex.ts), so a large file never becomes one string per cell. The command line reads data this way.
+ * O(bytes).
+ */
+export function readCsvSource(bytes: Uint8Array, fileName: string, sheet: string, emptyMessage?: string): CsvSourceFile {
   const decoded = decodeCsv(bytes, fileName);
-  let read: ReturnType<typeof readCsv>;
+  let read: ReturnType<typeof indexCsv>;
   try {
-    read = readCsv(decoded.text, decoded.firstReplaced);
+    read = indexCsv(decoded.text, decoded.firstReplaced);
   } catch (e) {
     if (e instanceof FileFormatError) throw new FileFormatError(`"${fileName}": ${e.message}`);
     throw e;
@@ -49,13 +75,14 @@ export function readCsvFile(bytes: Uint8Array, fileName: string, sheet: string, 
       `${at}the file is UTF-8 with ${decoded.replaced.toLocaleString('en-US')} invalid byte sequence${decoded.replaced === 1 ? '' : 's'}, shown as \uFFFD (the first in this cell); the file was read as UTF-8. Check those values and save the file as UTF-8 again.`,
     );
   }
-  const cells = read.cells;
-  if (cells.length === 0) throw new FileFormatError(emptyMessage ?? `"${fileName}" is empty: it needs a header row and one row per visit.`);
+  const source = read.source;
+  const rows = source.rowCount;
+  if (rows === 0) throw new FileFormatError(emptyMessage ?? `"${fileName}" is empty: it needs a header row and one row per visit.`);
   // Every problem and result refers to a worksheet cell, so the file must fit on one worksheet.
-  if (cells.length > MAX_ROW || (cells[0]?.length ?? 0) > MAX_COLUMN_INDEX + 1) {
+  if (rows > MAX_ROW || source.width > MAX_COLUMN_INDEX + 1) {
     throw new FileFormatError(
-      `"${fileName}" has ${cells.length.toLocaleString('en-US')} lines and ${cells[0]?.length ?? 0} columns; a worksheet holds at most ${MAX_ROW.toLocaleString('en-US')} rows (header included) and ${MAX_COLUMN_INDEX + 1} columns. Split the file, e.g. by site.`,
+      `"${fileName}" has ${rows.toLocaleString('en-US')} lines and ${source.width} columns; a worksheet holds at most ${MAX_ROW.toLocaleString('en-US')} rows (header included) and ${MAX_COLUMN_INDEX + 1} columns. Split the file, e.g. by site.`,
     );
   }
-  return { cells, notes, encoding: decoded.encoding, label: `${fileName.replace(/^.*[\\/]/, '')} (${gridRange('A1', cells)}), read as ${decoded.encoding}` };
+  return { source, notes, encoding: decoded.encoding, label: `${fileName.replace(/^.*[\\/]/, '')} (${rangeOf('A1', rows, source.width)}), read as ${decoded.encoding}` };
 }

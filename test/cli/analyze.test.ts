@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { mkdtemp, mkdir, readdir, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -160,6 +161,12 @@ describe('longipane analyze on the invented demo trial', () => {
     expect(json.settings.runAt).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}[+-]\d{2}:\d{2}$/);
     expect(Date.parse(String(json.settings.runAt))).toBe(Date.parse('2026-04-01T09:00:00.000Z'));
     expect(json.settings.mapping).toMatchObject({ subject: 'USUBJID', date: 'ADT', reference: 'RANDDT', visit: 'AVISIT', value: 'AVAL', arm: 'TRT01P', site: 'SITEID' });
+  });
+
+  it('fingerprints the data file\'s bytes: the digest is SHA-256 of the file as node:crypto computes it, marked "file"', async () => {
+    const digest = createHash('sha256').update(await readFile(DEMO_DATA)).digest('hex');
+    expect(json.input.fingerprint).toBe(digest);
+    expect((json.input as unknown as Record<string, unknown>).fingerprintOf).toBe('file');
   });
 });
 

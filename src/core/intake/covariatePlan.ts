@@ -4,7 +4,7 @@
  * otherwise categorical. O(rows) per covariate.
  */
 import { isBlankCell, isErrorCell, parsePlainDecimal, cellText } from './cellText';
-import type { CellValue } from './types';
+import { toCellSource, type CellInput } from './cellSource';
 
 export interface CovariatePlan {
   /** Range column index. */
@@ -24,7 +24,7 @@ export interface CovariatePlan {
  * @example planCovariate([["Sex"], ["F"], [2]], 0, "Sex", false) // numeric false, hasNumbers true, firstNonNumericRow 0
  */
 export function planCovariate(
-  cells: readonly (readonly CellValue[])[],
+  cells: CellInput,
   col: number,
   name: string,
   acceptText: boolean,
@@ -32,8 +32,9 @@ export function planCovariate(
   let firstNonNumericRow = -1;
   let firstNonNumericText = '';
   let hasNumbers = false;
-  for (let r = 1; r < cells.length; r++) {
-    const cell = cells[r]?.[col];
+  const source = toCellSource(cells);
+  for (let r = 1; r < source.rowCount; r++) {
+    const cell = source.cell(r, col);
     if (isBlankCell(cell) || isErrorCell(cell)) continue;
     const isNumber =
       typeof cell === 'number' || (acceptText && typeof cell === 'string' && !Number.isNaN(parsePlainDecimal(cell)));

@@ -5,7 +5,8 @@
 import { isBlankCell, isErrorCell } from './cellText';
 import { serialToDayNumber } from './dates';
 import { parseDateText } from './dateText';
-import type { CellValue, DateOrder, DateSystem, IssueCode } from './types';
+import { toCellSource, type CellInput } from './cellSource';
+import type { DateOrder, DateSystem, IssueCode } from './types';
 
 /** Why a date cell gives no day number; index 0 ('') means it gives one. */
 export const DATE_PROBLEMS = ['', 'blank', 'error-value', 'serial', 'malformed', 'impossible', 'two-digit-year', 'partial', 'wrong-order', 'needs-order'] as const;
@@ -19,6 +20,11 @@ const PROBLEM_OF: Readonly<Record<string, number>> = { impossible: 5, 'two-digit
 
 /** How many unreadable values a column keeps as examples for its message. */
 const EXAMPLES = 3;
+/** How many distinct date texts a column remembers the reading of: a listing repeats each visit date and each
+ * reference date many times (about a thousand distinct days in a million rows), so each text is parsed once. */
+const REMEMBERED_TEXTS = 65_536;
+/** A remembered reading that is a problem, not a day: PROBLEM_BASE - problem (day numbers lie far above it). */
+const PROBLEM_BASE = -1e9;
 
 /** One date column read into day numbers. Index i is data row i (worksheet row top + 1 + i). */
 export interface DateColumn {
@@ -40,16 +46,19 @@ export interface DateColumn {
  * §18.17.4), text is read by parseDateText with the column's `order`, booleans are not dates. Never throws. O(rows).
  * @example readDateColumn([["ADT"], ["12JAN2025"], [45669], ["2025-01"]], 0, 1900, null).days // Float64Array [45669, 45669, NaN]
  */
-export function readDateColumn(cells: readonly (readonly CellValue[])[], col: number, system: DateSystem, order: DateOrder | null): DateColumn {
-  const n = Math.max(0, cells.length - 1);
+export function readDateColumn(cells: CellInput, col: number, system: DateSystem, order: DateOrder | null): DateColumn {
+  const source = toCellSource(cells);
+  const n = Math.max(0, source.rowCount - 1);
   const days = new Float64Array(n).fill(NaN);
   const problems = new Uint8Array(n);
   const examples: string[] = [];
   let dates = 0;
   let partials = 0;
   let twoDigitYears = false;
+  // Text → day number, or PROBLEM_BASE - problem; the same text always reads the same way in one column.
+  const seen = new Map<string, number>();
   for (let i = 0; i < n; i++) {
-    const cell = cells[i + 1]?.[col];
+    const cell = source.cell(i + 1, col);
     let problem = 0;
     if (typeof cell === 'number') {
       const d = serialToDayNumber(cell, system);
@@ -59,10 +68,17 @@ export function readDateColumn(cells: readonly (readonly CellValue[])[], col: nu
     else if (typeof cell !== 'string') problem = MALFORMED;
     else if (isErrorCell(cell)) problem = ERROR_VALUE;
     else {
-      const r = parseDateText(cell, order);
-      if (r.kind === 'date') days[i] = r.day;
-      else problem = PROBLEM_OF[r.kind] ?? MALFORMED;
-      if (r.kind === 'two-digit-year') twoDigitYears = true;
+      const known = seen.get(cell);
+      if (known !== undefined) {
+        if (known > PROBLEM_BASE) days[i] = known;
+        else problem = PROBLEM_BASE - known;
+      } else {
+        const r = parseDateText(cell, order);
+        if (r.kind === 'date') days[i] = r.day;
+        else problem = PROBLEM_OF[r.kind] ?? MALFORMED;
+        if (r.kind === 'two-digit-year') twoDigitYears = true;
+        if (seen.size < REMEMBERED_TEXTS) seen.set(cell, r.kind === 'date' ? r.day : PROBLEM_BASE - problem);
+      }
     }
     problems[i] = problem;
     if (problem === 0) dates++;

@@ -3,7 +3,8 @@
  * One cheap pass over the column's text, before any date is parsed.
  */
 import { numericDateParts } from './dateText';
-import type { CellValue, DateOrder } from './types';
+import { toCellSource, type CellInput } from './cellSource';
+import type { DateOrder } from './types';
 
 /** How many example values a decision keeps for its message. */
 const EXAMPLES = 3;
@@ -33,7 +34,8 @@ function keep(list: string[], t: string): 1 {
  * @example decideDateOrder([["ADT"], ["13/01/2025"], ["03/04/2025"]], 0, undefined) // { kind: 'decided', order: 'dmy', source: 'data', evidence: ["13/01/2025"] }
  * @example decideDateOrder([["ADT"], ["03/04/2025"]], 0, undefined) // { kind: 'ambiguous', examples: ["03/04/2025"] }
  */
-export function decideDateOrder(cells: readonly (readonly CellValue[])[], col: number, forced: DateOrder | undefined): DateOrderDecision {
+export function decideDateOrder(cells: CellInput, col: number, forced: DateOrder | undefined): DateOrderDecision {
+  const source = toCellSource(cells);
   const dayFirst: string[] = [];
   const monthFirst: string[] = [];
   const both: string[] = [];
@@ -41,8 +43,8 @@ export function decideDateOrder(cells: readonly (readonly CellValue[])[], col: n
   let nMonth = 0;
   let nBoth = 0;
   let nSame = 0;
-  for (let r = 1; r < cells.length; r++) {
-    const cell = cells[r]?.[col];
+  for (let r = 1; r < source.rowCount; r++) {
+    const cell = source.cell(r, col);
     if (typeof cell !== 'string') continue;
     const c0 = cell.charCodeAt(0);
     // Cheap shape filter before trimming: a numeric date starts with a digit (or a space before one).

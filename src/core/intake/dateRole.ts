@@ -6,7 +6,8 @@
 import { readDateColumn, unreadableColumn, type DateColumn } from './dateColumn';
 import { decideDateOrder, type DateOrderDecision } from './dateOrder';
 import type { IssueList } from './issueList';
-import type { CellValue, DateOrder, DateReading, DateSystem, Role } from './types';
+import type { CellInput } from './cellSource';
+import type { DateOrder, DateReading, DateSystem, Role } from './types';
 
 export interface DateRoleRead {
   readonly column: DateColumn;
@@ -28,7 +29,7 @@ const quoteList = (values: readonly string[]): string => values.map((v) => `"${v
  * @example readDateRole([["ADT"], ["03/04/2025"]], 0, 'date', 'ADT', { dateSystem: 1900 }, issues).ok // false, with 'date-order-unknown' at A1
  */
 export function readDateRole(
-  cells: readonly (readonly CellValue[])[],
+  cells: CellInput,
   col: number,
   role: Role,
   name: string,

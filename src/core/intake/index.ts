@@ -1,6 +1,7 @@
 /** The intake layer: cells in, typed columns and issues out. */
 export type * from './types';
 export { readTable } from './readTable';
+export { GridSource, isCellSource, sourceGrid, toCellSource, type CellInput, type CellSource } from './cellSource';
 export { detectMapping } from './detect';
 export { renderMessage, roleWords, type MessageInput } from './messages';
 export {

@@ -3,6 +3,7 @@
  * so the user knows, and the results JSON keeps the text whole up to JSON_TEXT_CAP characters.
  */
 import type { IssueList } from './issueList';
+import { toCellSource, type CellInput } from './cellSource';
 import type { CellValue, ColumnMapping, Role } from './types';
 
 /** The most characters a spreadsheet cell holds (32,767: the published limit of current spreadsheet programs; common practice). */
@@ -20,8 +21,9 @@ const ROLES: readonly Exclude<Role, 'covariate'>[] = ['subject', 'date', 'studyD
  * whose text is longer than CELL_TEXT_LIMIT. Unmapped columns never reach an output and are not looked at.
  * O(rows · mapped columns).
  */
-export function checkLongText(cells: readonly (readonly CellValue[])[], mapping: ColumnMapping, issues: IssueList): void {
-  const header = cells[0] ?? [];
+export function checkLongText(cells: CellInput, mapping: ColumnMapping, issues: IssueList): void {
+  const source = toCellSource(cells);
+  const header = source.rowCount > 0 ? source.rowCells(0) : [];
   const long = (v: CellValue): v is string => typeof v === 'string' && v.length > CELL_TEXT_LIMIT;
   const say = (dataRow: number, col: number, role: Role | null, text: string): void => {
     const context = text.length.toLocaleString('en-US');
@@ -35,13 +37,19 @@ export function checkLongText(cells: readonly (readonly CellValue[])[], mapping:
   const columns: [number, Role][] = [];
   for (const role of ROLES) if (mapping[role] !== undefined) columns.push([mapping[role], role]);
   for (const col of mapping.covariates) columns.push([col, 'covariate']);
-  for (let r = 1; r < cells.length; r++) {
-    const row = cells[r]!;
-    for (const [col, role] of columns) {
-      const v = row[col];
-      if (long(v)) say(r - 1, col, role, v);
+  // Column by column: a source reads one column's cells in a row without building the rows (the order of the
+  // warnings is by row, then column, as before).
+  const found: [number, number, string][] = [];
+  // A source that knows its longest text (a CSV file's index) is not read cell by cell when none can be too long.
+  if (source.longestText !== undefined && source.longestText <= CELL_TEXT_LIMIT) columns.length = 0;
+  columns.forEach(([col], k) => {
+    for (let r = 1; r < source.rowCount; r++) {
+      const v = source.cell(r, col);
+      if (long(v)) found.push([r, k, v]);
     }
-  }
+  });
+  found.sort((x, y) => x[0] - y[0] || x[1] - y[1]);
+  for (const [r, k, v] of found) say(r - 1, columns[k]![0], columns[k]![1], v);
 }
 
 /**
@@ -50,28 +58,35 @@ export function checkLongText(cells: readonly (readonly CellValue[])[], mapping:
  * @example capJsonText({ a: "xxxxx" }, 3) // { a: "xxx … [cut: 5 characters in all]" }
  */
 export function capJsonText<T>(value: T, cap: number = JSON_TEXT_CAP): T {
+  // Nothing is copied unless something in it is cut: a results object of a million rows is walked without allocating.
   const walk = (v: unknown): unknown => {
     if (typeof v === 'string') return v.length <= cap ? v : `${v.slice(0, cap)} … [cut: ${v.length.toLocaleString('en-US')} characters in all]`;
+    if (v === null || typeof v !== 'object') return v;
     if (Array.isArray(v)) {
-      let changed = false;
-      const out = v.map((x) => {
+      let out: unknown[] | null = null;
+      for (let k = 0; k < v.length; k++) {
+        const x: unknown = v[k];
         const y = walk(x);
-        if (y !== x) changed = true;
-        return y;
-      });
-      return changed ? out : v;
-    }
-    if (v !== null && typeof v === 'object') {
-      let changed = false;
-      const out: Record<string, unknown> = {};
-      for (const [k, x] of Object.entries(v)) {
-        const y = walk(x);
-        if (y !== x) changed = true;
-        out[k] = y;
+        if (y !== x && out === null) out = v.slice(0, k);
+        if (out !== null) out.push(y);
       }
-      return changed ? out : v;
+      return out ?? v;
     }
-    return v;
+    let out: Record<string, unknown> | null = null;
+    const entries = v as Record<string, unknown>;
+    for (const key of Object.keys(entries)) {
+      const x = entries[key];
+      const y = walk(x);
+      if (y !== x && out === null) {
+        out = {};
+        for (const before of Object.keys(entries)) {
+          if (before === key) break;
+          out[before] = entries[before];
+        }
+      }
+      if (out !== null) out[key] = y;
+    }
+    return out ?? v;
   };
   return walk(value) as T;
 }

@@ -6,7 +6,8 @@ import { cellText, readTextCell } from './cellText';
 import { dayNumberToIso } from './dates';
 import type { IssueList } from './issueList';
 import { DATE_PROBLEMS, type DateColumn } from './dateColumn';
-import type { CellValue, ColumnMapping } from './types';
+import { toCellSource, type CellInput } from './cellSource';
+import type { ColumnMapping } from './types';
 
 export interface ExitColumns {
   /** Per subject: the exit date as a day number (the latest given), NaN when none. */
@@ -24,13 +25,14 @@ export interface ExitColumns {
  * @example participant K-1 with exit dates "", "2025-06-30", "" on three rows → subjectExit [45838], no issue
  */
 export function readExit(
-  cells: readonly (readonly CellValue[])[],
+  cells: CellInput,
   mapping: ColumnMapping,
   subjectIndex: Int32Array,
   subjectIds: readonly string[],
   exitColumn: DateColumn | null,
   issues: IssueList,
 ): ExitColumns {
+  const source = toCellSource(cells);
   const S = subjectIds.length;
   const subjectExit = new Float64Array(S).fill(NaN);
   const status = mapping.exitStatus === undefined ? null : new Array<string>(S).fill('');
@@ -42,18 +44,17 @@ export function readExit(
   for (let i = 0; i < subjectIndex.length; i++) {
     const s = subjectIndex[i]!;
     if (s < 0) continue;
-    const row = cells[i + 1] ?? [];
     if (rowExit !== null) {
       const d = rowExit[i]!;
       const problem = DATE_PROBLEMS[exitColumn!.problems[i]!];
       if (!Number.isNaN(d)) {
         if (!(d <= subjectExit[s]!)) subjectExit[s] = d;
       } else if (problem !== 'blank') {
-        issues.at(problem === 'error-value' ? 'error-value' : 'bad-exit-date', 'warning', i, ec!, 'exit', cellText(row[ec!]), null);
+        issues.at(problem === 'error-value' ? 'error-value' : 'bad-exit-date', 'warning', i, ec!, 'exit', cellText(source.cell(i + 1, ec!)), null);
       }
     }
-    if (status !== null && status[s] === '') status[s] = readTextCell(row[mapping.exitStatus!]) ?? '';
-    if (reason !== null && reason[s] === '') reason[s] = readTextCell(row[mapping.exitReason!]) ?? '';
+    if (status !== null && status[s] === '') status[s] = readTextCell(source.cell(i + 1, mapping.exitStatus!)) ?? '';
+    if (reason !== null && reason[s] === '') reason[s] = readTextCell(source.cell(i + 1, mapping.exitReason!)) ?? '';
   }
   if (rowExit !== null) {
     for (let i = 0; i < rowExit.length; i++) {

@@ -4,7 +4,8 @@
  * the strings the text columns hold.
  */
 import type { CellRef } from './cellAddress';
-import { cellText, isBlankCell, readTextCell } from './cellText';
+import type { CellSource } from './cellSource';
+import { cellText, readTextCell } from './cellText';
 import type { CovariatePlan } from './covariatePlan';
 import { IntakeUsageError } from './errors';
 import type { IssueList } from './issueList';
@@ -13,7 +14,6 @@ import type { DateRoleRead } from './dateRole';
 import { readNumeric, readStudyDay } from './readCell';
 import type { CellValue, ColumnMapping, IssueCode, Role, Use } from './types';
 
-const EMPTY_ROW: readonly CellValue[] = [];
 const USES: readonly Use[] = ['timing', 'model'];
 
 /** What the row pass needs besides the cells. `mapping` is the checked, effective mapping (subject and a time column present). */
@@ -49,13 +49,14 @@ export interface RowColumns {
 }
 
 /**
- * Reads data rows 1..cells.length-1 into columns and adds row warnings to `issues`.
+ * Reads data rows 1..rowCount-1 of `cells` into columns and adds row warnings to `issues`. Text roles keep one string
+ * per distinct text (a participant's id, a visit name, a site or an arm is held once, not once per row).
  * @example readRows([["Subject", "Study day", "Result"], ["K-1", 0, 60]], setup, issues).usableTiming // Uint8Array [0]
  * // with two 'bad-study-day' warnings (timing and model) at B2
  */
-export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPassSetup, issues: IssueList): RowColumns {
+export function readRows(cells: CellSource, setup: RowPassSetup, issues: IssueList): RowColumns {
   const { mapping, plans, width, top, unblinded } = setup;
-  const nRows = Math.max(0, cells.length - 1);
+  const nRows = Math.max(0, cells.rowCount - 1);
   const accept = setup.acceptText;
   const timeKind = mapping.date !== undefined ? 'date' : 'studyDay';
   const sc = mapping.subject!;
@@ -85,15 +86,18 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
   // table must not cost a million issues.
   const blankSpans: [number, number][] = [];
   let firstBlank = -1;
-  let knownBlank: readonly CellValue[] = EMPTY_ROW; // readers may share one row object among blank rows
+  // One string per distinct text of each text role.
+  const visitText = new Map<string, string>();
+  const siteText = new Map<string, string>();
+  const armText = new Map<string, string>();
+  const covText = plans.map(() => new Map<string, string>());
 
   for (let i = 0; i < nRows; i++) {
-    const row = cells[i + 1] ?? EMPTY_ROW;
+    const r = i + 1;
     sheetRows[i] = top.row + 1 + i;
     subject[i] = '';
     subjectIndex[i] = -1;
-    if (row === knownBlank || isBlankRow(row, width)) {
-      knownBlank = row;
+    if (cells.isBlankRow(r, width)) {
       const sheetRow = top.row + 1 + i;
       const last = blankSpans[blankSpans.length - 1];
       if (last !== undefined && last[1] === sheetRow - 1) last[1] = sheetRow;
@@ -104,7 +108,7 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
     let timingOk = true;
     let modelOk = true;
 
-    const sCell = row[sc];
+    const sCell = cells.cell(r, sc);
     const id = readTextCell(sCell);
     if (id === null) timingOk = excludeBoth(issues, 'error-value', i, sc, 'subject', sCell);
     else if (id === '') timingOk = excludeBoth(issues, 'blank-subject', i, sc, 'subject', sCell);
@@ -115,11 +119,11 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
         subjectMap.set(id, k);
         subjectIds.push(id);
       }
-      subject[i] = id;
+      subject[i] = subjectIds[k]!;
       subjectIndex[i] = k;
     }
 
-    const tCell = row[tc];
+    const tCell = cells.cell(r, tc);
     if (timeKind === 'date') {
       const why = dateCellIssue(dateRead!.column.problems[i]!, dateRead!.order);
       if (why === null) date[i] = dateRead!.column.days[i]!;
@@ -135,31 +139,33 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
       const rc = mapping.reference;
       const why = dateCellIssue(refRead!.column.problems[i]!, refRead!.order);
       if (why === null) reference[i] = refRead!.column.days[i]!;
-      else if (why.code === 'error-value' || why.code === 'partial-date') issues.at(why.code, 'warning', i, rc, 'reference', cellText(row[rc]), null);
-      else if (why.code !== 'blank-time') issues.at('bad-reference-date', 'warning', i, rc, 'reference', cellText(row[rc]), null, why.context);
+      else if (why.code === 'error-value' || why.code === 'partial-date') issues.at(why.code, 'warning', i, rc, 'reference', cellText(cells.cell(r, rc)), null);
+      else if (why.code !== 'blank-time') issues.at('bad-reference-date', 'warning', i, rc, 'reference', cellText(cells.cell(r, rc)), null, why.context);
     }
-    if (visit !== null) visit[i] = optionalText(row, mapping.visit!, 'visit', i, issues);
-    if (site !== null) site[i] = optionalText(row, mapping.site!, 'site', i, issues);
+    if (visit !== null) visit[i] = optionalText(cells, mapping.visit!, 'visit', i, issues, visitText);
+    if (site !== null) site[i] = optionalText(cells, mapping.site!, 'site', i, issues, siteText);
 
     if (mapping.value === undefined) modelOk = false;
     else {
       const vc = mapping.value;
-      const v = readNumeric(row[vc], accept);
+      const vCell = cells.cell(r, vc);
+      const v = readNumeric(vCell, accept);
       if (typeof v === 'number') value[i] = v;
-      else modelOk = excludeModel(issues, v, i, vc, 'value', row[vc]);
+      else modelOk = excludeModel(issues, v, i, vc, 'value', vCell);
     }
 
     if (arm !== null) {
       const ac = mapping.arm!;
-      const a = readTextCell(row[ac]);
-      if (a === null) modelOk = excludeModel(issues, 'error-value', i, ac, 'arm', row[ac]);
-      else if (a === '') modelOk = excludeModel(issues, 'blank-arm', i, ac, 'arm', row[ac]);
-      else arm[i] = a;
+      const aCell = cells.cell(r, ac);
+      const a = readTextCell(aCell);
+      if (a === null) modelOk = excludeModel(issues, 'error-value', i, ac, 'arm', aCell);
+      else if (a === '') modelOk = excludeModel(issues, 'blank-arm', i, ac, 'arm', aCell);
+      else arm[i] = interned(armText, a);
     }
 
     for (let c = 0; c < plans.length; c++) {
       const plan = plans[c]!;
-      const cell = row[plan.col];
+      const cell = cells.cell(r, plan.col);
       const out = covValues[c]!;
       if (out instanceof Float64Array) {
         const v = readNumeric(cell, accept);
@@ -170,7 +176,7 @@ export function readRows(cells: readonly (readonly CellValue[])[], setup: RowPas
         const text = readTextCell(cell);
         if (text === null) modelOk = excludeModel(issues, 'error-value', i, plan.col, 'covariate', cell, plan.name);
         else if (text === '') modelOk = excludeModel(issues, 'blank-value', i, plan.col, 'covariate', cell, plan.name);
-        else out[i] = text;
+        else out[i] = interned(covText[c]!, text);
       }
     }
 
@@ -210,16 +216,19 @@ function excludeModel(issues: IssueList, code: IssueCode, i: number, col: number
   return false;
 }
 
-/** True when every cell of the row within the range's width is blank. Stops at the first non-blank cell. */
-function isBlankRow(row: readonly CellValue[], width: number): boolean {
-  for (let c = 0; c < width; c++) if (!isBlankCell(row[c])) return false;
-  return true;
+/** The one kept string equal to `text` (the first one seen), so equal texts share one string. */
+function interned(kept: Map<string, string>, text: string): string {
+  const k = kept.get(text);
+  if (k !== undefined) return k;
+  kept.set(text, text);
+  return text;
 }
 
-/** Text of an optional text role (visit label, site); an error value becomes "" with a warning (use null). */
-function optionalText(row: readonly CellValue[], col: number, role: Role, i: number, issues: IssueList): string {
-  const text = readTextCell(row[col]);
-  if (text !== null) return text;
-  issues.at('error-value', 'warning', i, col, role, cellText(row[col]), null);
+/** Text of an optional text role (visit label, site) of data row i; an error value becomes "" with a warning (use null). */
+function optionalText(cells: CellSource, col: number, role: Role, i: number, issues: IssueList, kept: Map<string, string>): string {
+  const cell = cells.cell(i + 1, col);
+  const text = readTextCell(cell);
+  if (text !== null) return interned(kept, text);
+  issues.at('error-value', 'warning', i, col, role, cellText(cell), null);
   return '';
 }

@@ -12,17 +12,17 @@ import { IntakeUsageError } from './errors';
 import { IssueList } from './issueList';
 import { readRows } from './readRows';
 import { checkReference } from './checkReference';
-import type { CellValue, CovariateColumn, DateReading, IntakeOptions, IntakeResult } from './types';
+import type { CovariateColumn, DateReading, IntakeOptions, IntakeResult } from './types';
 import { readDateRole } from './dateRole';
 import { checkArms } from './checkArms';
 import { readExit } from './readExit';
 import { checkDuplicateHeaders } from './duplicateHeaders';
 import { checkLongText } from './longText';
-
-const EMPTY_ROW: readonly CellValue[] = [];
+import { toCellSource, type CellInput } from './cellSource';
 
 /**
- * Turns a grid of cells into the IntakeTable: cells[0] is the header row, each later row one assessment. One linear
+ * Turns cells (a 2-D array or any CellSource, cellSource.ts: a CSV file's field index, the add-in's blocks) into the
+ * IntakeTable: row 0 is the header row, each later row one assessment. One linear
  * pass over the rows (plus one per covariate to decide its kind), typed arrays for numbers: O(rows · mapped columns).
  * The grid is never modified.
  *
@@ -50,13 +50,14 @@ const EMPTY_ROW: readonly CellValue[] = [];
  * @example readTable([["USUBJID", "ADY", "AVAL"], ["S1", 1, 60.5]], { sheet: "Visits", topLeft: "A1", dateSystem: 1900, mode: "blinded" })
  * // { ok: true, issues: [], table: { nRows: 1, subjectIds: ["S1"], studyDay: Float64Array [1], value: Float64Array [60.5], ... } }
  */
-export function readTable(cells: readonly (readonly CellValue[])[], options: IntakeOptions): IntakeResult {
+export function readTable(input: CellInput, options: IntakeOptions): IntakeResult {
   const top = parseCell(options.topLeft);
-  const headerRow = cells[0] ?? EMPTY_ROW;
+  const cells = toCellSource(input);
+  const headerRow = cells.rowCount > 0 ? cells.rowCells(0) : [];
   const width = headerRow.length;
-  const nRows = Math.max(0, cells.length - 1);
+  const nRows = Math.max(0, cells.rowCount - 1);
   if (top.col + Math.max(width, 1) - 1 > MAX_COLUMN_INDEX || top.row + nRows > MAX_ROW) {
-    throw new IntakeUsageError('readTable', 'the grid does not fit on a worksheet from its top-left cell', `${options.topLeft}, ${cells.length} rows x ${width} columns`);
+    throw new IntakeUsageError('readTable', 'the grid does not fit on a worksheet from its top-left cell', `${options.topLeft}, ${cells.rowCount} rows x ${width} columns`);
   }
   const issues = new IssueList(options.sheet, top);
   const headers = Array.from(headerRow, (h) => cellText(h));

@@ -19,34 +19,42 @@ export function modelDataFromTable(table: IntakeTable, offsets: Float64Array, in
   if (offsets.length !== table.nRows || include.length !== table.nRows) {
     throw new ModelInputError(`offsets (${offsets.length}) and include (${include.length}) must have one entry per table row (${table.nRows}).`);
   }
-  const picked: number[] = [];
-  for (let i = 0; i < table.nRows; i++) {
-    if (include[i] === 1 && table.usableModel[i] === 1 && Number.isFinite(offsets[i]!) && table.subjectIndex[i]! >= 0) picked.push(i);
-  }
-  const n = picked.length;
+  // The rows that enter, as indices in a typed array (counted first): no per-row objects or boxed numbers.
+  // The table's columns are read into locals once (the table is a large object; a property read per row costs).
+  const usable = table.usableModel;
+  const subjectIndex = table.subjectIndex;
+  const value = table.value;
+  const enters = (i: number): boolean => include[i] === 1 && usable[i] === 1 && Number.isFinite(offsets[i]!) && subjectIndex[i]! >= 0;
+  let n = 0;
+  for (let i = 0; i < table.nRows; i++) if (enters(i)) n++;
+  const picked = new Int32Array(n);
+  for (let i = 0, j = 0; i < table.nRows; i++) if (enters(i)) picked[j++] = i;
   const unit = DAYS_PER_TIME_UNIT[timeUnit];
   const y = new Float64Array(n);
   const time = new Float64Array(n);
   const subject = new Int32Array(n);
-  const renumber = new Map<number, number>();
+  // Intake's subject index → the model's, in order of first appearance among the rows that enter.
+  const renumber = new Int32Array(table.subjectIds.length).fill(-1);
   const ids: string[] = [];
-  picked.forEach((i, j) => {
-    const s = table.subjectIndex[i]!;
-    let k = renumber.get(s);
-    if (k === undefined) {
-      k = renumber.size;
-      renumber.set(s, k);
+  for (let j = 0; j < n; j++) {
+    const i = picked[j]!;
+    const s = subjectIndex[i]!;
+    let k = renumber[s]!;
+    if (k < 0) {
+      k = ids.length;
+      renumber[s] = k;
       ids.push(table.subjectIds[s]!);
     }
-    y[j] = table.value[i]!;
+    y[j] = value[i]!;
     time[j] = offsets[i]! / unit;
     subject[j] = k;
-  });
+  }
   let armIndex: Int32Array | null = null;
   let arms: string[] = [];
   if (table.mode === 'unblinded' && table.arm !== null) {
     const armCol = table.arm;
-    const present = new Set(picked.map((i) => armCol[i]!));
+    const present = new Set<string>();
+    for (let j = 0; j < n; j++) present.add(armCol[picked[j]!]!);
     const inOrder = table.arms.filter((a) => present.has(a));
     for (const a of present) if (!inOrder.includes(a)) inOrder.push(a);
     if (referenceArm !== undefined && !inOrder.includes(referenceArm)) {
@@ -59,11 +67,11 @@ export function modelDataFromTable(table: IntakeTable, offsets: Float64Array, in
   }
   const covariates = table.covariates.map((c) => {
     if (c.kind === 'numeric') return { name: c.name, kind: 'numeric' as const, values: Float64Array.from(picked, (i) => c.values[i]!) };
-    const values = picked.map((i) => c.values[i]!);
+    const values = Array.from(picked, (i) => c.values[i]!);
     const present = new Set(values);
     return { name: c.name, kind: 'categorical' as const, values, levels: c.levels.filter((lv) => present.has(lv)) };
   });
-  return { y, time, subject, nSubjects: renumber.size, armIndex, arms, covariates, subjectIds: ids };
+  return { y, time, subject, nSubjects: ids.length, armIndex, arms, covariates, subjectIds: ids };
 }
 
 /**

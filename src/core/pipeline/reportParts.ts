@@ -47,6 +47,8 @@ export interface RecordInput {
   readonly table: IntakeTable;
   readonly excluded: readonly ExcludedRow[];
   readonly fingerprint: string;
+  /** What the fingerprint hashes: the input file's bytes or the cell values. */
+  readonly fingerprintOf: 'file' | 'cells';
   readonly summary: TimingSummary;
   readonly rowsTiming: number;
   readonly rowsModel: number;
@@ -73,6 +75,7 @@ export function recordSheet(r: RecordInput): SheetSpec {
   return analysisRecordSheet({
     inputLabel: s.inputLabel,
     fingerprint: r.fingerprint,
+    fingerprintOf: r.fingerprintOf,
     rowsRead: r.table.nRows,
     rowsTiming: r.rowsTiming,
     rowsModel: r.rowsModel,

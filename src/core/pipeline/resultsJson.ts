@@ -12,6 +12,8 @@ export interface ResultsJsonInput {
   readonly settings: AnalysisSettings;
   readonly table: IntakeTable;
   readonly fingerprint: string;
+  /** 'file': SHA-256 of the input file's bytes; 'cells': of the cell values' canonical form (fingerprintCells). */
+  readonly fingerprintOf: 'file' | 'cells';
   readonly excluded: readonly ExcludedRow[];
   readonly usedForTiming: number;
   readonly usedForModel: number;
@@ -62,6 +64,7 @@ function resultsJsonWhole(r: ResultsJsonInput): Record<string, unknown> {
       rows: r.table.nRows,
       subjects: r.table.subjectIds.length,
       fingerprint: r.fingerprint,
+      fingerprintOf: r.fingerprintOf,
       excluded: r.excluded.map((e) => ({ row: e.row, ...(e.lastRow === undefined ? {} : { lastRow: e.lastRow }), cell: e.cell, use: e.use, reason: e.reason })),
       usedForTiming: r.usedForTiming,
       usedForModel: r.usedForModel,

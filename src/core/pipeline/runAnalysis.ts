@@ -1,6 +1,7 @@
-import type { CellValue, Issue } from '../intake/types';
+import type { Issue } from '../intake/types';
 import { readTable } from '../intake/readTable';
-import { fingerprintCells } from '../report/fingerprint';
+import { toCellSource, type CellInput, GridSource } from '../intake/cellSource';
+import { fingerprintCells, fingerprintRows } from '../report/fingerprint';
 import { summarizeTiming } from '../report/summarizeTiming';
 import { timingJson } from '../report/timingJson';
 import { modelTechnicalNotes } from '../report/modelSheet';
@@ -38,7 +39,7 @@ const CANCELLED: AnalysisOutput = { ok: false, issues: [], cancelled: true };
  * → { ok: true, sheets: [Summary, Visit timing, Visit deviations, Visits due, Model …, Analysis record], json: { tool, input, … } }
  */
 export async function runAnalysis(
-  cells: readonly (readonly CellValue[])[],
+  input: CellInput,
   settings: AnalysisSettings,
   hooks: RunHooks = {},
 ): Promise<AnalysisOutput> {
@@ -58,6 +59,7 @@ export async function runAnalysis(
 
   if (!(await enter('reading'))) return CANCELLED;
   const place = { sheet: settings.sheet, topLeft: settings.topLeft };
+  const cells = toCellSource(input);
   const read = readTable(cells, {
     sheet: settings.sheet,
     topLeft: settings.topLeft,
@@ -67,7 +69,7 @@ export async function runAnalysis(
     ...(settings.numericText === undefined ? {} : { numericText: settings.numericText }),
     ...(settings.dateOrder === undefined ? {} : { dateOrder: settings.dateOrder }),
   });
-  const stop = (issues: readonly Issue[]): AnalysisOutput => ({ ok: false, issues, json: stopJson(cells, settings, issues) });
+  const stop = (issues: readonly Issue[]): AnalysisOutput => ({ ok: false, issues, json: stopJson(cells.rowCount - 1, settings, issues) });
   if (!read.ok) return stop(read.issues);
   const table = read.table;
   const wrongReference = unknownReferenceArm(table.arms, settings);
@@ -122,19 +124,22 @@ export async function runAnalysis(
 
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);
-  const fingerprint = fingerprintCells(cells);
+  // A file's fingerprint comes with the settings (its bytes, hashed by the front end); cells are fingerprinted here.
+  const fingerprintOf = settings.fileFingerprint === undefined ? 'cells' : 'file';
+  const fingerprint = settings.fileFingerprint ?? (cells instanceof GridSource ? fingerprintCells(cells.cells) : fingerprintRows(cells));
   const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote, sensitivity: stage.sensitivity, comparison: stage.comparison });
   const sheets: SheetSpec[] = [
     summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, runAt: settings.runAt, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
     ...timingSheets(summary),
     ...model.sheets,
     // The model's technical notes (intervals, likelihood, AIC/BIC, convergence) go to the record, not the model sheet.
-    recordSheet({ settings, table, excluded, fingerprint, summary, rowsTiming: usedForTiming, rowsModel: usedForModel, referenceArm, notes: [...notes, ...(fit === null ? [] : modelTechnicalNotes(fit)), ...(modelNote === null ? [] : [`The model was not fitted: ${modelNote}.`])] }),
+    recordSheet({ settings, table, excluded, fingerprint, fingerprintOf, summary, rowsTiming: usedForTiming, rowsModel: usedForModel, referenceArm, notes: [...notes, ...(fit === null ? [] : modelTechnicalNotes(fit)), ...(modelNote === null ? [] : [`The model was not fitted: ${modelNote}.`])] }),
   ];
   const json = resultsJson({
     settings,
     table,
     fingerprint,
+    fingerprintOf,
     excluded,
     usedForTiming,
     usedForModel,

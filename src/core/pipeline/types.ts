@@ -51,6 +51,10 @@ export interface AnalysisSettings {
   /** How dates written with day and month as numbers (03/04/2025) are read in every date column; when absent each
    * column decides from its values, and a column where every such value reads both ways stops the run. */
   readonly dateOrder?: DateOrder;
+  /** SHA-256 (hex) of the input file's bytes, when the front end read a file (the command line: fileFingerprint in
+   * src/files). When absent, the run fingerprints the cell values (fingerprintCells, canonical form LP-FP1), as the
+   * add-in does for a worksheet range. The JSON's input.fingerprintOf says which ('file' or 'cells'). */
+  readonly fileFingerprint?: string;
   /** The tool's version, for the analysis record and the JSON (the front end knows it; core has no package.json). */
   readonly toolVersion?: string;
 }

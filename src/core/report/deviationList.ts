@@ -18,6 +18,7 @@ export function listDeviations(input: TimingInput, siteOf: (subject: number) => 
   const V = timing.nVisits;
   const dated = table.timeKind === 'date';
   const lines: { row: DeviationRow; s: number; day: number }[] = [];
+  const site = siteRanks(timing.nSubjects, siteOf);
   const bounds = (s: number, v: number): { opens: number; target: number; closes: number } => {
     const vis = schedule[v]!;
     return dated ? windowDates(days.referenceDay[s]!, vis) : windowStudyDays(vis);
@@ -74,6 +75,23 @@ export function listDeviations(input: TimingInput, siteOf: (subject: number) => 
       },
     });
   }
-  lines.sort((a, b) => (a.row.site < b.row.site ? -1 : a.row.site > b.row.site ? 1 : a.s - b.s || a.day - b.day));
+  // Sorted by numbers only: the site's rank among the site names, the subject's index, the day.
+  lines.sort((a, b) => site[a.s]! - site[b.s]! || a.s - b.s || a.day - b.day);
   return lines.map((l) => l.row);
+}
+
+/** Each subject's site as its rank among the distinct site names in code-unit order (the order of < on strings), so
+ * sorting by rank sorts by name. O(subjects + sites log sites). */
+function siteRanks(subjects: number, siteOf: (subject: number) => string): Int32Array {
+  const names = new Map<string, number>();
+  const nameOf: string[] = new Array<string>(subjects);
+  for (let s = 0; s < subjects; s++) {
+    const n = siteOf(s);
+    nameOf[s] = n;
+    names.set(n, 0);
+  }
+  [...names.keys()].sort((a, b) => (a < b ? -1 : a > b ? 1 : 0)).forEach((n, k) => names.set(n, k));
+  const rank = new Int32Array(subjects);
+  for (let s = 0; s < subjects; s++) rank[s] = names.get(nameOf[s]!)!;
+  return rank;
 }

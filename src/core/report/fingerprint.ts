@@ -20,6 +20,19 @@ export function fingerprintCells(rows: readonly (readonly FingerprintCell[])[]):
   return new CellFingerprint().addRows(rows).hex();
 }
 
+/** Rows handed over one at a time (a CellSource of the intake, e.g. a CSV file's index), row 0 first. */
+export interface FingerprintRows {
+  readonly rowCount: number;
+  rowCells(row: number): readonly FingerprintCell[];
+}
+
+/** fingerprintCells of rows read one at a time (the same digest as on the grid of those rows). O(cells + characters). */
+export function fingerprintRows(rows: FingerprintRows): string {
+  const f = new CellFingerprint();
+  for (let r = 0; r < rows.rowCount; r++) f.addRows([rows.rowCells(r)]);
+  return f.hex();
+}
+
 /**
  * The same fingerprint fed block by block (e.g. as the Excel adapter reads row blocks): adding the rows in any number
  * of consecutive blocks gives the same digest as fingerprintCells on all of them.

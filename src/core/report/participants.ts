@@ -58,25 +58,25 @@ export function listExits(input: TimingInput, siteOf: (subject: number) => strin
   const { table, schedule, timing } = input;
   const V = timing.nVisits;
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
-  const rows: { row: ExitRow; s: number }[] = [];
-  for (let s = 0; s < timing.nSubjects; s++) {
-    const e = timing.exitOffset[s]!;
-    if (timing.subjectInTiming[s] !== 1 || !Number.isFinite(e)) continue;
+  // The participants who left, as indices sorted by exit date then index; rows are made in that order.
+  const exitDate = table.subjectExit;
+  const left: number[] = [];
+  for (let s = 0; s < timing.nSubjects; s++) if (timing.subjectInTiming[s] === 1 && Number.isFinite(timing.exitOffset[s]!)) left.push(s);
+  const sorted = Int32Array.from(left).sort((a, b) => exitDate[a]! - exitDate[b]! || a - b);
+  const rows: ExitRow[] = new Array<ExitRow>(sorted.length);
+  for (let k = 0; k < sorted.length; k++) {
+    const s = sorted[k]!;
     let lastVisit = '';
     for (const v of order) if (timing.slotRow[s * V + v]! >= 0) lastVisit = schedule[v]!.label;
-    rows.push({
-      s,
-      row: {
-        subject: table.subjectIds[s]!,
-        site: siteOf(s),
-        exitDate: table.subjectExit[s]!,
-        exitStudyDay: studyDayOfOffset(e),
-        lastVisit,
-        status: table.subjectExitStatus?.[s] ?? '',
-        reason: table.subjectExitReason?.[s] ?? '',
-      },
-    });
+    rows[k] = {
+      subject: table.subjectIds[s]!,
+      site: siteOf(s),
+      exitDate: exitDate[s]!,
+      exitStudyDay: studyDayOfOffset(timing.exitOffset[s]!),
+      lastVisit,
+      status: table.subjectExitStatus?.[s] ?? '',
+      reason: table.subjectExitReason?.[s] ?? '',
+    };
   }
-  rows.sort((a, b) => a.row.exitDate - b.row.exitDate || a.s - b.s);
-  return rows.map((r) => r.row);
+  return rows;
 }

@@ -21,8 +21,10 @@ export interface RecordExclusion {
 export interface AnalysisRecordInput {
   /** e.g. "Visits!A1:G2401" or "egfr-visits.csv". */
   readonly inputLabel: string;
-  /** SHA-256 of the input values (fingerprintCells). */
+  /** SHA-256 of the input values (fingerprintCells), or of the input file's bytes when fingerprintOf is 'file'. */
   readonly fingerprint: string;
+  /** What the fingerprint hashes; 'cells' when absent. */
+  readonly fingerprintOf?: 'file' | 'cells';
   readonly rowsRead: number;
   readonly rowsTiming: number;
   readonly rowsModel: number;
@@ -95,7 +97,7 @@ export function analysisRecordSheet(input: AnalysisRecordInput): SheetSpec {
       columns: [col('Item', 'text', 28), col('Value', 'text', 70)],
       rows: [
         ['Input', input.inputLabel],
-        ['Fingerprint of the input values (SHA-256)', input.fingerprint],
+        [input.fingerprintOf === 'file' ? 'Fingerprint of the input file (SHA-256)' : 'Fingerprint of the input values (SHA-256)', input.fingerprint],
         ['Mode', input.mode === 'unblinded' ? 'Unblinded (results by arm)' : 'Blinded (pooled, no arm read)'],
         ['Data cut-off', input.cutoff],
         ['Program version', input.version],

@@ -17,15 +17,26 @@ export function summarizeByVisit(
   const V = timing.nVisits;
   const G = groups?.names.length ?? 1;
   const counts = new Float64Array(G * V * SLOT_STATUSES);
-  const devs: number[][] = Array.from({ length: G * V }, () => []);
+  // The deviations of each (group, visit) in one typed array: counted first, then placed, then each part sorted.
+  const starts = new Int32Array(G * V + 1);
   for (let s = 0; s < timing.nSubjects; s++) {
     if (timing.subjectInTiming[s] !== 1) continue;
     const g = groups?.group[s] ?? 0;
     for (let v = 0; v < V; v++) {
       const code = timing.slotStatus[s * V + v]!;
       counts[(g * V + v) * SLOT_STATUSES + code]!++;
+      if (timing.slotRow[s * V + v]! >= 0) starts[g * V + v + 1]!++;
+    }
+  }
+  for (let k = 0; k < G * V; k++) starts[k + 1]! += starts[k]!;
+  const all = new Float64Array(starts[G * V]!);
+  const fill = starts.slice(0, G * V);
+  for (let s = 0; s < timing.nSubjects; s++) {
+    if (timing.subjectInTiming[s] !== 1) continue;
+    const g = groups?.group[s] ?? 0;
+    for (let v = 0; v < V; v++) {
       const r = timing.slotRow[s * V + v]!;
-      if (r >= 0) devs[g * V + v]!.push(timing.rowDeviation[r]!);
+      if (r >= 0) all[fill[g * V + v]!++] = timing.rowDeviation[r]!;
     }
   }
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
@@ -41,7 +52,7 @@ export function summarizeByVisit(
       const afterExit = c(STATUS_CODE.afterExit);
       const expected = onTime + early + late + missed + notYetDue;
       const due = expected - notYetDue;
-      const d = Float64Array.from(devs[g * V + v]!).sort();
+      const d = all.subarray(starts[g * V + v]!, starts[g * V + v + 1]!).sort();
       rows.push({
         visit: schedule[v]!.label,
         targetDay: schedule[v]!.targetDay,

@@ -116,3 +116,22 @@ describe('readTable date columns', () => {
     expect(readTable(grid(['2025-01-12'], ['03/04/2024']), OPTIONS).issues.map((i) => [i.code, i.cell])).toEqual([['date-order-unknown', 'Visits!D1']]);
   });
 });
+
+describe('readDateColumn remembers each distinct text', () => {
+  it('reads a column of repeated texts exactly as each cell read alone (property over a small pool of valid, impossible, partial and two-digit-year texts)', async () => {
+    const { readDateColumn } = await import('../../../src/core/intake/dateColumn');
+    const { readDate } = await import('../../../src/core/intake/readCell');
+    const pool = ['2025-01-12', '12JAN2025', '2025-02-30', '2025-03', '12/01/25', 'soon', ' 2025-01-13 ', '', '#N/A', 45669] as const;
+    fc.assert(
+      fc.property(fc.array(fc.constantFrom(...pool), { maxLength: 40 }), (values) => {
+        const column = readDateColumn(col(values), 0, 1900, 'dmy');
+        values.forEach((v, i) => {
+          const alone = readDate(v, 1900, 'dmy');
+          if (typeof alone === 'number') expect(column.days[i]).toBe(alone);
+          else expect(Number.isNaN(column.days[i])).toBe(true);
+          expect(column.problems[i] === 0).toBe(typeof alone === 'number');
+        });
+      }),
+    );
+  });
+});

@@ -11,6 +11,7 @@
 import { fitRandomIntercept, type FitOptions, type ModelData } from '../src/core/model';
 import { mulberry32 as seeded } from '../scripts/random';
 import type { BenchEntry } from './types';
+import { runRepeatedBench } from './repeated-bench';
 
 
 /** Invented eGFR-like data: rows/5 patients x 5 visits, arms alternating, time in months. */
@@ -144,5 +145,7 @@ export async function runModelBench(rows: number): Promise<BenchEntry[]> {
   const fitCov = best(RUNS, () => fitRandomIntercept(dataCov, optionsCov));
   if (fitCov.value.status === 'failed') throw new Error(`benchmark fit failed: ${fitCov.value.message}`);
   entries.push({ name: 'model fit + covariate, KR', rows: dataCov.y.length, seconds: fitCov.seconds, baselineSeconds: olsCov.seconds, ratio: fitCov.seconds / olsCov.seconds, peakMB: peakMB() });
+  // The repeated-measures model (unstructured covariance), against OLS with its own fixed-effect columns.
+  entries.push(runRepeatedBench(rows, RUNS, peakMB));
   return entries;
 }

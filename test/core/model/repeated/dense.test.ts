@@ -41,7 +41,7 @@ describe('repeated-measures model: pooled engine equals a dense n × n fit', () 
     });
     // The treatment difference at the last visit = arm + arm × last visit in reference-level coding.
     const last = fit.treatmentEffects.find((t) => t.last)!;
-    const l = fit.fixedEffects.map((e) => (e.kind === 'arm' || (e.kind === 'armVisit' && e.visit === last.visit) ? 1 : 0));
+    const l: number[] = fit.fixedEffects.map((e) => (e.kind === 'arm' || (e.kind === 'armVisit' && e.visit === last.visit) ? 1 : 0));
     const ref = dense.kr(l);
     close(last.se, ref.se, 1e-7);
     close(last.df, ref.df, 1e-7);

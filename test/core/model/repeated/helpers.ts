@@ -199,7 +199,7 @@ export function denseFit(d: RepeatedData, method: 'reml' | 'ml'): DenseFit {
   for (let a = 0; a < R; a++) {
     for (let b = 0; b < R; b++) {
       const Q = Yr[a]!.transpose().mmul(ViY[b]!);
-      inner.addM(Q.sub(Pr[a]!.mmul(cur.phi).mmul(Pr[b]!)).mul(W.get(a, b)));
+      inner.add(Q.sub(Pr[a]!.mmul(cur.phi).mmul(Pr[b]!)).mul(W.get(a, b)));
     }
   }
   const phiA = cur.phi.clone().add(cur.phi.mmul(inner).mmul(cur.phi).mul(2));

@@ -1,7 +1,7 @@
 /** Command-line argument parsing for `longipane analyze` (no library: a dozen flags do not need one). */
 import { resolve } from 'node:path';
 import type { DateOrder } from '../core/intake/types';
-import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
+import type { DfMethod, FitMethod, ModelKind, TimeUnit } from '../core/pipeline/types';
 
 /** Misuse of the command line: the message says what was wrong; main prints it and exits with code 2. */
 export class UsageError extends Error {
@@ -24,6 +24,8 @@ export interface AnalyzeArgs {
   readonly timeUnit: TimeUnit;
   readonly df: DfMethod;
   readonly method: FitMethod;
+  /** Which model the run reports (--model; default 'intercept'). */
+  readonly model: ModelKind;
   readonly level: number;
   readonly covariates: readonly string[];
   readonly scheduledOnly: boolean;
@@ -32,7 +34,7 @@ export interface AnalyzeArgs {
   readonly dateOrder?: DateOrder;
 }
 
-const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate', 'date-order'] as const;
+const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'model', 'level', 'covariate', 'date-order'] as const;
 /** `--per-subject` is the older spelling of `--per-participant`, still accepted. */
 const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-participant', 'per-subject'] as const;
 type ValueFlag = (typeof VALUE_FLAGS)[number];
@@ -144,6 +146,8 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     // Satterthwaite (Kenward–Roger after ML is allowed, with a note in the report).
     df: oneOf('df', one('df') ?? (method === 'ml' ? 'satterthwaite' : 'kenward-roger'), ['kenward-roger', 'satterthwaite', 'residual', 'containment'] as const),
     method,
+    // This branch fits 'intercept' and 'repeated'; the other ModelKind names are refused until their models exist.
+    model: oneOf('model', one('model') ?? 'intercept', ['intercept', 'repeated'] as const),
     level,
     covariates: values.get('covariate') ?? [],
     scheduledOnly: flags.has('scheduled-only'),
@@ -186,6 +190,9 @@ Model:
   --df METHOD             kenward-roger (default with REML), satterthwaite (default with ML),
                           residual or containment (between/within)
   --method METHOD         reml (default) or ml
+  --model MODEL           intercept (default: the random-intercept model) or repeated (adds the
+                          visit-by-visit model: visit as a factor, an unstructured covariance across
+                          scheduled visits, on the records matched to the schedule)
   --level P               confidence level (default 0.95)
   --scheduled-only        fit only records matched to scheduled visits (default: all valid rows)
   --per-participant       add a sheet of each participant's random intercept and mean residual

@@ -110,6 +110,7 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     timeUnit: args.timeUnit,
     dfMethod: args.df,
     method: args.method,
+    model: args.model,
     level: args.level,
     scheduledOnly: args.scheduledOnly,
     perSubject: args.perSubject,

@@ -6,6 +6,8 @@ export type DfMethod = 'kenward-roger' | 'satterthwaite' | 'residual' | 'contain
 export type FitMethod = 'reml' | 'ml';
 export type FitStatus = 'converged' | 'boundary' | 'failed';
 export type TermKind = 'intercept' | 'arm' | 'time' | 'armTime' | 'covariate';
+/** The models a run can fit (README "Results JSON", `model.kind`); 'intercept' is the random-intercept model. */
+export type ModelKind = 'intercept' | 'slope' | 'repeated' | 'gee' | 'logistic';
 
 /** Clean model columns, one entry per observation. */
 export interface ModelData {

@@ -55,6 +55,7 @@ const UNIT_WORDS = { month: 'month (30.4375 days)', week: 'week (7 days)', day: 
 export function recordSheet(r: RecordInput): SheetSpec {
   const s = r.settings;
   const settingLines = [
+    ...(s.model === 'repeated' ? [{ name: 'Model', value: 'Visit-by-visit model (unstructured covariance) beside the random-intercept model' }] : []),
     { name: 'Estimation', value: s.method === 'reml' ? 'REML' : 'Maximum likelihood (ML)' },
     { name: 'Degrees of freedom', value: DF_NAMES[s.dfMethod] },
     { name: 'Confidence level', value: `${Math.round(s.level * 1000) / 10}%` },

@@ -1,11 +1,11 @@
 /** Settings and output of one analysis run, shared by the command line, the browser page and the add-in. */
 import type { ColumnMapping, DateOrder, DateSystem, Issue, Mode } from '../intake/types';
 import type { ScheduleVisit } from '../schedule/types';
-import type { DfMethod, FitMethod, TimeUnit } from '../model/types';
+import type { DfMethod, FitMethod, ModelKind, TimeUnit } from '../model/types';
 import type { SheetSpec } from '../report/types';
 
 /** The model's own choices, handed on under the same names for the front ends. */
-export type { DfMethod, FitMethod, TimeUnit };
+export type { DfMethod, FitMethod, ModelKind, TimeUnit };
 
 /** Days per time unit (SPEC §3): a month is 30.4375 days (365.25 / 12, common practice). */
 export const DAYS_PER_UNIT: Readonly<Record<TimeUnit, number>> = { month: 30.4375, week: 7, day: 1 };
@@ -28,6 +28,9 @@ export interface AnalysisSettings {
   readonly timeUnit: TimeUnit;
   readonly dfMethod: DfMethod;
   readonly method: FitMethod;
+  /** Which model the run reports (default 'intercept'). 'repeated' adds the visit-by-visit model with an unstructured
+   * covariance (repeatedStage.ts): its sheet follows the random-intercept sheets and the JSON `model` is its section. */
+  readonly model?: ModelKind;
   /** Confidence level, e.g. 0.95. */
   readonly level: number;
   /** Restrict the model to records matched to scheduled visits (default false: all valid rows). */

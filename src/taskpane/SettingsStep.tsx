@@ -13,7 +13,7 @@ import {
   tokens,
 } from '@fluentui/react-components';
 import type { DateOrder } from '../core/intake/types';
-import { DAYS_PER_UNIT, type DfMethod, type FitMethod, type TimeUnit } from '../core/pipeline/types';
+import { DAYS_PER_UNIT, type DfMethod, type FitMethod, type ModelKind, type TimeUnit } from '../core/pipeline/types';
 import { isCutoffDay, isIsoDate, isLevel, type PaneSettings } from './paneSettings';
 import { UnblindDialog } from './UnblindDialog';
 import { stackStyle } from './paneStyles';
@@ -42,6 +42,11 @@ const DF_METHODS: readonly { value: DfMethod; label: string }[] = [
 const FIT_METHODS: readonly { value: FitMethod; label: string }[] = [
   { value: 'reml', label: 'REML (recommended)' },
   { value: 'ml', label: 'Maximum likelihood (ML)' },
+];
+
+const MODELS: readonly { value: ModelKind; label: string }[] = [
+  { value: 'intercept', label: 'Random intercept, straight line over time' },
+  { value: 'repeated', label: 'Also visit by visit (each visit its own mean, any correlation)' },
 ];
 
 export interface SettingsStepProps {
@@ -173,6 +178,15 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
       <Field label="Degrees of freedom">
         <Select value={settings.dfMethod} onChange={(_, d) => set({ dfMethod: d.value as DfMethod })}>
           {DF_METHODS.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </Select>
+      </Field>
+      <Field label="Model">
+        <Select value={settings.model} onChange={(_, d) => set({ model: d.value as ModelKind })}>
+          {MODELS.map((o) => (
             <option key={o.value} value={o.value}>
               {o.label}
             </option>

@@ -1,6 +1,6 @@
 /** The settings the pane edits, their defaults, what is remembered, and the run settings they produce. */
 import type { ColumnMapping, DateOrder } from '../core/intake/types';
-import type { AnalysisSettings } from '../core/pipeline/types';
+import type { AnalysisSettings, ModelKind } from '../core/pipeline/types';
 import type { ScheduleVisit } from '../core/schedule/types';
 import type { DataSource, SavedSettings } from './actions';
 import { withoutArm } from './mapping';
@@ -17,6 +17,8 @@ export interface PaneSettings
   readonly cutoffDay: string;
   /** How dates like 03/04/2025 are read; '' means each date column decides from its values. */
   readonly dateOrder: DateOrder | '';
+  /** Which model the run reports (AnalysisSettings.model). */
+  readonly model: ModelKind;
 }
 
 /** Blinded by default (SPEC §2); REML with Kenward–Roger and 95% intervals (SPEC §5). */
@@ -32,6 +34,7 @@ export const DEFAULT_SETTINGS: PaneSettings = {
   level: 0.95,
   scheduledOnly: false,
   perSubject: false,
+  model: 'intercept',
 };
 
 const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
@@ -116,6 +119,7 @@ export function toAnalysisSettings(
     ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),
     ...(settings.cutoffDay !== '' && isCutoffDay(settings.cutoffDay) ? { cutoffDay: Number(settings.cutoffDay) } : {}),
     ...(settings.dateOrder !== '' ? { dateOrder: settings.dateOrder } : {}),
+    ...(settings.model !== 'intercept' ? { model: settings.model } : {}),
     ...(!blinded && settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
   };
 }

@@ -166,3 +166,27 @@ export function derivatives(gr: Grouped, ev: Evaluation, method: FitMethod): Der
   for (let r = 0; r < R; r++) for (let s = 0; s < r; s++) info[r * R + s] = info[s * R + r]!;
   return { grad, info, P };
 }
+
+/** The REML/ML score in σ_jk alone (no information): O(groups · m³). Used for the Newton polish (scoring.ts). */
+export function gradientOnly(gr: Grouped, ev: Evaluation, method: FitMethod): Float64Array {
+  const lay = gr.layout;
+  const V = lay.nVisits;
+  const pairs = paramPairs(V);
+  const gradM = new Float64Array(V * V);
+  gr.groups.forEach((g, gi) => {
+    const m = g.obs.length;
+    const W = ev.W[gi]!;
+    const H = method === 'reml' ? mul(mul(W, groupXCXt(lay, g, ev.C), m), W, m) : null;
+    const B = mul(mul(W, ev.S[gi]!, m), W, m);
+    for (let x = 0; x < m; x++) {
+      for (let y = 0; y < m; y++) {
+        const gv = g.obs[x]! * V + g.obs[y]!;
+        gradM[gv] = gradM[gv]! + B[x * m + y]! - g.n * W[x * m + y]! + (H === null ? 0 : H[x * m + y]!);
+      }
+    }
+  });
+  return Float64Array.from(pairs.j, (a, r) => {
+    const b = pairs.k[r]!;
+    return a === b ? 0.5 * gradM[a * V + a]! : 0.5 * (gradM[a * V + b]! + gradM[b * V + a]!);
+  });
+}

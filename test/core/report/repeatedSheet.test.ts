@@ -18,7 +18,7 @@ describe('visit-by-visit model output when it was not fitted', () => {
     expect(para.kind).toBe('paragraph');
     expect(para.text).toMatch(/Unscheduled records \(1\) and repeat records \(1\) are left out/);
     expect(para.text).toMatch(/The model was not fitted: fewer than two participants have a value at a scheduled visit\.$/);
-    const table = sheet.blocks.find((b) => b.kind === 'table') as { id: string; rows: unknown[][] };
+    const table = sheet.blocks.find((b) => b.kind === 'table') as { id: string; rows: readonly (readonly unknown[])[] };
     expect(table.id).toBe('VisitRecordsLeftOut');
     expect(table.rows).toEqual([
       [7, 'P-01', 'Unscheduled'],

@@ -45,8 +45,8 @@ const FIT_METHODS: readonly { value: FitMethod; label: string }[] = [
 ];
 
 const MODELS: readonly { value: ModelKind; label: string }[] = [
-  { value: 'intercept', label: 'Random intercept, straight line over time' },
-  { value: 'repeated', label: 'Also visit by visit (each visit its own mean, any correlation)' },
+  { value: 'intercept', label: 'Random intercept' },
+  { value: 'repeated', label: 'Also visit by visit' },
 ];
 
 export interface SettingsStepProps {
@@ -184,7 +184,7 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
           ))}
         </Select>
       </Field>
-      <Field label="Model">
+      <Field label="Model" hint="Visit by visit: each visit has its own mean and any correlation between visits, on the records matched to the schedule.">
         <Select value={settings.model} onChange={(_, d) => set({ model: d.value as ModelKind })}>
           {MODELS.map((o) => (
             <option key={o.value} value={o.value}>

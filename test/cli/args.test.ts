@@ -14,6 +14,7 @@ describe('parseAnalyzeArgs', () => {
       timeUnit: 'month',
       df: 'kenward-roger',
       method: 'reml',
+      model: 'intercept',
       level: 0.95,
       covariates: [],
       scheduledOnly: false,

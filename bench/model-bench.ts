@@ -11,6 +11,7 @@
 import { fitRandomIntercept, fitRandomSlope, type FitOptions, type ModelData } from '../src/core/model';
 import { mulberry32 as seeded } from '../scripts/random';
 import type { BenchEntry } from './types';
+import { runRepeatedBench } from './repeated-bench';
 
 
 /** Invented eGFR-like data: rows/5 patients x 5 visits, arms alternating, time in months; with slopeSd > 0 each
@@ -154,5 +155,7 @@ export async function runModelBench(rows: number): Promise<BenchEntry[]> {
   const fitSlope = best(RUNS, () => fitRandomSlope(dataSlope, optionsCov));
   if (fitSlope.value.status === 'failed') throw new Error(`benchmark slope fit failed: ${fitSlope.value.message}`);
   entries.push({ name: 'slope model fit, KR', rows: dataSlope.y.length, seconds: fitSlope.seconds, baselineSeconds: olsSlope.seconds, ratio: fitSlope.seconds / olsSlope.seconds, peakMB: peakMB() });
+  // The repeated-measures model (unstructured covariance), against OLS with its own fixed-effect columns.
+  entries.push(runRepeatedBench(rows, RUNS, peakMB));
   return entries;
 }

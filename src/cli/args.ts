@@ -1,7 +1,7 @@
 /** Command-line argument parsing for `longipane analyze` (no library: a dozen flags do not need one). */
 import { resolve } from 'node:path';
 import type { DateOrder } from '../core/intake/types';
-import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
+import type { DfMethod, FitMethod, ModelKind, TimeUnit } from '../core/pipeline/types';
 
 /** Misuse of the command line: the message says what was wrong; main prints it and exits with code 2. */
 export class UsageError extends Error {
@@ -24,8 +24,8 @@ export interface AnalyzeArgs {
   readonly timeUnit: TimeUnit;
   readonly df: DfMethod;
   readonly method: FitMethod;
-  /** The main model: intercept (default) or slope. */
-  readonly model: 'intercept' | 'slope';
+  /** The main model (--model; default 'intercept'). */
+  readonly model: (typeof AVAILABLE_MODELS)[number];
   readonly level: number;
   readonly covariates: readonly string[];
   readonly scheduledOnly: boolean;
@@ -48,11 +48,11 @@ function oneOf<T extends string>(flag: string, value: string, allowed: readonly 
 }
 
 /** The models --model can name now; the other kinds of ModelKind are not available yet and get the same usage error. */
-export const AVAILABLE_MODELS = ['intercept', 'slope'] as const;
+export const AVAILABLE_MODELS = ['intercept', 'slope', 'repeated'] as const;
 
 function modelKind(value: string): (typeof AVAILABLE_MODELS)[number] {
   if ((AVAILABLE_MODELS as readonly string[]).includes(value)) return value as (typeof AVAILABLE_MODELS)[number];
-  throw new UsageError(`--model must be one of the available models: ${AVAILABLE_MODELS.join(', ')} (random intercept; random intercept and slope); got "${value}".`);
+  throw new UsageError(`--model must be one of the available models: ${AVAILABLE_MODELS.join(', ')} (random intercept; random intercept and slope; visit by visit); got "${value}".`);
 }
 
 /** True when text is a real calendar date written YYYY-MM-DD (ISO 8601 calendar date, extended format). */
@@ -201,9 +201,11 @@ Model:
   --df METHOD             kenward-roger (default with REML), satterthwaite (default with ML),
                           residual or containment (between/within)
   --method METHOD         reml (default) or ml
-  --model KIND            intercept (random intercept, default) or slope (random intercept and
-                          slope: participants may also differ in their rate of change); both are
-                          fitted and compared on the model sheet
+  --model KIND            intercept (random intercept, default); slope (random intercept and
+                          slope: participants may also differ in their rate of change; both are
+                          fitted and compared on the model sheet); repeated (adds the visit-by-visit
+                          model: visit as a factor, an unstructured covariance across scheduled
+                          visits, on the records matched to the schedule)
   --level P               confidence level (default 0.95)
   --scheduled-only        fit only records matched to scheduled visits (default: all valid rows)
   --per-participant       add a sheet of each participant's random intercept and mean residual

@@ -40,13 +40,15 @@ const DF_METHODS: readonly { value: DfMethod; label: string }[] = [
   { value: 'containment', label: 'Between/within (containment)' },
 ];
 const MODELS: readonly { value: PaneModel; label: string }[] = [
-  { value: 'intercept', label: 'Random intercept (participants differ in level)' },
-  { value: 'slope', label: 'Random intercept and slope (participants also differ in rate of change)' },
+  { value: 'intercept', label: 'Random intercept' },
+  { value: 'slope', label: 'Random intercept and slope' },
+  { value: 'repeated', label: 'Also visit by visit' },
 ];
 const FIT_METHODS: readonly { value: FitMethod; label: string }[] = [
   { value: 'reml', label: 'REML (recommended)' },
   { value: 'ml', label: 'Maximum likelihood (ML)' },
 ];
+
 
 export interface SettingsStepProps {
   readonly settings: PaneSettings;
@@ -183,7 +185,7 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
           ))}
         </Select>
       </Field>
-      <Field label="Model" hint="Both models are fitted and compared on the model sheet; this one is reported in full.">
+      <Field label="Model" hint="The random-intercept and the slope model are fitted and compared on the model sheet; the chosen one is reported in full. Visit by visit: each visit has its own mean and any correlation between visits.">
         <Select value={settings.model} onChange={(_, d) => set({ model: d.value as PaneModel })}>
           {MODELS.map((o) => (
             <option key={o.value} value={o.value}>

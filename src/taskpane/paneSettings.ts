@@ -1,6 +1,6 @@
 /** The settings the pane edits, their defaults, what is remembered, and the run settings they produce. */
 import type { ColumnMapping, DateOrder } from '../core/intake/types';
-import type { AnalysisSettings } from '../core/pipeline/types';
+import type { AnalysisSettings, ModelKind } from '../core/pipeline/types';
 import type { ScheduleVisit } from '../core/schedule/types';
 import type { DataSource, SavedSettings } from './actions';
 import { withoutArm } from './mapping';
@@ -17,13 +17,13 @@ export interface PaneSettings
   readonly cutoffDay: string;
   /** How dates like 03/04/2025 are read; '' means each date column decides from its values. */
   readonly dateOrder: DateOrder | '';
-  /** The main model; the pane offers the two available now. */
+  /** The main model; the pane offers the models available now. */
   readonly model: PaneModel;
 }
 
 /** The models the pane offers. */
-export type PaneModel = 'intercept' | 'slope';
-export const PANE_MODELS: readonly PaneModel[] = ['intercept', 'slope'];
+export type PaneModel = 'intercept' | 'slope' | 'repeated';
+export const PANE_MODELS: readonly PaneModel[] = ['intercept', 'slope', 'repeated'];
 
 /** Blinded by default (SPEC §2); REML with Kenward–Roger and 95% intervals (SPEC §5). */
 export const DEFAULT_SETTINGS: PaneSettings = {
@@ -126,6 +126,7 @@ export function toAnalysisSettings(
     ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),
     ...(settings.cutoffDay !== '' && isCutoffDay(settings.cutoffDay) ? { cutoffDay: Number(settings.cutoffDay) } : {}),
     ...(settings.dateOrder !== '' ? { dateOrder: settings.dateOrder } : {}),
+    ...(settings.model !== 'intercept' ? { model: settings.model } : {}),
     ...(!blinded && settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
   };
 }

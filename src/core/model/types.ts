@@ -6,6 +6,8 @@ export type DfMethod = 'kenward-roger' | 'satterthwaite' | 'residual' | 'contain
 export type FitMethod = 'reml' | 'ml';
 export type FitStatus = 'converged' | 'boundary' | 'failed';
 export type TermKind = 'intercept' | 'arm' | 'time' | 'armTime' | 'covariate';
+/** The models a run can fit (README "Results JSON", `model.kind`); 'intercept' is the random-intercept model. */
+export type ModelKind = 'intercept' | 'slope' | 'repeated' | 'gee' | 'logistic';
 
 /** Clean model columns, one entry per observation. */
 export interface ModelData {
@@ -194,8 +196,6 @@ export interface ModelFit extends Pick<FitOptions, 'method' | 'dfMethod' | 'leve
   readonly residuals?: Float64Array;
 }
 
-/** The models Longipane can fit; the command line, the pane and the JSON use these names. */
-export type ModelKind = 'intercept' | 'slope' | 'repeated' | 'gee' | 'logistic';
 
 /** Between-participant covariance G of the random intercept and slope, on the original time unit. */
 export interface SlopeVariance {

@@ -80,6 +80,7 @@ function resultsJsonWhole(r: ResultsJsonInput): Record<string, unknown> {
       daysPerUnit: DAYS_PER_UNIT[s.timeUnit],
       dfMethod: s.dfMethod,
       method: s.method,
+      ...(s.model === undefined ? {} : { model: s.model }),
       level: s.level,
       dateOrder: s.dateOrder ?? null,
       scheduledOnly: s.scheduledOnly,

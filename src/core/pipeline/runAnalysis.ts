@@ -14,6 +14,7 @@ import { excludedRows } from './excludedRows';
 import { fitStage } from './fitStage';
 import { fromScheduleIssues, modelNotFitted, unknownReferenceArm } from './issues';
 import { modelOutputs, recordSheet } from './reportParts';
+import { repeatedModelJson, repeatedStage } from './repeatedStage';
 import { resultsJson } from './resultsJson';
 import { stopJson } from './stopJson';
 import { dateReadingNote } from './dateNotes';
@@ -118,6 +119,7 @@ export async function runAnalysis(
   const stage = fitStage(table, days, timing, settings);
   notes.push(...stage.notes);
   const { fit, note: modelNote, means } = stage;
+  const repeated = settings.model === 'repeated' ? repeatedStage(table, timing, settings) : null;
   if (modelNote !== null && table.mapping.value !== undefined) issues.push(modelNotFitted(modelNote));
   const usedForModel = fit?.nObservations ?? 0;
   const referenceArm = stage.arms[0] ?? null;
@@ -132,6 +134,7 @@ export async function runAnalysis(
     summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, runAt: settings.runAt, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
     ...timingSheets(summary),
     ...model.sheets,
+    ...(repeated?.sheets ?? []),
     // The model's technical notes (intervals, likelihood, AIC/BIC, convergence) go to the record, not the model sheet.
     recordSheet({ settings, table, excluded, fingerprint, fingerprintOf, summary, rowsTiming: usedForTiming, rowsModel: usedForModel, referenceArm, notes: [...notes, ...(fit === null ? [] : modelTechnicalNotes(fit)), ...(modelNote === null ? [] : [`The model was not fitted: ${modelNote}.`])] }),
   ];
@@ -144,7 +147,7 @@ export async function runAnalysis(
     usedForTiming,
     usedForModel,
     visits: timingJson(summary),
-    model: model.json,
+    model: repeated === null ? model.json : repeatedModelJson(repeated, fit),
     modelNote,
     notes,
     issues,

@@ -28,8 +28,10 @@ export interface AnalysisSettings {
   readonly timeUnit: TimeUnit;
   readonly dfMethod: DfMethod;
   readonly method: FitMethod;
-  /** Which model is the main fit: 'intercept' (default) or 'slope' (random intercept and slope). The other kinds are
-   * not available yet. Both the intercept and the slope model are fitted for the model comparison. */
+  /** Which model is the main fit (default 'intercept'). 'slope': the random intercept and slope model; both the
+   * intercept and the slope model are fitted for the model comparison. 'repeated' adds the visit-by-visit model with
+   * an unstructured covariance (repeatedStage.ts): its sheet follows the random-intercept sheets and the JSON `model`
+   * is its section. */
   readonly model?: ModelKind;
   /** Confidence level, e.g. 0.95. */
   readonly level: number;

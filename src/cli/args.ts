@@ -1,7 +1,7 @@
 /** Command-line argument parsing for `longipane analyze` (no library: a dozen flags do not need one). */
 import { resolve } from 'node:path';
 import type { DateOrder } from '../core/intake/types';
-import type { DfMethod, FitMethod, TimeUnit } from '../core/pipeline/types';
+import type { DfMethod, FitMethod, ModelKind, TimeUnit } from '../core/pipeline/types';
 
 /** Misuse of the command line: the message says what was wrong; main prints it and exits with code 2. */
 export class UsageError extends Error {
@@ -30,9 +30,13 @@ export interface AnalyzeArgs {
   readonly perSubject: boolean;
   /** How dates with numeric day and month are read; absent: each date column decides from its values. */
   readonly dateOrder?: DateOrder;
+  /** The model to report (absent: the random-intercept model). */
+  readonly model?: ModelKind;
+  /** The yes/no answer of --model logistic from the value: yes below or above a threshold. */
+  readonly responder?: { readonly below?: number; readonly above?: number };
 }
 
-const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate', 'date-order'] as const;
+const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'level', 'covariate', 'date-order', 'model', 'responder-below', 'responder-above'] as const;
 /** `--per-subject` is the older spelling of `--per-participant`, still accepted. */
 const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-participant', 'per-subject'] as const;
 type ValueFlag = (typeof VALUE_FLAGS)[number];
@@ -133,10 +137,27 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
     ...(one('date-order') === undefined ? {} : { dateOrder: oneOf('date-order', one('date-order')!, ['dmy', 'mdy'] as const) }),
   };
   const method = oneOf('method', one('method') ?? 'reml', ['reml', 'ml'] as const);
+  const model = one('model') === undefined ? undefined : oneOf('model', one('model')!, ['intercept', 'gee', 'logistic'] as const);
+  const threshold = (flag: 'responder-below' | 'responder-above'): number | undefined => {
+    const text = one(flag);
+    if (text === undefined) return undefined;
+    const x = Number(text);
+    if (!Number.isFinite(x)) throw new UsageError(`--${flag} must be a number, such as 45; got "${text}".`);
+    return x;
+  };
+  const below = threshold('responder-below');
+  const above = threshold('responder-above');
+  if (below !== undefined && above !== undefined) throw new UsageError('Give either --responder-below or --responder-above, not both.');
+  if ((below !== undefined || above !== undefined) && model !== 'logistic') throw new UsageError('--responder-below and --responder-above only apply with --model logistic.');
+  const chosen = {
+    ...(model === undefined ? {} : { model }),
+    ...(below !== undefined ? { responder: { below } } : above !== undefined ? { responder: { above } } : {}),
+  };
   return {
     data,
     schedule,
     ...optional,
+    ...chosen,
     map,
     unblinded,
     timeUnit: oneOf('time-unit', one('time-unit') ?? 'month', ['month', 'week', 'day'] as const),
@@ -166,7 +187,8 @@ Input:
                           subject), date (visit date), studyDay, reference (reference date:
                           randomisation or first dose), visit (visit name), value, arm, site, exit
                           (exit date: the date the participant left the study), exitStatus,
-                          exitReason. Columns not given are detected from headers (CDISC names such
+                          exitReason, responder (a 0/1 yes/no column for --model logistic).
+                          Columns not given are detected from headers (CDISC names such
                           as USUBJID, ADT, AVAL, EOSDT need no --map).
   --covariate Header      add a model covariate column (repeatable)
   --cutoff YYYY-MM-DD     cut-off date of the data (default: the latest date in the data)
@@ -189,6 +211,11 @@ Model:
   --level P               confidence level (default 0.95)
   --scheduled-only        fit only records matched to scheduled visits (default: all valid rows)
   --per-participant       add a sheet of each participant's random intercept and mean residual
+  --model KIND            intercept (default: random-intercept model), gee (marginal model with
+                          one common within-participant correlation and robust standard errors),
+                          or logistic (random-intercept model for a yes/no answer)
+  --responder-below X     with --model logistic: the answer is yes when the value is below X
+  --responder-above X     with --model logistic: the answer is yes when the value is above X
 
 Output:
   --out FILE.xlsx         write the report workbook

@@ -5,6 +5,8 @@ export type TimeUnit = 'month' | 'week' | 'day';
 export type DfMethod = 'kenward-roger' | 'satterthwaite' | 'residual' | 'containment';
 export type FitMethod = 'reml' | 'ml';
 export type FitStatus = 'converged' | 'boundary' | 'failed';
+/** Which model a run fits and reports: random intercept, random slope, repeated measures, GEE, yes/no outcome. */
+export type ModelKind = 'intercept' | 'slope' | 'repeated' | 'gee' | 'logistic';
 export type TermKind = 'intercept' | 'arm' | 'time' | 'armTime' | 'covariate';
 
 /** Clean model columns, one entry per observation. */

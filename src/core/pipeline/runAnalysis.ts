@@ -11,6 +11,7 @@ import { classifyVisits, computeStudyDays, dayNumberFromIso, isoDate, NO_STATUS 
 import { PipelineUsageError } from './errors';
 import { excludedRows } from './excludedRows';
 import { fitStage } from './fitStage';
+import { otherModelStage } from './otherModelStage';
 import { fromScheduleIssues, modelNotFitted, unknownReferenceArm } from './issues';
 import { modelOutputs, recordSheet } from './reportParts';
 import { resultsJson } from './resultsJson';
@@ -119,6 +120,8 @@ export async function runAnalysis(
   if (modelNote !== null && table.mapping.value !== undefined) issues.push(modelNotFitted(modelNote));
   const usedForModel = fit?.nObservations ?? 0;
   const referenceArm = stage.arms[0] ?? null;
+  // --model gee | logistic: that model's sheet and JSON `model` section, beside the random-intercept model's sheets.
+  const other = otherModelStage(table, days, timing, settings, fit);
 
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);
@@ -127,6 +130,7 @@ export async function runAnalysis(
   const sheets: SheetSpec[] = [
     summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
     ...timingSheets(summary),
+    ...(other?.sheets ?? []),
     ...model.sheets,
     // The model's technical notes (intervals, likelihood, AIC/BIC, convergence) go to the record, not the model sheet.
     recordSheet({ settings, table, excluded, fingerprint, summary, rowsTiming: usedForTiming, rowsModel: usedForModel, referenceArm, notes: [...notes, ...(fit === null ? [] : modelTechnicalNotes(fit)), ...(modelNote === null ? [] : [`The model was not fitted: ${modelNote}.`])] }),
@@ -139,8 +143,8 @@ export async function runAnalysis(
     usedForTiming,
     usedForModel,
     visits: timingJson(summary),
-    model: model.json,
-    modelNote,
+    model: other === null ? model.json : other.json,
+    modelNote: other === null ? modelNote : other.note,
     notes,
     issues,
     cutoff: summary.cutoff,

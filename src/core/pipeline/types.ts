@@ -1,11 +1,11 @@
 /** Settings and output of one analysis run, shared by the command line, the browser page and the add-in. */
 import type { ColumnMapping, DateOrder, DateSystem, Issue, Mode } from '../intake/types';
 import type { ScheduleVisit } from '../schedule/types';
-import type { DfMethod, FitMethod, TimeUnit } from '../model/types';
+import type { DfMethod, FitMethod, ModelKind, TimeUnit } from '../model/types';
 import type { SheetSpec } from '../report/types';
 
 /** The model's own choices, handed on under the same names for the front ends. */
-export type { DfMethod, FitMethod, TimeUnit };
+export type { DfMethod, FitMethod, ModelKind, TimeUnit };
 
 /** Days per time unit (SPEC §3): a month is 30.4375 days (365.25 / 12, common practice). */
 export const DAYS_PER_UNIT: Readonly<Record<TimeUnit, number>> = { month: 30.4375, week: 7, day: 1 };
@@ -46,6 +46,10 @@ export interface AnalysisSettings {
   /** How dates written with day and month as numbers (03/04/2025) are read in every date column; when absent each
    * column decides from its values, and a column where every such value reads both ways stops the run. */
   readonly dateOrder?: DateOrder;
+  /** The model to report (default 'intercept'); 'gee' and 'logistic' are fitted beside the random-intercept model. */
+  readonly model?: ModelKind;
+  /** The yes/no outcome of the 'logistic' model from the value: yes when value < below, or when value > above. */
+  readonly responder?: { readonly below?: number; readonly above?: number };
   /** The tool's version, for the analysis record and the JSON (the front end knows it; core has no package.json). */
   readonly toolVersion?: string;
 }

@@ -31,8 +31,8 @@ const SIGMA_BOUNDARY = 1e-4;
 export function fitLogistic(data: ModelData, options: LogisticOptions): LogisticFit {
   validateModelShape(data, { method: 'ml', dfMethod: 'residual', level: options.level, timeUnit: options.timeUnit, contrastDays: options.contrastDays });
   validateModelRows(data);
-  const nodes = options.nodes ?? 15;
-  if (!Number.isInteger(nodes) || nodes < 1 || nodes > 50) throw new ModelInputError(`the number of quadrature nodes must be an integer from 1 to 50, got ${nodes}.`);
+  const nodes = options.nodes ?? 25;
+  if (!Number.isInteger(nodes) || nodes < 1 || nodes > 100) throw new ModelInputError(`the number of quadrature nodes must be an integer from 1 to 100, got ${nodes}.`);
   const N = data.y.length;
   let nYes = 0;
   for (let r = 0; r < N; r++) {
@@ -55,6 +55,9 @@ export function fitLogistic(data: ModelData, options: LogisticOptions): Logistic
   startTheta[0] = Math.log(nYes / (N - nYes));
   startTheta[p] = 1;
   const max = maximise(obj, startTheta);
+  // Quadrature check: ℓ at the estimates with twice the nodes (one more evaluation).
+  const checkNodes = Math.min(2 * nodes, 200);
+  const quadratureCheck = { nodes: checkNodes, logLikChange: makeObjective({ p, x, y: data.y, order, start }, hermiteRule(checkNodes)).value(max.theta) - max.logLik };
   // Back to the original columns: β_j = β'_j / s_j, Cov_jk = Cov'_jk / (s_j s_k); σ ≥ 0 (ℓ is even in σ).
   const sigma = Math.abs(max.theta[p]!);
   const beta = Array.from({ length: p }, (_, j) => max.theta[j]! / colScale[j]!);
@@ -93,6 +96,7 @@ export function fitLogistic(data: ModelData, options: LogisticOptions): Logistic
     bic: -2 * max.logLik + nParameters * Math.log(N),
     nParameters,
     iterations: max.iterations,
+    quadratureCheck,
     marginalProbabilities: marginal(data, design, x, colScale, beta, sigma, options),
   };
 }

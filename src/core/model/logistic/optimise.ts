@@ -20,7 +20,7 @@ export interface Maximum {
 /** Largest |θ_j| before the fit is called off: the estimates grow without bound (separation of yes and no). */
 const THETA_LIMIT = 40;
 
-export function maximise(obj: Objective, start: Float64Array, maxIterations = 100): Maximum {
+export function maximise(obj: Objective, start: Float64Array, maxIterations = 20): Maximum {
   const q = start.length;
   let theta: Float64Array = Float64Array.from(start);
   let iterations = 0;
@@ -33,20 +33,33 @@ export function maximise(obj: Objective, start: Float64Array, maxIterations = 10
     if (theta.some((v) => !(Math.abs(v) < THETA_LIMIT))) return separated(obj, theta, iterations);
     if (moved.value - d.value < 1e-10 * (1 + Math.abs(d.value))) break;
   }
-  // Phase 2: Newton steps on ℓ itself (central-difference gradient, fixed-node Hessian as the metric).
+  // Phase 2: quasi-Newton steps on ℓ itself: central-difference gradient, the metric started at the fixed-node
+  // Hessian and updated by BFGS (Nocedal & Wright 2006, §6.1), since the quadrature error makes the two differ.
   let converged = false;
+  const start0 = obj.derivatives(theta);
+  let metric: Float64Array = start0.hess.map((v) => -v);
+  let g: Float64Array = numericGradient(obj, theta);
+  let value = start0.value;
   for (let it = 0; it < 50; it++, iterations++) {
-    const d = obj.derivatives(theta);
-    const g = numericGradient(obj, theta);
-    const step = newtonStep(d.hess, g, q);
+    const step = newtonStep(metric.map((v) => -v), g, q);
     const decrement = dot(step, g, q);
-    if (decrement < 1e-10 + 1e-13 * Math.abs(d.value)) {
+    if (decrement < 1e-10 + 1e-13 * Math.abs(value)) {
       converged = true;
       break;
     }
-    const moved = lineSearch(obj, theta, step, d.value);
-    if (moved === null) break;
+    const moved = lineSearch(obj, theta, step, value);
+    if (moved === null) {
+      // No ascent along the step: ℓ is flat to rounding here; accept when the predicted gain is that small.
+      converged = decrement < 1e-7 * (1 + Math.abs(value));
+      break;
+    }
+    const gNew = numericGradient(obj, moved.theta);
+    const s = moved.theta.map((v, j) => v - theta[j]!);
+    const yv = g.map((v, j) => v - gNew[j]!); // −(change of the gradient of ℓ): positive curvature for a maximum
+    metric = bfgsUpdate(metric, s, yv, q);
     theta = moved.theta;
+    value = moved.value;
+    g = gNew;
     if (theta.some((v) => !(Math.abs(v) < THETA_LIMIT))) return separated(obj, theta, iterations);
   }
   const logLik = obj.value(theta);
@@ -70,6 +83,18 @@ function lineSearch(obj: Objective, theta: Float64Array, step: Float64Array, cur
     t /= 2;
   }
   return null;
+}
+
+/** BFGS update of a positive definite curvature matrix B with step s and curvature pair y (skipped unless s'y > 0). */
+function bfgsUpdate(b: Float64Array, s: Float64Array, y: Float64Array, q: number): Float64Array {
+  const sy = dot(s, y, q);
+  if (!(sy > 1e-12 * Math.sqrt(dot(s, s, q) * dot(y, y, q)))) return b;
+  const bs = new Float64Array(q);
+  for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) bs[i] = bs[i]! + b[i * q + j]! * s[j]!;
+  const sbs = dot(s, bs, q);
+  const out = Float64Array.from(b);
+  for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) out[i * q + j] = out[i * q + j]! - (bs[i]! * bs[j]!) / sbs + (y[i]! * y[j]!) / sy;
+  return out;
 }
 
 /** s = (−H)⁻¹ g, with −H + λI (λ growing) when −H is not positive definite. */

@@ -5,7 +5,7 @@ export interface LogisticOptions {
   /** Confidence level, 0 < level < 1. */
   readonly level: number;
   readonly timeUnit: TimeUnit;
-  /** Quadrature nodes per participant, 1 (Laplace) to 50; default 15. */
+  /** Quadrature nodes per participant, 1 (Laplace) to 100; default 25. */
   readonly nodes?: number;
   /** Visits (label, study day) at which to give the population-averaged probability per arm. */
   readonly contrastDays: readonly ContrastDay[];
@@ -58,5 +58,11 @@ export interface LogisticFit {
   /** Fixed effects + 1 variance. */
   readonly nParameters: number;
   readonly iterations: number;
+  /**
+   * The log-likelihood at the estimates recomputed with twice the nodes, minus the fitted one: near 0 when the
+   * quadrature is accurate. Adaptive Gauss–Hermite converges slowly for participants who answer the same throughout
+   * when the between-participant variance is large.
+   */
+  readonly quadratureCheck: { readonly nodes: number; readonly logLikChange: number };
   readonly marginalProbabilities: readonly MarginalProbability[];
 }

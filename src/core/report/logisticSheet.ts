@@ -12,6 +12,9 @@ import type { Block, SheetSpec } from './types';
 
 export const LOGISTIC_SHEET_NAME = 'Yes-no model';
 
+/** A change of the log-likelihood above this with twice the nodes is worth a caution (common practice: well below 0.1). */
+const QUADRATURE_TOLERANCE = 0.01;
+
 const jsonNum = (x: number | null): number | null => (x !== null && Number.isFinite(x) ? x : null);
 
 /** JSON `model` for --model logistic: kind 'logistic', outcome (how yes was defined), fixedEffects with odds ratios, variance.subject, nodes, probabilities. */
@@ -25,6 +28,7 @@ export function logisticJson(fit: LogisticFit, outcome: string): Record<string, 
     nObservations: fit.nObservations,
     nYes: fit.nYes,
     nodes: fit.nodes,
+    quadratureCheck: { nodes: fit.quadratureCheck.nodes, logLikChange: jsonNum(fit.quadratureCheck.logLikChange) },
     iterations: fit.iterations,
     logLik: jsonNum(fit.logLik),
     aic: jsonNum(fit.aic),
@@ -58,6 +62,9 @@ export function logisticSheet(fit: LogisticFit, mode: Mode, outcome: string): Sh
     para(
       `This model describes the chance of a yes answer (${outcome}) over time${armed ? ' in each arm' : ''}, allowing each participant their own tendency to answer yes. An odds ratio above 1 means higher odds of yes. ${fit.nYes} of ${fit.nObservations} values are yes, from ${fit.nSubjects} participants; the likelihood is computed with ${fit.nodes} quadrature point${fit.nodes === 1 ? '' : 's'} per participant.`,
     ),
+    ...(Math.abs(fit.quadratureCheck.logLikChange) > QUADRATURE_TOLERANCE
+      ? [para(`With ${fit.quadratureCheck.nodes} quadrature points instead of ${fit.nodes}, the log-likelihood at these estimates changes by ${num(fit.quadratureCheck.logLikChange)}: the estimates still depend on the number of points (participants who answer the same throughout while participants differ a lot). Read them as approximate.`, 'caution')]
+      : []),
     ...(fit.status === 'failed' ? [para(`The estimates are not reliable: ${fit.message}`, 'caution')] : fit.status === 'boundary' ? [para(fit.message, 'caution')] : []),
     heading('Effects'),
     {

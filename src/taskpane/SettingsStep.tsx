@@ -14,7 +14,7 @@ import {
 } from '@fluentui/react-components';
 import type { DateOrder } from '../core/intake/types';
 import { DAYS_PER_UNIT, type DfMethod, type FitMethod, type TimeUnit } from '../core/pipeline/types';
-import { isCutoffDay, isIsoDate, isLevel, type PaneSettings } from './paneSettings';
+import { isCutoffDay, isIsoDate, isLevel, isThreshold, type PaneSettings } from './paneSettings';
 import { UnblindDialog } from './UnblindDialog';
 import { stackStyle } from './paneStyles';
 
@@ -210,6 +210,24 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
           }}
         />
       </Field>
+      <Field label="Model to report">
+        <Select value={settings.model} onChange={(_, d) => set({ model: d.value as PaneSettings['model'] })}>
+          <option value="intercept">Random-intercept model</option>
+          <option value="gee">Marginal model (GEE) with robust standard errors</option>
+          <option value="logistic">Yes/no answer: random-intercept logistic model</option>
+        </Select>
+      </Field>
+      {settings.model === 'logistic' && (
+        <Field
+          label="Yes when the value is below"
+          hint="Leave empty to use a 0/1 column mapped as the yes/no answer."
+          {...(settings.responderBelow.trim() === '' || isThreshold(settings.responderBelow)
+            ? {}
+            : { validationState: 'error' as const, validationMessage: 'Give a number, e.g. 45.' })}
+        >
+          <Input value={settings.responderBelow} onChange={(_, d) => set({ responderBelow: d.value })} />
+        </Field>
+      )}
       <Checkbox
         label="Use only records matched to a scheduled visit in the model"
         checked={settings.scheduledOnly}

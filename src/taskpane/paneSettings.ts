@@ -17,6 +17,10 @@ export interface PaneSettings
   readonly cutoffDay: string;
   /** How dates like 03/04/2025 are read; '' means each date column decides from its values. */
   readonly dateOrder: DateOrder | '';
+  /** The model to report: the random-intercept model, GEE, or the yes/no model. */
+  readonly model: 'intercept' | 'gee' | 'logistic';
+  /** For the yes/no model: yes when the value is below this number (text; '' means a mapped yes/no column). */
+  readonly responderBelow: string;
 }
 
 /** Blinded by default (SPEC §2); REML with Kenward–Roger and 95% intervals (SPEC §5). */
@@ -32,6 +36,8 @@ export const DEFAULT_SETTINGS: PaneSettings = {
   level: 0.95,
   scheduledOnly: false,
   perSubject: false,
+  model: 'intercept',
+  responderBelow: '',
 };
 
 const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
@@ -46,6 +52,11 @@ export function isIsoDate(text: string): boolean {
 /** True when `text` is a study day usable as a cut-off: a whole number other than 0 (CDISC: there is no day 0). */
 export function isCutoffDay(text: string): boolean {
   return /^\s*[+-]?\d{1,5}\s*$/.test(text) && Number(text) !== 0;
+}
+
+/** True when `text` is a finite number (the yes/no threshold). */
+export function isThreshold(text: string): boolean {
+  return text.trim() !== '' && Number.isFinite(Number(text));
 }
 
 /** True when `level` is a usable confidence level (strictly between 0.5 and 1). */
@@ -117,5 +128,7 @@ export function toAnalysisSettings(
     ...(settings.cutoffDay !== '' && isCutoffDay(settings.cutoffDay) ? { cutoffDay: Number(settings.cutoffDay) } : {}),
     ...(settings.dateOrder !== '' ? { dateOrder: settings.dateOrder } : {}),
     ...(!blinded && settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
+    ...(settings.model !== 'intercept' ? { model: settings.model } : {}),
+    ...(settings.model === 'logistic' && isThreshold(settings.responderBelow) ? { responder: { below: Number(settings.responderBelow) } } : {}),
   };
 }

@@ -212,15 +212,15 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
       </Field>
       <Field label="Model to report">
         <Select value={settings.model} onChange={(_, d) => set({ model: d.value as PaneSettings['model'] })}>
-          <option value="intercept">Random-intercept model</option>
-          <option value="gee">Marginal model (GEE) with robust standard errors</option>
-          <option value="logistic">Yes/no answer: random-intercept logistic model</option>
+          <option value="intercept">Random intercept</option>
+          <option value="gee">GEE (marginal)</option>
+          <option value="logistic">Yes/no answer</option>
         </Select>
       </Field>
       {settings.model === 'logistic' && (
         <Field
           label="Yes when the value is below"
-          hint="Leave empty to use a 0/1 column mapped as the yes/no answer."
+          hint="Empty: a 0/1 yes/no column."
           {...(settings.responderBelow.trim() === '' || isThreshold(settings.responderBelow)
             ? {}
             : { validationState: 'error' as const, validationMessage: 'Give a number, e.g. 45.' })}

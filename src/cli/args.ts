@@ -25,7 +25,7 @@ export interface AnalyzeArgs {
   readonly df: DfMethod;
   readonly method: FitMethod;
   /** The main model (--model; default 'intercept'). */
-  readonly model: (typeof AVAILABLE_MODELS)[number];
+  readonly model: ModelKind;
   readonly level: number;
   readonly covariates: readonly string[];
   readonly scheduledOnly: boolean;
@@ -34,9 +34,11 @@ export interface AnalyzeArgs {
   readonly dateOrder?: DateOrder;
   /** The results JSON indented for reading (default: compact, one line). */
   readonly pretty: boolean;
+  /** The yes/no answer of --model logistic from the value: yes below or above a threshold. */
+  readonly responder?: { readonly below?: number; readonly above?: number };
 }
 
-const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'model', 'level', 'covariate', 'date-order'] as const;
+const VALUE_FLAGS = ['data', 'schedule', 'sheet', 'cutoff', 'cutoff-day', 'out', 'json', 'map', 'reference-arm', 'time-unit', 'df', 'method', 'model', 'level', 'covariate', 'date-order', 'responder-below', 'responder-above'] as const;
 /** `--per-subject` is the older spelling of `--per-participant`, still accepted. */
 const BOOLEAN_FLAGS = ['unblinded', 'scheduled-only', 'per-participant', 'per-subject', 'pretty'] as const;
 type ValueFlag = (typeof VALUE_FLAGS)[number];
@@ -47,12 +49,12 @@ function oneOf<T extends string>(flag: string, value: string, allowed: readonly 
   throw new UsageError(`--${flag} must be one of ${allowed.join(', ')}; got "${value}".`);
 }
 
-/** The models --model can name now; the other kinds of ModelKind are not available yet and get the same usage error. */
-export const AVAILABLE_MODELS = ['intercept', 'slope', 'repeated'] as const;
+/** The models --model can name (every ModelKind). */
+export const AVAILABLE_MODELS = ['intercept', 'slope', 'repeated', 'gee', 'logistic'] as const;
 
 function modelKind(value: string): (typeof AVAILABLE_MODELS)[number] {
   if ((AVAILABLE_MODELS as readonly string[]).includes(value)) return value as (typeof AVAILABLE_MODELS)[number];
-  throw new UsageError(`--model must be one of the available models: ${AVAILABLE_MODELS.join(', ')} (random intercept; random intercept and slope; visit by visit); got "${value}".`);
+  throw new UsageError(`--model must be one of the available models: ${AVAILABLE_MODELS.join(', ')} (random intercept; random intercept and slope; visit by visit; GEE; yes/no answer); got "${value}".`);
 }
 
 /** True when text is a real calendar date written YYYY-MM-DD (ISO 8601 calendar date, extended format). */
@@ -146,10 +148,25 @@ export function parseAnalyzeArgs(argv: readonly string[]): AnalyzeArgs {
   };
   const method = oneOf('method', one('method') ?? 'reml', ['reml', 'ml'] as const);
   const model = modelKind(one('model') ?? 'intercept');
+  const threshold = (flag: 'responder-below' | 'responder-above'): number | undefined => {
+    const text = one(flag);
+    if (text === undefined) return undefined;
+    const x = Number(text);
+    if (!Number.isFinite(x)) throw new UsageError(`--${flag} must be a number, such as 45; got "${text}".`);
+    return x;
+  };
+  const below = threshold('responder-below');
+  const above = threshold('responder-above');
+  if (below !== undefined && above !== undefined) throw new UsageError('Give either --responder-below or --responder-above, not both.');
+  if ((below !== undefined || above !== undefined) && model !== 'logistic') throw new UsageError('--responder-below and --responder-above only apply with --model logistic.');
+  const chosen = {
+    ...(below !== undefined ? { responder: { below } } : above !== undefined ? { responder: { above } } : {}),
+  };
   return {
     data,
     schedule,
     ...optional,
+    ...chosen,
     map,
     unblinded,
     timeUnit: oneOf('time-unit', one('time-unit') ?? 'month', ['month', 'week', 'day'] as const),
@@ -181,7 +198,8 @@ Input:
                           subject), date (visit date), studyDay, reference (reference date:
                           randomisation or first dose), visit (visit name), value, arm, site, exit
                           (exit date: the date the participant left the study), exitStatus,
-                          exitReason. Columns not given are detected from headers (CDISC names such
+                          exitReason, responder (a 0/1 yes/no column for --model logistic).
+                          Columns not given are detected from headers (CDISC names such
                           as USUBJID, ADT, AVAL, EOSDT need no --map).
   --covariate Header      add a model covariate column (repeatable)
   --cutoff YYYY-MM-DD     cut-off date of the data (default: the latest date in the data)
@@ -205,7 +223,11 @@ Model:
                           slope: participants may also differ in their rate of change; both are
                           fitted and compared on the model sheet); repeated (adds the visit-by-visit
                           model: visit as a factor, an unstructured covariance across scheduled
-                          visits, on the records matched to the schedule)
+                          visits, on the records matched to the schedule); gee (marginal model
+                          with one common within-participant correlation and robust standard
+                          errors); logistic (random-intercept model for a yes/no answer)
+  --responder-below X     with --model logistic: the answer is yes when the value is below X
+  --responder-above X     with --model logistic: the answer is yes when the value is above X
   --level P               confidence level (default 0.95)
   --scheduled-only        fit only records matched to scheduled visits (default: all valid rows)
   --per-participant       add a sheet of each participant's random intercept and mean residual

@@ -23,6 +23,7 @@ const ROLE_WORDS: Readonly<Record<string, SingleRole>> = {
   exitdate: 'exit',
   exitstatus: 'exitStatus',
   exitreason: 'exitReason',
+  responder: 'responder',
 };
 
 const key = (s: string): string => s.replace(/[\s_-]+/g, '').toLowerCase();

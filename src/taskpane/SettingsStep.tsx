@@ -14,7 +14,7 @@ import {
 } from '@fluentui/react-components';
 import type { DateOrder } from '../core/intake/types';
 import { DAYS_PER_UNIT, type DfMethod, type FitMethod, type TimeUnit } from '../core/pipeline/types';
-import { isCutoffDay, isIsoDate, isLevel, type PaneModel, type PaneSettings } from './paneSettings';
+import { isCutoffDay, isIsoDate, isLevel, isThreshold, type PaneModel, type PaneSettings } from './paneSettings';
 import { UnblindDialog } from './UnblindDialog';
 import { stackStyle } from './paneStyles';
 
@@ -43,6 +43,8 @@ const MODELS: readonly { value: PaneModel; label: string }[] = [
   { value: 'intercept', label: 'Random intercept' },
   { value: 'slope', label: 'Random intercept and slope' },
   { value: 'repeated', label: 'Also visit by visit' },
+  { value: 'gee', label: 'GEE (marginal)' },
+  { value: 'logistic', label: 'Yes/no answer' },
 ];
 const FIT_METHODS: readonly { value: FitMethod; label: string }[] = [
   { value: 'reml', label: 'REML (recommended)' },
@@ -185,7 +187,7 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
           ))}
         </Select>
       </Field>
-      <Field label="Model" hint="The random-intercept and the slope model are fitted and compared on the model sheet; the chosen one is reported in full. Visit by visit: each visit has its own mean and any correlation between visits.">
+      <Field label="Model" hint="The random-intercept and the slope model are fitted and compared on the model sheet; the chosen one is reported in full. Visit by visit: each visit has its own mean and any correlation between visits. GEE: the average change, robust to the correlation. Yes/no: the chance of a yes answer.">
         <Select value={settings.model} onChange={(_, d) => set({ model: d.value as PaneModel })}>
           {MODELS.map((o) => (
             <option key={o.value} value={o.value}>
@@ -225,6 +227,17 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
           }}
         />
       </Field>
+      {settings.model === 'logistic' && (
+        <Field
+          label="Yes when the value is below"
+          hint="Empty: a 0/1 yes/no column."
+          {...(settings.responderBelow.trim() === '' || isThreshold(settings.responderBelow)
+            ? {}
+            : { validationState: 'error' as const, validationMessage: 'Give a number, e.g. 45.' })}
+        >
+          <Input value={settings.responderBelow} onChange={(_, d) => set({ responderBelow: d.value })} />
+        </Field>
+      )}
       <Checkbox
         label="Use only records matched to a scheduled visit in the model"
         checked={settings.scheduledOnly}

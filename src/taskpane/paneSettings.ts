@@ -19,11 +19,13 @@ export interface PaneSettings
   readonly dateOrder: DateOrder | '';
   /** The main model; the pane offers the models available now. */
   readonly model: PaneModel;
+  /** For the yes/no model: yes when the value is below this number (text; '' means a mapped yes/no column). */
+  readonly responderBelow: string;
 }
 
 /** The models the pane offers. */
-export type PaneModel = 'intercept' | 'slope' | 'repeated';
-export const PANE_MODELS: readonly PaneModel[] = ['intercept', 'slope', 'repeated'];
+export type PaneModel = ModelKind;
+export const PANE_MODELS: readonly PaneModel[] = ['intercept', 'slope', 'repeated', 'gee', 'logistic'];
 
 /** Blinded by default (SPEC §2); REML with Kenward–Roger and 95% intervals (SPEC §5). */
 export const DEFAULT_SETTINGS: PaneSettings = {
@@ -39,6 +41,7 @@ export const DEFAULT_SETTINGS: PaneSettings = {
   level: 0.95,
   scheduledOnly: false,
   perSubject: false,
+  responderBelow: '',
 };
 
 const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
@@ -53,6 +56,11 @@ export function isIsoDate(text: string): boolean {
 /** True when `text` is a study day usable as a cut-off: a whole number other than 0 (CDISC: there is no day 0). */
 export function isCutoffDay(text: string): boolean {
   return /^\s*[+-]?\d{1,5}\s*$/.test(text) && Number(text) !== 0;
+}
+
+/** True when `text` is a finite number (the yes/no threshold). */
+export function isThreshold(text: string): boolean {
+  return text.trim() !== '' && Number.isFinite(Number(text));
 }
 
 /** True when `level` is a usable confidence level (strictly between 0.5 and 1). */
@@ -126,7 +134,7 @@ export function toAnalysisSettings(
     ...(settings.cutoff !== '' ? { cutoff: settings.cutoff } : {}),
     ...(settings.cutoffDay !== '' && isCutoffDay(settings.cutoffDay) ? { cutoffDay: Number(settings.cutoffDay) } : {}),
     ...(settings.dateOrder !== '' ? { dateOrder: settings.dateOrder } : {}),
-    ...(settings.model !== 'intercept' ? { model: settings.model } : {}),
     ...(!blinded && settings.referenceArm !== '' ? { referenceArm: settings.referenceArm } : {}),
+    ...(settings.model === 'logistic' && isThreshold(settings.responderBelow) ? { responder: { below: Number(settings.responderBelow) } } : {}),
   };
 }

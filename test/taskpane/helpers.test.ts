@@ -114,7 +114,8 @@ describe('pane settings', () => {
 
   it('the model choice is remembered and passed on; a remembered kind the pane does not offer falls back to the default', () => {
     expect(fromSaved({ settings: { model: 'slope' } }).model).toBe('slope');
-    expect(fromSaved({ settings: { model: 'gee' } }).model).toBe('intercept');
+    expect(fromSaved({ settings: { model: 'gee' } }).model).toBe('gee');
+    expect(fromSaved({ settings: { model: 'spline' as never } }).model).toBe('intercept');
     expect(toSaved({ ...DEFAULT_SETTINGS, model: 'slope' }, { subject: 0, covariates: [] }, null).settings?.model).toBe('slope');
     expect(toAnalysisSettings(SOURCE, { subject: 0, covariates: [] }, SCHEDULE, { ...DEFAULT_SETTINGS, model: 'slope' }, 'T').model).toBe('slope');
   });

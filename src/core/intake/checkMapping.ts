@@ -8,7 +8,7 @@ import { roleWords } from './messages';
 import type { ColumnMapping, Mode, Role } from './types';
 
 /** The single-column roles in a fixed order (the order issues are reported in). */
-export const SINGLE_ROLES = ['subject', 'date', 'studyDay', 'reference', 'visit', 'value', 'arm', 'site', 'exit', 'exitStatus', 'exitReason'] as const;
+export const SINGLE_ROLES = ['subject', 'date', 'studyDay', 'reference', 'visit', 'value', 'arm', 'site', 'exit', 'exitStatus', 'exitReason', 'responder'] as const;
 export type SingleRole = (typeof SINGLE_ROLES)[number];
 
 /** The mapping that is actually read: in blinded mode the arm column is dropped, whatever was mapped (SPEC §2). */

@@ -30,6 +30,7 @@ const ROLE_WORDS: Readonly<Record<Role, string>> = {
   exit: 'exit date',
   exitStatus: 'end-of-study status',
   exitReason: 'reason for leaving',
+  responder: 'yes/no answer',
   covariate: 'covariate',
 };
 

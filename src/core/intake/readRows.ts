@@ -46,6 +46,8 @@ export interface RowColumns {
   readonly covariates: (Float64Array | string[])[];
   readonly usableTiming: Uint8Array;
   readonly usableModel: Uint8Array;
+  /** Present when a yes/no column is mapped: 0, 1 or NaN per row. */
+  readonly responder?: Float64Array;
 }
 
 /**
@@ -76,6 +78,8 @@ export function readRows(cells: CellSource, setup: RowPassSetup, issues: IssueLi
   const studyDay = new Float64Array(nRows).fill(NaN);
   const reference = new Float64Array(nRows).fill(NaN);
   const value = new Float64Array(nRows).fill(NaN);
+  // The yes/no column: 0 or 1 as read, anything else NaN (the yes/no model leaves such rows out and says how many).
+  const responder = mapping.responder === undefined ? undefined : new Float64Array(nRows).fill(NaN);
   const visit = mapping.visit === undefined ? null : new Array<string>(nRows).fill('');
   const site = mapping.site === undefined ? null : new Array<string>(nRows).fill('');
   const arm = unblinded ? new Array<string>(nRows).fill('') : null;
@@ -154,6 +158,11 @@ export function readRows(cells: CellSource, setup: RowPassSetup, issues: IssueLi
       else modelOk = excludeModel(issues, v, i, vc, 'value', vCell);
     }
 
+    if (responder !== undefined) {
+      const v = readNumeric(cells.cell(r, mapping.responder!), accept);
+      if (v === 0 || v === 1) responder[i] = v;
+    }
+
     if (arm !== null) {
       const ac = mapping.arm!;
       const aCell = cells.cell(r, ac);
@@ -201,6 +210,7 @@ export function readRows(cells: CellSource, setup: RowPassSetup, issues: IssueLi
     covariates: covValues,
     usableTiming,
     usableModel,
+    ...(responder === undefined ? {} : { responder }),
   };
 }
 

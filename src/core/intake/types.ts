@@ -20,6 +20,8 @@ export type Role =
   | 'exit'
   | 'exitStatus'
   | 'exitReason'
+  /** A yes/no answer (0 or 1) for the yes/no model; optional. */
+  | 'responder'
   | 'covariate';
 
 /** Which column (0-based index within the range) plays which role. `covariates` may be empty. */
@@ -36,6 +38,8 @@ export interface ColumnMapping {
   readonly exit?: number;
   readonly exitStatus?: number;
   readonly exitReason?: number;
+  /** A 0/1 yes/no column for the yes/no model (any other cell reads as missing there). */
+  readonly responder?: number;
   readonly covariates: readonly number[];
 }
 
@@ -198,6 +202,8 @@ export interface IntakeTable {
   readonly usableTiming: Uint8Array;
   /** 1 where the row can also serve the model (numeric value, arm in unblinded mode, covariates present). */
   readonly usableModel: Uint8Array;
+  /** The mapped yes/no column: 0, 1, or NaN for anything else; absent when none is mapped. */
+  readonly responder?: Float64Array;
 }
 
 export type IntakeResult =

@@ -12,6 +12,7 @@ import { classifyVisits, computeStudyDays, dayNumberFromIso, isoDate, NO_STATUS 
 import { PipelineUsageError } from './errors';
 import { excludedRows } from './excludedRows';
 import { fitStage } from './fitStage';
+import { otherModelStage } from './otherModelStage';
 import { fromScheduleIssues, modelNotFitted, unknownReferenceArm } from './issues';
 import { modelOutputs, recordSheet } from './reportParts';
 import { repeatedModelJson, repeatedStage } from './repeatedStage';
@@ -123,6 +124,8 @@ export async function runAnalysis(
   if (modelNote !== null && table.mapping.value !== undefined) issues.push(modelNotFitted(modelNote));
   const usedForModel = fit?.nObservations ?? 0;
   const referenceArm = stage.arms[0] ?? null;
+  // --model gee | logistic: that model's sheet and JSON `model` section, beside the random-intercept model's sheets.
+  const other = otherModelStage(table, days, timing, settings, fit);
 
   if (!(await enter('writing'))) return CANCELLED;
   const excluded = excludedRows(issues);
@@ -133,6 +136,7 @@ export async function runAnalysis(
   const sheets: SheetSpec[] = [
     summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, runAt: settings.runAt, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
     ...timingSheets(summary),
+    ...(other?.sheets ?? []),
     ...model.sheets,
     ...(repeated?.sheets ?? []),
     // The model's technical notes (intervals, likelihood, AIC/BIC, convergence) go to the record, not the model sheet.
@@ -147,8 +151,8 @@ export async function runAnalysis(
     usedForTiming,
     usedForModel,
     visits: timingJson(summary),
-    model: repeated === null ? model.json : repeatedModelJson(repeated, fit),
-    modelNote,
+    model: repeated !== null ? repeatedModelJson(repeated, fit) : other !== null ? other.json : model.json,
+    modelNote: other === null ? modelNote : other.note,
     notes,
     issues,
     cutoff: summary.cutoff,

@@ -57,6 +57,8 @@ export interface AnalysisSettings {
    * src/files). When absent, the run fingerprints the cell values (fingerprintCells, canonical form LP-FP1), as the
    * add-in does for a worksheet range. The JSON's input.fingerprintOf says which ('file' or 'cells'). */
   readonly fileFingerprint?: string;
+  /** The yes/no outcome of the 'logistic' model from the value: yes when value < below, or when value > above. */
+  readonly responder?: { readonly below?: number; readonly above?: number };
   /** The tool's version, for the analysis record and the JSON (the front end knows it; core has no package.json). */
   readonly toolVersion?: string;
 }

@@ -40,8 +40,8 @@ const DF_METHODS: readonly { value: DfMethod; label: string }[] = [
   { value: 'containment', label: 'Between/within (containment)' },
 ];
 const MODELS: readonly { value: PaneModel; label: string }[] = [
-  { value: 'intercept', label: 'Random intercept (participants differ in level)' },
-  { value: 'slope', label: 'Random intercept and slope (participants also differ in rate of change)' },
+  { value: 'intercept', label: 'Random intercept' },
+  { value: 'slope', label: 'Random intercept and slope' },
 ];
 const FIT_METHODS: readonly { value: FitMethod; label: string }[] = [
   { value: 'reml', label: 'REML (recommended)' },
@@ -183,7 +183,7 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
           ))}
         </Select>
       </Field>
-      <Field label="Model" hint="Both models are fitted and compared on the model sheet; this one is reported in full.">
+      <Field label="Model" hint="With a random slope, participants may differ in their rate of change as well as their level. Both models are fitted and compared; the chosen one is reported in full.">
         <Select value={settings.model} onChange={(_, d) => set({ model: d.value as PaneModel })}>
           {MODELS.map((o) => (
             <option key={o.value} value={o.value}>

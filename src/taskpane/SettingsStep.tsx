@@ -187,7 +187,7 @@ export function SettingsStep({ settings, arms, onChange }: SettingsStepProps): R
           ))}
         </Select>
       </Field>
-      <Field label="Model" hint="The random-intercept and the slope model are fitted and compared on the model sheet; the chosen one is reported in full. Visit by visit: each visit has its own mean and any correlation between visits. GEE: the average change, robust to the correlation. Yes/no: the chance of a yes answer.">
+      <Field label="Model" hint="With a random slope, participants may differ in their rate of change as well as their level; the random-intercept and the slope model are both fitted and compared, the chosen one is reported in full. Visit by visit: each visit has its own mean and any correlation between visits. GEE: the average change, robust to the correlation. Yes/no: the chance of a yes answer.">
         <Select value={settings.model} onChange={(_, d) => set({ model: d.value as PaneModel })}>
           {MODELS.map((o) => (
             <option key={o.value} value={o.value}>

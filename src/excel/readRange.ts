@@ -77,6 +77,29 @@ export function blockRows(columnCount: number, bytesPerCell: number, targetBytes
   return Math.max(1, Math.min(byBytes, byCells));
 }
 
+/** Rows of the first block: about `firstBlockCells` cells, at most `maxCells`, at least one row. */
+export function firstBlockRows(columnCount: number, firstBlockCells: number, maxCells: number): number {
+  const cols = Math.max(1, columnCount);
+  return Math.max(1, Math.min(Math.floor(firstBlockCells / cols), Math.floor(maxCells / cols)));
+}
+
+/**
+ * The blocks (row counts) readRange asks for when every cell costs `bytesPerCell` in the response: the first block
+ * of about `firstBlockCells` cells, then blocks sized by blockRows. Pure; for planning and tests. Example:
+ * readPlan(1_000_000, 10, 12, 1_500_000, 500_000, 20_000) → [2000, 12500, 12500, …].
+ */
+export function readPlan(rowCount: number, columnCount: number, bytesPerCell: number, targetBytes = 1_500_000, maxCells = 500_000, firstBlockCells = 20_000): number[] {
+  const blocks: number[] = [];
+  let rows = firstBlockRows(columnCount, firstBlockCells, maxCells);
+  for (let done = 0; done < rowCount; ) {
+    const n = Math.min(rows, rowCount - done);
+    blocks.push(n);
+    done += n;
+    rows = blockRows(columnCount, bytesPerCell, targetBytes, maxCells);
+  }
+  return blocks;
+}
+
 /** The range a read target names (before its size is known). */
 function targetRange(context: Excel.RequestContext, target: ReadTarget): Excel.Range {
   if (target.kind === 'selection') {
@@ -114,12 +137,13 @@ async function readGeometry(target: ReadTarget): Promise<Geometry> {
 async function readBlock(sheet: string, row: number, column: number, rowCount: number, columnCount: number): Promise<{ cells: CellValue[][]; bytes: number }> {
   return Excel.run(async (context) => {
     const range = context.workbook.worksheets.getItem(sheet).getRangeByIndexes(row, column, rowCount, columnCount);
-    range.load('values,valueTypes');
+    // `values` only: it already tells empty cells ("") and error cells (their text) apart (see toCellValue), and
+    // `valueTypes` would about double the response ("String", "Double", "Empty" per cell).
+    range.load('values');
     await context.sync();
     const values = range.values;
-    const types = range.valueTypes;
-    const cells = values.map((r, i) => r.map((v, j) => toCellValue(v, types[i]?.[j])));
-    return { cells, bytes: jsonBytes(values) + jsonBytes(types) };
+    const cells = values.map((r) => r.map((v) => toCellValue(v)));
+    return { cells, bytes: jsonBytes(values) };
   });
 }
 
@@ -127,7 +151,7 @@ async function readBlock(sheet: string, row: number, column: number, rowCount: n
  * Reads the target range's cells in row blocks. The first block holds about `firstBlockCells` cells; its size in
  * bytes sets the rows of later blocks (the largest bytes per cell seen so far, against `targetBytes` and
  * `maxCells`). A block the host refuses for its size is retried with half the rows, down to one row. Error cells
- * arrive as their text ("#N/A"), blanks as null. After a refusal, blocks stay at the smaller size. Each block is its own request, so Excel stays responsive between
+ * arrive as their text ("#N/A"), blanks as null (only `values` is read). After a refusal, blocks stay at the smaller size. Each block is its own request, so Excel stays responsive between
  * blocks. Cost: about cells · bytesPerCell / targetBytes requests.
  * Example: 100,000 rows × 8 columns of short values → about 6 requests.
  */
@@ -139,7 +163,7 @@ export async function readRange(target: ReadTarget, options: ReadOptions = {}): 
   const cells: CellValue[][] = [];
   let requests = 0;
   let bytesPerCell = 0;
-  let rows = Math.max(1, Math.min(Math.floor(firstBlockCells / Math.max(1, g.columnCount)), Math.floor(maxCells / Math.max(1, g.columnCount))));
+  let rows = firstBlockRows(g.columnCount, firstBlockCells, maxCells);
   let ceiling = Number.POSITIVE_INFINITY; // after a refusal, blocks never grow back past the size that worked
   let done = 0;
   while (done < g.rowCount) {

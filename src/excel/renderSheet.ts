@@ -13,7 +13,8 @@ import type { CellPatch, ChartPlan, PatchStyle, SheetLayout } from './layout';
 import { layoutSheet } from './layout';
 import { isPayloadTooLarge } from './readRange';
 import { uniqueSheetName, uniqueTableName } from './sheetNames';
-import { halvePatch, planWrites } from './writePlan';
+import { GENERAL_FORMAT } from './formatCodes';
+import { halvePatch, planWrites, styleNameFor, uniformFormats, type FormatMode } from './writePlan';
 import { POINTS_PER_CHARACTER } from './wrapAreas';
 
 export interface RenderOptions {
@@ -55,8 +56,52 @@ function applyStyle(range: Excel.Range, style: PatchStyle): void {
   if (style === 'caution') range.format.font.color = CAUTION_COLOUR;
 }
 
-/** Writes a group of patches in one request: number formats first (text cells "@"), then the values. */
-async function writeGroup(sheet: string, group: readonly CellPatch[]): Promise<void> {
+/**
+ * Makes sure the workbook has a style for each format code (named by styleNameFor; it carries the number format
+ * only, so applying it changes nothing else of a cell), in one request. Returns false when styles cannot be added
+ * (a protected workbook, a host that refuses): the writes then carry a format per cell, as before.
+ */
+export async function ensureFormatStyles(codes: ReadonlySet<string>): Promise<boolean> {
+  if (codes.size === 0) return true;
+  try {
+    await Excel.run(async (context) => {
+      const styles = context.workbook.styles;
+      styles.load('items/name');
+      await context.sync();
+      const have = new Set(styles.items.map((s) => s.name));
+      for (const code of codes) {
+        const name = styleNameFor(code);
+        if (have.has(name)) continue;
+        styles.add(name);
+        const style = styles.getItem(name);
+        style.includeNumber = true;
+        style.includeFont = false;
+        style.includeAlignment = false;
+        style.includeBorder = false;
+        style.includePatterns = false;
+        style.includeProtection = false;
+        style.numberFormat = code;
+      }
+      await context.sync();
+    });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** The format codes of the columns that can go by style in any of `patches`. */
+function styleCodes(patches: readonly CellPatch[]): Set<string> {
+  const codes = new Set<string>();
+  for (const p of patches) for (const code of uniformFormats(p)) if (code !== null) codes.add(code);
+  return codes;
+}
+
+/**
+ * Writes a group of patches in one request: number formats first (text cells "@"), then the values. In 'columns'
+ * mode a column whose rows share one format gets its style (one name for the column) and the others a code per cell.
+ */
+async function writeGroup(sheet: string, group: readonly CellPatch[], mode: FormatMode): Promise<void> {
   await Excel.run(async (context) => {
     const ws = context.workbook.worksheets.getItem(sheet);
     for (const p of group) {
@@ -64,7 +109,13 @@ async function writeGroup(sheet: string, group: readonly CellPatch[]): Promise<v
       const cols = p.values[0]?.length ?? 0;
       if (rows === 0 || cols === 0) continue;
       const range = ws.getRange(rangeAddress(p.row, p.column, rows, cols));
-      range.numberFormat = p.formats.map((r) => [...r]);
+      if (mode === 'columns') {
+        uniformFormats(p).forEach((code, c) => {
+          const column = ws.getRange(rangeAddress(p.row, p.column + c, rows, 1));
+          if (code !== null) column.style = styleNameFor(code);
+          else column.numberFormat = p.formats.map((r) => [r[c] ?? GENERAL_FORMAT]);
+        });
+      } else range.numberFormat = p.formats.map((r) => [...r]);
       range.values = p.values.map((r) => [...r]);
       applyStyle(range, p.style);
     }
@@ -73,20 +124,20 @@ async function writeGroup(sheet: string, group: readonly CellPatch[]): Promise<v
 }
 
 /** Writes a group; when the host refuses it for its size, writes each half separately (down to single rows). */
-async function writeSplitting(sheet: string, group: readonly CellPatch[]): Promise<number> {
+async function writeSplitting(sheet: string, group: readonly CellPatch[], mode: FormatMode): Promise<number> {
   try {
-    await writeGroup(sheet, group);
+    await writeGroup(sheet, group, mode);
     return 1;
   } catch (error) {
     if (!isPayloadTooLarge(error)) throw error;
     if (group.length > 1) {
       const k = Math.ceil(group.length / 2);
-      return (await writeSplitting(sheet, group.slice(0, k))) + (await writeSplitting(sheet, group.slice(k)));
+      return (await writeSplitting(sheet, group.slice(0, k), mode)) + (await writeSplitting(sheet, group.slice(k), mode));
     }
     const only = group[0];
     if (only === undefined || only.values.length < 2) throw error;
     const [a, b] = halvePatch(only);
-    return (await writeSplitting(sheet, [a])) + (await writeSplitting(sheet, [b]));
+    return (await writeSplitting(sheet, [a], mode)) + (await writeSplitting(sheet, [b], mode));
   }
 }
 
@@ -152,19 +203,21 @@ async function finish(sheet: string, layout: SheetLayout, targets: ReadonlyMap<s
 
 /**
  * Renders `spec` into a new worksheet named after spec.name (made legal and unique) and returns the name it got.
- * Requests: one to add the sheet, one per write group (planned from the byte and cell budgets, split further if the
+ * Requests: one to add the sheet, one to add the format styles it needs (when missing), one per write group (planned from the byte and cell budgets, split further if the
  * host refuses one for its size), one to add tables, charts, widths, frozen rows and paragraph wrapping. Cost O(cells).
  * Example: a 3-table model sheet of a few hundred cells → 3 requests.
  */
 export async function renderSheet(spec: SheetSpec, options: RenderOptions): Promise<WrittenSheet> {
   const layout = layoutSheet(spec, options.dateSystem);
-  const groups = planWrites(layout.patches, options.targetBytes ?? 1_500_000, options.maxCells ?? 200_000);
   const name = await addSheet(spec.name);
+  // Number formats by column (one style name per column of a patch) when the workbook takes the styles; else per cell.
+  const mode: FormatMode = (await ensureFormatStyles(styleCodes(layout.patches))) ? 'columns' : 'cells';
+  const groups = planWrites(layout.patches, options.targetBytes ?? 1_500_000, options.maxCells ?? 200_000, mode);
   const total = groups.length + 2;
   options.onProgress?.(1 / total);
   let done = 1;
   for (const group of groups) {
-    await writeSplitting(name, group);
+    await writeSplitting(name, group, mode);
     done++;
     options.onProgress?.(done / total);
   }

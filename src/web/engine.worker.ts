@@ -1,7 +1,7 @@
 /**
  * The page's engine worker: runs the analysis and writes the report off the page's thread, so the page keeps
  * drawing and answering while they work (see engineHost.ts for what it does, engineMessages.ts for the messages).
- * Started by workerEngine.ts with `new Worker(new URL('./engine.worker.ts', import.meta.url))`; webpack builds it as
+ * Started by workerEngine.ts (startEngineWorker, from this file's URL relative to the module); webpack builds it as
  * a script of its own beside the page, addressed relative to the page, so any path prefix works.
  */
 import type { FromEngine, ToEngine } from './engineMessages';

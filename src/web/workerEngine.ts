@@ -75,8 +75,6 @@ export class WorkerEngine {
 
   constructor(private readonly start: () => WorkerLike = startEngineWorker) {}
 
-  /** Hands a data file's bytes to the worker (transferred: `bytes` is unusable afterwards) and notes that `cells`,
-   * the page's own reading of the same bytes, are held there too. */
   /**
    * Reads a data file in the worker (the bytes are transferred: unusable here afterwards). The worker keeps the
    * cells for runs; the page gets them packed (packedCells.ts), seen as rows built when read, so it holds no object
@@ -95,11 +93,17 @@ export class WorkerEngine {
     this.worker?.postMessage({ kind: 'release', url }, []);
   }
 
-  /** The report's .xlsx bytes for a run's output, with its sheets named `names`, written in the worker. */
+  /** The report (.xlsx) of a run's output, with its sheets named `names`, written in the worker: from the worker's
+   * own copy for a run made there (the page's copy is cut), else from the sheets sent along. */
   writeReport(output: Extract<AnalysisOutput, { ok: true }>, names: readonly string[], stamp: PrintStamp): Promise<ReportFile> {
     const request = this.nextId++;
     const run = this.runs.get(output);
     return new Promise<ReportFile>((resolve, reject) => {
+      if (run === undefined && this.tableRows.has(output)) {
+        // Made by a worker that has since stopped: the page's copy is cut, so it must not be written.
+        reject(new Error('The results of that run are no longer kept: run the analysis again.'));
+        return;
+      }
       this.pendingWrites.set(request, { resolve, reject });
       const sheets: readonly SheetSpec[] | null = run === undefined ? output.sheets : null;
       this.post({ kind: 'write', request, run: run ?? null, names, sheets, stamp }, []);

@@ -21,6 +21,9 @@ export type Op =
   | { readonly op: 'validation'; readonly sheet: string; readonly address: string; readonly key: string; readonly value: unknown }
   | { readonly op: 'hyperlink'; readonly sheet: string; readonly address: string; readonly value: unknown }
   | { readonly op: 'activate'; readonly sheet: string }
+  | { readonly op: 'style'; readonly sheet: string; readonly address: string; readonly value: string }
+  | { readonly op: 'styleAdd'; readonly name: string }
+  | { readonly op: 'styleSet'; readonly name: string; readonly key: string; readonly value: unknown }
   | { readonly op: 'sync' };
 
 export interface FakeChart {
@@ -69,8 +72,11 @@ function letters(col: number): string {
   return out;
 }
 
-/** `refuseValuesOver`: a sync fails with a payload-size error when any values write in it has more rows than this. */
-export function installFakeExcel(existingSheets: string[], existingTables: string[] = [], refuseValuesOver = Infinity): FakeWorkbook {
+/** `refuseValuesOver`: a sync fails with a payload-size error when any values write in it has more rows than this.
+ * `withStyles`: the workbook has a style collection (Workbook.styles, Range.style, ExcelApi 1.7); without it, any use
+ * of styles fails as in a host that refuses them. */
+export function installFakeExcel(existingSheets: string[], existingTables: string[] = [], refuseValuesOver = Infinity, withStyles = false): FakeWorkbook {
+  const styleNames = ['Normal', 'Good', 'Bad'];
   const ops: Op[] = [];
   const sheets = [...existingSheets];
   const tables = [...existingTables];
@@ -93,6 +99,11 @@ export function installFakeExcel(existingSheets: string[], existingTables: strin
       address,
       set numberFormat(v: unknown[][]) {
         ops.push({ op: 'numberFormat', sheet, address, value: v });
+      },
+      set style(v: string) {
+        if (!withStyles) throw new Error('Range.style is not available here.');
+        if (!styleNames.includes(v)) throw new Error(`No style named ${v}.`);
+        ops.push({ op: 'style', sheet, address, value: v });
       },
       set values(v: unknown[][]) {
         pending.rows = Math.max(pending.rows, v.length);
@@ -208,6 +219,28 @@ export function installFakeExcel(existingSheets: string[], existingTables: strin
             },
             load() {},
           },
+          ...(withStyles
+            ? {
+                styles: {
+                  get items() {
+                    return styleNames.map((n) => ({ name: n }));
+                  },
+                  load() {},
+                  add: (name: string) => {
+                    if (styleNames.includes(name)) throw new Error(`A style named ${name} exists.`);
+                    styleNames.push(name);
+                    ops.push({ op: 'styleAdd', name });
+                  },
+                  getItem: (name: string) =>
+                    new Proxy({} as Record<string, unknown>, {
+                      set(_t, key, value) {
+                        ops.push({ op: 'styleSet', name, key: String(key), value });
+                        return true;
+                      },
+                    }),
+                },
+              }
+            : {}),
           // DATE(1904,1,1) as a 1900-system workbook answers it.
           functions: { date: () => ({ value: 1462, load() {} }) },
         },

@@ -57,8 +57,9 @@ describe('renderSheet', () => {
     expect(ofKind(wb.ops, 'addSheet')).toEqual([{ op: 'addSheet', name: 'Model (2)' }]);
     expect(new Set(ofKind(wb.ops, 'getItem').map((o) => o.name))).toEqual(new Set(['Model (2)']));
     for (const o of wb.ops) if ('sheet' in o) expect(o.sheet).toBe('Model (2)');
-    // Three requests for a small sheet: add the sheet, write the cells, add tables and the chart.
-    expect(wb.runs()).toBe(3);
+    // Four requests for a small sheet: add the sheet, add the format styles (refused by this workbook, so the formats
+    // go per cell), write the cells, add tables and the chart.
+    expect(wb.runs()).toBe(4);
   });
 
   it('writes text cells with the "@" format before their values, so "=1+1" stays the text "=1+1"', async () => {
@@ -187,8 +188,9 @@ describe('renderSheet', () => {
     expect(wb.cells.get('Results!A5')).toBe(long);
     // The title and the heading stay single cells, unwrapped.
     expect(wb.ops.some((o) => 'address' in o && /^A[13]:/.test(o.address))).toBe(false);
-    // Still three requests: the wrapping rides in the request that adds tables and widths.
-    expect(wb.runs()).toBe(3);
+    // Still no request of its own: the wrapping rides in the request that adds tables and widths (four in all, as
+    // for any small sheet).
+    expect(wb.runs()).toBe(4);
     const lastRunStart = wb.ops.map((o) => o.op).lastIndexOf('sync', wb.ops.length - 2);
     expect(merge).toBeGreaterThan(lastRunStart);
   });
@@ -213,4 +215,75 @@ describe('renderSheet', () => {
     expect(progress.at(-1)).toBe(1);
     expect(wb.runs()).toBeGreaterThan(10);
   });
+
+describe('renderSheet with number formats by column (workbook styles, ExcelApi 1.7)', () => {
+  it('adds one style per format code carrying only the number format, and gives each uniform column its style before its values', async () => {
+    const wb = installFakeExcel([], [], Infinity, true);
+    await renderSheet(SPEC, { dateSystem: 1900 });
+    const added = ofKind(wb.ops, 'styleAdd').map((o) => o.name);
+    expect(added).toContain('Longipane format @');
+    expect(added).toContain('Longipane format 0.00');
+    for (const name of added) {
+      const set = Object.fromEntries(ofKind(wb.ops, 'styleSet').filter((o) => o.name === name).map((o) => [o.key, o.value]));
+      expect(set).toEqual({
+        includeNumber: true,
+        includeFont: false,
+        includeAlignment: false,
+        includeBorder: false,
+        includePatterns: false,
+        includeProtection: false,
+        numberFormat: name.replace('Longipane format ', ''),
+      });
+    }
+    // The table body A7:D8: a style per column (A text, B 0.00, C p-value, D date), no format per cell.
+    const styles = ofKind(wb.ops, 'style');
+    expect(['A7:A8', 'B7:B8', 'C7:C8', 'D7:D8'].map((a) => styles.find((o) => o.address === a)?.value)).toEqual([
+      'Longipane format @',
+      'Longipane format 0.00',
+      'Longipane format [<0.0001]"<0.0001";0.0000',
+      'Longipane format yyyy-mm-dd',
+    ]);
+    expect(ofKind(wb.ops, 'numberFormat').find((o) => o.address.startsWith('A7') || o.address.startsWith('B7'))).toBeUndefined();
+    // The text guard holds: every string written has the text format "@" over its cell, set before the values — by
+    // the style of its column or a code of its own.
+    const cols = (address: string): [number, number, number, number] => {
+      const m = /^([A-Z]+)(\d+)(?::([A-Z]+)(\d+))?$/.exec(address)!;
+      const c = (l: string): number => [...l].reduce((n, ch) => n * 26 + ch.charCodeAt(0) - 64, 0) - 1;
+      return [c(m[1]!), Number(m[2]), c(m[3] ?? m[1]!), Number(m[4] ?? m[2])];
+    };
+    for (const [i, o] of wb.ops.entries()) {
+      if (o.op !== 'values') continue;
+      const [c0, r0] = cols(o.address);
+      o.value.forEach((row, r) =>
+        row.forEach((v, c) => {
+          if (typeof v !== 'string' || v === '') return;
+          const col = c0 + c;
+          const line = r0 + r;
+          const before = wb.ops.slice(0, i).reverse();
+          const covering = before.find((p) => {
+            if (p.op !== 'style' && p.op !== 'numberFormat') return false;
+            const [a, b, x, y] = cols(p.address);
+            return col >= a && col <= x && line >= b && line <= y;
+          });
+          const format =
+            covering?.op === 'style'
+              ? covering.value.replace('Longipane format ', '')
+              : covering?.op === 'numberFormat'
+                ? (covering.value[line - cols(covering.address)[1]]?.[col - cols(covering.address)[0]] as string | undefined)
+                : undefined;
+          expect(format, `${o.address} row ${r} column ${c}`).toBe('@');
+        }),
+      );
+    }
+  });
+
+  it('does not add a style the workbook already has (a second report)', async () => {
+    const wb = installFakeExcel([], [], Infinity, true);
+    await renderSheet(SPEC, { dateSystem: 1900 });
+    const first = ofKind(wb.ops, 'styleAdd').length;
+    await renderSheet(SPEC, { dateSystem: 1900 });
+    expect(ofKind(wb.ops, 'styleAdd')).toHaveLength(first);
+    expect(ofKind(wb.ops, 'style').filter((o) => o.sheet === 'Model (2)').length).toBeGreaterThan(0);
+  });
+});
 });

@@ -161,11 +161,15 @@ describe('the page engine in a worker', () => {
     const { engine, workers } = engineWith();
     await expect(engine.engine.runAnalysis(source.cells, { ...settings, schedule: [] }, {})).rejects.toThrow(/the schedule has no visits/);
     const read = await engine.readSource(demoBytes().buffer as ArrayBuffer, 'egfr-visits.csv');
+    const first = await engine.engine.runAnalysis(read.cells, settings, {});
+    expect(first.ok).toBe(true);
     const waiting = engine.engine.runAnalysis(read.cells, settings, {
       onStage: () => workers[0]!.crash('out of memory'),
     });
     await expect(waiting).rejects.toThrow("The page's engine stopped: out of memory.");
     expect(workers[0]!.terminated).toBe(true);
+    // A run made by the stopped worker reached the page cut to what it shows: its report is refused, not written cut.
+    await expect(engine.writeReport(first as Extract<AnalysisOutput, { ok: true }>, [], {})).rejects.toThrow(/no longer kept/);
     // The new worker does not hold the file, so the cells go with the run (copied out of the packed view).
     const again = await engine.engine.runAnalysis(read.cells, settings, {});
     expect(again.ok).toBe(true);

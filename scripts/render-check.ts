@@ -114,12 +114,19 @@ async function packageFacts(bytes: Uint8Array): Promise<{ sheets: string[]; tabl
     }
   }
   // The summary sheet (the first, sheet1.xml as the writer names it): the texts of its merged cells, which are its
-  // wrapped paragraphs (shared strings, ECMA-376 Part 1 §18.4).
-  const shared = [...(await text('xl/sharedStrings.xml')).matchAll(/<si>([\s\S]*?)<\/si>/g)].map((m) => decode([...m[1]!.matchAll(/<t[^>]*>([^<]*)<\/t>/g)].map((t) => t[1]).join('')));
+  // wrapped paragraphs, stored as inline strings or as shared strings (ECMA-376 Part 1 §18.3.1.53 is, §18.4).
+  const runs = (xml: string): string => decode([...xml.matchAll(/<t[^>]*>([^<]*)<\/t>/g)].map((t) => t[1]).join(''));
+  const sharedPart = await text('xl/sharedStrings.xml');
+  const shared = [...sharedPart.matchAll(/<si>([\s\S]*?)<\/si>/g)].map((m) => runs(m[1]!));
   const first = await text('xl/worksheets/sheet1.xml');
   const summaryParagraphs = [...first.matchAll(/<mergeCell ref="([A-Z]+\d+):[A-Z]+\d+"\/>/g)].flatMap((m) => {
-    const cell = new RegExp(`<c r="${m[1]}"[^>]*t="s"[^>]*><v>(\\d+)</v>`).exec(first);
-    return cell === null ? [] : [shared[Number(cell[1])] ?? ''];
+    const cell = new RegExp(`<c r="${m[1]}"([^>]*)>([\\s\\S]*?)</c>`).exec(first);
+    if (cell === null) return [];
+    if (/t="s"/.test(cell[1]!)) {
+      const index = /<v>(\d+)<\/v>/.exec(cell[2]!);
+      return index === null ? [] : [shared[Number(index[1])] ?? ''];
+    }
+    return /t="inlineStr"/.test(cell[1]!) ? [runs(cell[2]!)] : [];
   });
   return { sheets, tables, charts, summaryParagraphs };
 }

@@ -4,6 +4,7 @@ import type { Issue } from '../core/intake/types';
 import { PipelineUsageError, runAnalysis } from '../core/pipeline';
 import type { AnalysisSettings } from '../core/pipeline/types';
 import { CAUTIONS, UNBLINDED_CAUTION } from '../core/report/cautions';
+import { mainResult, mainSentences } from '../core/report/mainResult';
 import { isoWithOffset } from '../core/report/runTime';
 import { STATUS_WORDS } from '../core/schedule/types';
 import type { VisitStatus } from '../core/schedule/types';
@@ -59,7 +60,11 @@ function printSummary(json: Record<string, unknown>, io: CliOutput): void {
   if (Array.isArray(json.notes)) for (const n of json.notes) io.out(`Note: ${String(n)}`);
   const line = countsLine(visits.counts);
   if (line !== null) io.out(`Visits: ${line}.`);
+  // The random-intercept and slope models carry their own summary; the other models' main result is read from their
+  // JSON section as the summary sheet reads it (mainResult.ts), naming the model.
+  const main = model ? mainResult(model) : null;
   if (model && typeof model.summary === 'string') io.out(`Model: ${model.summary}`);
+  else if (main !== null) io.out(`Model: ${mainSentences(main, false).join(' ')}`);
   else if (typeof json.modelNote === 'string') io.out(`Model: not fitted (${json.modelNote.replace(/\.+$/, '')}).`);
 }
 

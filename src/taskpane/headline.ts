@@ -6,7 +6,8 @@
 import type { Issue } from '../core/intake/types';
 import type { AnalysisOutput } from '../core/pipeline/types';
 import { CAUTIONS, INVENTED_DATA_NOTE } from '../core/report/cautions';
-import { formatCell, shownNumber } from '../core/report/formats';
+import { formatCell } from '../core/report/formats';
+import { mainResult, mainSentences } from '../core/report/mainResult';
 import { readableRunTime } from '../core/report/runTime';
 import type { SheetSpec } from '../core/report/types';
 
@@ -17,23 +18,13 @@ const obj = (v: unknown): Json | null =>
   typeof v === 'object' && v !== null && !Array.isArray(v) ? (v as Json) : null;
 const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
 const str = (v: unknown): string | null => (typeof v === 'string' ? v : null);
-const list = (v: unknown): Json[] => (Array.isArray(v) ? v.map(obj).filter((x): x is Json => x !== null) : []);
 const whole = (n: number): string => n.toLocaleString('en-US');
-/** Estimates and limits as every table and sentence of the run shows them (4 significant digits, formats.ts). */
-const shown = (n: number): string => shownNumber(n);
-
-/** "95% CI 0.7623 to 7.330" from a JSON result with lower and upper. */
-function interval(r: Json, level: number | null): string {
-  const lo = num(r.lower);
-  const hi = num(r.upper);
-  if (lo === null || hi === null) return '';
-  return `${level === null ? '' : `${formatCell(level * 100, 'decimal1').replace(/\.0$/, '')}% `}CI ${shown(lo)} to ${shown(hi)}`;
-}
 
 /**
  * Lines for the results step. Example, for the invented demo run unblinded: "920 rows read from 240 participants: 918
  * used for visit timing, 916 in the model.", "820 of 975 visits due were on time (84.1%); 86 missed.", "At Week 48,
- * Active differed from Placebo by 4.051 (95% CI 0.7623 to 7.330; p = 0.0159).", "Run at 2026-12-02 14:05 (UTC+01:00)."
+ * Active differed from Placebo by 4.051 (95% CI 0.7623 to 7.330; p = 0.0159) in the random-intercept model.", "Run at
+ * 2026-12-02 14:05 (UTC+01:00)."
  */
 export function headlineOf(output: Done, rowsRead: number): string[] {
   const json = output.json;
@@ -71,35 +62,13 @@ export function headlineOf(output: Done, rowsRead: number): string[] {
   return lines;
 }
 
-/** The treatment difference at the last scheduled visit (unblinded) or the intraclass correlation (blinded). */
+/**
+ * The chosen model's main number (mainResult.ts, the same reading as the summary sheet's): the treatment difference or
+ * odds ratio at the last scheduled visit (unblinded) or the model's overall numbers (blinded), naming the model.
+ */
 function modelHeadline(fit: Json): string | null {
-  const level = num(fit.level);
-  const status =
-    fit.converged === false ? ` The fit did not converge: ${str(fit.message) ?? 'see the model sheet'}.` : '';
-  const effects = list(fit.treatmentEffects);
-  const last = effects[effects.length - 1];
-  const arms = Array.isArray(fit.arms) ? fit.arms.filter((a): a is string => typeof a === 'string') : [];
-  if (last !== undefined) {
-    const est = num(last.estimate);
-    const p = num(last.p);
-    const arm = str(last.arm);
-    const where = str(last.label) ?? (num(last.day) !== null ? `study day ${num(last.day)}` : null);
-    if (est !== null && arm !== null && where !== null) {
-      const reference = arms[0] !== undefined && arms[0] !== arm ? ` from ${arms[0]}` : '';
-      const ci = interval(last, level);
-      const rest = [ci, p === null ? '' : p < 0.0001 ? 'p < 0.0001' : `p = ${formatCell(p, 'pvalue')}`].filter(
-        (s) => s !== '',
-      );
-      return `At ${where}, ${arm} differed${reference} by ${shown(est)}${rest.length > 0 ? ` (${rest.join('; ')})` : ''}.${status}`;
-    }
-  }
-  const variance = obj(fit.variance);
-  const icc = num(variance?.icc);
-  if (icc !== null && variance !== null) {
-    const ci = interval({ lower: variance.iccLower, upper: variance.iccUpper }, level);
-    return `Intraclass correlation ${shown(icc)}${ci === '' ? '' : ` (${ci})`}: the share of the variation that lies between participants.${status}`;
-  }
-  return status === '' ? null : status.trim();
+  const main = mainResult(fit);
+  return main === null ? null : mainSentences(main, true).join(' ');
 }
 
 const STANDING = new Set<string>([...CAUTIONS, INVENTED_DATA_NOTE]);

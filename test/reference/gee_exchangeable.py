@@ -58,6 +58,12 @@ def main():
             "scale": float(res.scale),
             "correlation": float(np.atleast_1d(cs.dep_params)[0]) if name == "exchangeable" else 0.0,
         }
+        # Drug against Placebo at the last visit (day 337, 336 days = 4 x 12 weeks from day 1): arm + t x arm-by-time,
+        # its SE from the robust covariance (the fit's default), by statsmodels' own t_test.
+        t_last = 4 * 12 * 7 / 30.4375
+        contrast = np.array([[0.0, 1.0, 0.0, t_last, 0.0]])
+        tt = res.t_test(contrast)
+        out[name]["lastVisit"] = {"day": 337, "time": t_last, "estimate": float(np.squeeze(tt.effect)), "se": float(np.squeeze(tt.sd))}
     print(json.dumps(out, indent=1))
 
 

@@ -98,6 +98,12 @@ def main():
         "gradientAtMaximum": grad(theta).tolist(),
         "participants": one,
     }
+    # Drug against Placebo at the last visit (day 253, 252 days = 3 x 12 weeks from day 1) on the log-odds scale:
+    # arm + t x arm-by-time, its SE from the same inverse Hessian.
+    t_last = 3 * 12 * 7 / 30.4375
+    l = np.array([0.0, 1.0, 0.0, t_last])
+    cov_b = cov[:-1, :-1]
+    out["lastVisit"] = {"day": 253, "time": t_last, "estimate": float(l @ theta[:-1]), "se": float(np.sqrt(l @ cov_b @ l))}
     print(json.dumps(out, indent=1))
 
 

@@ -191,22 +191,20 @@ describe('headline', () => {
       '920 rows read from 240 participants: 918 used for visit timing, 916 in the model.',
       '820 of 975 visits due were on time (84.1%); 86 missed.',
       // 4 significant digits, as the sheets and the page show the same numbers (formats.ts)
-      'At Week 48, Active differed from Placebo by 4.051 (95% CI 0.7623 to 7.330; p = 0.0159).',
+      'At Week 48, Active differed from Placebo by 4.051 (95% CI 0.7623 to 7.330; p = 0.0159) in the random-intercept model.',
     ]);
   });
 
-  it('in blinded mode reports the intraclass correlation, and says when the fit did not converge', () => {
-    const model = {
-      level: 0.95,
-      converged: false,
-      message: 'the iteration limit was reached',
-      arms: [],
-      treatmentEffects: [],
-      variance: { icc: 0.904, iccLower: 0.884, iccUpper: 0.921 },
-    };
+  it('in blinded mode reports the intraclass correlation and names the model', () => {
+    const model = { level: 0.95, converged: true, arms: [], treatmentEffects: [], variance: { icc: 0.904, iccLower: 0.884, iccUpper: 0.921 } };
     expect(headlineOf(output({ input, visits, model }), 920)[2]).toBe(
-      'Intraclass correlation 0.9040 (95% CI 0.8840 to 0.9210): the share of the variation that lies between participants. The fit did not converge: the iteration limit was reached.',
+      'Intraclass correlation is 0.9040 (95% CI 0.8840 to 0.9210) in the random-intercept model: the share of the variation that lies between participants.',
     );
+  });
+
+  it('shows no numbers from a fit that did not converge, and says so', () => {
+    const model = { level: 0.95, converged: false, message: 'the iteration limit was reached', arms: [], treatmentEffects: [], variance: { icc: 0.904, iccLower: 0.884, iccUpper: 0.921 } };
+    expect(headlineOf(output({ input, visits, model }), 920)[2]).toBe('The random-intercept model did not converge: the iteration limit was reached.');
   });
 
   it('ends with the run time as a readable local date-time with its offset (the JSON keeps ISO 8601)', () => {

@@ -38,7 +38,7 @@ export function otherModelStage(table: IntakeTable, days: StudyDays, timing: Vis
     if (kind === 'gee') {
       const data = modelDataFromTable(table, days.offsets, modelRows(table, timing, settings.scheduledOnly), settings.timeUnit, referenceArm);
       if (data.y.length === 0) return notFitted('no row has everything the model needs (value, study day, participant and, when unblinded, arm)');
-      const fit = fitGee(data, { level: settings.level, timeUnit: settings.timeUnit });
+      const fit = fitGee(data, { level: settings.level, timeUnit: settings.timeUnit, contrastDays: contrastDays(settings.schedule) });
       const comparison = [
         ...(intercept === null ? [] : [{ kind: 'intercept', logLik: intercept.logLik, aic: intercept.aic, bic: intercept.bic, nParameters: intercept.nParameters }]),
         { kind: 'gee', logLik: null, aic: null, bic: null, nParameters: fit.terms.length + 2 },

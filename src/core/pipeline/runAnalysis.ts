@@ -133,8 +133,12 @@ export async function runAnalysis(
   const fingerprintOf = settings.fileFingerprint === undefined ? 'cells' : 'file';
   const fingerprint = settings.fileFingerprint ?? (cells instanceof GridSource ? fingerprintCells(cells.cells) : fingerprintRows(cells));
   const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote, sensitivity: stage.sensitivity, comparison: stage.comparison });
+  // The JSON `model` section is the chosen model's (repeated, gee or logistic when asked for, else the random-intercept
+  // or the random intercept and slope fit); the summary sheet reads its headline numbers from it, so both agree.
+  const modelSection = repeated !== null ? repeatedModelJson(repeated, fit) : other !== null ? other.json : model.json;
+  const reportedNote = other === null ? modelNote : other.note;
   const sheets: SheetSpec[] = [
-    summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, runAt: settings.runAt, mode: settings.mode, summary, fit, modelNote: table.mapping.value === undefined ? null : modelNote }),
+    summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, runAt: settings.runAt, mode: settings.mode, summary, model: modelSection, modelNote: table.mapping.value === undefined && other === null ? null : reportedNote }),
     ...timingSheets(summary),
     ...(other?.sheets ?? []),
     ...model.sheets,
@@ -151,8 +155,8 @@ export async function runAnalysis(
     usedForTiming,
     usedForModel,
     visits: timingJson(summary),
-    model: repeated !== null ? repeatedModelJson(repeated, fit) : other !== null ? other.json : model.json,
-    modelNote: other === null ? modelNote : other.note,
+    model: modelSection,
+    modelNote: reportedNote,
     notes,
     issues,
     cutoff: summary.cutoff,

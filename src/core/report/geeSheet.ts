@@ -30,6 +30,9 @@ export function geeJson(fit: GeeFit): Record<string, unknown> {
     nSubjects: fit.nSubjects,
     nObservations: fit.nObservations,
     iterations: fit.iterations,
+    level: fit.level,
+    timeUnit: fit.timeUnit,
+    arms: [...fit.arms],
     workingCorrelation: { structure: fit.workingCorrelation.structure, correlation: jsonNum(fit.workingCorrelation.correlation) },
     scale: jsonNum(fit.scale),
     minParticipantsPerArm: fit.minParticipantsPerArm,
@@ -47,6 +50,7 @@ export function geeJson(fit: GeeFit): Record<string, unknown> {
       upper: jsonNum(e.upper),
       p: jsonNum(e.p),
     })),
+    treatmentEffects: fit.treatmentEffects.map((c) => ({ arm: c.arm, label: c.label, day: c.day, time: c.time, estimate: jsonNum(c.estimate), se: jsonNum(c.se), z: jsonNum(c.z), lower: jsonNum(c.lower), upper: jsonNum(c.upper), p: jsonNum(c.p) })),
   };
 }
 

@@ -1,14 +1,14 @@
 /**
  * The summary sheet, first in every workbook: the cautions in full (the only sheet that carries them whole; every other
  * sheet links here), one plain paragraph, what was analysed, the numbers a trial team asks first and two small charts.
- * Everything comes from results the run already computed (the timing summary and the model fit); nothing is refitted.
+ * Everything comes from results the run already computed (the timing summary and the results JSON `model` section of
+ * the model the run reports, read by mainResult.ts); nothing is refitted.
  */
 import type { Mode } from '../intake/types';
-import type { ModelFit } from '../model/types';
 import { cell, col, heading, levelPercent, para } from './blockParts';
 import { cautionBlocks, SUMMARY_SHEET_NAME } from './cautions';
 import { formatCell } from './formats';
-import { lastVisitEffects, num, pPhrase } from './modelText';
+import { mainResult, mainSentences, type MainResult } from './mainResult';
 import { readableRunTime } from './runTime';
 import { statusChart } from './timingSheets';
 import type { TimingSummary, VisitSummaryRow } from './timingTypes';
@@ -25,8 +25,8 @@ export interface SummaryInput {
   readonly runAt: string;
   readonly mode: Mode;
   readonly summary: TimingSummary;
-  /** The model fit; null when no model was fitted. */
-  readonly fit: ModelFit | null;
+  /** The results JSON `model` section of the model the run reports (settings.model); null when no model was fitted. */
+  readonly model: Record<string, unknown> | null;
   /** Why the model was not fitted (when one was asked for), else null. */
   readonly modelNote: string | null;
 }
@@ -67,26 +67,17 @@ const percentWords = (x: number | null): string => (x === null ? 'no on-time rat
 
 /** The opening paragraph: the timing numbers in one sentence, then the model's headline in another. */
 function plainParagraph(input: SummaryInput, h: TimingHeadline): string {
-  const { summary, fit } = input;
+  const { summary } = input;
   let text =
     `${cutoffPhrase(summary)}, ${plural(summary.subjects, 'participant', 'participants')} had ${plural(h.due, 'scheduled visit', 'scheduled visits')} due; ` +
     `${h.onTime} ${h.onTime === 1 ? 'was' : 'were'} on time (${percentWords(h.onTimeRate)}) and ${h.missed} missed. ` +
     `${plural(h.participantsWithDeviation, 'participant has', 'participants have')} at least one early, late or missed visit. `;
-  if (fit === null) {
-    text += input.modelNote === null ? 'No model was fitted (no value column was chosen).' : `The model was not fitted: ${input.modelNote}.`;
+  const main = mainResult(input.model);
+  if (main === null) {
+    text += input.modelNote === null ? 'No model was fitted (no value column was chosen).' : `The model was not fitted: ${input.modelNote.replace(/\.+$/, '')}.`;
     return text;
   }
-  if (fit.status === 'failed') return text + 'The model did not converge, so no model results are shown as headline numbers.';
-  const pct = levelPercent(fit.level);
-  if (input.mode === 'unblinded') {
-    for (const te of lastVisitEffects(fit)) {
-      text += `At ${te.label}, the last scheduled visit, the mean value of ${te.arm} differed from ${fit.arms[0] ?? 'the reference arm'} by ${num(te.estimate)} (${pct} confidence interval ${num(te.lower)} to ${num(te.upper)}; ${pPhrase(te.p)}). `;
-    }
-  } else {
-    const slope = fit.fixedEffects.find((f) => f.kind === 'time');
-    if (slope !== undefined) text += `Over all participants together the value changed by ${num(slope.estimate)} per ${fit.timeUnit} (${pct} confidence interval ${num(slope.lower)} to ${num(slope.upper)}). `;
-    text += `The intraclass correlation is ${num(fit.variance.icc)}: the share of the variation that lies between participants. `;
-  }
+  text += mainSentences(main, false).join(' ');
   return text.trimEnd();
 }
 
@@ -112,32 +103,32 @@ function timingTable(h: TimingHeadline): Block {
   };
 }
 
-/** Unblinded: the treatment difference at the last scheduled visit per arm; blinded: the ICC and the overall trend. */
-function modelTable(fit: ModelFit, mode: Mode): Block | null {
-  if (fit.status === 'failed') return null;
-  const pct = levelPercent(fit.level);
-  if (mode === 'unblinded') {
-    const effects = lastVisitEffects(fit);
-    if (effects.length === 0) return null;
+/**
+ * Unblinded: each arm against the reference arm at the last scheduled visit (a difference, or for the yes/no model an
+ * odds ratio); blinded: the model's overall numbers; the caption names the model they come from.
+ */
+function modelTable(main: MainResult): Block | null {
+  if (main.problem !== null) return null;
+  const pct = main.level === null ? '' : `, with ${levelPercent(main.level)} confidence intervals`;
+  if (main.arms.length > 0) {
+    const odds = main.scale === 'oddsRatio';
+    const what = odds ? `Odds ratio of a yes answer${main.outcome === null ? '' : ` (${main.outcome})`}` : 'Treatment difference';
+    const atStart = main.arms.every((a) => a.visit === 'study day 1');
     return {
       kind: 'table',
       id: 'DifferenceAtLastVisit',
-      caption: `Treatment difference at the last scheduled visit (${pct} confidence interval)`,
-      columns: [col('Arm', 'text', 14), col('Compared with', 'text', 14), col('Visit', 'text', 12), col('Difference', 'significant'), col('Lower limit', 'significant'), col('Upper limit', 'significant'), col('p', 'pvalue')],
-      rows: effects.map((te) => [te.arm, fit.arms[0] ?? '', te.label, cell(te.estimate), cell(te.lower), cell(te.upper), cell(te.p)]),
+      caption: `${what} ${atStart ? 'at the start' : 'at the last scheduled visit'}, ${main.source}${pct}`,
+      columns: [col('Arm', 'text', 14), col('Compared with', 'text', 14), col('Visit', 'text', 12), col(odds ? 'Odds ratio' : 'Difference', 'significant'), col('Lower limit', 'significant'), col('Upper limit', 'significant'), col('p', 'pvalue')],
+      rows: main.arms.map((a) => [a.arm, a.reference, a.visit, cell(a.estimate), a.lower === null ? null : cell(a.lower), a.upper === null ? null : cell(a.upper), a.p === null ? null : cell(a.p)]),
     };
   }
-  const slope = fit.fixedEffects.find((f) => f.kind === 'time');
-  const v = fit.variance;
+  if (main.overall.length === 0) return null;
   return {
     kind: 'table',
     id: 'ModelAtAGlance',
-    caption: `The model at a glance, all participants together (${pct} confidence interval)`,
+    caption: `The model at a glance, all participants together, ${main.source}${pct}`,
     columns: [col('Measure', 'text', 36), col('Estimate', 'significant'), col('Lower limit', 'significant'), col('Upper limit', 'significant')],
-    rows: [
-      ['Intraclass correlation (share of the variation between participants)', cell(v.icc), cell(v.iccLower), cell(v.iccUpper)],
-      ...(slope === undefined ? [] : [[`Overall change in the value per ${fit.timeUnit}`, cell(slope.estimate), cell(slope.lower), cell(slope.upper)]]),
-    ],
+    rows: main.overall.map((o) => [o.measure, cell(o.estimate), o.lower === null ? null : cell(o.lower), o.upper === null ? null : cell(o.upper)]),
   };
 }
 
@@ -158,13 +149,15 @@ function onTimeChart(rows: readonly VisitSummaryRow[]): Block {
 
 /**
  * The summary sheet: the cautions in full at A1 onwards (mode's own set), one plain paragraph, the table of what was
- * analysed, the visit-timing numbers, the model's headline numbers (unblinded: the treatment difference at the last
- * scheduled visit with its interval and p; blinded: the ICC and the overall trend, nothing by arm) and two small charts
+ * analysed, the visit-timing numbers, the reported model's headline numbers (unblinded: the treatment difference, or
+ * odds ratio, at the last scheduled visit with its interval and p; blinded: the ICC and the overall trend or what the
+ * model has in their place, nothing by arm; mainResult.ts) and two small charts
  * (on-time rate by visit and visits by status and visit, pooled over arms). Cost O(visits + listed lines).
  */
 export function summarySheet(input: SummaryInput): SheetSpec {
   const h = timingHeadline(input.summary);
-  const model = input.fit === null ? null : modelTable(input.fit, input.mode);
+  const main = mainResult(input.model);
+  const model = main === null ? null : modelTable(main);
   const blocks: Block[] = [
     ...cautionBlocks(input.mode),
     para(plainParagraph(input, h)),

@@ -15,6 +15,7 @@ import { validateModelRows, validateModelShape } from '../validate';
 import { clusterSums } from './clusters';
 import { solveExchangeable } from './exchangeable';
 import { covariances } from './sandwich';
+import { armContrasts } from '../armContrast';
 import type { GeeEffect, GeeFit, GeeOptions } from './types';
 
 /**
@@ -81,6 +82,7 @@ export function fitGee(data: ModelData, options: GeeOptions): GeeFit {
     fixedEffects,
     minParticipantsPerArm: minPerArm(data),
     covariance: { robust: Array.from(cov.robust), model: Array.from(cov.model), smallSample: cov.smallSample === null ? null : Array.from(cov.smallSample) },
+    treatmentEffects: armContrasts(design.terms, fixedEffects.map((e) => e.estimate), Array.from(cov.robust), options.contrastDays ?? [], options.timeUnit, options.level),
   };
 }
 

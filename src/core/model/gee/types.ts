@@ -1,5 +1,6 @@
 /** Types of the GEE engine: the marginal model with the random-intercept model's fixed effects (Liang & Zeger 1986). */
-import type { TermKind, Term, TimeUnit } from '../types';
+import type { ArmContrast } from '../armContrast';
+import type { ContrastDay, TermKind, Term, TimeUnit } from '../types';
 
 /** Working correlation within a participant: exchangeable (one common correlation) or independence (none). */
 export type WorkingStructure = 'exchangeable' | 'independence';
@@ -12,6 +13,8 @@ export interface GeeOptions {
   readonly structure?: WorkingStructure;
   /** Largest number of alternations between β and the correlation (default 100). */
   readonly maxIterations?: number;
+  /** Days at which each arm's difference from the reference arm is given (robust covariance); default none. */
+  readonly contrastDays?: readonly ContrastDay[];
 }
 
 /** One fixed effect with its three standard errors; z, interval and p use the robust SE and the normal distribution. */
@@ -52,4 +55,6 @@ export interface GeeFit {
   readonly minParticipantsPerArm: number;
   /** Row-major p × p covariances of β̂: robust, model-based, bias-corrected (null when undefined). */
   readonly covariance: { readonly robust: readonly number[]; readonly model: readonly number[]; readonly smallSample: readonly number[] | null };
+  /** Each arm's difference from the reference arm at each contrast day, with the robust SE (empty when blinded). */
+  readonly treatmentEffects: readonly ArmContrast[];
 }

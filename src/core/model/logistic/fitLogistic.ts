@@ -7,6 +7,7 @@
  * Cost O(N · (nodes + Newton steps)) per likelihood evaluation, memory O(N p).
  */
 import { offsetOfStudyDay } from '../../intake/dayOffset';
+import { armContrasts } from '../armContrast';
 import { buildDesign } from '../design';
 import { boundedP, normalQuantile, normalUpperTail } from '../distributions';
 import { DegenerateDataError, ModelInputError, RankDeficiencyError } from '../errors';
@@ -18,7 +19,7 @@ import { hermiteRule } from './hermite';
 import { makeObjective } from './objective';
 import { maximise } from './optimise';
 import { expit } from './participant';
-import type { LogisticEffect, LogisticFit, LogisticOptions, MarginalProbability } from './types';
+import type { LogisticContrast, LogisticEffect, LogisticFit, LogisticOptions, MarginalProbability } from './types';
 
 /** Below this σ̂ the between-participant variance is reported at its zero boundary. */
 const SIGMA_BOUNDARY = 1e-4;
@@ -98,7 +99,17 @@ export function fitLogistic(data: ModelData, options: LogisticOptions): Logistic
     iterations: max.iterations,
     quadratureCheck,
     marginalProbabilities: marginal(data, design, x, colScale, beta, sigma, options),
+    treatmentEffects: cov === null ? [] : oddsContrasts(design.terms, beta, cov, colScale, options),
   };
+}
+
+/** armContrasts on the original columns (Cov_jk = Cov'_jk / (s_j s_k), the σ row and column dropped), with odds ratios. */
+function oddsContrasts(terms: ReturnType<typeof buildDesign>['terms'], beta: readonly number[], cov: ArrayLike<number>, colScale: Float64Array, options: LogisticOptions): LogisticContrast[] {
+  const p = beta.length;
+  const q = p + 1;
+  const fixed = new Array<number>(p * p);
+  for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) fixed[j * p + k] = cov[j * q + k]! / (colScale[j]! * colScale[k]!);
+  return armContrasts(terms, beta, fixed, options.contrastDays, options.timeUnit, options.level).map((c) => ({ ...c, oddsRatio: Math.exp(c.estimate), oddsRatioLower: Math.exp(c.lower), oddsRatioUpper: Math.exp(c.upper) }));
 }
 
 /** Dense design divided by each column's largest |value| (1 for an all-zero column), and X'X of the divided columns. */

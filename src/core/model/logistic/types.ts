@@ -1,5 +1,6 @@
 /** Types of the random-intercept logistic model for a yes/no outcome (adaptive Gauss–Hermite quadrature). */
 import type { ContrastDay, Term, TermKind, TimeUnit } from '../types';
+import type { ArmContrast } from '../armContrast';
 
 export interface LogisticOptions {
   /** Confidence level, 0 < level < 1. */
@@ -36,6 +37,13 @@ export interface MarginalProbability {
   readonly probability: number;
 }
 
+/** An arm's difference from the reference arm at a contrast day on the log-odds scale, with its odds ratio. */
+export interface LogisticContrast extends ArmContrast {
+  readonly oddsRatio: number;
+  readonly oddsRatioLower: number;
+  readonly oddsRatioUpper: number;
+}
+
 export interface LogisticFit {
   readonly kind: 'logistic';
   readonly status: 'converged' | 'boundary' | 'failed';
@@ -65,4 +73,6 @@ export interface LogisticFit {
    */
   readonly quadratureCheck: { readonly nodes: number; readonly logLikChange: number };
   readonly marginalProbabilities: readonly MarginalProbability[];
+  /** Each arm against the reference arm at each contrast day (Wald, from the inverse information); empty when blinded or failed. */
+  readonly treatmentEffects: readonly LogisticContrast[];
 }

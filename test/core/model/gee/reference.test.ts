@@ -9,7 +9,7 @@ import { describe, expect, it } from 'vitest';
 import { fitGee } from '../../../../src/core/model/gee';
 import type { ModelData } from '../../../../src/core/model';
 
-interface Side { params: number[]; seRobust: number[]; seModel: number[]; seBiasReduced: number[]; scale: number; correlation: number }
+interface Side { params: number[]; seRobust: number[]; seModel: number[]; seBiasReduced: number[]; scale: number; correlation: number; lastVisit: { day: number; time: number; estimate: number; se: number } }
 interface Fixture {
   data: { subject: number[]; arm: number[]; time: number[]; baseline: number[]; y: number[] };
   exchangeable: Side;
@@ -37,7 +37,7 @@ function close(actual: number, expected: number, rel: number): void {
 
 describe.each(['exchangeable', 'independence'] as const)('GEE (%s) matches the statsmodels fixture', (structure) => {
   const ref = fixture[structure];
-  const fit = fitGee(fixtureData(fixture), { level: 0.95, timeUnit: 'month', structure });
+  const fit = fitGee(fixtureData(fixture), { level: 0.95, timeUnit: 'month', structure, contrastDays: [{ label: 'Week 48', day: ref.lastVisit.day }] });
 
   it('converges, with the design the fixture used', () => {
     expect(fit.status).toBe('converged');
@@ -54,5 +54,12 @@ describe.each(['exchangeable', 'independence'] as const)('GEE (%s) matches the s
       close(e.seModel, ref.seModel[j]!, 1e-5);
       close(e.seSmallSample!, ref.seBiasReduced[j]!, 1e-5);
     });
+  });
+  it('the difference at the last visit (arm + t × arm × time) and its robust SE match statsmodels\' t_test to 1e-6 and 1e-5', () => {
+    const [c] = fit.treatmentEffects;
+    expect(c!.arm).toBe('Drug');
+    close(c!.time, ref.lastVisit.time, 1e-12);
+    close(c!.estimate, ref.lastVisit.estimate, 1e-6);
+    close(c!.se, ref.lastVisit.se, 1e-5);
   });
 });

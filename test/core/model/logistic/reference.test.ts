@@ -16,6 +16,7 @@ interface Fixture {
   se: number[];
   variance: number;
   logLik: number;
+  lastVisit: { day: number; time: number; estimate: number; se: number };
 }
 const fx = JSON.parse(readFileSync(new URL('../../../reference/logistic-quadrature.json', import.meta.url), 'utf8')) as Fixture;
 
@@ -60,6 +61,17 @@ describe('fitLogistic with 25 nodes matches direct integration', () => {
       expect(m.probability).toBeLessThan(1);
       expect(Math.abs(m.probability - 0.5)).toBeLessThan(Math.abs(conditional - 0.5));
     }
+  });
+  it('the arm difference at the last visit (arm + t × arm × time, log-odds) and its SE, with the odds ratio', () => {
+    const last = fitLogistic(logisticFixtureData(), { level: 0.95, timeUnit: 'month', nodes: 25, contrastDays: [{ label: 'Week 36', day: fx.lastVisit.day }] });
+    const [c] = last.treatmentEffects;
+    expect(c!.arm).toBe('Drug');
+    expect(Math.abs(c!.time - fx.lastVisit.time)).toBeLessThan(1e-12);
+    // Same tolerances as the fixed effects above: estimate 1e-5, SE 1e-4 relative (central-difference Hessians).
+    expect(Math.abs(c!.estimate - fx.lastVisit.estimate)).toBeLessThan(1e-5);
+    expect(Math.abs(c!.se - fx.lastVisit.se)).toBeLessThan(1e-4 * fx.lastVisit.se);
+    expect(c!.oddsRatio).toBeCloseTo(Math.exp(c!.estimate), 12);
+    expect(c!.oddsRatioUpper).toBeCloseTo(Math.exp(c!.upper), 12);
   });
 });
 

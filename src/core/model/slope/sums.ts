@@ -11,7 +11,8 @@
  * participant) and the pieces cost O(p²) per participant ("general").
  * Cost: O(n) (grouped) or O(n p²) (general) for the rows; memory O(participants) or O(participants · p).
  */
-import type { Design } from '../design';
+import { buildDesign, type Design } from '../design';
+import { applyScaling, type Scaling } from '../scaling';
 import { sufficientStats } from '../sufficient';
 import type { ModelData } from '../types';
 
@@ -55,8 +56,16 @@ function armMatrix(design: Design, a: number): Float64Array {
  * The sums of the (scaled) data. Rows are taken as they come: a participant's rows need not be together.
  * Example: one participant, y = [1, 3] at t = [0, 1], no arms -> n [2], st [1], stt [1], sy [4], sty [3].
  */
-export function slopeSums(data: ModelData, design: Design): SlopeSums {
+export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): SlopeSums {
   const { y, time, subject } = data;
+  // With `scaling` the data are as given and each row is scaled as it is read, exactly as applyScaling would (same
+  // operations, so the same numbers), without the scaled copy; the general layout makes the copy (it reads rows
+  // through the design).
+  const yc = scaling?.yCentre ?? 0;
+  const ys = scaling?.yScale ?? 1;
+  const tc = scaling?.tCentre ?? 0;
+  const ts = scaling?.tScale ?? 1;
+  const scaled = scaling !== undefined;
   const nRows = y.length;
   const nS = data.nSubjects;
   const p = design.p;
@@ -69,36 +78,34 @@ export function slopeSums(data: ModelData, design: Design): SlopeSums {
   const arm = design.armCol >= 0 ? data.armIndex : null;
   const groupOf = new Int32Array(groupedDesign ? nS : 0).fill(-1);
   let yty = 0;
+  // The grouped layout needs every participant in one arm; a participant in two arms sends the data to the general
+  // one. That check rides along in the same pass.
+  let grouped = groupedDesign;
+  const checkArms = grouped && arm !== null;
+  const nArms = design.nArms;
   for (let r = 0; r < nRows; r++) {
     const s = subject[r]!;
-    const t = time[r]!;
-    const v = y[r]!;
+    const t = scaled ? (time[r]! - tc) / ts : time[r]!;
+    const v = scaled ? (y[r]! - yc) / ys : y[r]!;
     n[s] = n[s]! + 1;
     st[s] = st[s]! + t;
     stt[s] = stt[s]! + t * t;
     sy[s] = sy[s]! + v;
     sty[s] = sty[s]! + t * v;
     yty += v * v;
-  }
-  // The grouped layout needs every participant in one arm; a participant in two arms sends the data to the general one.
-  let grouped = groupedDesign;
-  if (grouped && arm !== null) {
-    const nArms = design.nArms;
-    for (let r = 0; r < nRows; r++) {
-      const s = subject[r]!;
+    if (checkArms && grouped) {
       const a = arm[r]!;
-      if (!(a >= 0 && a < nArms)) {
-        grouped = false;
-        break;
-      }
       const g = groupOf[s]!;
-      if (g === -1) groupOf[s] = a;
-      else if (g !== a) {
-        grouped = false;
-        break;
-      }
+      if (!(a >= 0 && a < nArms)) grouped = false;
+      else if (g === -1) groupOf[s] = a;
+      else if (g !== a) grouped = false;
     }
-  } else if (grouped) groupOf.fill(0);
+  }
+  if (grouped && arm === null) groupOf.fill(0);
+  if (!grouped && scaled) {
+    const copy = applyScaling(data, scaling);
+    return slopeSums(copy, buildDesign(copy, false));
+  }
   const group = grouped ? groupOf : null;
   let nP = 0;
   for (let s = 0; s < nS; s++) if (n[s]! > 0) nP++;

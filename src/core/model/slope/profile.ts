@@ -175,6 +175,10 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
   const cmr = new Float64Array(2 * nA);
   let rMr = 0;
   let logDetH = 0;
+  // Σ log det(I + C_i D) as the log of running products (one logarithm per few hundred participants instead of one
+  // each); det ≥ 1 for positive semi-definite D, a huge one is taken alone, and a non-positive or NaN one makes the sum
+  // non-finite as before.
+  let detProduct = 1;
   for (let i = 0; i < nP; i++) {
     const n = cn[i]!;
     const t = ct[i]!;
@@ -184,11 +188,19 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
     const m10 = t * d11 + tt * d12;
     const m11 = 1 + t * d12 + tt * d22;
     const det = m00 * m11 - m01 * m10;
-    logDetH += Math.log(det);
-    const f00 = m11 / det;
-    const f01 = -m01 / det;
-    const f10 = -m10 / det;
-    const f11 = m00 / det;
+    if (det > 1e100) logDetH += Math.log(det);
+    else {
+      detProduct *= det;
+      if (!(detProduct < 1e200 && detProduct > 1e-200)) {
+        logDetH += Math.log(detProduct);
+        detProduct = 1;
+      }
+    }
+    const inv = 1 / det;
+    const f00 = m11 * inv;
+    const f01 = -m01 * inv;
+    const f10 = -m10 * inv;
+    const f11 = m00 * inv;
     const M00 = d11 * f00 + d12 * f10;
     const M01 = 0.5 * (d11 * f01 + d12 * f11 + d12 * f00 + d22 * f10);
     const M11 = d12 * f01 + d22 * f11;
@@ -211,6 +223,7 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
     cmr[o2] = cmr[o2]! + n * mr0 + t * mr1;
     cmr[o2 + 1] = cmr[o2 + 1]! + t * mr0 + tt * mr1;
   }
+  logDetH += Math.log(detProduct);
   const BMB = new Float64Array(p * p);
   const BMr = new Float64Array(p);
   for (let a = 0; a < nA; a++) {
@@ -270,11 +283,11 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
     const m01 = n * d12 + t * d22;
     const m10 = t * d11 + tt * d12;
     const m11 = 1 + t * d12 + tt * d22;
-    const det = m00 * m11 - m01 * m10;
-    const f00 = m11 / det;
-    const f01 = -m01 / det;
-    const f10 = -m10 / det;
-    const f11 = m00 / det;
+    const inv = 1 / (m00 * m11 - m01 * m10);
+    const f00 = m11 * inv;
+    const f01 = -m01 * inv;
+    const f10 = -m10 * inv;
+    const f11 = m00 * inv;
     const ga = g[i]!;
     const e0b = eb[2 * ga]!;
     const e1b = eb[2 * ga + 1]!;

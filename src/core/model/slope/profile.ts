@@ -209,16 +209,14 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
     const mr0 = M00 * r0 + M01 * r1;
     const mr1 = M01 * r0 + M11 * r1;
     rMr += r0 * mr0 + r1 * mr1;
-    // C M (C symmetric), then C M C.
+    // C M (C symmetric), then C M C, symmetric: its (1, 0) entry is the (0, 1) one.
     const a00 = n * M00 + t * M01;
     const a01 = n * M01 + t * M11;
-    const a10 = t * M00 + tt * M01;
     const a11 = t * M01 + tt * M11;
     const o = 4 * g[i]!;
     cmc[o] = cmc[o]! + a00 * n + a01 * t;
     cmc[o + 1] = cmc[o + 1]! + a00 * t + a01 * tt;
-    cmc[o + 2] = cmc[o + 2]! + a10 * n + a11 * t;
-    cmc[o + 3] = cmc[o + 3]! + a10 * t + a11 * tt;
+    cmc[o + 3] = cmc[o + 3]! + (t * M00 + tt * M01) * t + a11 * tt;
     const o2 = 2 * g[i]!;
     cmr[o2] = cmr[o2]! + n * mr0 + t * mr1;
     cmr[o2 + 1] = cmr[o2 + 1]! + t * mr0 + tt * mr1;
@@ -227,7 +225,7 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
   const BMB = new Float64Array(p * p);
   const BMr = new Float64Array(p);
   for (let a = 0; a < nA; a++) {
-    addSandwich(BMB, s.E[a]!, cmc[4 * a]!, cmc[4 * a + 1]!, cmc[4 * a + 2]!, cmc[4 * a + 3]!, p);
+    addSandwich(BMB, s.E[a]!, cmc[4 * a]!, cmc[4 * a + 1]!, cmc[4 * a + 1]!, cmc[4 * a + 3]!, p);
     addTransposed(BMr, s.E[a]!, cmr[2 * a]!, cmr[2 * a + 1]!, p);
   }
   const A = new Float64Array(p * p);

@@ -54,12 +54,12 @@ export function inverseOfIPlusCD(n: number, t: number, tt: number, d11: number, 
  * definite or R is not positive (no within-participant variation left). Never mutates the sums.
  * Example: with D = [[γ, 0], [0, 0]] it equals the random-intercept model's profileAt(γ) (checked in the tests).
  */
-export function slopeProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient: boolean): SlopeProfile | null {
+export function slopeProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient: boolean, betaNear?: Float64Array): SlopeProfile | null {
   const [d11, d12, d22] = D;
   const p = s.p;
   const N = s.nObs;
   const nP = s.nP;
-  if (s.group !== null) return groupedProfile(s, D, method, gradient);
+  if (s.group !== null) return gradient && betaNear !== undefined ? groupedProfileOnePass(s, D, method, betaNear) : groupedProfile(s, D, method, gradient);
   const f = new Float64Array(4);
   const sand = new SandwichSum(s);
   const vec = new VectorSum(s);
@@ -318,6 +318,194 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
       sq0 += a00 * k00 + a01 * k01;
       sq1 += a00 * k10 + a01 * k11 + a10 * k00 + a11 * k01;
       sq2 += a10 * k10 + a11 * k11;
+    }
+  }
+  const gr = (sv: number, sk: number, sq: number): number => -0.5 * ((nu * -sv) / R + sk - sq);
+  return { logLik, gradient: [gr(sv0, sk0, sq0), gr(sv1, sk1, sq1), gr(sv2, sk2, sq2)], beta, sigma2: R / nu, aInv };
+}
+
+/**
+ * groupedProfile with its gradient in one pass over the participants, for a caller that knows a β̃ near β̂ (the
+ * optimiser's previous point). With e_a = E_aβ̂ = ẽ_a + δ_a, w_i = F_i(r_i − C_iẽ_a) and K_i = F_iC_i (symmetric):
+ * v_i = w_i − K_iδ_a, so Σ v_iv_i' = Σ w_iw_i' − Σ (w_iδ_a'K_i + K_iδ_aw_i') + Σ K_iδ_aδ_a'K_i, and Q_i = K_i h_a K_i with
+ * h_a = E_aA⁻¹E_a'; the pass keeps Σ ww' and Σ K, and per arm Σ w ⊗ K and Σ K ⊗ K (6 + 6 numbers), and the terms in
+ * δ are formed once β̂ is known. Expanding around β̃ rather than 0 keeps the subtraction small (δ → 0 as the optimiser
+ * settles), so Σ vv' keeps its precision. Same value as groupedProfile; the gradient agrees to rounding.
+ */
+function groupedProfileOnePass(s: SlopeSums, D: RelativeG, method: FitMethod, betaNear: Float64Array): SlopeProfile | null {
+  const [d11, d12, d22] = D;
+  const p = s.p;
+  const N = s.nObs;
+  const nP = s.nP;
+  const nA = s.E.length;
+  const g = s.group!;
+  const cn = s.n;
+  const ct = s.st;
+  const ctt = s.stt;
+  const ry = s.sy;
+  const rty = s.sty;
+  const eNear = new Float64Array(2 * nA);
+  for (let a = 0; a < nA; a++) {
+    const E = s.E[a]!;
+    for (let j = 0; j < p; j++) {
+      eNear[2 * a] = eNear[2 * a]! + E[j]! * betaNear[j]!;
+      eNear[2 * a + 1] = eNear[2 * a + 1]! + E[p + j]! * betaNear[j]!;
+    }
+  }
+  const cmc = new Float64Array(4 * nA);
+  const cmr = new Float64Array(2 * nA);
+  const wk = new Float64Array(6 * nA);
+  const kk = new Float64Array(6 * nA);
+  let rMr = 0;
+  let logDetH = 0;
+  let detProduct = 1;
+  let sw0 = 0;
+  let sw1 = 0;
+  let sw2 = 0;
+  let sk0 = 0;
+  let sk1 = 0;
+  let sk2 = 0;
+  for (let i = 0; i < nP; i++) {
+    const n = cn[i]!;
+    const t = ct[i]!;
+    const tt = ctt[i]!;
+    const m00 = 1 + n * d11 + t * d12;
+    const m01 = n * d12 + t * d22;
+    const m10 = t * d11 + tt * d12;
+    const m11 = 1 + t * d12 + tt * d22;
+    const det = m00 * m11 - m01 * m10;
+    if (det > 1e100) logDetH += Math.log(det);
+    else {
+      detProduct *= det;
+      if (!(detProduct < 1e200 && detProduct > 1e-200)) {
+        logDetH += Math.log(detProduct);
+        detProduct = 1;
+      }
+    }
+    const inv = 1 / det;
+    const f00 = m11 * inv;
+    const f01 = -m01 * inv;
+    const f10 = -m10 * inv;
+    const f11 = m00 * inv;
+    const M00 = d11 * f00 + d12 * f10;
+    const M01 = 0.5 * (d11 * f01 + d12 * f11 + d12 * f00 + d22 * f10);
+    const M11 = d12 * f01 + d22 * f11;
+    const r0 = ry[i]!;
+    const r1 = rty[i]!;
+    const mr0 = M00 * r0 + M01 * r1;
+    const mr1 = M01 * r0 + M11 * r1;
+    rMr += r0 * mr0 + r1 * mr1;
+    const a00 = n * M00 + t * M01;
+    const a01 = n * M01 + t * M11;
+    const a11 = t * M01 + tt * M11;
+    const a = g[i]!;
+    const o = 4 * a;
+    cmc[o] = cmc[o]! + a00 * n + a01 * t;
+    cmc[o + 1] = cmc[o + 1]! + a00 * t + a01 * tt;
+    cmc[o + 3] = cmc[o + 3]! + (t * M00 + tt * M01) * t + a11 * tt;
+    const o2 = 2 * a;
+    cmr[o2] = cmr[o2]! + n * mr0 + t * mr1;
+    cmr[o2 + 1] = cmr[o2 + 1]! + t * mr0 + tt * mr1;
+    // The gradient's pieces: w = F(r − Cẽ), K = FC.
+    const ea = eNear[o2]!;
+    const eb = eNear[o2 + 1]!;
+    const e0 = r0 - (n * ea + t * eb);
+    const e1 = r1 - (t * ea + tt * eb);
+    const w0 = f00 * e0 + f01 * e1;
+    const w1 = f10 * e0 + f11 * e1;
+    sw0 += w0 * w0;
+    sw1 += w0 * w1;
+    sw2 += w1 * w1;
+    const k00 = f00 * n + f01 * t;
+    const k01 = f00 * t + f01 * tt;
+    const k10 = f10 * n + f11 * t;
+    const k11 = f10 * t + f11 * tt;
+    sk0 += k00;
+    sk1 += k01 + k10;
+    sk2 += k11;
+    const ks = 0.5 * (k01 + k10);
+    const o6 = 6 * a;
+    wk[o6] = wk[o6]! + w0 * k00;
+    wk[o6 + 1] = wk[o6 + 1]! + w0 * ks;
+    wk[o6 + 2] = wk[o6 + 2]! + w0 * k11;
+    wk[o6 + 3] = wk[o6 + 3]! + w1 * k00;
+    wk[o6 + 4] = wk[o6 + 4]! + w1 * ks;
+    wk[o6 + 5] = wk[o6 + 5]! + w1 * k11;
+    kk[o6] = kk[o6]! + k00 * k00;
+    kk[o6 + 1] = kk[o6 + 1]! + k00 * ks;
+    kk[o6 + 2] = kk[o6 + 2]! + k00 * k11;
+    kk[o6 + 3] = kk[o6 + 3]! + ks * ks;
+    kk[o6 + 4] = kk[o6 + 4]! + ks * k11;
+    kk[o6 + 5] = kk[o6 + 5]! + k11 * k11;
+  }
+  logDetH += Math.log(detProduct);
+  const BMB = new Float64Array(p * p);
+  const BMr = new Float64Array(p);
+  for (let a = 0; a < nA; a++) {
+    addSandwich(BMB, s.E[a]!, cmc[4 * a]!, cmc[4 * a + 1]!, cmc[4 * a + 1]!, cmc[4 * a + 3]!, p);
+    addTransposed(BMr, s.E[a]!, cmr[2 * a]!, cmr[2 * a + 1]!, p);
+  }
+  const A = new Float64Array(p * p);
+  const b = new Float64Array(p);
+  for (let k = 0; k < p * p; k++) A[k] = s.xtx[k]! - BMB[k]!;
+  for (let j = 0; j < p; j++) b[j] = s.xty[j]! - BMr[j]!;
+  const l = cholesky(A, p);
+  if (l === null) return null;
+  const beta = cholSolve(l, p, b);
+  let R = s.yty - rMr;
+  for (let j = 0; j < p; j++) R -= b[j]! * beta[j]!;
+  if (!(R > 0) || !Number.isFinite(logDetH)) return null;
+  const aInv = cholInverse(l, p);
+  const nu = method === 'reml' ? N - p : N;
+  const logLik =
+    method === 'ml'
+      ? -0.5 * (N * LOG_2PI + N * Math.log(R / N) + logDetH + N)
+      : -0.5 * (nu * (LOG_2PI + Math.log(R / nu) + 1) + logDetH + cholLogDet(l, p));
+  // Σ vv' (sv0 = Σ v0², sv1 = 2 Σ v0v1, sv2 = Σ v1²) and Σ tr(E_k Q) per arm from the kept sums.
+  let sv0 = sw0;
+  let sv1 = 2 * sw1;
+  let sv2 = sw2;
+  let sq0 = 0;
+  let sq1 = 0;
+  let sq2 = 0;
+  const reml = method === 'reml';
+  for (let a = 0; a < nA; a++) {
+    const E = s.E[a]!;
+    let x0 = -eNear[2 * a]!;
+    let x1 = -eNear[2 * a + 1]!;
+    for (let j = 0; j < p; j++) {
+      x0 += E[j]! * beta[j]!;
+      x1 += E[p + j]! * beta[j]!;
+    }
+    const o6 = 6 * a;
+    const [w0k00, w0k01, w0k11, w1k00, w1k01, w1k11] = [wk[o6]!, wk[o6 + 1]!, wk[o6 + 2]!, wk[o6 + 3]!, wk[o6 + 4]!, wk[o6 + 5]!];
+    const [q00, q01, q02, q11, q12, q22] = [kk[o6]!, kk[o6 + 1]!, kk[o6 + 2]!, kk[o6 + 3]!, kk[o6 + 4]!, kk[o6 + 5]!];
+    // q00 = Σk00², q01 = Σk00k01, q02 = Σk00k11, q11 = Σk01², q12 = Σk01k11, q22 = Σk11².
+    const w0u0 = x0 * w0k00 + x1 * w0k01;
+    const w0u1 = x0 * w0k01 + x1 * w0k11;
+    const w1u0 = x0 * w1k00 + x1 * w1k01;
+    const w1u1 = x0 * w1k01 + x1 * w1k11;
+    const u0u0 = x0 * x0 * q00 + 2 * x0 * x1 * q01 + x1 * x1 * q11;
+    const u0u1 = x0 * x0 * q01 + x0 * x1 * (q02 + q11) + x1 * x1 * q12;
+    const u1u1 = x0 * x0 * q11 + 2 * x0 * x1 * q12 + x1 * x1 * q22;
+    sv0 += -2 * w0u0 + u0u0;
+    sv1 += 2 * (-w0u1 - w1u0 + u0u1);
+    sv2 += -2 * w1u1 + u1u1;
+    if (reml) {
+      let h00 = 0;
+      let h01 = 0;
+      let h11 = 0;
+      for (let j = 0; j < p; j++) {
+        for (let k = 0; k < p; k++) {
+          const ajk = aInv[j * p + k]!;
+          h00 += E[j]! * ajk * E[k]!;
+          h01 += E[j]! * ajk * E[p + k]!;
+          h11 += E[p + j]! * ajk * E[p + k]!;
+        }
+      }
+      sq0 += q00 * h00 + 2 * q01 * h01 + q11 * h11;
+      sq1 += 2 * (q01 * h00 + (q02 + q11) * h01 + q12 * h11);
+      sq2 += q11 * h00 + 2 * q12 * h01 + q22 * h11;
     }
   }
   const gr = (sv: number, sk: number, sq: number): number => -0.5 * ((nu * -sv) / R + sk - sq);

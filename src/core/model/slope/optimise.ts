@@ -65,9 +65,8 @@ interface BfgsResult {
 /** BFGS on −ℓ(θ) from θ0. Null when the start cannot be evaluated. */
 function bfgs(s: SlopeSums, method: FitMethod, shape: SlopeShape, theta0: readonly number[]): BfgsResult | null {
   const k = theta0.length;
-  // After the first point the previous β̂ is passed on, so the likelihood and its gradient take one pass (profile.ts).
-  const evalAt = (th: readonly number[], betaNear?: Float64Array): { pt: SlopeProfile; g: number[] } | null => {
-    const pt = slopeProfile(s, dOf(shape, th), method, true, betaNear);
+  const evalAt = (th: readonly number[]): { pt: SlopeProfile; g: number[] } | null => {
+    const pt = slopeProfile(s, dOf(shape, th), method, true);
     if (pt === null || !Number.isFinite(pt.logLik)) return null;
     return { pt, g: gradTheta(shape, th, pt.gradient!).map((v) => -v) };
   };
@@ -98,7 +97,7 @@ function bfgs(s: SlopeSums, method: FitMethod, shape: SlopeShape, theta0: readon
     let thNext = th;
     for (let tries = 0; tries < 60; tries++) {
       thNext = th.map((v, i) => v + step * d[i]!);
-      const cand = evalAt(thNext, cur.pt.beta);
+      const cand = evalAt(thNext);
       if (cand !== null && -cand.pt.logLik <= f0 + 1e-4 * step * slope) {
         next = cand;
         break;

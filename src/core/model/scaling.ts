@@ -52,9 +52,19 @@ const shown = (x: number): string => String(Number(x.toPrecision(6)));
  * Example: y = [10, 12, 14], time = [0, 1, 2] -> yCentre 12, yScale 2, y' = [−1, 0, 1]; tCentre 1, tScale 1.
  */
 export function scaleModelData(data: ModelData): { data: ModelData; scaling: Scaling } {
+  if (data.y.length === 0) return { data, scaling: measureScaling(data) };
+  const scaling = measureScaling(data);
+  return { data: applyScaling(data, scaling), scaling };
+}
+
+/**
+ * The measuring half of scaleModelData: the centres and scales, with the same refusals, without the scaled copy (the
+ * slope model applies them row by row in its one pass, sums.ts). Cost O(n), nothing written.
+ */
+export function measureScaling(data: ModelData): Scaling {
   const { y, time } = data;
   const n = y.length;
-  if (n === 0) return { data, scaling: { yCentre: 0, yScale: 1, tCentre: 0, tScale: 1, tMin: Infinity, tMax: -Infinity } };
+  if (n === 0) return { yCentre: 0, yScale: 1, tCentre: 0, tScale: 1, tMin: Infinity, tMax: -Infinity };
   const ym = measure(y);
   const tm = measure(time);
   if (ym === null || tm === null) {
@@ -78,14 +88,20 @@ export function scaleModelData(data: ModelData): { data: ModelData; scaling: Sca
     );
   }
   const tScale = tm.spread > 0 && Number.isFinite(tm.spread) ? tm.spread : 1;
-  const scaling: Scaling = { yCentre: ym.centre, yScale: ym.spread, tCentre: tm.centre, tScale, tMin: tm.min, tMax: tm.max };
+  return { yCentre: ym.centre, yScale: ym.spread, tCentre: tm.centre, tScale, tMin: tm.min, tMax: tm.max };
+}
+
+/** The scaled copy y' = (y − c_y)/s_y, t' = (t − c_t)/s_t of the data (covariates as they are). Cost O(n). */
+export function applyScaling(data: ModelData, scaling: Scaling): ModelData {
+  const { y, time } = data;
+  const n = y.length;
   const ys = new Float64Array(n);
   const ts = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     ys[i] = (y[i]! - scaling.yCentre) / scaling.yScale;
-    ts[i] = (time[i]! - scaling.tCentre) / tScale;
+    ts[i] = (time[i]! - scaling.tCentre) / scaling.tScale;
   }
-  return { data: { ...data, y: ys, time: ts }, scaling };
+  return { ...data, y: ys, time: ts };
 }
 
 /**

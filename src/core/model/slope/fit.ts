@@ -14,14 +14,14 @@
 import { offsetOfStudyDay } from '../../intake/dayOffset';
 import type { ContainmentDf } from '../containment';
 import { cholesky, matMul, spdInverse } from '../dense';
-import { buildDesign, type Design } from '../design';
+import { buildDesign } from '../design';
 import { chiSquareQuantile, normalQuantile } from '../distributions';
 import { DegenerateDataError, ModelInputError, RankDeficiencyError } from '../errors';
 import { DAYS_PER_TIME_UNIT, ONE_SUBJECT, WITHIN_FLOOR } from '../fit';
 import { contrast, jointTest, type InferenceContext } from '../inference';
 import { naiveFit } from '../naive';
 import { checkRank } from '../pivotedCholesky';
-import { logLikShift, scaleModelData, toScaledContrast, unscaleContrast } from '../scaling';
+import { applyScaling, logLikShift, measureScaling, toScaledContrast, unscaleContrast } from '../scaling';
 import { soundnessProblem } from '../soundness';
 import { trajectories } from '../trajectories';
 import type { ContrastResult, FitOptions, JointTest, ModelData, SlopeDifference, SlopeFit, SlopeSubjectEffect, SlopeVariance, TreatmentEffect, VarianceResult } from '../types';
@@ -47,14 +47,18 @@ const UNSOUND = 'the fit gave numbers that cannot be reported, so no model is re
 export function fitRandomSlope(data: ModelData, options: FitOptions): SlopeFit {
   validateModelShape(data, options);
   if (options.design === 'intercept-only') throw new ModelInputError("the random intercept and slope model needs time in the design; design 'intercept-only' is for the random-intercept model.");
-  const scaled = scaleModelData(data);
-  const sc = scaled.scaling;
-  const design = buildDesign(scaled.data, false);
+  // Without covariates the sums pass scales each row as it reads it (no scaled copy of the columns); with covariates,
+  // or for the residuals, the scaled copy is made.
+  const sc = measureScaling(data);
+  const rowwise = data.covariates.length === 0;
+  let scaledCopy: ModelData | null = rowwise ? null : applyScaling(data, sc);
+  const scaledData = (): ModelData => (scaledCopy ??= applyScaling(data, sc));
+  const design = buildDesign(rowwise ? data : scaledData(), false);
   // Values and times are finite (scaleModelData refuses others). Subject indices out of range would be dropped by the
   // typed arrays, so the participants' counts must add up to the rows; otherwise, or with arm indices out of range
   // (the general layout), the row-by-row validation names the row.
   if (design.armCol >= 0 && data.covariates.length === 0) validateArms(data, design.nArms);
-  const sums = slopeSums(scaled.data, design);
+  const sums = rowwise ? slopeSums(data, design, sc) : slopeSums(scaledData(), design);
   if (countTotal(sums) !== data.y.length || (design.armCol >= 0 && sums.group === null)) validateModelRows(data);
   const p = design.p;
   const N = sums.nObs;
@@ -188,7 +192,7 @@ export function fitRandomSlope(data: ModelData, options: FitOptions): SlopeFit {
   // Per-participant predictions are made on first access (as the random-intercept model's BLUPs) and then kept.
   return {
     ...numbers,
-    ...(options.residuals === true ? { residuals: slopeResiduals(data, scaled.data, design, sums, D, beta, sc.yScale) } : {}),
+    ...(options.residuals === true ? { residuals: slopeResiduals(data, scaledData(), sums, D, beta, sc.yScale) } : {}),
     get subjects(): SlopeSubjectEffect[] {
       subjectsCache ??= slopeSubjects(sums, D, beta, sc, data.subjectIds);
       return subjectsCache;
@@ -197,7 +201,8 @@ export function fitRandomSlope(data: ModelData, options: FitOptions): SlopeFit {
 }
 
 /** Conditional residuals y − Xβ̂ − û0 − û1·t per observation, on the original scale (one more pass over the rows). */
-function slopeResiduals(data: ModelData, scaledData: ModelData, design: Design, sums: SlopeSums, D: RelativeG, beta: Float64Array, yScale: number): Float64Array {
+function slopeResiduals(data: ModelData, scaledData: ModelData, sums: SlopeSums, D: RelativeG, beta: Float64Array, yScale: number): Float64Array {
+  const design = buildDesign(scaledData, false);
   const p = design.p;
   const u0 = new Float64Array(data.nSubjects);
   const u1 = new Float64Array(data.nSubjects);

@@ -16,6 +16,7 @@
 import { matMul, traceProduct } from '../dense';
 import type { FitMethod } from '../types';
 import { SandwichSum } from './pieces';
+import { addSandwich } from './sums';
 import { inverseOfIPlusCD, type RelativeG } from './profile';
 import type { SlopeSums } from './sums';
 
@@ -58,12 +59,12 @@ export const FULL_BASIS: readonly M2[] = [
  * direction held), none when G = 0; σ² is always the last parameter. q = basis.length + 1.
  */
 export function slopeInformation(s: SlopeSums, D: RelativeG, sigma2: number, phi: Float64Array, method: FitMethod, basis: readonly M2[] = FULL_BASIS): SlopeInformation {
-  const p = s.p;
   const [d11, d12, d22] = D;
   const Dm: M2 = [d11, d12, d12, d22];
   const E = basis;
   const nb = E.length;
   const q = nb + 1;
+  if (s.group !== null) return finishInformation(s, groupedPieces(s, D, E), sigma2, phi, method, q, false);
   const P = Array.from({ length: q }, () => new SandwichSum(s));
   const Q = Array.from({ length: q * q }, () => new SandwichSum(s));
   const T = new Float64Array(q * q);
@@ -130,19 +131,38 @@ export function slopeInformation(s: SlopeSums, D: RelativeG, sigma2: number, phi
     mulInto(MC, MC, w2);
     T[q * q - 1] = T[q * q - 1]! + n - 2 * (MC[0]! + MC[3]!) + w2[0]! + w2[3]!;
   }
+  const Qsums = new Array<Float64Array>(q * q);
+  for (let r = 0; r < q; r++) for (let c = r; c < q; c++) Qsums[r * q + c] = Q[r * q + c]!.result();
+  return finishInformation(s, { P: P.map((acc) => acc.result()), Q: Qsums, T }, sigma2, phi, method, q, true);
+}
+
+/** The sums before the powers of σ²: P_r and Q_rs (upper triangle, c ≥ r) as p × p totals, and T (upper triangle). */
+interface PieceSums {
+  readonly P: readonly Float64Array[];
+  readonly Q: readonly Float64Array[];
+  readonly T: Float64Array;
+}
+
+/**
+ * Scales the sums by the powers of σ², fills the lower triangles (Q_sr = Q_rs', T symmetric) and forms the expected
+ * information. `withXtx`: the σ² pieces P_σ² and Q_σ²σ² still lack X'X (the general route's sums are B'(…)B only).
+ */
+function finishInformation(s: SlopeSums, sums: PieceSums, sigma2: number, phi: Float64Array, method: FitMethod, q: number, withXtx: boolean): SlopeInformation {
+  const p = s.p;
+  const nb = q - 1;
+  const T = sums.T;
   const s4 = sigma2 * sigma2;
   const s6 = s4 * sigma2;
-  const finish = (acc: SandwichSum, withXtx: boolean, scale: number): Float64Array => {
-    const m = acc.result();
+  const finish = (m: Float64Array, addXtx: boolean, scale: number): Float64Array => {
     const out = new Float64Array(p * p);
-    for (let k = 0; k < p * p; k++) out[k] = ((withXtx ? s.xtx[k]! : 0) + m[k]!) * scale;
+    for (let k = 0; k < p * p; k++) out[k] = ((addXtx ? s.xtx[k]! : 0) + m[k]!) * scale;
     return out;
   };
-  const Pm = P.map((acc, r) => finish(acc, r === nb, 1 / s4));
+  const Pm = sums.P.map((m, r) => finish(m, withXtx && r === nb, 1 / s4));
   const Qm: Float64Array[] = new Array<Float64Array>(q * q);
   for (let r = 0; r < q; r++) {
     for (let c = r; c < q; c++) {
-      const qm = finish(Q[r * q + c]!, r === nb && c === nb, 1 / s6);
+      const qm = finish(sums.Q[r * q + c]!, withXtx && r === nb && c === nb, 1 / s6);
       Qm[r * q + c] = qm;
       // Q_cr = Q_rc'.
       const qt = new Float64Array(p * p);
@@ -179,4 +199,125 @@ export function slopeAdjustedCovariance(phi: Float64Array, info: SlopeInformatio
   }
   const lam = matMul(matMul(phi, inner, p), phi, p);
   return phi.map((v, k) => v + 2 * lam[k]!);
+}
+
+/**
+ * The grouped layout's sums (B_i = C_i E_a, sums.ts), written with K = FC = Z'H⁻¹Z, which is symmetric, so that
+ * C F' = K and every sandwich C S C is a product of K, F and the basis: per arm the 2 × 2 totals
+ *   P_r: K E_r K,  P_σ²: F C F' = FK (= Z'H⁻²Z, so X'H⁻²X = Σ E_a'(FK)E_a without X'X),
+ *   Q_rs: K E_r K E_s K,  Q_rσ²: K E_r F K,  Q_σ²σ²: F K F' (= Z'H⁻³Z),
+ * and T as in the general route (tr(KE_rKE_s), tr(E_rFCF'), n − 2 tr(DK) + tr(DKDK)); each participant costs a few
+ * hundred operations, then each piece is E_a'(…)E_a per arm. Checked against the dense n × n formulas in the tests.
+ */
+function groupedPieces(s: SlopeSums, D: RelativeG, basis: readonly M2[]): PieceSums {
+  const p = s.p;
+  const [d11, d12, d22] = D;
+  const nb = basis.length;
+  const q = nb + 1;
+  const nA = s.E.length;
+  const g = s.group!;
+  const accP = new Float64Array(q * nA * 4);
+  const accQ = new Float64Array(q * q * nA * 4);
+  const T = new Float64Array(q * q);
+  const E = Float64Array.from(basis.flat());
+  const ke = new Float64Array(4 * nb);
+  const pk = new Float64Array(4 * nb);
+  const cn = s.n;
+  const ct = s.st;
+  const ctt = s.stt;
+  const add = (acc: Float64Array, o: number, v0: number, v1: number, v2: number, v3: number): void => {
+    acc[o] = acc[o]! + v0;
+    acc[o + 1] = acc[o + 1]! + v1;
+    acc[o + 2] = acc[o + 2]! + v2;
+    acc[o + 3] = acc[o + 3]! + v3;
+  };
+  for (let i = 0; i < s.nP; i++) {
+    const n = cn[i]!;
+    const t = ct[i]!;
+    const tt = ctt[i]!;
+    const a = g[i]!;
+    const m00 = 1 + n * d11 + t * d12;
+    const m01 = n * d12 + t * d22;
+    const m10 = t * d11 + tt * d12;
+    const m11 = 1 + t * d12 + tt * d22;
+    const det = m00 * m11 - m01 * m10;
+    const f00 = m11 / det;
+    const f01 = -m01 / det;
+    const f10 = -m10 / det;
+    const f11 = m00 / det;
+    // K = FC (symmetric; the off-diagonal averaged), G = FK = FCF' (symmetric), Hm = FKF' = F G'.
+    const k00 = f00 * n + f01 * t;
+    const k01 = 0.5 * (f00 * t + f01 * tt + f10 * n + f11 * t);
+    const k11 = f10 * t + f11 * tt;
+    const g00 = f00 * k00 + f01 * k01;
+    const g01 = 0.5 * (f00 * k01 + f01 * k11 + f10 * k00 + f11 * k01);
+    const g11 = f10 * k01 + f11 * k11;
+    const h00 = f00 * g00 + f01 * g01;
+    const h01 = 0.5 * (f00 * g01 + f01 * g11 + f10 * g00 + f11 * g01);
+    const h11 = f10 * g01 + f11 * g11;
+    for (let r = 0; r < nb; r++) {
+      const e = 4 * r;
+      const e0 = E[e]!;
+      const e1 = E[e + 1]!;
+      const e2 = E[e + 2]!;
+      const e3 = E[e + 3]!;
+      const ke00 = k00 * e0 + k01 * e2;
+      const ke01 = k00 * e1 + k01 * e3;
+      const ke10 = k01 * e0 + k11 * e2;
+      const ke11 = k01 * e1 + k11 * e3;
+      ke[e] = ke00;
+      ke[e + 1] = ke01;
+      ke[e + 2] = ke10;
+      ke[e + 3] = ke11;
+      const p00 = ke00 * k00 + ke01 * k01;
+      const p01 = ke00 * k01 + ke01 * k11;
+      const p10 = ke10 * k00 + ke11 * k01;
+      const p11 = ke10 * k01 + ke11 * k11;
+      pk[e] = p00;
+      pk[e + 1] = p01;
+      pk[e + 2] = p10;
+      pk[e + 3] = p11;
+      add(accP, (r * nA + a) * 4, p00, p01, p10, p11);
+      // Q_rσ² = (K E_r) G.
+      add(accQ, ((r * q + nb) * nA + a) * 4, ke00 * g00 + ke01 * g01, ke00 * g01 + ke01 * g11, ke10 * g00 + ke11 * g01, ke10 * g01 + ke11 * g11);
+      T[r * q + nb] = T[r * q + nb]! + e0 * g00 + (e1 + e2) * g01 + e3 * g11;
+    }
+    for (let r = 0; r < nb; r++) {
+      const e = 4 * r;
+      const p00 = pk[e]!;
+      const p01 = pk[e + 1]!;
+      const p10 = pk[e + 2]!;
+      const p11 = pk[e + 3]!;
+      for (let c = r; c < nb; c++) {
+        // Q_rs = (K E_r K)(E_s K), E_s K = (K E_s)'.
+        const f = 4 * c;
+        const s00 = ke[f]!;
+        const s01 = ke[f + 1]!;
+        const s10 = ke[f + 2]!;
+        const s11 = ke[f + 3]!;
+        add(accQ, ((r * q + c) * nA + a) * 4, p00 * s00 + p01 * s01, p00 * s10 + p01 * s11, p10 * s00 + p11 * s01, p10 * s10 + p11 * s11);
+        T[r * q + c] = T[r * q + c]! + ke[e]! * s00 + ke[e + 1]! * s10 + ke[e + 2]! * s01 + ke[e + 3]! * s11;
+      }
+    }
+    add(accP, (nb * nA + a) * 4, g00, g01, g01, g11);
+    add(accQ, ((q * q - 1) * nA + a) * 4, h00, h01, h01, h11);
+    // tr H⁻² = n − 2 tr(MC) + tr(MCMC) with MC = DFC = DK.
+    const dk00 = d11 * k00 + d12 * k01;
+    const dk01 = d11 * k01 + d12 * k11;
+    const dk10 = d12 * k00 + d22 * k01;
+    const dk11 = d12 * k01 + d22 * k11;
+    T[q * q - 1] = T[q * q - 1]! + n - 2 * (dk00 + dk11) + dk00 * dk00 + 2 * dk01 * dk10 + dk11 * dk11;
+  }
+  const total = (acc: Float64Array, slot: number): Float64Array => {
+    const out = new Float64Array(p * p);
+    for (let a = 0; a < nA; a++) {
+      const o = (slot * nA + a) * 4;
+      addSandwich(out, s.E[a]!, acc[o]!, acc[o + 1]!, acc[o + 2]!, acc[o + 3]!, p);
+    }
+    return out;
+  };
+  const P = Array.from({ length: q }, (_, r) => total(accP, r));
+  const Q = new Array<Float64Array>(q * q);
+  for (let r = 0; r < q; r++) for (let c = r; c < q; c++) Q[r * q + c] = total(accQ, r * q + c);
+  return { P, Q, T };
 }

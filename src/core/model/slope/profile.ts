@@ -175,6 +175,10 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
   const cmr = new Float64Array(2 * nA);
   let rMr = 0;
   let logDetH = 0;
+  // Σ log det(I + C_i D) as the log of running products (one logarithm per few hundred participants instead of one
+  // each); det ≥ 1 for positive semi-definite D, a huge one is taken alone, and a non-positive or NaN one makes the sum
+  // non-finite as before.
+  let detProduct = 1;
   for (let i = 0; i < nP; i++) {
     const n = cn[i]!;
     const t = ct[i]!;
@@ -184,11 +188,19 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
     const m10 = t * d11 + tt * d12;
     const m11 = 1 + t * d12 + tt * d22;
     const det = m00 * m11 - m01 * m10;
-    logDetH += Math.log(det);
-    const f00 = m11 / det;
-    const f01 = -m01 / det;
-    const f10 = -m10 / det;
-    const f11 = m00 / det;
+    if (det > 1e100) logDetH += Math.log(det);
+    else {
+      detProduct *= det;
+      if (!(detProduct < 1e200 && detProduct > 1e-200)) {
+        logDetH += Math.log(detProduct);
+        detProduct = 1;
+      }
+    }
+    const inv = 1 / det;
+    const f00 = m11 * inv;
+    const f01 = -m01 * inv;
+    const f10 = -m10 * inv;
+    const f11 = m00 * inv;
     const M00 = d11 * f00 + d12 * f10;
     const M01 = 0.5 * (d11 * f01 + d12 * f11 + d12 * f00 + d22 * f10);
     const M11 = d12 * f01 + d22 * f11;
@@ -197,24 +209,23 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
     const mr0 = M00 * r0 + M01 * r1;
     const mr1 = M01 * r0 + M11 * r1;
     rMr += r0 * mr0 + r1 * mr1;
-    // C M (C symmetric), then C M C.
+    // C M (C symmetric), then C M C, symmetric: its (1, 0) entry is the (0, 1) one.
     const a00 = n * M00 + t * M01;
     const a01 = n * M01 + t * M11;
-    const a10 = t * M00 + tt * M01;
     const a11 = t * M01 + tt * M11;
     const o = 4 * g[i]!;
     cmc[o] = cmc[o]! + a00 * n + a01 * t;
     cmc[o + 1] = cmc[o + 1]! + a00 * t + a01 * tt;
-    cmc[o + 2] = cmc[o + 2]! + a10 * n + a11 * t;
-    cmc[o + 3] = cmc[o + 3]! + a10 * t + a11 * tt;
+    cmc[o + 3] = cmc[o + 3]! + (t * M00 + tt * M01) * t + a11 * tt;
     const o2 = 2 * g[i]!;
     cmr[o2] = cmr[o2]! + n * mr0 + t * mr1;
     cmr[o2 + 1] = cmr[o2 + 1]! + t * mr0 + tt * mr1;
   }
+  logDetH += Math.log(detProduct);
   const BMB = new Float64Array(p * p);
   const BMr = new Float64Array(p);
   for (let a = 0; a < nA; a++) {
-    addSandwich(BMB, s.E[a]!, cmc[4 * a]!, cmc[4 * a + 1]!, cmc[4 * a + 2]!, cmc[4 * a + 3]!, p);
+    addSandwich(BMB, s.E[a]!, cmc[4 * a]!, cmc[4 * a + 1]!, cmc[4 * a + 1]!, cmc[4 * a + 3]!, p);
     addTransposed(BMr, s.E[a]!, cmr[2 * a]!, cmr[2 * a + 1]!, p);
   }
   const A = new Float64Array(p * p);
@@ -270,11 +281,11 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
     const m01 = n * d12 + t * d22;
     const m10 = t * d11 + tt * d12;
     const m11 = 1 + t * d12 + tt * d22;
-    const det = m00 * m11 - m01 * m10;
-    const f00 = m11 / det;
-    const f01 = -m01 / det;
-    const f10 = -m10 / det;
-    const f11 = m00 / det;
+    const inv = 1 / (m00 * m11 - m01 * m10);
+    const f00 = m11 * inv;
+    const f01 = -m01 * inv;
+    const f10 = -m10 * inv;
+    const f11 = m00 * inv;
     const ga = g[i]!;
     const e0b = eb[2 * ga]!;
     const e1b = eb[2 * ga + 1]!;

@@ -11,7 +11,8 @@
  * participant) and the pieces cost O(p²) per participant ("general").
  * Cost: O(n) (grouped) or O(n p²) (general) for the rows; memory O(participants) or O(participants · p).
  */
-import type { Design } from '../design';
+import { buildDesign, type Design } from '../design';
+import { applyScaling, type Scaling } from '../scaling';
 import { sufficientStats } from '../sufficient';
 import type { ModelData } from '../types';
 
@@ -55,8 +56,16 @@ function armMatrix(design: Design, a: number): Float64Array {
  * The sums of the (scaled) data. Rows are taken as they come: a participant's rows need not be together.
  * Example: one participant, y = [1, 3] at t = [0, 1], no arms -> n [2], st [1], stt [1], sy [4], sty [3].
  */
-export function slopeSums(data: ModelData, design: Design): SlopeSums {
+export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): SlopeSums {
   const { y, time, subject } = data;
+  // With `scaling` the data are as given and each row is scaled as it is read, exactly as applyScaling would (same
+  // operations, so the same numbers), without the scaled copy; the general layout makes the copy (it reads rows
+  // through the design).
+  const yc = scaling?.yCentre ?? 0;
+  const ys = scaling?.yScale ?? 1;
+  const tc = scaling?.tCentre ?? 0;
+  const ts = scaling?.tScale ?? 1;
+  const scaled = scaling !== undefined;
   const nRows = y.length;
   const nS = data.nSubjects;
   const p = design.p;
@@ -68,49 +77,37 @@ export function slopeSums(data: ModelData, design: Design): SlopeSums {
   const groupedDesign = design.timeCol >= 0 && data.covariates.length === 0 && p === (design.armCol >= 0 ? 2 * design.nArms : 2);
   const arm = design.armCol >= 0 ? data.armIndex : null;
   const groupOf = new Int32Array(groupedDesign ? nS : 0).fill(-1);
-  let yty = 0;
-  for (let r = 0; r < nRows; r++) {
-    const s = subject[r]!;
-    const t = time[r]!;
-    const v = y[r]!;
-    n[s] = n[s]! + 1;
-    st[s] = st[s]! + t;
-    stt[s] = stt[s]! + t * t;
-    sy[s] = sy[s]! + v;
-    sty[s] = sty[s]! + t * v;
-    yty += v * v;
-  }
-  // The grouped layout needs every participant in one arm; a participant in two arms sends the data to the general one.
+  // The grouped layout needs every participant in one arm; a participant in two arms sends the data to the general
+  // one. That check rides along in the same pass.
+  const acc = { n, st, stt, sy, sty, yty: 0 };
   let grouped = groupedDesign;
-  if (grouped && arm !== null) {
-    const nArms = design.nArms;
-    for (let r = 0; r < nRows; r++) {
-      const s = subject[r]!;
-      const a = arm[r]!;
-      if (!(a >= 0 && a < nArms)) {
-        grouped = false;
-        break;
-      }
-      const g = groupOf[s]!;
-      if (g === -1) groupOf[s] = a;
-      else if (g !== a) {
-        grouped = false;
-        break;
-      }
-    }
-  } else if (grouped) groupOf.fill(0);
+  if (grouped && arm !== null) grouped = rowSumsCheckingArms(data, acc, yc, ys, tc, ts, arm, design.nArms, groupOf);
+  else rowSums(data, acc, yc, ys, tc, ts);
+  const yty = acc.yty;
+  if (grouped && arm === null) groupOf.fill(0);
+  if (!grouped && scaled) {
+    const copy = applyScaling(data, scaling);
+    return slopeSums(copy, buildDesign(copy, false));
+  }
   const group = grouped ? groupOf : null;
   let nP = 0;
   for (let s = 0; s < nS; s++) if (n[s]! > 0) nP++;
   const subjectOf = new Int32Array(nP);
   for (let s = 0, k = 0; s < nS; s++) if (n[s]! > 0) subjectOf[k++] = s;
-  const pick = (v: Float64Array): Float64Array => (nP === nS ? v : Float64Array.from(subjectOf, (s) => v[s]!));
+  // Plain loops: TypedArray.from with a mapping function goes through the iterator protocol, far slower at this size.
+  const pick = (v: Float64Array): Float64Array => {
+    if (nP === nS) return v;
+    const out = new Float64Array(nP);
+    for (let i = 0; i < nP; i++) out[i] = v[subjectOf[i]!]!;
+    return out;
+  };
   const base = { p, nObs: nRows, nP, subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty), yty };
 
   if (group !== null) {
     const nArms = design.armCol >= 0 ? design.nArms : 1;
     const E = Array.from({ length: nArms }, (_, a) => armMatrix(design, a));
-    const g = Int32Array.from(subjectOf, (s) => group![s]!);
+    const g = nP === nS ? group : new Int32Array(nP);
+    if (g !== group) for (let i = 0; i < nP; i++) g[i] = group[subjectOf[i]!]!;
     // X'X = Σ_a E_a'(Σ C_i)E_a and X'y = Σ_a E_a'(Σ r_i): no row-level p × p work.
     const xtx = new Float64Array(p * p);
     const xty = new Float64Array(p);
@@ -152,6 +149,64 @@ export function slopeSums(data: ModelData, design: Design): SlopeSums {
     for (let i = 0; i < nP; i++) B.set(Bfull.subarray(subjectOf[i]! * 2 * p, (subjectOf[i]! + 1) * 2 * p), i * 2 * p);
   }
   return { ...base, group: null, E: [], B, xtx: general.xtx, xty: general.xty };
+}
+
+interface RowAccumulators {
+  readonly n: Float64Array;
+  readonly st: Float64Array;
+  readonly stt: Float64Array;
+  readonly sy: Float64Array;
+  readonly sty: Float64Array;
+  yty: number;
+}
+
+/**
+ * The row pass: per participant Σ1, Σt, Σt², Σy, Σty of t' = (t − tc)/ts and y' = (y − yc)/ys (tc = yc = 0 and
+ * ts = ys = 1 leave the data as they are: x − 0 and x / 1 are exact), and y'y. Kept small so the engine optimises it.
+ */
+function rowSums(data: ModelData, acc: RowAccumulators, yc: number, ys: number, tc: number, ts: number): void {
+  const { y, time, subject } = data;
+  const { n, st, stt, sy, sty } = acc;
+  let yty = 0;
+  for (let r = 0; r < y.length; r++) {
+    const s = subject[r]!;
+    const t = (time[r]! - tc) / ts;
+    const v = (y[r]! - yc) / ys;
+    n[s] = n[s]! + 1;
+    st[s] = st[s]! + t;
+    stt[s] = stt[s]! + t * t;
+    sy[s] = sy[s]! + v;
+    sty[s] = sty[s]! + t * v;
+    yty += v * v;
+  }
+  acc.yty = yty;
+}
+
+/** rowSums that also records each participant's arm in groupOf; false when an arm is out of range or a participant has two. */
+function rowSumsCheckingArms(data: ModelData, acc: RowAccumulators, yc: number, ys: number, tc: number, ts: number, arm: Int32Array, nArms: number, groupOf: Int32Array): boolean {
+  const { y, time, subject } = data;
+  const { n, st, stt, sy, sty } = acc;
+  let yty = 0;
+  let ok = true;
+  for (let r = 0; r < y.length; r++) {
+    const s = subject[r]!;
+    const t = (time[r]! - tc) / ts;
+    const v = (y[r]! - yc) / ys;
+    n[s] = n[s]! + 1;
+    st[s] = st[s]! + t;
+    stt[s] = stt[s]! + t * t;
+    sy[s] = sy[s]! + v;
+    sty[s] = sty[s]! + t * v;
+    yty += v * v;
+    const a = arm[r]!;
+    const g = groupOf[s]!;
+    if (g !== a || g === -1) {
+      if (g === -1 && a >= 0 && a < nArms) groupOf[s] = a;
+      else ok = false;
+    }
+  }
+  acc.yty = yty;
+  return ok;
 }
 
 /** out += E' S E for a 2 × 2 matrix S = [[s00, s01], [s10, s11]] and E 2 × p (row-major). Cost O(p²). */

@@ -6,7 +6,8 @@
  * Cost per evaluation O(N · (Newton steps + nodes)); derivatives O(N · nodes · q²), q = p + 1.
  */
 import type { HermiteRule } from './hermite';
-import { expit, findMode, logBernoulli, participantLogLik } from './participant';
+import { fillRowExpInPlace, logLikFast, modeInPlace, nodeConstants } from './kernel';
+import { expit, logBernoulli } from './participant';
 
 export interface Grouped {
   readonly p: number;
@@ -16,6 +17,8 @@ export interface Grouped {
   /** Row indices grouped by participant: participant g's rows are order[start[g] .. start[g + 1]). */
   readonly order: Int32Array;
   readonly start: Int32Array;
+  /** Participants each group stands for (patterns.ts); 1 each when absent. */
+  readonly count?: Float64Array;
 }
 
 export interface Objective {
@@ -27,12 +30,16 @@ export interface Objective {
 
 /** Builds the objective for the grouped data and a quadrature rule. */
 export function makeObjective(g: Grouped, rule: HermiteRule): Objective {
-  const { p, x, y, order, start } = g;
+  const { p, x, y, order, start, count } = g;
   const N = y.length;
   const nG = start.length - 1;
   const q = p + 1;
   const eta = new Float64Array(N);
+  const rows = { eta, up: new Float64Array(N), down: new Float64Array(N) };
   const modes = new Float64Array(nG);
+  const consts = nodeConstants(rule);
+  const terms = new Float64Array(rule.nodes.length);
+  const mt = new Float64Array(2);
   const fillEta = (theta: Float64Array): void => {
     for (let r = 0; r < N; r++) {
       let s = 0;
@@ -42,20 +49,23 @@ export function makeObjective(g: Grouped, rule: HermiteRule): Objective {
   };
   const value = (theta: Float64Array): number => {
     fillEta(theta);
+    fillRowExpInPlace(rows);
     const sigma = theta[p]!;
     let total = 0;
     for (let i = 0; i < nG; i++) {
       const lo = start[i]!;
       const hi = start[i + 1]!;
       if (hi === lo) continue;
-      const md = findMode(eta, y, order, lo, hi, sigma, modes[i]!);
-      modes[i] = md.mode;
-      total += participantLogLik(eta, y, order, lo, hi, sigma, rule, md.mode, md.tau);
+      modeInPlace(rows, y, order, lo, hi, sigma, modes[i]!, mt);
+      modes[i] = mt[0]!;
+      const li = logLikFast(rows, y, order, lo, hi, sigma, rule.nodes, consts, mt[0]!, mt[1]!, terms);
+      total += count === undefined ? li : count[i]! * li;
     }
     return total;
   };
   const derivatives = (theta: Float64Array): { value: number; grad: Float64Array; hess: Float64Array } => {
     fillEta(theta);
+    fillRowExpInPlace(rows);
     const sigma = theta[p]!;
     const K = rule.nodes.length;
     const grad = new Float64Array(q);
@@ -72,8 +82,10 @@ export function makeObjective(g: Grouped, rule: HermiteRule): Objective {
       const lo = start[i]!;
       const hi = start[i + 1]!;
       if (hi === lo) continue;
-      const md = findMode(eta, y, order, lo, hi, sigma, modes[i]!);
+      modeInPlace(rows, y, order, lo, hi, sigma, modes[i]!, mt);
+      const md = { mode: mt[0]!, tau: mt[1]! };
       modes[i] = md.mode;
+      const c = count === undefined ? 1 : count[i]!;
       gk.fill(0);
       hk.fill(0);
       let top = -Infinity;
@@ -107,18 +119,18 @@ export function makeObjective(g: Grouped, rule: HermiteRule): Objective {
         post[k] = Math.exp(logw[k]! - top);
         s += post[k]!;
       }
-      total += top + Math.log(s) + Math.log(Math.SQRT2 * md.tau) - 0.5 * Math.log(2 * Math.PI);
+      total += c * (top + Math.log(s) + Math.log(Math.SQRT2 * md.tau) - 0.5 * Math.log(2 * Math.PI));
       gi.fill(0);
       for (let k = 0; k < K; k++) {
         post[k] = post[k]! / s;
         for (let a = 0; a < q; a++) gi[a] = gi[a]! + post[k]! * gk[k * q + a]!;
       }
       for (let a = 0; a < q; a++) {
-        grad[a] = grad[a]! + gi[a]!;
+        grad[a] = grad[a]! + c * gi[a]!;
         for (let b = 0; b <= a; b++) {
           let hab = 0;
           for (let k = 0; k < K; k++) hab += post[k]! * (hk[k * q * q + a * q + b]! + gk[k * q + a]! * gk[k * q + b]!);
-          hess[a * q + b] = hess[a * q + b]! + hab - gi[a]! * gi[b]!;
+          hess[a * q + b] = hess[a * q + b]! + c * (hab - gi[a]! * gi[b]!);
         }
       }
     }

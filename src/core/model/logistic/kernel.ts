@@ -71,6 +71,36 @@ export function hFast(rows: RowExp, y: Float64Array, idx: Int32Array, lo: number
 }
 
 /**
+ * h(z) as `hFast`, and π_r = expit(η_r + σz) of each row written to pr[at + (t − lo)].
+ */
+export function hAndProbabilities(rows: RowExp, y: Float64Array, idx: Int32Array, lo: number, hi: number, sigma: number, z: number, pr: Float64Array, at: number): number {
+  const { eta, up, down } = rows;
+  const s = sigma * z;
+  const factored = Math.abs(s) <= SAFE;
+  const ps = factored ? Math.exp(s) : 0;
+  const qs = factored ? 1 / ps : 0;
+  let lin = -0.5 * z * z;
+  let prod = 1;
+  let logs = 0;
+  for (let t = lo; t < hi; t++) {
+    const r = idx[t]!;
+    const x = eta[r]! + s;
+    const u = up[r]!;
+    const e = factored && u !== 0 ? (x > 0 ? down[r]! * qs : u * ps) : Math.exp(-Math.abs(x));
+    prod *= 1 + e;
+    pr[at + t - lo] = x >= 0 ? 1 / (1 + e) : e / (1 + e);
+    if (y[r] === 1) {
+      if (x < 0) lin += x;
+    } else if (x > 0) lin -= x;
+    if (prod > 1e280) {
+      logs += Math.log(prod);
+      prod = 1;
+    }
+  }
+  return lin - (logs + Math.log(prod));
+}
+
+/**
  * The mode m of h and τ = (−h''(m))^{−1/2}, written to out[0], out[1]: the same Newton iteration as `findMode`
  * (participant.ts) from `start`, halving a step that does not increase h, to |step| < 1e-12 (1 + |z|).
  */

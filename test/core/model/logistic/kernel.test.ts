@@ -10,7 +10,7 @@ import { hermiteRule } from '../../../../src/core/model/logistic';
 import { groupRows } from '../../../../src/core/model/logistic/fitLogistic';
 import { fillRowExpInPlace, logLikFast, modeInPlace, nodeConstants, type RowExp } from '../../../../src/core/model/logistic/kernel';
 import { makeObjective } from '../../../../src/core/model/logistic/objective';
-import { expit, findMode, participantLogLik } from '../../../../src/core/model/logistic/participant';
+import { expit, findMode, logBernoulli, participantLogLik } from '../../../../src/core/model/logistic/participant';
 import { groupPatterns } from '../../../../src/core/model/logistic/patterns';
 import { mulberry32 } from '../../../../scripts/random';
 
@@ -142,5 +142,78 @@ describe('participants grouped by (design rows, answers)', () => {
     const x2 = Float64Array.from(d.x);
     x2[7 * d.p + 2] = x2[7 * d.p + 2]! * (1 + Number.EPSILON);
     expect(groupPatterns({ p: d.p, x: x2, y: d.y, order, start }).count).toEqual(Float64Array.of(1, 1));
+  });
+});
+
+/**
+ * The fixed-node gradient and Hessian written out the plain way (per node, per row, the q × q outer products) with
+ * the reference mode and expit/logBernoulli, against derivatives.ts (rows-outer sums of the same terms).
+ */
+function plainDerivatives(p: number, x: Float64Array, y: Float64Array, subject: Int32Array, nSubjects: number, theta: Float64Array, nodes: number): { value: number; grad: Float64Array; hess: Float64Array } {
+  const rule = hermiteRule(nodes);
+  const q = p + 1;
+  const sigma = theta[p]!;
+  const eta = Float64Array.from(y, (_, r) => {
+    let s = 0;
+    for (let j = 0; j < p; j++) s += x[r * p + j]! * theta[j]!;
+    return s;
+  });
+  const grad = new Float64Array(q);
+  const hess = new Float64Array(q * q);
+  let value = 0;
+  for (let i = 0; i < nSubjects; i++) {
+    const rowsOfI = Int32Array.from(Array.from(subject.keys()).filter((r) => subject[r] === i));
+    const md = findMode(eta, y, rowsOfI, 0, rowsOfI.length, sigma, 0);
+    const lw: number[] = [];
+    const gks: Float64Array[] = [];
+    const hks: Float64Array[] = [];
+    rule.nodes.forEach((xk, k) => {
+      const z = md.mode + Math.SQRT2 * md.tau * xk;
+      let f = Math.log(rule.weights[k]!) + xk * xk - 0.5 * z * z;
+      const g = new Float64Array(q);
+      const h = new Float64Array(q * q);
+      for (const r of rowsOfI) {
+        const e = eta[r]! + sigma * z;
+        const pr = expit(e);
+        f += logBernoulli(y[r]!, e);
+        const v = [...Array.from({ length: p }, (_, j) => x[r * p + j]!), z];
+        for (let a = 0; a < q; a++) {
+          g[a] = g[a]! + (y[r]! - pr) * v[a]!;
+          for (let b = 0; b < q; b++) h[a * q + b] = h[a * q + b]! - pr * (1 - pr) * v[a]! * v[b]!;
+        }
+      }
+      lw.push(f);
+      gks.push(g);
+      hks.push(h);
+    });
+    const top = Math.max(...lw);
+    const post = lw.map((f) => Math.exp(f - top));
+    const s = post.reduce((a, b) => a + b, 0);
+    value += top + Math.log(s) + Math.log(Math.SQRT2 * md.tau) - 0.5 * Math.log(2 * Math.PI);
+    const gi = new Float64Array(q);
+    post.forEach((w, k) => gks[k]!.forEach((g, a) => (gi[a] = gi[a]! + (w / s) * g)));
+    for (let a = 0; a < q; a++) {
+      grad[a] = grad[a]! + gi[a]!;
+      for (let b = 0; b < q; b++) {
+        let hab = 0;
+        post.forEach((w, k) => (hab += (w / s) * (hks[k]![a * q + b]! + gks[k]![a]! * gks[k]![b]!)));
+        hess[a * q + b] = hess[a * q + b]! + hab - gi[a]! * gi[b]!;
+      }
+    }
+  }
+  return { value, grad, hess };
+}
+
+describe('fixed-node derivatives, rows-outer (derivatives.ts), equal the plain per-node sums', () => {
+  it.each([[0.2], [1.5], [4]])('σ = %s: value, gradient and Hessian to 1e-10 relative', (sigma) => {
+    const d = invented(40, 21);
+    for (let r = 0; r < d.y.length; r++) d.x[r * d.p + 2] = d.x[r * d.p + 2]! + 0.01 * (r % 7); // not a fixed schedule
+    const theta = Float64Array.of(-0.3, 0.4, 0.9, sigma);
+    const { order, start } = groupRows(d.subject, 40);
+    const fast = makeObjective({ p: d.p, x: d.x, y: d.y, order, start }, hermiteRule(11)).derivatives(theta);
+    const plain = plainDerivatives(d.p, d.x, d.y, d.subject, 40, theta, 11);
+    expect(Math.abs(fast.value - plain.value)).toBeLessThan(1e-12 * Math.abs(plain.value));
+    plain.grad.forEach((g, j) => expect(Math.abs(fast.grad[j]! - g)).toBeLessThan(1e-10 * (1 + Math.abs(g))));
+    plain.hess.forEach((h, j) => expect(Math.abs(fast.hess[j]! - h)).toBeLessThan(1e-10 * (1 + Math.abs(h))));
   });
 });

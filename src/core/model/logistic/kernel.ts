@@ -101,7 +101,7 @@ export function hAndProbabilities(rows: RowExp, y: Float64Array, idx: Int32Array
 }
 
 /**
- * The mode m of h and τ = (−h''(m))^{−1/2}, written to out[0], out[1]: the same Newton iteration as `findMode`
+ * The mode m of h, τ = (−h''(m))^{−1/2} and h(m), written to out[0], out[1], out[2]: the same Newton iteration as `findMode`
  * (participant.ts) from `start`, halving a step that does not increase h, to |step| < 1e-12 (1 + |z|).
  */
 export function modeInPlace(rows: RowExp, y: Float64Array, idx: Int32Array, lo: number, hi: number, sigma: number, start: number, out: Float64Array): void {
@@ -132,6 +132,7 @@ export function modeInPlace(rows: RowExp, y: Float64Array, idx: Int32Array, lo: 
   if (!curvAtZ) curv = slopeAndCurvature(rows, y, idx, lo, hi, sigma, z, out);
   out[0] = z;
   out[1] = 1 / Math.sqrt(curv);
+  out[2] = hz;
 }
 
 /** h'(z) into out[0]; returns −h''(z) = 1 + σ² Σ π(1 − π), π = expit(η + σz). */
@@ -160,6 +161,50 @@ function slopeAndCurvature(rows: RowExp, y: Float64Array, idx: Int32Array, lo: n
 /** log w_k + x_k² per node of a rule (the adaptive rule's node constants). */
 export function nodeConstants(rule: HermiteRule): Float64Array {
   return Float64Array.from(rule.nodes, (x, k) => Math.log(rule.weights[k]!) + x * x);
+}
+
+/**
+ * e^{h(z) − hm} = e^{lin − hm} / Π_r (1 + e^{−|x_r|}) with lin = −z²/2 − Σ_r max(∓x_r, 0), without a log; NaN when
+ * the product would need folding (then the caller takes the log path).
+ */
+function relativeDensity(rows: RowExp, y: Float64Array, idx: Int32Array, lo: number, hi: number, sigma: number, z: number, hm: number): number {
+  const { eta, up, down } = rows;
+  const s = sigma * z;
+  const factored = Math.abs(s) <= SAFE;
+  const ps = factored ? Math.exp(s) : 0;
+  const qs = factored ? 1 / ps : 0;
+  let lin = -0.5 * z * z;
+  let prod = 1;
+  for (let t = lo; t < hi; t++) {
+    const r = idx[t]!;
+    const x = eta[r]! + s;
+    const u = up[r]!;
+    const e = factored && u !== 0 ? (x > 0 ? down[r]! * qs : u * ps) : Math.exp(-Math.abs(x));
+    prod *= 1 + e;
+    if (y[r] === 1) {
+      if (x < 0) lin += x;
+    } else if (x > 0) lin -= x;
+  }
+  return prod > 1e280 ? NaN : Math.exp(lin - hm) / prod;
+}
+
+/** w_k e^{x_k²} per node (the adaptive rule's weights for e^{h − h(m)}). */
+export function nodeWeights(rule: HermiteRule): Float64Array {
+  return Float64Array.from(rule.nodes, (x, k) => rule.weights[k]! * Math.exp(x * x));
+}
+
+/**
+ * log L_i as `logLikFast`, summing Σ_k w_k e^{x_k²} e^{h(z_k) − h(m)} directly (one exp per node, no log): each term is
+ * at most w_k e^{x_k²} since m maximises h. Falls back to `logLikFast` when a term is not finite or the sum is not
+ * positive (a mode far from converged, or more than ~900 rows).
+ */
+export function logLikAtMode(rows: RowExp, y: Float64Array, idx: Int32Array, lo: number, hi: number, sigma: number, nodes: Float64Array, consts: Float64Array, weights: Float64Array, m: number, tau: number, hm: number, terms: Float64Array): number {
+  const K = nodes.length;
+  const scale = Math.SQRT2 * tau;
+  let s = 0;
+  for (let k = 0; k < K; k++) s += weights[k]! * relativeDensity(rows, y, idx, lo, hi, sigma, m + scale * nodes[k]!, hm);
+  if (s > 0 && s < Infinity) return hm + Math.log(s) + Math.log(scale) - LOG_SQRT_2PI;
+  return logLikFast(rows, y, idx, lo, hi, sigma, nodes, consts, m, tau, terms);
 }
 
 /**

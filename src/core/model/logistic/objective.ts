@@ -8,7 +8,7 @@
  * O(N · nodes · p + N p²) (derivatives.ts), q = p + 1.
  */
 import type { HermiteRule } from './hermite';
-import { fillRowExpInPlace, logLikFast, modeInPlace, nodeConstants } from './kernel';
+import { fillRowExpInPlace, logLikAtMode, modeInPlace, nodeConstants, nodeWeights } from './kernel';
 import { addParticipantDerivatives, derivativeScratch } from './derivatives';
 
 export interface Grouped {
@@ -41,7 +41,8 @@ export function makeObjective(g: Grouped, rule: HermiteRule): Objective {
   const modes = new Float64Array(nG);
   const consts = nodeConstants(rule);
   const terms = new Float64Array(rule.nodes.length);
-  const mt = new Float64Array(2);
+  const mt = new Float64Array(3);
+  const weights = nodeWeights(rule);
   const fillEta = (theta: Float64Array): void => {
     for (let r = 0; r < N; r++) {
       let s = 0;
@@ -60,7 +61,7 @@ export function makeObjective(g: Grouped, rule: HermiteRule): Objective {
       if (hi === lo) continue;
       modeInPlace(rows, y, order, lo, hi, sigma, modes[i]!, mt);
       modes[i] = mt[0]!;
-      const li = logLikFast(rows, y, order, lo, hi, sigma, rule.nodes, consts, mt[0]!, mt[1]!, terms);
+      const li = logLikAtMode(rows, y, order, lo, hi, sigma, rule.nodes, consts, weights, mt[0]!, mt[1]!, mt[2]!, terms);
       total += count === undefined ? li : count[i]! * li;
     }
     return total;

@@ -1,5 +1,5 @@
 /**
- * The fast per-participant kernel (kernel.ts) against the plain per-row reference (participant.ts), and the grouping of
+ * The fast per-participant kernel (kernel.ts: with logs per node, and summed relative to h at the mode) against the plain per-row reference (participant.ts), and the grouping of
  * identical participants (patterns.ts) against the ungrouped likelihood. Both are exact rewritings (the same sums in
  * another order, e^{a+b} = e^a e^b, Σ log(1 + e_r) = log Π (1 + e_r)), so the tolerances only cover rounding:
  * 1e-12 absolute on log L_i of size ≲ 1e3 (a few ulp per row), 1e-12 relative on whole-data sums.
@@ -8,7 +8,7 @@
 import { describe, expect, it } from 'vitest';
 import { hermiteRule } from '../../../../src/core/model/logistic';
 import { groupRows } from '../../../../src/core/model/logistic/fitLogistic';
-import { fillRowExpInPlace, logLikFast, modeInPlace, nodeConstants, type RowExp } from '../../../../src/core/model/logistic/kernel';
+import { fillRowExpInPlace, logLikAtMode, logLikFast, modeInPlace, nodeConstants, nodeWeights, type RowExp } from '../../../../src/core/model/logistic/kernel';
 import { makeObjective } from '../../../../src/core/model/logistic/objective';
 import { expit, findMode, logBernoulli, participantLogLik } from '../../../../src/core/model/logistic/participant';
 import { groupPatterns } from '../../../../src/core/model/logistic/patterns';
@@ -26,9 +26,11 @@ function both(eta: Float64Array, y: Float64Array, sigma: number, nodes: number):
   const md = findMode(eta, y, idx, 0, y.length, sigma, 0);
   const plain = participantLogLik(eta, y, idx, 0, y.length, sigma, rule, md.mode, md.tau);
   const rows = rowsOf(eta);
-  const out = new Float64Array(2);
+  const out = new Float64Array(3);
   modeInPlace(rows, y, idx, 0, y.length, sigma, 0, out);
   const fast = logLikFast(rows, y, idx, 0, y.length, sigma, rule.nodes, nodeConstants(rule), out[0]!, out[1]!, new Float64Array(nodes));
+  const atMode = logLikAtMode(rows, y, idx, 0, y.length, sigma, rule.nodes, nodeConstants(rule), nodeWeights(rule), out[0]!, out[1]!, out[2]!, new Float64Array(nodes));
+  expect(Math.abs(atMode - plain)).toBeLessThan(1e-12 * (1 + Math.abs(plain)));
   return { fast, plain, mFast: out[0]!, mPlain: md.mode, tauFast: out[1]!, tauPlain: md.tau };
 }
 

@@ -18,19 +18,23 @@ export function yesNoData(data: ModelData): ModelData {
 }
 
 /** The yes/no model's entry: best of `runs` fits (after one on `warm`) against `olsSeconds`; throws when the fit fails. */
-export function yesNoEntry(data: ModelData, warm: ModelData, olsSeconds: number, runs: number): { entry: BenchEntry; fit: LogisticFit; times: number[] } {
+export function yesNoEntry(data: ModelData, warm: ModelData, olsSeconds: number, runs: number): { entry: BenchEntry; fit: LogisticFit; times: number[]; cpuTimes: number[] } {
   const yesNo = yesNoData(data);
   fitLogistic(yesNoData(warm), { level: 0.95, timeUnit: 'month', contrastDays: visits });
   const times: number[] = [];
+  const cpuTimes: number[] = [];
   let fit: LogisticFit | undefined;
   for (let k = 0; k < runs; k++) {
     const t0 = process.hrtime.bigint();
+    const c0 = process.cpuUsage();
     fit = fitLogistic(yesNo, { level: 0.95, timeUnit: 'month', contrastDays: visits });
     times.push(seconds(t0));
+    const c = process.cpuUsage(c0);
+    cpuTimes.push((c.user + c.system) / 1e6);
   }
   if (fit === undefined || fit.status === 'failed') throw new Error(`benchmark yes/no model failed: ${fit?.message ?? 'no run'}`);
   const best = Math.min(...times);
-  return { entry: { name: 'yes/no model, 25 points', rows: data.y.length, seconds: best, baselineSeconds: olsSeconds, ratio: best / olsSeconds, peakMB: peakMB() }, fit, times };
+  return { entry: { name: 'yes/no model, 25 points', rows: data.y.length, seconds: best, baselineSeconds: olsSeconds, ratio: best / olsSeconds, peakMB: peakMB() }, fit, times, cpuTimes };
 }
 
 /** Participants with distinct (design rows, answers): arm, exact times and answers here. */

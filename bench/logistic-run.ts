@@ -5,6 +5,7 @@
  * bench/logistic-latest.json.
  */
 import { writeFileSync } from 'node:fs';
+import { loadavg } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { distinctPatterns, yesNoEntry } from './logistic-bench';
@@ -21,13 +22,13 @@ for (let k = 0; k < 5; k++) {
   olsPass(data);
   ols = Math.min(ols, seconds(t0));
 }
-const { entry, fit, times } = yesNoEntry(data, benchData(5_000, 1), ols, runs);
+const { entry, fit, times, cpuTimes } = yesNoEntry(data, benchData(5_000, 1), ols, runs);
 const patterns = distinctPatterns(data);
-const out = { ...entry, runs: times, participants: data.nSubjects, patterns, iterations: fit.iterations, logLik: fit.logLik, quadratureCheck: fit.quadratureCheck, date: new Date().toISOString() };
+const out = { ...entry, runs: times, cpuSeconds: cpuTimes, loadAverage: loadavg(), participants: data.nSubjects, patterns, iterations: fit.iterations, logLik: fit.logLik, quadratureCheck: fit.quadratureCheck, date: new Date().toISOString() };
 writeFileSync(join(dirname(fileURLToPath(import.meta.url)), 'logistic-latest.json'), `${JSON.stringify(out, null, 2)}\n`);
 process.stdout.write(
   `yes/no model, ${entry.rows.toLocaleString('en')} rows (${data.nSubjects.toLocaleString('en')} participants, ${patterns.toLocaleString('en')} distinct patterns)\n` +
-    `fit: best of ${runs} ${entry.seconds.toFixed(2)} s (runs ${times.map((t) => t.toFixed(2)).join(', ')}); one OLS pass ${ols.toFixed(4)} s; ratio ${entry.ratio.toFixed(0)}\n` +
+    `fit: best of ${runs} ${entry.seconds.toFixed(2)} s (runs ${times.map((t) => t.toFixed(2)).join(', ')}; CPU ${cpuTimes.map((t) => t.toFixed(2)).join(', ')} s); one OLS pass ${ols.toFixed(4)} s; ratio ${entry.ratio.toFixed(0)}\n` +
     `iterations ${fit.iterations}, log-likelihood ${fit.logLik.toFixed(4)}, peak ${entry.peakMB} MB. Wrote bench/logistic-latest.json\n`,
 );
 

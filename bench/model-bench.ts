@@ -10,10 +10,10 @@
  */
 import { fitRandomIntercept, fitRandomSlope, type FitOptions, type ModelData } from '../src/core/model';
 import { fitGee } from '../src/core/model/gee';
-import { fitLogistic } from '../src/core/model/logistic';
 import { mulberry32 as seeded } from '../scripts/random';
 import type { BenchEntry } from './types';
 import { runRepeatedBench } from './repeated-bench';
+import { yesNoEntry } from './logistic-bench';
 
 
 /** Invented eGFR-like data: rows/5 patients x 5 visits, arms alternating, time in months; with slopeSd > 0 each
@@ -122,8 +122,8 @@ function best<T>(times: number, f: () => T): { seconds: number; value: T } {
   return { seconds: bestS, value: value as T };
 }
 
-/** Largest data set the yes/no model is timed on (see otherModels). */
-const YES_NO_MAX_ROWS = 100_000;
+/** Runs of the yes/no model per size (a few minutes at 1,000,000 rows each; see bench/logistic-bench.ts). */
+const YES_NO_RUNS = 3;
 
 /** Runs per timing; the best is kept (the machine is shared, so single runs are noisy). */
 const RUNS = 5;
@@ -168,19 +168,13 @@ export async function runModelBench(rows: number): Promise<BenchEntry[]> {
 
 /**
  * GEE (exchangeable, three SEs; best of RUNS) and the yes/no model (yes = value below 55, 25 quadrature points, with
- * the check at 50; one run), both against the same OLS pass. The yes/no model is measured up to YES_NO_MAX_ROWS only:
- * it costs O(rows · points) per likelihood evaluation and about a hundred evaluations (278 s at 100,000 rows on the
- * shared 2-core machine, 2026-12-02), so 1,000,000 rows would take most of an hour.
+ * the check at 50; best of YES_NO_RUNS, bench/logistic-bench.ts), both against the same OLS pass.
  */
 export function otherModels(data: ModelData, olsSeconds: number): BenchEntry[] {
   fitGee(benchData(5_000, 1), { level: 0.95, timeUnit: 'month' });
   const gee = best(RUNS, () => fitGee(data, { level: 0.95, timeUnit: 'month' }));
   if (gee.value.status !== 'converged') throw new Error(`benchmark GEE failed: ${gee.value.message}`);
   const out: BenchEntry[] = [{ name: 'GEE, exchangeable', rows: data.y.length, seconds: gee.seconds, baselineSeconds: olsSeconds, ratio: gee.seconds / olsSeconds, peakMB: peakMB() }];
-  if (data.y.length > YES_NO_MAX_ROWS) return out;
-  const yesNo = { ...data, y: data.y.map((v) => (v < 55 ? 1 : 0)) };
-  const lg = best(1, () => fitLogistic(yesNo, { level: 0.95, timeUnit: 'month', contrastDays: visits }));
-  if (lg.value.status === 'failed') throw new Error(`benchmark yes/no model failed: ${lg.value.message}`);
-  out.push({ name: 'yes/no model, 25 points', rows: data.y.length, seconds: lg.seconds, baselineSeconds: olsSeconds, ratio: lg.seconds / olsSeconds, peakMB: peakMB() });
+  out.push(yesNoEntry(data, benchData(5_000, 1), olsSeconds, YES_NO_RUNS).entry);
   return out;
 }

@@ -18,6 +18,7 @@ import { validateModelRows, validateModelShape } from '../validate';
 import { hermiteRule } from './hermite';
 import { makeObjective } from './objective';
 import { maximise } from './optimise';
+import { groupPatterns } from './patterns';
 import { expit } from './participant';
 import type { LogisticContrast, LogisticEffect, LogisticFit, LogisticOptions, MarginalProbability } from './types';
 
@@ -51,14 +52,15 @@ export function fitLogistic(data: ModelData, options: LogisticOptions): Logistic
   if (nClusters < 2) throw new DegenerateDataError('one-subject', 'Only one participant has values; the model needs at least two.');
   if (nYes === 0 || nYes === N) throw new DegenerateDataError('no-variation', `Every observation is ${nYes === 0 ? 'no' : 'yes'}; there is nothing to model.`);
 
-  const obj = makeObjective({ p, x, y: data.y, order, start }, hermiteRule(nodes));
+  const patterns = groupPatterns({ p, x, y: data.y, order, start });
+  const obj = makeObjective(patterns, hermiteRule(nodes));
   const startTheta = new Float64Array(p + 1);
   startTheta[0] = Math.log(nYes / (N - nYes));
   startTheta[p] = 1;
   const max = maximise(obj, startTheta);
   // Quadrature check: ℓ at the estimates with twice the nodes (one more evaluation).
   const checkNodes = Math.min(2 * nodes, 200);
-  const quadratureCheck = { nodes: checkNodes, logLikChange: makeObjective({ p, x, y: data.y, order, start }, hermiteRule(checkNodes)).value(max.theta) - max.logLik };
+  const quadratureCheck = { nodes: checkNodes, logLikChange: makeObjective(patterns, hermiteRule(checkNodes)).value(max.theta) - max.logLik };
   // Back to the original columns: β_j = β'_j / s_j, Cov_jk = Cov'_jk / (s_j s_k); σ ≥ 0 (ℓ is even in σ).
   const sigma = Math.abs(max.theta[p]!);
   const beta = Array.from({ length: p }, (_, j) => max.theta[j]! / colScale[j]!);

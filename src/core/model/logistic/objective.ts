@@ -1,12 +1,15 @@
 /**
  * The log-likelihood of the random-intercept logistic model over all participants, ℓ(β, σ) = Σ_i log L_i with
- * L_i = ∫ Π_j p(y_ij | x_ij'β + σz) φ(z) dz by adaptive Gauss–Hermite quadrature (participant.ts), and its gradient
+ * L_i = ∫ Π_j p(y_ij | x_ij'β + σz) φ(z) dz by adaptive Gauss–Hermite quadrature (kernel.ts), and its gradient
  * and Hessian with the quadrature nodes held where the adaptation put them (used to choose Newton steps; the step
  * is then judged on ℓ itself). σ enters as u = σz, so ℓ is smooth through σ = 0 and even in σ.
- * Cost per evaluation O(N · (Newton steps + nodes)); derivatives O(N · nodes · q²), q = p + 1.
+ * Each group of rows is a participant, or a pattern of identical participants with its count (patterns.ts).
+ * Cost per evaluation O(N · (Newton steps + nodes)) flops but O(N + groups · nodes) exp/log calls; derivatives
+ * O(N · nodes · p + N p²) (derivatives.ts), q = p + 1.
  */
 import type { HermiteRule } from './hermite';
-import { expit, findMode, logBernoulli, participantLogLik } from './participant';
+import { fillRowExpInPlace, logLikAtMode, modeInPlace, nodeConstants, nodeWeights } from './kernel';
+import { addParticipantDerivatives, derivativeScratch } from './derivatives';
 
 export interface Grouped {
   readonly p: number;
@@ -16,6 +19,8 @@ export interface Grouped {
   /** Row indices grouped by participant: participant g's rows are order[start[g] .. start[g + 1]). */
   readonly order: Int32Array;
   readonly start: Int32Array;
+  /** Participants each group stands for (patterns.ts); 1 each when absent. */
+  readonly count?: Float64Array;
 }
 
 export interface Objective {
@@ -27,12 +32,17 @@ export interface Objective {
 
 /** Builds the objective for the grouped data and a quadrature rule. */
 export function makeObjective(g: Grouped, rule: HermiteRule): Objective {
-  const { p, x, y, order, start } = g;
+  const { p, x, y, order, start, count } = g;
   const N = y.length;
   const nG = start.length - 1;
   const q = p + 1;
   const eta = new Float64Array(N);
+  const rows = { eta, up: new Float64Array(N), down: new Float64Array(N) };
   const modes = new Float64Array(nG);
+  const consts = nodeConstants(rule);
+  const terms = new Float64Array(rule.nodes.length);
+  const mt = new Float64Array(3);
+  const weights = nodeWeights(rule);
   const fillEta = (theta: Float64Array): void => {
     for (let r = 0; r < N; r++) {
       let s = 0;
@@ -42,85 +52,38 @@ export function makeObjective(g: Grouped, rule: HermiteRule): Objective {
   };
   const value = (theta: Float64Array): number => {
     fillEta(theta);
+    fillRowExpInPlace(rows);
     const sigma = theta[p]!;
     let total = 0;
     for (let i = 0; i < nG; i++) {
       const lo = start[i]!;
       const hi = start[i + 1]!;
       if (hi === lo) continue;
-      const md = findMode(eta, y, order, lo, hi, sigma, modes[i]!);
-      modes[i] = md.mode;
-      total += participantLogLik(eta, y, order, lo, hi, sigma, rule, md.mode, md.tau);
+      modeInPlace(rows, y, order, lo, hi, sigma, modes[i]!, mt);
+      modes[i] = mt[0]!;
+      const li = logLikAtMode(rows, y, order, lo, hi, sigma, rule.nodes, consts, weights, mt[0]!, mt[1]!, mt[2]!, terms);
+      total += count === undefined ? li : count[i]! * li;
     }
     return total;
   };
+  let maxRows = 0;
+  for (let i = 0; i < nG; i++) maxRows = Math.max(maxRows, start[i + 1]! - start[i]!);
+  const scratch = derivativeScratch(rule.nodes.length, maxRows, q);
   const derivatives = (theta: Float64Array): { value: number; grad: Float64Array; hess: Float64Array } => {
     fillEta(theta);
+    fillRowExpInPlace(rows);
     const sigma = theta[p]!;
-    const K = rule.nodes.length;
     const grad = new Float64Array(q);
     const hess = new Float64Array(q * q);
-    const logw = new Float64Array(K);
-    const post = new Float64Array(K);
-    const gk = new Float64Array(K * q);
-    const hk = new Float64Array(K * q * q);
-    const zs = new Float64Array(K);
-    const gi = new Float64Array(q);
-    const v = new Float64Array(q);
     let total = 0;
     for (let i = 0; i < nG; i++) {
       const lo = start[i]!;
       const hi = start[i + 1]!;
       if (hi === lo) continue;
-      const md = findMode(eta, y, order, lo, hi, sigma, modes[i]!);
-      modes[i] = md.mode;
-      gk.fill(0);
-      hk.fill(0);
-      let top = -Infinity;
-      for (let k = 0; k < K; k++) {
-        const xk = rule.nodes[k]!;
-        const z = md.mode + Math.SQRT2 * md.tau * xk;
-        zs[k] = z;
-        let f = Math.log(rule.weights[k]!) + xk * xk - 0.5 * z * z;
-        for (let t = lo; t < hi; t++) {
-          const r = order[t]!;
-          const e = eta[r]! + sigma * z;
-          const pr = expit(e);
-          const yr = y[r]!;
-          f += logBernoulli(yr, e);
-          const resid = yr - pr;
-          const wgt = pr * (1 - pr);
-          for (let j = 0; j < p; j++) v[j] = x[r * p + j]!;
-          v[p] = z;
-          for (let a = 0; a < q; a++) {
-            gk[k * q + a] = gk[k * q + a]! + resid * v[a]!;
-            const va = wgt * v[a]!;
-            if (va === 0) continue;
-            for (let b = 0; b <= a; b++) hk[k * q * q + a * q + b] = hk[k * q * q + a * q + b]! - va * v[b]!;
-          }
-        }
-        logw[k] = f;
-        if (f > top) top = f;
-      }
-      let s = 0;
-      for (let k = 0; k < K; k++) {
-        post[k] = Math.exp(logw[k]! - top);
-        s += post[k]!;
-      }
-      total += top + Math.log(s) + Math.log(Math.SQRT2 * md.tau) - 0.5 * Math.log(2 * Math.PI);
-      gi.fill(0);
-      for (let k = 0; k < K; k++) {
-        post[k] = post[k]! / s;
-        for (let a = 0; a < q; a++) gi[a] = gi[a]! + post[k]! * gk[k * q + a]!;
-      }
-      for (let a = 0; a < q; a++) {
-        grad[a] = grad[a]! + gi[a]!;
-        for (let b = 0; b <= a; b++) {
-          let hab = 0;
-          for (let k = 0; k < K; k++) hab += post[k]! * (hk[k * q * q + a * q + b]! + gk[k * q + a]! * gk[k * q + b]!);
-          hess[a * q + b] = hess[a * q + b]! + hab - gi[a]! * gi[b]!;
-        }
-      }
+      modeInPlace(rows, y, order, lo, hi, sigma, modes[i]!, mt);
+      modes[i] = mt[0]!;
+      const c = count === undefined ? 1 : count[i]!;
+      total += c * addParticipantDerivatives(rows, x, p, y, order, lo, hi, sigma, rule.nodes, consts, mt[0]!, mt[1]!, c, grad, hess, scratch);
     }
     for (let a = 0; a < q; a++) for (let b = 0; b < a; b++) hess[b * q + a] = hess[a * q + b]!;
     return { value: total, grad, hess };

@@ -41,7 +41,7 @@ export interface ModeResult {
 
 /**
  * The mode of h by Newton's method from `start` (h is strictly concave: h'' = −σ² Σ π(1 − π) − 1 < 0), halving a step
- * that does not increase h. Converges to |step| < 1e-12.
+ * that lowers h by more than rounding can (`roundingSlack`). Converges to |step| < 1e-12.
  */
 export function findMode(eta: Float64Array, y: Float64Array, idx: Int32Array, lo: number, hi: number, sigma: number, start: number): ModeResult {
   let z = start;
@@ -62,7 +62,8 @@ export function findMode(eta: Float64Array, y: Float64Array, idx: Int32Array, lo
     let next = z + step;
     let hn = h(next, eta, y, idx, lo, hi, sigma);
     let halvings = 0;
-    while (!(hn >= hz) && halvings < 60) {
+    const slack = roundingSlack(hi - lo, hz);
+    while (!(hn >= hz - slack) && halvings < 60) {
       step /= 2;
       next = z + step;
       hn = h(next, eta, y, idx, lo, hi, sigma);
@@ -80,6 +81,16 @@ export function findMode(eta: Float64Array, y: Float64Array, idx: Int32Array, lo
     curv += sigma * sigma * pr * (1 - pr);
   }
   return { mode: z, tau: 1 / Math.sqrt(curv) };
+}
+
+/**
+ * How far h may seem to fall through rounding alone: h is a sum of n + 1 terms that are all ≤ 0, so each evaluation is
+ * within about (n + 1) ε |h| of the exact value. Near the mode a Newton step changes h by ~ h''·step²/2, far below
+ * that, so comparing without this slack rejected good steps at random and halved them to nothing (up to 60 halvings,
+ * then the same step again, for up to 100 iterations), leaving the mode short of its 1e-12 tolerance.
+ */
+export function roundingSlack(n: number, hz: number): number {
+  return 4 * Number.EPSILON * (n + 2) * (1 + Math.abs(hz));
 }
 
 const LOG_SQRT_2PI = 0.5 * Math.log(2 * Math.PI);

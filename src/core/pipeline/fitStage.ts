@@ -45,7 +45,9 @@ export function fitStage(table: IntakeTable, days: StudyDays, timing: VisitTimin
   let note: string | null = table.mapping.value === undefined ? 'no column is mapped to the value' : null;
   let sensitivity: SensitivityRun[] = [];
   let comparison: ModelComparison | null = null;
-  const kind: ModelKind = settings.model ?? 'intercept';
+  // The linear mixed model of this stage: the slope model when chosen, else the random-intercept model (also when the
+  // run reports the visit-by-visit model, GEE or the yes/no model, which have stages of their own).
+  const kind: ModelKind = settings.model === 'slope' ? 'slope' : 'intercept';
   if (note === null) {
     const options: FitOptions & { referenceArm?: string } = {
       method: settings.method,

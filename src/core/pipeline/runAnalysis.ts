@@ -135,7 +135,10 @@ export async function runAnalysis(
   const model = modelOutputs({ fit, means, settings, notFitted: table.mapping.value === undefined ? null : modelNote, sensitivity: stage.sensitivity, comparison: stage.comparison });
   // The JSON `model` section is the chosen model's (repeated, gee or logistic when asked for, else the random-intercept
   // or the random intercept and slope fit); the summary sheet reads its headline numbers from it, so both agree.
-  const modelSection = repeated !== null ? repeatedModelJson(repeated, fit) : other !== null ? other.json : model.json;
+  const chosenSection = repeated !== null ? repeatedModelJson(repeated, fit) : other !== null ? other.json : model.json;
+  // The comparison lists every model fitted in the run: the random-intercept and slope fits of the fitting stage join
+  // the visit-by-visit model's and GEE's lists (the yes/no model's likelihood is of another outcome, so it stands alone).
+  const modelSection = settings.model === 'repeated' || settings.model === 'gee' ? withEveryModel(chosenSection, stage.comparison?.models ?? []) : chosenSection;
   const reportedNote = other === null ? modelNote : other.note;
   const sheets: SheetSpec[] = [
     summarySheet({ inputLabel: settings.inputLabel, rowsRead: table.nRows, runAt: settings.runAt, mode: settings.mode, summary, model: modelSection, modelNote: table.mapping.value === undefined && other === null ? null : reportedNote }),
@@ -171,4 +174,15 @@ function countTiming(rowStatus: Uint8Array): number {
   let n = 0;
   for (let i = 0; i < rowStatus.length; i++) if (rowStatus[i] !== NO_STATUS) n++;
   return n;
+}
+
+/** `section` with `comparison` holding first the linear mixed models of `fitted` (non-finite numbers as null), then the
+ * section's own entries of other kinds. Example: fitted intercept and slope, section [intercept, repeated] →
+ * [intercept, slope, repeated]. */
+function withEveryModel(section: Record<string, unknown> | null, fitted: readonly { kind: string; logLik: number; aic: number; bic: number; nParameters: number }[]): Record<string, unknown> | null {
+  if (section === null) return null;
+  const n = (x: number): number | null => (Number.isFinite(x) ? x : null);
+  const first = fitted.map((m) => ({ kind: m.kind, logLik: n(m.logLik), aic: n(m.aic), bic: n(m.bic), nParameters: m.nParameters }));
+  const own = Array.isArray(section.comparison) ? (section.comparison as { kind: string }[]) : [];
+  return { ...section, comparison: [...first, ...own.filter((e) => !first.some((f) => f.kind === e.kind))] };
 }

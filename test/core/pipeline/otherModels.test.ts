@@ -45,7 +45,7 @@ describe('--model gee in a run', () => {
     const fe = m.fixedEffects as Json[];
     expect(fe.map((f) => f.term)).toEqual(['Intercept', 'Arm Active vs Control', 'Time', 'Time × arm Active']);
     for (const f of fe) for (const k of ['se', 'seModel', 'seSmallSample']) expect(typeof f[k]).toBe('number');
-    expect((m.comparison as Json[]).map((c) => c.kind)).toEqual(['intercept', 'gee']);
+    expect((m.comparison as Json[]).map((c) => c.kind)).toEqual(['intercept', 'slope', 'gee']);
     // 20 per arm < 40: the small-sample caution is on the sheet and in the JSON.
     expect(m.smallSampleCaution).toMatch(/Fewer than 40 participants in an arm \(20\)/);
     expect(sheet.blocks.some((b) => b.kind === 'paragraph' && b.style === 'caution' && /Fewer than 40/.test(b.text))).toBe(true);

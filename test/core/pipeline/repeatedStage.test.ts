@@ -51,7 +51,7 @@ describe('the visit-by-visit model in a run', () => {
     for (const e of effects) expect(e.lower).toBeLessThan(e.estimate);
     const kinds = new Set((model.fixedEffects as { kind: string }[]).map((f) => f.kind));
     expect([...kinds]).toEqual(['intercept', 'arm', 'visit', 'armVisit']);
-    expect((model.comparison as { kind: string }[]).map((c) => c.kind)).toEqual(['intercept', 'repeated']);
+    expect((model.comparison as { kind: string }[]).map((c) => c.kind)).toEqual(['intercept', 'slope', 'repeated']);
     const leftOut = model.leftOut as { unscheduled: number; repeat: number; records: { status: string }[] };
     expect(leftOut.records.filter((r) => r.status === 'extra')).toHaveLength(leftOut.unscheduled);
     expect(leftOut.records.filter((r) => r.status === 'repeat')).toHaveLength(leftOut.repeat);

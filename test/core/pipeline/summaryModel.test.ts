@@ -109,3 +109,25 @@ describe('blinded: the summary sheet and the pane headline give the chosen model
     }, 60_000);
   }
 });
+
+describe('the model comparison lists every model fitted in the run', () => {
+  // Every run fits the random-intercept and the slope model (fitStage); the visit-by-visit model and GEE join them.
+  // The yes/no model's likelihood is of another outcome, so its list holds only itself. Exact: lists of names.
+  for (const [kind, expected] of [
+    ['repeated', ['intercept', 'slope', 'repeated']],
+    ['gee', ['intercept', 'slope', 'gee']],
+    ['logistic', ['logistic']],
+  ] as const) {
+    it(`--model ${kind}`, async () => {
+      const out = await runAnalysis(cells, settings('unblinded', kind));
+      if (!out.ok) throw new Error('the demo must run');
+      const comparison = (out.json.model as Json).comparison as Json[];
+      expect(comparison.map((c) => c.kind)).toEqual(expected);
+      // The shared entries carry the same numbers as a plain random-intercept run's list.
+      const plain = await runAnalysis(cells, settings('unblinded', 'intercept'));
+      if (!plain.ok) throw new Error('the demo must run');
+      const plainList = (plain.json.model as Json).comparison as Json[];
+      for (const c of comparison.filter((x) => x.kind === 'intercept' || x.kind === 'slope')) expect(c).toEqual(plainList.find((p) => p.kind === c.kind));
+    });
+  }
+});

@@ -14,6 +14,7 @@ import { mulberry32 as seeded } from '../scripts/random';
 import type { BenchEntry } from './types';
 import { runRepeatedBench } from './repeated-bench';
 import { yesNoEntry } from './logistic-bench';
+import { best, solveNormalEquations } from './timing';
 
 
 /** Invented eGFR-like data: rows/5 patients x 5 visits, arms alternating, time in months; with slopeSd > 0 each
@@ -83,44 +84,11 @@ export function olsPass(d: ModelData): Float64Array {
       for (let j = 0; j <= i; j++) xtx[i * p + j] = xtx[i * p + j]! + xi * x[j]!;
     }
   }
-  // Cholesky of the lower triangle and solve.
-  const l = new Float64Array(p * p);
-  for (let j = 0; j < p; j++) {
-    let s = xtx[j * p + j]!;
-    for (let k = 0; k < j; k++) s -= l[j * p + k]! ** 2;
-    const d0 = Math.sqrt(s);
-    l[j * p + j] = d0;
-    for (let i = j + 1; i < p; i++) {
-      let v = xtx[i * p + j]!;
-      for (let k = 0; k < j; k++) v -= l[i * p + k]! * l[j * p + k]!;
-      l[i * p + j] = v / d0;
-    }
-  }
-  const b = Float64Array.from(xty);
-  for (let i = 0; i < p; i++) {
-    for (let k = 0; k < i; k++) b[i] = b[i]! - l[i * p + k]! * b[k]!;
-    b[i] = b[i]! / l[i * p + i]!;
-  }
-  for (let i = p - 1; i >= 0; i--) {
-    for (let k = i + 1; k < p; k++) b[i] = b[i]! - l[k * p + i]! * b[k]!;
-    b[i] = b[i]! / l[i * p + i]!;
-  }
-  return b;
+  return solveNormalEquations(xtx, xty, p);
 }
 
-const seconds = (t0: bigint): number => Number(process.hrtime.bigint() - t0) / 1e9;
 const peakMB = (): number => Math.round(process.resourceUsage().maxRSS / 1024);
 
-function best<T>(times: number, f: () => T): { seconds: number; value: T } {
-  let bestS = Infinity;
-  let value: T | undefined;
-  for (let k = 0; k < times; k++) {
-    const t0 = process.hrtime.bigint();
-    value = f();
-    bestS = Math.min(bestS, seconds(t0));
-  }
-  return { seconds: bestS, value: value as T };
-}
 
 /** Runs of the yes/no model per size (a few minutes at 1,000,000 rows each; see bench/logistic-bench.ts). */
 const YES_NO_RUNS = 3;

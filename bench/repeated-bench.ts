@@ -10,6 +10,7 @@
 import { fitRepeated, type RepeatedData } from '../src/core/model/repeated';
 import { mulberry32 as seeded } from '../scripts/random';
 import type { BenchEntry } from './types';
+import { best, solveNormalEquations } from './timing';
 
 const VISITS = ['Week 0', 'Week 12', 'Week 24', 'Week 36', 'Week 48'];
 
@@ -80,42 +81,10 @@ function olsCells(l: LongRows): Float64Array {
       for (let j = 0; j <= i; j++) xtx[i * p + j] = xtx[i * p + j]! + xi * x[j]!;
     }
   }
-  const c = new Float64Array(p * p);
-  for (let j = 0; j < p; j++) {
-    let s = xtx[j * p + j]!;
-    for (let k = 0; k < j; k++) s -= c[j * p + k]! ** 2;
-    const d0 = Math.sqrt(s);
-    c[j * p + j] = d0;
-    for (let i = j + 1; i < p; i++) {
-      let v = xtx[i * p + j]!;
-      for (let k = 0; k < j; k++) v -= c[i * p + k]! * c[j * p + k]!;
-      c[i * p + j] = v / d0;
-    }
-  }
-  const b = Float64Array.from(xty);
-  for (let i = 0; i < p; i++) {
-    for (let k = 0; k < i; k++) b[i] = b[i]! - c[i * p + k]! * b[k]!;
-    b[i] = b[i]! / c[i * p + i]!;
-  }
-  for (let i = p - 1; i >= 0; i--) {
-    for (let k = i + 1; k < p; k++) b[i] = b[i]! - c[k * p + i]! * b[k]!;
-    b[i] = b[i]! / c[i * p + i]!;
-  }
-  return b;
+  return solveNormalEquations(xtx, xty, p);
 }
 
-const seconds = (t0: bigint): number => Number(process.hrtime.bigint() - t0) / 1e9;
 
-function best<T>(times: number, f: () => T): { seconds: number; value: T } {
-  let bestS = Infinity;
-  let value: T | undefined;
-  for (let k = 0; k < times; k++) {
-    const t0 = process.hrtime.bigint();
-    value = f();
-    bestS = Math.min(bestS, seconds(t0));
-  }
-  return { seconds: bestS, value: value as T };
-}
 
 /** The repeated-measures entry at `rows` generated rows (best of `runs`). */
 export function runRepeatedBench(rows: number, runs: number, peakMB: () => number): BenchEntry {

@@ -22,6 +22,7 @@ import { classifyVisits, computeStudyDays } from '../src/core/schedule';
 import { readCsvSource } from '../src/files/readCsvFile';
 import { SCHEDULE } from '../scripts/make-demo-data';
 import { benchScheduleCsv, writeBenchCsv } from './whole-run-data';
+import { best, solveNormalEquations } from './timing';
 
 export interface StageLine {
   readonly stage: string;
@@ -50,7 +51,6 @@ export interface WholeRunEntry {
 }
 
 const here = dirname(fileURLToPath(import.meta.url));
-const seconds = (t0: bigint): number => Number(process.hrtime.bigint() - t0) / 1e9;
 
 /** One OLS pass over the rows usable for the model: X'X and X'y of [1, arm k (k ≥ 2), time, arm k × time], then the
  * solve by Cholesky (p is small). Time is days from the reference date. */
@@ -81,41 +81,9 @@ function olsPass(t: IntakeTable): Float64Array {
       for (let b = 0; b <= a; b++) xtx[a * p + b] = xtx[a * p + b]! + xa * x[b]!;
     }
   }
-  // Cholesky of X'X (lower), then the two triangular solves.
-  const l = new Float64Array(p * p);
-  for (let a = 0; a < p; a++) {
-    for (let b = 0; b <= a; b++) {
-      let s = xtx[a * p + b]!;
-      for (let k = 0; k < b; k++) s -= l[a * p + k]! * l[b * p + k]!;
-      l[a * p + b] = a === b ? Math.sqrt(Math.max(s, 1e-300)) : s / l[b * p + b]!;
-    }
-  }
-  const z = new Float64Array(p);
-  for (let a = 0; a < p; a++) {
-    let s = xty[a]!;
-    for (let k = 0; k < a; k++) s -= l[a * p + k]! * z[k]!;
-    z[a] = s / l[a * p + a]!;
-  }
-  const beta = new Float64Array(p);
-  for (let a = p - 1; a >= 0; a--) {
-    let s = z[a]!;
-    for (let k = a + 1; k < p; k++) s -= l[k * p + a]! * beta[k]!;
-    beta[a] = s / l[a * p + a]!;
-  }
-  return beta;
+  return solveNormalEquations(xtx, xty, p);
 }
 
-/** The best of `times` runs (the machine is shared; the fastest run is the least disturbed). */
-function best<T>(times: number, f: () => T): { seconds: number; value: T } {
-  let out: { seconds: number; value: T } | null = null;
-  for (let k = 0; k < times; k++) {
-    const t0 = process.hrtime.bigint();
-    const value = f();
-    const s = seconds(t0);
-    if (out === null || s < out.seconds) out = { seconds: s, value };
-  }
-  return out!;
-}
 
 /** (c): intake + windows + timing summaries from the file's index, and the OLS pass over the same rows. */
 function timingFromColumns(csv: string, sheet: string): { timingSeconds: number; olsSeconds: number } {

@@ -131,7 +131,6 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     level: args.level,
     scheduledOnly: args.scheduledOnly,
     perSubject: args.perSubject,
-    ...(args.model === undefined ? {} : { model: args.model }),
     ...(args.responder === undefined ? {} : { responder: args.responder }),
     inputLabel: data.label,
     fileFingerprint: data.fingerprint,

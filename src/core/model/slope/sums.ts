@@ -29,8 +29,13 @@ export interface SlopeSums {
   readonly stt: Float64Array;
   readonly sy: Float64Array;
   readonly sty: Float64Array;
-  /** Grouped: the arm per participant and E_a per arm (2 × p, row-major); null for the general layout. */
+  /**
+   * Grouped: the arm per participant and E_a per arm (2 × p, row-major); null for the general layout. Grouped
+   * participants are stored arm by arm (arm a's are armStart[a] .. armStart[a + 1] − 1, in subject order within the
+   * arm), so the per-arm sums of every pass keep their totals in local variables.
+   */
   readonly group: Int32Array | null;
+  readonly armStart: Int32Array | null;
   readonly E: readonly Float64Array[];
   /** General: B_i = Z_i'X_i per participant (2 × p, row-major, participant-major); null when grouped. */
   readonly B: Float64Array | null;
@@ -91,23 +96,32 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
   }
   const group = grouped ? groupOf : null;
   let nP = 0;
-  for (let s = 0; s < nS; s++) if (n[s]! > 0) nP++;
-  const subjectOf = new Int32Array(nP);
-  for (let s = 0, k = 0; s < nS; s++) if (n[s]! > 0) subjectOf[k++] = s;
-  // Plain loops: TypedArray.from with a mapping function goes through the iterator protocol, far slower at this size.
-  const pick = (v: Float64Array): Float64Array => {
-    if (nP === nS) return v;
-    const out = new Float64Array(nP);
-    for (let i = 0; i < nP; i++) out[i] = v[subjectOf[i]!]!;
-    return out;
-  };
-  const base = { p, nObs: nRows, nP, subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty), yty };
-
+  for (let k = 0; k < nS; k++) if (n[k]! > 0) nP++;
   if (group !== null) {
     const nArms = design.armCol >= 0 ? design.nArms : 1;
     const E = Array.from({ length: nArms }, (_, a) => armMatrix(design, a));
-    const g = nP === nS ? group : new Int32Array(nP);
-    if (g !== group) for (let i = 0; i < nP; i++) g[i] = group[subjectOf[i]!]!;
+    // Participants arm by arm (a stable counting sort of the subjects present).
+    const armStart = new Int32Array(nArms + 1);
+    for (let k = 0; k < nS; k++) if (n[k]! > 0) armStart[group[k]! + 1] = armStart[group[k]! + 1]! + 1;
+    for (let a = 0; a < nArms; a++) armStart[a + 1] = armStart[a + 1]! + armStart[a]!;
+    const next = armStart.slice(0, nArms);
+    const subjectOf = new Int32Array(nP);
+    for (let k = 0; k < nS; k++) {
+      if (n[k]! > 0) {
+        const a = group[k]!;
+        subjectOf[next[a]!] = k;
+        next[a] = next[a]! + 1;
+      }
+    }
+    // Plain loops: TypedArray.from with a mapping function goes through the iterator protocol, far slower at this size.
+    const pick = (v: Float64Array): Float64Array => {
+      const out = new Float64Array(nP);
+      for (let i = 0; i < nP; i++) out[i] = v[subjectOf[i]!]!;
+      return out;
+    };
+    const g = new Int32Array(nP);
+    for (let i = 0; i < nP; i++) g[i] = group[subjectOf[i]!]!;
+    const base = { p, nObs: nRows, nP, subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty), yty };
     // X'X = Σ_a E_a'(Σ C_i)E_a and X'y = Σ_a E_a'(Σ r_i): no row-level p × p work.
     const xtx = new Float64Array(p * p);
     const xty = new Float64Array(p);
@@ -125,8 +139,18 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
       addSandwich(xtx, E[a]!, C[3 * a]!, C[3 * a + 1]!, C[3 * a + 1]!, C[3 * a + 2]!, p);
       addTransposed(xty, E[a]!, R[2 * a]!, R[2 * a + 1]!, p);
     }
-    return { ...base, group: g, E, B: null, xtx, xty };
+    return { ...base, group: g, armStart, E, B: null, xtx, xty };
   }
+
+  const subjectOf = new Int32Array(nP);
+  for (let k = 0, i = 0; k < nS; k++) if (n[k]! > 0) subjectOf[i++] = k;
+  const pick = (v: Float64Array): Float64Array => {
+    if (nP === nS) return v;
+    const out = new Float64Array(nP);
+    for (let i = 0; i < nP; i++) out[i] = v[subjectOf[i]!]!;
+    return out;
+  };
+  const base = { p, nObs: nRows, nP, subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty), yty };
 
   // General layout: the intercept model's pass gives X'X, X'y; one more pass gives B_i = Σ_j [x_ij; t_ij x_ij].
   const general = sufficientStats(y, subject, nS, design, time);
@@ -148,7 +172,7 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
     B = new Float64Array(nP * 2 * p);
     for (let i = 0; i < nP; i++) B.set(Bfull.subarray(subjectOf[i]! * 2 * p, (subjectOf[i]! + 1) * 2 * p), i * 2 * p);
   }
-  return { ...base, group: null, E: [], B, xtx: general.xtx, xty: general.xty };
+  return { ...base, group: null, armStart: null, E: [], B, xtx: general.xtx, xty: general.xty };
 }
 
 interface RowAccumulators {

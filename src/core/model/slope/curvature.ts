@@ -244,74 +244,117 @@ function groupedSums(s: SlopeSums, D: RelativeG, at: SlopeProfile): CurvatureSum
     }
     eh.set(h, 3 * a);
   }
-  // Per arm: u_k (2 each, 6) and KE_kK (3 each, 9).
-  const arm = new Float64Array(15 * nA);
   const c = emptySums(p);
-  const g = s.group!;
+  const starts = s.armStart!;
   const cn = s.n;
   const ct = s.st;
   const ctt = s.stt;
   const ry = s.sy;
   const rty = s.sty;
-  for (let i = 0; i < s.nP; i++) {
-    const n = cn[i]!;
-    const t = ct[i]!;
-    const tt = ctt[i]!;
-    const m00 = 1 + n * d11 + t * d12;
-    const m01 = n * d12 + t * d22;
-    const m10 = t * d11 + tt * d12;
-    const m11 = 1 + t * d12 + tt * d22;
-    const inv = 1 / (m00 * m11 - m01 * m10);
-    const f00 = m11 * inv;
-    const f01 = -m01 * inv;
-    const f10 = -m10 * inv;
-    const f11 = m00 * inv;
-    const k00 = f00 * n + f01 * t;
-    const k01 = 0.5 * (f00 * t + f01 * tt + f10 * n + f11 * t);
-    const k11 = f10 * t + f11 * tt;
-    const a = g[i]!;
+  // Totals over all participants, kept in local variables (written to c after the pass).
+  let sv0 = 0, sv1 = 0, sv2 = 0, sk0 = 0, sk1 = 0, sk2 = 0, sq0 = 0, sq1 = 0, sq2 = 0;
+  let w00 = 0, w01 = 0, w02 = 0, w11 = 0, w12 = 0, w22 = 0;
+  let q00 = 0, q01 = 0, q02 = 0, q11 = 0, q12 = 0, q22 = 0;
+  for (let a = 0; a < nA; a++) {
     const b0 = eb[2 * a]!;
     const b1 = eb[2 * a + 1]!;
-    const e0 = ry[i]! - (n * b0 + t * b1);
-    const e1 = rty[i]! - (t * b0 + tt * b1);
-    const v0 = f00 * e0 + f01 * e1;
-    const v1 = f10 * e0 + f11 * e1;
     const h00 = eh[3 * a]!;
     const h01 = eh[3 * a + 1]!;
     const h11 = eh[3 * a + 2]!;
-    const x00 = k00 * h00 + k01 * h01;
-    const x01 = k00 * h01 + k01 * h11;
-    const x10 = k01 * h00 + k11 * h01;
-    const x11 = k01 * h01 + k11 * h11;
-    const n00 = x00 * k00 + x01 * k01;
-    const n01 = 0.5 * (x00 * k01 + x01 * k11 + x10 * k00 + x11 * k01);
-    const n11 = x10 * k01 + x11 * k11;
-    addScalars(c, k00, k01, k11, n00, n01, n11, v0, v1);
-    const o = 15 * a;
-    arm[o] = arm[o]! + k00 * v0;
-    arm[o + 1] = arm[o + 1]! + k01 * v0;
-    arm[o + 2] = arm[o + 2]! + k00 * v1 + k01 * v0;
-    arm[o + 3] = arm[o + 3]! + k01 * v1 + k11 * v0;
-    arm[o + 4] = arm[o + 4]! + k01 * v1;
-    arm[o + 5] = arm[o + 5]! + k11 * v1;
-    arm[o + 6] = arm[o + 6]! + k00 * k00;
-    arm[o + 7] = arm[o + 7]! + k00 * k01;
-    arm[o + 8] = arm[o + 8]! + k01 * k01;
-    arm[o + 9] = arm[o + 9]! + 2 * k00 * k01;
-    arm[o + 10] = arm[o + 10]! + k00 * k11 + k01 * k01;
-    arm[o + 11] = arm[o + 11]! + 2 * k01 * k11;
-    arm[o + 12] = arm[o + 12]! + k01 * k01;
-    arm[o + 13] = arm[o + 13]! + k01 * k11;
-    arm[o + 14] = arm[o + 14]! + k11 * k11;
-  }
-  for (let a = 0; a < nA; a++) {
-    const E = s.E[a]!;
-    const o = 15 * a;
-    for (let k = 0; k < 3; k++) {
-      addTransposed(c.u[k]!, E, arm[o + 2 * k]!, arm[o + 2 * k + 1]!, p);
-      const m = o + 6 + 3 * k;
-      addSandwich(c.pt[k]!, E, arm[m]!, arm[m + 1]!, arm[m + 1]!, arm[m + 2]!, p);
+    // Arm a's participants are stored together (sums.ts): u_k (Σ Kw_k) and Σ KE_kK in local variables.
+    let u00 = 0, u01 = 0, u10 = 0, u11 = 0, u20 = 0, u21 = 0;
+    let kk00 = 0, kk01 = 0, kk11 = 0, kkx = 0, kk1 = 0, kk22 = 0;
+    const end = starts[a + 1]!;
+    for (let i = starts[a]!; i < end; i++) {
+      const n = cn[i]!;
+      const t = ct[i]!;
+      const tt = ctt[i]!;
+      const m00 = 1 + n * d11 + t * d12;
+      const m01 = n * d12 + t * d22;
+      const m10 = t * d11 + tt * d12;
+      const m11 = 1 + t * d12 + tt * d22;
+      const inv = 1 / (m00 * m11 - m01 * m10);
+      const f00 = m11 * inv;
+      const f01 = -m01 * inv;
+      const f10 = -m10 * inv;
+      const f11 = m00 * inv;
+      const k00 = f00 * n + f01 * t;
+      const k01 = 0.5 * (f00 * t + f01 * tt + f10 * n + f11 * t);
+      const k11 = f10 * t + f11 * tt;
+      const e0 = ry[i]! - (n * b0 + t * b1);
+      const e1 = rty[i]! - (t * b0 + tt * b1);
+      const v0 = f00 * e0 + f01 * e1;
+      const v1 = f10 * e0 + f11 * e1;
+      // N = K H_a K.
+      const x00 = k00 * h00 + k01 * h01;
+      const x01 = k00 * h01 + k01 * h11;
+      const x10 = k01 * h00 + k11 * h01;
+      const x11 = k01 * h01 + k11 * h11;
+      const n00 = x00 * k00 + x01 * k01;
+      const n01 = 0.5 * (x00 * k01 + x01 * k11 + x10 * k00 + x11 * k01);
+      const n11 = x10 * k01 + x11 * k11;
+      sv0 += v0 * v0;
+      sv1 += 2 * v0 * v1;
+      sv2 += v1 * v1;
+      sk0 += k00;
+      sk1 += 2 * k01;
+      sk2 += k11;
+      sq0 += n00;
+      sq1 += 2 * n01;
+      sq2 += n11;
+      // K w_k with E_11 v = (v0, 0), E_12 v = (v1, v0), E_22 v = (0, v1).
+      const kw00 = k00 * v0;
+      const kw01 = k01 * v0;
+      const kw10 = k00 * v1 + k01 * v0;
+      const kw11 = k01 * v1 + k11 * v0;
+      const kw20 = k01 * v1;
+      const kw21 = k11 * v1;
+      w00 += v0 * kw00;
+      w01 += v0 * kw10;
+      w02 += v0 * kw20;
+      w11 += v1 * kw10 + v0 * kw11;
+      w12 += v1 * kw20 + v0 * kw21;
+      w22 += v1 * kw21;
+      q00 += k00 * n00;
+      q01 += k00 * n01 + k01 * n00;
+      q02 += k01 * n01;
+      q11 += k00 * n11 + 2 * k01 * n01 + k11 * n00;
+      q12 += k01 * n11 + k11 * n01;
+      q22 += k11 * n11;
+      u00 += kw00;
+      u01 += kw01;
+      u10 += kw10;
+      u11 += kw11;
+      u20 += kw20;
+      u21 += kw21;
+      // KE_11K = (k00², k00k01, k01²), KE_22K = (k01², k01k11, k11²), KE_12K = (2k00k01, k00k11 + k01², 2k01k11).
+      kk00 += k00 * k00;
+      kk01 += k00 * k01;
+      kk11 += k01 * k01;
+      kkx += k00 * k11;
+      kk1 += k01 * k11;
+      kk22 += k11 * k11;
     }
+    const E = s.E[a]!;
+    addTransposed(c.u[0]!, E, u00, u01, p);
+    addTransposed(c.u[1]!, E, u10, u11, p);
+    addTransposed(c.u[2]!, E, u20, u21, p);
+    addSandwich(c.pt[0]!, E, kk00, kk01, kk01, kk11, p);
+    addSandwich(c.pt[1]!, E, 2 * kk01, kkx + kk11, kkx + kk11, 2 * kk1, p);
+    // T_kl = tr(KE_kKE_l): the entries of the same sums.
+    const t = c.t;
+    t[0] = t[0]! + kk00;
+    t[1] = t[1]! + 2 * kk01;
+    t[2] = t[2]! + kk11;
+    t[4] = t[4]! + 2 * (kk11 + kkx);
+    t[5] = t[5]! + 2 * kk1;
+    t[8] = t[8]! + kk22;
+    addSandwich(c.pt[2]!, E, kk11, kk1, kk1, kk22, p);
   }
+  c.sv.set([sv0, sv1, sv2]);
+  c.sk.set([sk0, sk1, sk2]);
+  c.sq.set([sq0, sq1, sq2]);
+  c.vkv.set([w00, w01, w02, 0, w11, w12, 0, 0, w22]);
+  c.qa.set([q00, q01, q02, 0, q11, q12, 0, 0, q22]);
   return c;
 }

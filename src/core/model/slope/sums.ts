@@ -121,7 +121,7 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
     };
     const g = new Int32Array(nP);
     for (let i = 0; i < nP; i++) g[i] = group[subjectOf[i]!]!;
-    const base = { p, nObs: nRows, nP, subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty), yty };
+    const base: Columns = { subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty) };
     // X'X = Σ_a E_a'(Σ C_i)E_a and X'y = Σ_a E_a'(Σ r_i): no row-level p × p work.
     const xtx = new Float64Array(p * p);
     const xty = new Float64Array(p);
@@ -139,7 +139,7 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
       addSandwich(xtx, E[a]!, C[3 * a]!, C[3 * a + 1]!, C[3 * a + 1]!, C[3 * a + 2]!, p);
       addTransposed(xty, E[a]!, R[2 * a]!, R[2 * a + 1]!, p);
     }
-    return { ...base, group: g, armStart, E, B: null, xtx, xty };
+    return sumsObject(p, nRows, nP, yty, base, g, armStart, E, null, xtx, xty);
   }
 
   const subjectOf = new Int32Array(nP);
@@ -150,7 +150,7 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
     for (let i = 0; i < nP; i++) out[i] = v[subjectOf[i]!]!;
     return out;
   };
-  const base = { p, nObs: nRows, nP, subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty), yty };
+  const base: Columns = { subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty) };
 
   // General layout: the intercept model's pass gives X'X, X'y; one more pass gives B_i = Σ_j [x_ij; t_ij x_ij].
   const general = sufficientStats(y, subject, nS, design, time);
@@ -172,7 +172,36 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
     B = new Float64Array(nP * 2 * p);
     for (let i = 0; i < nP; i++) B.set(Bfull.subarray(subjectOf[i]! * 2 * p, (subjectOf[i]! + 1) * 2 * p), i * 2 * p);
   }
-  return { ...base, group: null, armStart: null, E: [], B, xtx: general.xtx, xty: general.xty };
+  return sumsObject(p, nRows, nP, yty, base, null, null, [], B, general.xtx, general.xty);
+}
+
+interface Columns {
+  readonly subjectOf: Int32Array;
+  readonly n: Float64Array;
+  readonly st: Float64Array;
+  readonly stt: Float64Array;
+  readonly sy: Float64Array;
+  readonly sty: Float64Array;
+}
+
+/**
+ * The sums as one object literal written out in full (no spread), so every SlopeSums has the same hidden class and the
+ * compiled passes over it stay valid from one fit to the next (a spread gave each fit's sums a new one).
+ */
+function sumsObject(
+  p: number,
+  nObs: number,
+  nP: number,
+  yty: number,
+  c: Columns,
+  group: Int32Array | null,
+  armStart: Int32Array | null,
+  E: readonly Float64Array[],
+  B: Float64Array | null,
+  xtx: Float64Array,
+  xty: Float64Array,
+): SlopeSums {
+  return { p, nObs, nP, subjectOf: c.subjectOf, n: c.n, st: c.st, stt: c.stt, sy: c.sy, sty: c.sty, group, armStart, E, B, xtx, xty, yty };
 }
 
 interface RowAccumulators {

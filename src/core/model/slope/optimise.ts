@@ -165,14 +165,14 @@ function hessianTheta(shape: SlopeShape, th: readonly number[], gD: readonly num
 }
 
 /**
- * The Newton direction for −ℓ: solves (−H + μI) d = g with the smallest μ ≥ 0 tried (0, then 1e-10 growing by 100
- * relative to the largest diagonal entry) that makes the matrix positive definite; null when none does.
+ * The Newton direction for −ℓ: solves (−H + μI) d = g with the smallest μ ≥ 0 tried (0, then 1e-10 of the largest
+ * diagonal entry, growing fourfold, so μ is at most four times the shift the matrix needs) that makes the matrix positive definite; null when none does.
  */
 function newtonDirection(gf: readonly number[], Hf: Float64Array, k: number): number[] | null {
   let big = 0;
   for (let i = 0; i < k; i++) big = Math.max(big, Math.abs(Hf[i * k + i]!));
   if (!(big > 0) || !Number.isFinite(big)) return null;
-  for (let mu = 0; mu <= big * 1e6; mu = mu === 0 ? big * 1e-10 : mu * 100) {
+  for (let mu = 0; mu <= big * 1e6; mu = mu === 0 ? big * 1e-10 : mu * 4) {
     const m = Float64Array.from(Hf);
     for (let i = 0; i < k; i++) m[i * k + i] = m[i * k + i]! + mu;
     const l = cholesky(m, k);
@@ -208,7 +208,8 @@ function newton(s: SlopeSums, method: FitMethod, shape: SlopeShape, theta0: read
     let step = big > MAX_STEP ? MAX_STEP / big : 1;
     let next: SlopeProfile | null = null;
     let thNext = th;
-    for (let tries = 0; tries < 60; tries++) {
+    // Halve until the Armijo condition holds, while the step still moves θ.
+    while (step * big > 1e-13 * (1 + Math.max(...th.map(Math.abs)))) {
       thNext = th.map((v, i) => v + step * d[i]!);
       const cand = valueAt(thNext);
       if (cand !== null && -cand.logLik <= f0 + 1e-4 * step * slope) {
@@ -217,10 +218,13 @@ function newton(s: SlopeSums, method: FitMethod, shape: SlopeShape, theta0: read
       }
       step *= 0.5;
     }
-    if (next === null) {
-      // No decrease along a descent direction: at the optimum to within rounding when the decrement is small.
-      return { theta: th, point: pt, iterations: iter, converged: -slope <= 1e-9 * (1 + Math.abs(f0)) };
+    // No decrease along a descent direction, or none beyond rounding: at the optimum to within rounding when the
+    // decrement is small.
+    const stalled = next === null || f0 - -next.logLik <= 1e-15 * (1 + Math.abs(f0));
+    if (stalled && -slope <= 1e-9 * (1 + Math.abs(f0))) {
+      return next === null ? { theta: th, point: pt, iterations: iter, converged: true } : { theta: thNext, point: next, iterations: iter, converged: true };
     }
+    if (next === null) return { theta: th, point: pt, iterations: iter, converged: false };
     th = thNext;
     pt = next;
   }

@@ -100,46 +100,45 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
   if (group !== null) {
     const nArms = design.armCol >= 0 ? design.nArms : 1;
     const E = Array.from({ length: nArms }, (_, a) => armMatrix(design, a));
-    // Participants arm by arm (a stable counting sort of the subjects present).
+    // Participants arm by arm (a stable counting sort of the subjects present), copied into place in one loop that
+    // also totals C_i and r_i per arm.
     const armStart = new Int32Array(nArms + 1);
     for (let k = 0; k < nS; k++) if (n[k]! > 0) armStart[group[k]! + 1] = armStart[group[k]! + 1]! + 1;
     for (let a = 0; a < nArms; a++) armStart[a + 1] = armStart[a + 1]! + armStart[a]!;
     const next = armStart.slice(0, nArms);
     const subjectOf = new Int32Array(nP);
-    for (let k = 0; k < nS; k++) {
-      if (n[k]! > 0) {
-        const a = group[k]!;
-        subjectOf[next[a]!] = k;
-        next[a] = next[a]! + 1;
-      }
-    }
-    // Plain loops: TypedArray.from with a mapping function goes through the iterator protocol, far slower at this size.
-    const pick = (v: Float64Array): Float64Array => {
-      const out = new Float64Array(nP);
-      for (let i = 0; i < nP; i++) out[i] = v[subjectOf[i]!]!;
-      return out;
-    };
     const g = new Int32Array(nP);
-    for (let i = 0; i < nP; i++) g[i] = group[subjectOf[i]!]!;
-    const base: Columns = { subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty) };
+    const cols: Columns = { subjectOf, n: new Float64Array(nP), st: new Float64Array(nP), stt: new Float64Array(nP), sy: new Float64Array(nP), sty: new Float64Array(nP) };
+    const { n: n2, st: st2, stt: stt2, sy: sy2, sty: sty2 } = cols;
     // X'X = Σ_a E_a'(Σ C_i)E_a and X'y = Σ_a E_a'(Σ r_i): no row-level p × p work.
-    const xtx = new Float64Array(p * p);
-    const xty = new Float64Array(p);
     const C = new Float64Array(nArms * 3);
     const R = new Float64Array(nArms * 2);
-    for (let i = 0; i < nP; i++) {
-      const a = g[i]!;
-      C[3 * a] = C[3 * a]! + base.n[i]!;
-      C[3 * a + 1] = C[3 * a + 1]! + base.st[i]!;
-      C[3 * a + 2] = C[3 * a + 2]! + base.stt[i]!;
-      R[2 * a] = R[2 * a]! + base.sy[i]!;
-      R[2 * a + 1] = R[2 * a + 1]! + base.sty[i]!;
+    for (let k = 0; k < nS; k++) {
+      const nk = n[k]!;
+      if (!(nk > 0)) continue;
+      const a = group[k]!;
+      const i = next[a]!;
+      next[a] = i + 1;
+      subjectOf[i] = k;
+      g[i] = a;
+      n2[i] = nk;
+      st2[i] = st[k]!;
+      stt2[i] = stt[k]!;
+      sy2[i] = sy[k]!;
+      sty2[i] = sty[k]!;
+      C[3 * a] = C[3 * a]! + nk;
+      C[3 * a + 1] = C[3 * a + 1]! + st[k]!;
+      C[3 * a + 2] = C[3 * a + 2]! + stt[k]!;
+      R[2 * a] = R[2 * a]! + sy[k]!;
+      R[2 * a + 1] = R[2 * a + 1]! + sty[k]!;
     }
+    const xtx = new Float64Array(p * p);
+    const xty = new Float64Array(p);
     for (let a = 0; a < nArms; a++) {
       addSandwich(xtx, E[a]!, C[3 * a]!, C[3 * a + 1]!, C[3 * a + 1]!, C[3 * a + 2]!, p);
       addTransposed(xty, E[a]!, R[2 * a]!, R[2 * a + 1]!, p);
     }
-    return sumsObject(p, nRows, nP, yty, base, g, armStart, E, null, xtx, xty);
+    return sumsObject(p, nRows, nP, yty, cols, g, armStart, E, null, xtx, xty);
   }
 
   const subjectOf = new Int32Array(nP);

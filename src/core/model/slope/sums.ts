@@ -84,11 +84,13 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
   const groupOf = new Int32Array(groupedDesign ? nS : 0).fill(-1);
   // The grouped layout needs every participant in one arm; a participant in two arms sends the data to the general
   // one. That check rides along in the same pass.
-  const acc = { n, st, stt, sy, sty, yty: 0 };
+  // y'y comes back in a one-number typed array: a number field written after the loop would change the literal's
+  // hidden class (a small integer 0 becoming a double) and throw the pass's compiled code away at every fit.
+  const acc: RowAccumulators = { n, st, stt, sy, sty, yty: new Float64Array(1) };
   let grouped = groupedDesign;
   if (grouped && arm !== null) grouped = rowSumsCheckingArms(data, acc, yc, ys, tc, ts, arm, design.nArms, groupOf);
   else rowSums(data, acc, yc, ys, tc, ts);
-  const yty = acc.yty;
+  const yty = acc.yty[0]!;
   if (grouped && arm === null) groupOf.fill(0);
   if (!grouped && scaled) {
     const copy = applyScaling(data, scaling);
@@ -209,7 +211,7 @@ interface RowAccumulators {
   readonly stt: Float64Array;
   readonly sy: Float64Array;
   readonly sty: Float64Array;
-  yty: number;
+  readonly yty: Float64Array;
 }
 
 /**
@@ -231,7 +233,7 @@ function rowSums(data: ModelData, acc: RowAccumulators, yc: number, ys: number, 
     sty[s] = sty[s]! + t * v;
     yty += v * v;
   }
-  acc.yty = yty;
+  acc.yty[0] = yty;
 }
 
 /** rowSums that also records each participant's arm in groupOf; false when an arm is out of range or a participant has two. */
@@ -257,7 +259,7 @@ function rowSumsCheckingArms(data: ModelData, acc: RowAccumulators, yc: number, 
       else ok = false;
     }
   }
-  acc.yty = yty;
+  acc.yty[0] = yty;
   return ok;
 }
 

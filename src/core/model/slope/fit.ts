@@ -389,7 +389,15 @@ function slopeSubjects(s: SlopeSums, D: RelativeG, beta: Float64Array, sc: { ySc
       meanResidual: sc.yScale * meanResidual,
     });
   });
-  return out;
+  if (s.armStart === null) return out;
+  // The grouped layout stores participants arm by arm (sums.ts); the list is in subject order.
+  let nS = 0;
+  for (let i = 0; i < s.nP; i++) nS = Math.max(nS, s.subjectOf[i]! + 1);
+  const at = new Int32Array(nS).fill(-1);
+  for (let i = 0; i < s.nP; i++) at[s.subjectOf[i]!] = i;
+  const ordered: SlopeSubjectEffect[] = [];
+  for (let k = 0; k < nS; k++) if (at[k]! >= 0) ordered.push(out[at[k]!]!);
+  return ordered;
 }
 
 /**

@@ -53,6 +53,11 @@ export const FULL_BASIS: readonly M2[] = [
   [0, 0, 0, 1],
 ];
 
+/** True when `basis` is FULL_BASIS entry for entry (fit.ts passes a copy). */
+function isFullBasis(basis: readonly M2[]): boolean {
+  return basis.length === 3 && basis.every((b, r) => b.every((v, k) => v === FULL_BASIS[r]![k]));
+}
+
 /**
  * The pieces at D (relative G) and σ² on the scaled data; `phi` = Φ = σ²A⁻¹. `basis` lists the directions in which G
  * is free (V_r = Z E_r Z'): FULL_BASIS for an interior fit, one matrix ww' at a rank-one boundary (G = g ww', its
@@ -64,7 +69,10 @@ export function slopeInformation(s: SlopeSums, D: RelativeG, sigma2: number, phi
   const E = basis;
   const nb = E.length;
   const q = nb + 1;
-  if (s.group !== null) return finishInformation(s, groupedPieces(s, D, E), sigma2, phi, method, q, false);
+  if (s.group !== null) {
+    const pieces = isFullBasis(basis) && s.armStart !== null ? fullBasisPieces(s, D) : groupedPieces(s, D, E);
+    return finishInformation(s, pieces, sigma2, phi, method, q, false);
+  }
   const P = Array.from({ length: q }, () => new SandwichSum(s));
   const Q = Array.from({ length: q * q }, () => new SandwichSum(s));
   const T = new Float64Array(q * q);
@@ -210,7 +218,6 @@ export function slopeAdjustedCovariance(phi: Float64Array, info: SlopeInformatio
  * hundred operations, then each piece is E_a'(…)E_a per arm. Checked against the dense n × n formulas in the tests.
  */
 function groupedPieces(s: SlopeSums, D: RelativeG, basis: readonly M2[]): PieceSums {
-  const p = s.p;
   const [d11, d12, d22] = D;
   const nb = basis.length;
   const q = nb + 1;
@@ -308,6 +315,209 @@ function groupedPieces(s: SlopeSums, D: RelativeG, basis: readonly M2[]): PieceS
     const dk11 = d12 * k01 + d22 * k11;
     T[q * q - 1] = T[q * q - 1]! + n - 2 * (dk00 + dk11) + dk00 * dk00 + 2 * dk01 * dk10 + dk11 * dk11;
   }
+  return piecesFromArms(s, accP, accQ, T, q);
+}
+
+/**
+ * groupedPieces for the full basis (E_11, E_12, E_22; an interior fit), unrolled: each arm's participants are stored
+ * together (sums.ts), so its 2 × 2 totals stay in local variables through the arm's loop. Same sums as
+ * groupedPieces (checked against the dense n × n formulas and against groupedPieces in the tests).
+ */
+function fullBasisPieces(s: SlopeSums, D: RelativeG): PieceSums {
+  const [d11, d12, d22] = D;
+  const q = 4;
+  const nA = s.E.length;
+  const starts = s.armStart!;
+  const accP = new Float64Array(q * nA * 4);
+  const accQ = new Float64Array(q * q * nA * 4);
+  const cn = s.n;
+  const ct = s.st;
+  const ctt = s.stt;
+  let t00 = 0, t01 = 0, t02 = 0, t03 = 0, t11 = 0, t12 = 0, t13 = 0, t22 = 0, t23 = 0, t33 = 0;
+  for (let a = 0; a < nA; a++) {
+    let aP00 = 0, aP01 = 0, aP02 = 0, aP03 = 0, aP10 = 0, aP11 = 0, aP12 = 0, aP13 = 0, aP20 = 0, aP21 = 0, aP22 = 0, aP23 = 0, aP30 = 0, aP31 = 0, aP32 = 0, aP33 = 0, aQ000 = 0, aQ001 = 0, aQ002 = 0, aQ003 = 0, aQ010 = 0, aQ011 = 0, aQ012 = 0, aQ013 = 0, aQ020 = 0, aQ021 = 0, aQ022 = 0, aQ023 = 0, aQ030 = 0, aQ031 = 0, aQ032 = 0, aQ033 = 0, aQ110 = 0, aQ111 = 0, aQ112 = 0, aQ113 = 0, aQ120 = 0, aQ121 = 0, aQ122 = 0, aQ123 = 0, aQ130 = 0, aQ131 = 0, aQ132 = 0, aQ133 = 0, aQ220 = 0, aQ221 = 0, aQ222 = 0, aQ223 = 0, aQ230 = 0, aQ231 = 0, aQ232 = 0, aQ233 = 0, aQ330 = 0, aQ331 = 0, aQ332 = 0, aQ333 = 0;
+    const end = starts[a + 1]!;
+    for (let i = starts[a]!; i < end; i++) {
+      const n = cn[i]!;
+      const t = ct[i]!;
+      const tt = ctt[i]!;
+      const m00 = 1 + n * d11 + t * d12;
+      const m01 = n * d12 + t * d22;
+      const m10 = t * d11 + tt * d12;
+      const m11 = 1 + t * d12 + tt * d22;
+      const det = m00 * m11 - m01 * m10;
+      const f00 = m11 / det;
+      const f01 = -m01 / det;
+      const f10 = -m10 / det;
+      const f11 = m00 / det;
+      // K = FC (symmetric; the off-diagonal averaged), G = FK = FCF' (symmetric), Hm = FKF' = F G'.
+      const k00 = f00 * n + f01 * t;
+      const k01 = 0.5 * (f00 * t + f01 * tt + f10 * n + f11 * t);
+      const k11 = f10 * t + f11 * tt;
+      const g00 = f00 * k00 + f01 * k01;
+      const g01 = 0.5 * (f00 * k01 + f01 * k11 + f10 * k00 + f11 * k01);
+      const g11 = f10 * k01 + f11 * k11;
+      const h00 = f00 * g00 + f01 * g01;
+      const h01 = 0.5 * (f00 * g01 + f01 * g11 + f10 * g00 + f11 * g01);
+      const h11 = f10 * g01 + f11 * g11;
+      // P_0 = K E_0 K.
+      const p0_0 = k00 * k00;
+      const p0_1 = k00 * k01;
+      const p0_2 = k01 * k00;
+      const p0_3 = k01 * k01;
+      // P_1 = K E_1 K.
+      const p1_0 = 2 * k00 * k01;
+      const p1_1 = k01 * k01 + k00 * k11;
+      const p1_2 = k00 * k11 + k01 * k01;
+      const p1_3 = 2 * k01 * k11;
+      // P_2 = K E_2 K.
+      const p2_0 = k01 * k01;
+      const p2_1 = k01 * k11;
+      const p2_2 = k11 * k01;
+      const p2_3 = k11 * k11;
+      // T: tr(KE_rKE_s), tr(E_rG), and tr H⁻² = n − 2 tr(DK) + tr(DKDK).
+      t00 += p0_0;
+      t01 += 2 * p0_1;
+      t02 += p0_3;
+      t11 += 2 * (k01 * k01 + k00 * k11);
+      t12 += p1_3;
+      t22 += p2_3;
+      t03 += g00;
+      t13 += 2 * g01;
+      t23 += g11;
+      const dk00 = d11 * k00 + d12 * k01;
+      const dk01 = d11 * k01 + d12 * k11;
+      const dk10 = d12 * k00 + d22 * k01;
+      const dk11 = d12 * k01 + d22 * k11;
+      t33 += n - 2 * (dk00 + dk11) + dk00 * dk00 + 2 * dk01 * dk10 + dk11 * dk11;
+      // Per arm: P_r, P_σ² = G, Q_rs = (KE_rK)(E_sK), Q_rσ² = (KE_r)G, Q_σ²σ² = Hm.
+      aP00 += p0_0;
+      aP01 += p0_1;
+      aP02 += p0_2;
+      aP03 += p0_3;
+      aP10 += p1_0;
+      aP11 += p1_1;
+      aP12 += p1_2;
+      aP13 += p1_3;
+      aP20 += p2_0;
+      aP21 += p2_1;
+      aP22 += p2_2;
+      aP23 += p2_3;
+      aP30 += g00;
+      aP31 += g01;
+      aP32 += g01;
+      aP33 += g11;
+      aQ000 += p0_0 * k00;
+      aQ001 += p0_0 * k01;
+      aQ002 += p0_2 * k00;
+      aQ003 += p0_2 * k01;
+      aQ010 += p0_0 * k01 + p0_1 * k00;
+      aQ011 += p0_0 * k11 + p0_1 * k01;
+      aQ012 += p0_2 * k01 + p0_3 * k00;
+      aQ013 += p0_2 * k11 + p0_3 * k01;
+      aQ020 += p0_1 * k01;
+      aQ021 += p0_1 * k11;
+      aQ022 += p0_3 * k01;
+      aQ023 += p0_3 * k11;
+      aQ030 += k00 * g00;
+      aQ031 += k00 * g01;
+      aQ032 += k01 * g00;
+      aQ033 += k01 * g01;
+      aQ110 += p1_0 * k01 + p1_1 * k00;
+      aQ111 += p1_0 * k11 + p1_1 * k01;
+      aQ112 += p1_2 * k01 + p1_3 * k00;
+      aQ113 += p1_2 * k11 + p1_3 * k01;
+      aQ120 += p1_1 * k01;
+      aQ121 += p1_1 * k11;
+      aQ122 += p1_3 * k01;
+      aQ123 += p1_3 * k11;
+      aQ130 += k01 * g00 + k00 * g01;
+      aQ131 += k01 * g01 + k00 * g11;
+      aQ132 += k11 * g00 + k01 * g01;
+      aQ133 += k11 * g01 + k01 * g11;
+      aQ220 += p2_1 * k01;
+      aQ221 += p2_1 * k11;
+      aQ222 += p2_3 * k01;
+      aQ223 += p2_3 * k11;
+      aQ230 += k01 * g01;
+      aQ231 += k01 * g11;
+      aQ232 += k11 * g01;
+      aQ233 += k11 * g11;
+      aQ330 += h00;
+      aQ331 += h01;
+      aQ332 += h01;
+      aQ333 += h11;
+    }
+    accP[(0 * nA + a) * 4 + 0] = aP00;
+    accP[(0 * nA + a) * 4 + 1] = aP01;
+    accP[(0 * nA + a) * 4 + 2] = aP02;
+    accP[(0 * nA + a) * 4 + 3] = aP03;
+    accP[(1 * nA + a) * 4 + 0] = aP10;
+    accP[(1 * nA + a) * 4 + 1] = aP11;
+    accP[(1 * nA + a) * 4 + 2] = aP12;
+    accP[(1 * nA + a) * 4 + 3] = aP13;
+    accP[(2 * nA + a) * 4 + 0] = aP20;
+    accP[(2 * nA + a) * 4 + 1] = aP21;
+    accP[(2 * nA + a) * 4 + 2] = aP22;
+    accP[(2 * nA + a) * 4 + 3] = aP23;
+    accP[(3 * nA + a) * 4 + 0] = aP30;
+    accP[(3 * nA + a) * 4 + 1] = aP31;
+    accP[(3 * nA + a) * 4 + 2] = aP32;
+    accP[(3 * nA + a) * 4 + 3] = aP33;
+    accQ[((0 * 4 + 0) * nA + a) * 4 + 0] = aQ000;
+    accQ[((0 * 4 + 0) * nA + a) * 4 + 1] = aQ001;
+    accQ[((0 * 4 + 0) * nA + a) * 4 + 2] = aQ002;
+    accQ[((0 * 4 + 0) * nA + a) * 4 + 3] = aQ003;
+    accQ[((0 * 4 + 1) * nA + a) * 4 + 0] = aQ010;
+    accQ[((0 * 4 + 1) * nA + a) * 4 + 1] = aQ011;
+    accQ[((0 * 4 + 1) * nA + a) * 4 + 2] = aQ012;
+    accQ[((0 * 4 + 1) * nA + a) * 4 + 3] = aQ013;
+    accQ[((0 * 4 + 2) * nA + a) * 4 + 0] = aQ020;
+    accQ[((0 * 4 + 2) * nA + a) * 4 + 1] = aQ021;
+    accQ[((0 * 4 + 2) * nA + a) * 4 + 2] = aQ022;
+    accQ[((0 * 4 + 2) * nA + a) * 4 + 3] = aQ023;
+    accQ[((0 * 4 + 3) * nA + a) * 4 + 0] = aQ030;
+    accQ[((0 * 4 + 3) * nA + a) * 4 + 1] = aQ031;
+    accQ[((0 * 4 + 3) * nA + a) * 4 + 2] = aQ032;
+    accQ[((0 * 4 + 3) * nA + a) * 4 + 3] = aQ033;
+    accQ[((1 * 4 + 1) * nA + a) * 4 + 0] = aQ110;
+    accQ[((1 * 4 + 1) * nA + a) * 4 + 1] = aQ111;
+    accQ[((1 * 4 + 1) * nA + a) * 4 + 2] = aQ112;
+    accQ[((1 * 4 + 1) * nA + a) * 4 + 3] = aQ113;
+    accQ[((1 * 4 + 2) * nA + a) * 4 + 0] = aQ120;
+    accQ[((1 * 4 + 2) * nA + a) * 4 + 1] = aQ121;
+    accQ[((1 * 4 + 2) * nA + a) * 4 + 2] = aQ122;
+    accQ[((1 * 4 + 2) * nA + a) * 4 + 3] = aQ123;
+    accQ[((1 * 4 + 3) * nA + a) * 4 + 0] = aQ130;
+    accQ[((1 * 4 + 3) * nA + a) * 4 + 1] = aQ131;
+    accQ[((1 * 4 + 3) * nA + a) * 4 + 2] = aQ132;
+    accQ[((1 * 4 + 3) * nA + a) * 4 + 3] = aQ133;
+    accQ[((2 * 4 + 2) * nA + a) * 4 + 0] = aQ220;
+    accQ[((2 * 4 + 2) * nA + a) * 4 + 1] = aQ221;
+    accQ[((2 * 4 + 2) * nA + a) * 4 + 2] = aQ222;
+    accQ[((2 * 4 + 2) * nA + a) * 4 + 3] = aQ223;
+    accQ[((2 * 4 + 3) * nA + a) * 4 + 0] = aQ230;
+    accQ[((2 * 4 + 3) * nA + a) * 4 + 1] = aQ231;
+    accQ[((2 * 4 + 3) * nA + a) * 4 + 2] = aQ232;
+    accQ[((2 * 4 + 3) * nA + a) * 4 + 3] = aQ233;
+    accQ[((3 * 4 + 3) * nA + a) * 4 + 0] = aQ330;
+    accQ[((3 * 4 + 3) * nA + a) * 4 + 1] = aQ331;
+    accQ[((3 * 4 + 3) * nA + a) * 4 + 2] = aQ332;
+    accQ[((3 * 4 + 3) * nA + a) * 4 + 3] = aQ333;
+
+  }
+  const T = new Float64Array(q * q);
+  T.set([t00, t01, t02, t03], 0);
+  T.set([t11, t12, t13], 5);
+  T.set([t22, t23], 10);
+  T[15] = t33;
+  return piecesFromArms(s, accP, accQ, T, q);
+}
+
+/** The p × p totals E_a'(…)E_a of the per-arm 2 × 2 sums (slot-major, then arm, then 4 entries). */
+function piecesFromArms(s: SlopeSums, accP: Float64Array, accQ: Float64Array, T: Float64Array, q: number): PieceSums {
+  const p = s.p;
+  const nA = s.E.length;
   const total = (acc: Float64Array, slot: number): Float64Array => {
     const out = new Float64Array(p * p);
     for (let a = 0; a < nA; a++) {

@@ -1,13 +1,19 @@
 /**
  * Maximises the profiled likelihood of the slope model (profile.ts) over D = LL' with L lower triangular in the
  * log-Cholesky parametrisation θ = (log L11, L21, log L22) (Pinheiro & Bates 1996, Statistics and Computing 6:289–296),
- * by BFGS quasi-Newton steps (Nocedal & Wright 2006, ch. 6) with a backtracking Armijo line search on the analytic
- * gradient. Starting point: the best of a small grid of diagonal D.
+ * by Newton steps on the exact Hessian (curvature.ts; made positive definite by a multiple of the identity where it is
+ * not, Nocedal & Wright 2006, sec. 3.4) with a backtracking Armijo line search whose trials need the value only, so an
+ * iteration costs one value pass and one derivative pass over the participants. BFGS (Nocedal & Wright 2006, ch. 6)
+ * on the analytic gradient is kept as the fallback should Newton not converge. Starting point: the method-of-moments
+ * estimate (start.ts), else the best of a small grid of diagonal D.
  * The boundary (singular G) lies at L22 → 0 (rank one) or L → 0 (G = 0), where θ runs off to −∞; when the free fit
  * comes close to it, the fit is repeated on the boundary itself (L22 = 0 with θ = (log L11, L21), then G = 0) and the
  * boundary fit is kept when its likelihood is as high, so a boundary estimate is exact rather than a slow crawl.
  */
+import { cholesky, cholSolve } from '../dense';
 import type { FitMethod } from '../types';
+import { slopeCurvature } from './curvature';
+import { momentStart } from './start';
 import { slopeProfile, type RelativeG, type SlopeProfile } from './profile';
 import type { SlopeSums } from './sums';
 
@@ -131,6 +137,111 @@ function bfgs(s: SlopeSums, method: FitMethod, shape: SlopeShape, theta0: readon
   return { theta: th, point: cur.pt, iterations: MAX_ITER, converged: false };
 }
 
+/**
+ * The Hessian of ℓ(θ) from ℓ's gradient gD and Hessian HD in D (chain rule through D11 = l1², D12 = l1 l2,
+ * D22 = l2² + l3², l1 = e^θ0, l2 = θ1, l3 = e^θ2): J'·HD·J + Σ_k gD_k ∇²D_k. k × k row-major.
+ */
+function hessianTheta(shape: SlopeShape, th: readonly number[], gD: readonly number[], HD: Float64Array): Float64Array {
+  const k = th.length;
+  const l1 = Math.exp(th[0]!);
+  const l2 = th[1]!;
+  const l3sq = shape === 'full' ? Math.exp(2 * th[2]!) : 0;
+  // J: rows D11, D12, D22; columns θ.
+  const J = [2 * l1 * l1, 0, 0, l1 * l2, l1, 0, 0, 2 * l2, 2 * l3sq];
+  const out = new Float64Array(k * k);
+  for (let a = 0; a < k; a++) {
+    for (let b = 0; b < k; b++) {
+      let v = 0;
+      for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) v += J[3 * r + a]! * HD[3 * r + c]! * J[3 * c + b]!;
+      out[a * k + b] = v;
+    }
+  }
+  out[0] = out[0]! + gD[0]! * 4 * l1 * l1 + gD[1]! * l1 * l2;
+  out[1] = out[1]! + gD[1]! * l1;
+  out[k] = out[k]! + gD[1]! * l1;
+  out[k + 1] = out[k + 1]! + 2 * gD[2]!;
+  if (k === 3) out[8] = out[8]! + 4 * l3sq * gD[2]!;
+  return out;
+}
+
+/**
+ * The Newton direction for −ℓ: solves (−H + μI) d = g with the smallest μ ≥ 0 tried (0, then 1e-10 of the largest
+ * diagonal entry, growing fourfold, so μ is at most four times the shift the matrix needs) that makes the matrix positive definite; null when none does.
+ */
+function newtonDirection(gf: readonly number[], Hf: Float64Array, k: number): number[] | null {
+  let big = 0;
+  for (let i = 0; i < k; i++) big = Math.max(big, Math.abs(Hf[i * k + i]!));
+  if (!(big > 0) || !Number.isFinite(big)) return null;
+  for (let mu = 0; mu <= big * 1e6; mu = mu === 0 ? big * 1e-10 : mu * 4) {
+    const m = Float64Array.from(Hf);
+    for (let i = 0; i < k; i++) m[i * k + i] = m[i * k + i]! + mu;
+    const l = cholesky(m, k);
+    if (l === null) continue;
+    const d = cholSolve(l, k, Float64Array.from(gf));
+    return Array.from(d, (v) => -v);
+  }
+  return null;
+}
+
+/** Newton on −ℓ(θ) from θ0 (see the file comment). Null when the start cannot be evaluated. */
+function newton(s: SlopeSums, method: FitMethod, shape: SlopeShape, theta0: readonly number[]): BfgsResult | null {
+  const k = theta0.length;
+  const valueAt = (th: readonly number[]): SlopeProfile | null => {
+    const pt = slopeProfile(s, dOf(shape, th), method, false);
+    return pt === null || !Number.isFinite(pt.logLik) ? null : pt;
+  };
+  let th = [...theta0];
+  let pt = valueAt(th);
+  if (pt === null) return null;
+  for (let iter = 1; iter <= MAX_NEWTON; iter++) {
+    const D = dOf(shape, th);
+    const c = slopeCurvature(s, D, method, pt);
+    const gf = gradTheta(shape, th, c.gradient).map((v) => -v);
+    const Hf = hessianTheta(shape, th, c.gradient, c.hessian).map((v) => -v);
+    const f0 = -pt.logLik;
+    const d = newtonDirection(gf, Hf, k) ?? gf.map((v) => -v);
+    const slope = dot(gf, d);
+    // Newton decrement: −ℓ is within −g'd/2 of its minimum; stop when that is below rounding.
+    if (-slope <= 1e-13 * (1 + Math.abs(f0))) return { theta: th, point: pt, iterations: iter, converged: true };
+    if (!(slope < 0)) return { theta: th, point: pt, iterations: iter, converged: false };
+    const big = Math.max(...d.map(Math.abs));
+    let step = big > MAX_STEP ? MAX_STEP / big : 1;
+    let next: SlopeProfile | null = null;
+    let thNext = th;
+    // Halve until the Armijo condition holds, while the step still moves θ.
+    while (step * big > 1e-13 * (1 + Math.max(...th.map(Math.abs)))) {
+      thNext = th.map((v, i) => v + step * d[i]!);
+      const cand = valueAt(thNext);
+      if (cand !== null && -cand.logLik <= f0 + 1e-4 * step * slope) {
+        next = cand;
+        break;
+      }
+      step *= 0.5;
+    }
+    // No decrease along a descent direction, or none beyond rounding: at the optimum to within rounding when the
+    // decrement is small.
+    const stalled = next === null || f0 - -next.logLik <= 1e-15 * (1 + Math.abs(f0));
+    if (stalled && -slope <= 1e-9 * (1 + Math.abs(f0))) {
+      return next === null ? { theta: th, point: pt, iterations: iter, converged: true } : { theta: thNext, point: next, iterations: iter, converged: true };
+    }
+    if (next === null) return { theta: th, point: pt, iterations: iter, converged: false };
+    th = thNext;
+    pt = next;
+  }
+  return { theta: th, point: pt, iterations: MAX_NEWTON, converged: false };
+}
+
+const MAX_NEWTON = 100;
+
+/** Newton from θ0, then BFGS from the same θ0 should Newton fail or not converge. */
+function maximise(s: SlopeSums, method: FitMethod, shape: SlopeShape, theta0: readonly number[]): BfgsResult | null {
+  const r = newton(s, method, shape, theta0);
+  if (r !== null && r.converged) return r;
+  const b = bfgs(s, method, shape, theta0);
+  if (b === null) return r;
+  return { ...b, iterations: b.iterations + (r?.iterations ?? 0) };
+}
+
 function identity(k: number): number[] {
   const m = new Array<number>(k * k).fill(0);
   for (let i = 0; i < k; i++) m[i * k + i] = 1;
@@ -170,27 +281,21 @@ function eigen2(D: RelativeG): [number, number] {
  * Example: data simulated with G = [[4, 0.5], [0.5, 1]], σ² = 1 -> shape 'full', D near G/σ² on the scaled time.
  */
 export function estimateSlopeG(s: SlopeSums, method: FitMethod, start?: RelativeG): SlopeEstimate {
-  let best: RelativeG = start ?? [0.5, 0, 0.5];
-  if (start === undefined) {
-    let bestL = -Infinity;
-    for (const a of [0.05, 0.5, 5]) {
-      for (const b of [0.02, 0.2, 2]) {
-        const pt = slopeProfile(s, [a, 0, b], method, false);
-        if (pt !== null && pt.logLik > bestL) {
-          bestL = pt.logLik;
-          best = [a, 0, b];
-        }
-      }
-    }
+  const moments = start === undefined ? momentStart(s) : null;
+  let best: RelativeG = start ?? moments ?? gridStart(s, method);
+  let full = maximise(s, method, 'full', thetaOf(best, 'full'));
+  if (full === null && moments !== null) {
+    // The moment estimate could not be evaluated: start from the grid instead.
+    best = gridStart(s, method);
+    full = maximise(s, method, 'full', thetaOf(best, 'full'));
   }
   const candidates: { r: BfgsResult | null; shape: SlopeShape }[] = [];
-  const full = bfgs(s, method, 'full', thetaOf(best, 'full'));
   candidates.push({ r: full, shape: 'full' });
   let iterations = full?.iterations ?? 0;
   const fullD = full === null ? best : dOf('full', full.theta);
   const [lo, hi] = eigen2(fullD);
   if (full === null || lo <= NEAR_SINGULAR * hi) {
-    const rank1 = bfgs(s, method, 'rank-one', thetaOf(fullD, 'rank-one'));
+    const rank1 = maximise(s, method, 'rank-one', thetaOf(fullD, 'rank-one'));
     iterations += rank1?.iterations ?? 0;
     candidates.push({ r: rank1, shape: 'rank-one' });
     const r1D = rank1 === null ? fullD : dOf('rank-one', rank1.theta);
@@ -212,4 +317,20 @@ export function estimateSlopeG(s: SlopeSums, method: FitMethod, start?: Relative
   }
   if (pick === null) return { point: null, D: [NaN, NaN, NaN], shape: 'full', iterations, converged: false };
   return { point: pick.r.point, D: dOf(pick.shape, pick.r.theta), shape: pick.shape, iterations, converged: pick.r.converged };
+}
+
+/** The best of a small grid of diagonal D (the start when the moment estimate cannot be made or evaluated). */
+function gridStart(s: SlopeSums, method: FitMethod): RelativeG {
+  let best: RelativeG = [0.5, 0, 0.5];
+  let bestL = -Infinity;
+  for (const a of [0.05, 0.5, 5]) {
+    for (const b of [0.02, 0.2, 2]) {
+      const pt = slopeProfile(s, [a, 0, b], method, false);
+      if (pt !== null && pt.logLik > bestL) {
+        bestL = pt.logLik;
+        best = [a, 0, b];
+      }
+    }
+  }
+  return best;
 }

@@ -163,9 +163,7 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
   const [d11, d12, d22] = D;
   const p = s.p;
   const N = s.nObs;
-  const nP = s.nP;
   const nA = s.E.length;
-  const g = s.group!;
   const cn = s.n;
   const ct = s.st;
   const ctt = s.stt;
@@ -173,53 +171,66 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
   const rty = s.sty;
   const cmc = new Float64Array(4 * nA);
   const cmr = new Float64Array(2 * nA);
+  const starts = s.armStart!;
   let rMr = 0;
   let logDetH = 0;
   // Σ log det(I + C_i D) as the log of running products (one logarithm per few hundred participants instead of one
   // each); det ≥ 1 for positive semi-definite D, a huge one is taken alone, and a non-positive or NaN one makes the sum
   // non-finite as before.
   let detProduct = 1;
-  for (let i = 0; i < nP; i++) {
-    const n = cn[i]!;
-    const t = ct[i]!;
-    const tt = ctt[i]!;
-    const m00 = 1 + n * d11 + t * d12;
-    const m01 = n * d12 + t * d22;
-    const m10 = t * d11 + tt * d12;
-    const m11 = 1 + t * d12 + tt * d22;
-    const det = m00 * m11 - m01 * m10;
-    if (det > 1e100) logDetH += Math.log(det);
-    else {
-      detProduct *= det;
-      if (!(detProduct < 1e200 && detProduct > 1e-200)) {
-        logDetH += Math.log(detProduct);
-        detProduct = 1;
+  for (let a = 0; a < nA; a++) {
+    // Arm a's participants are stored together (sums.ts): its totals stay in local variables.
+    let c00 = 0;
+    let c01 = 0;
+    let c11 = 0;
+    let q0 = 0;
+    let q1 = 0;
+    const end = starts[a + 1]!;
+    for (let i = starts[a]!; i < end; i++) {
+      const n = cn[i]!;
+      const t = ct[i]!;
+      const tt = ctt[i]!;
+      const m00 = 1 + n * d11 + t * d12;
+      const m01 = n * d12 + t * d22;
+      const m10 = t * d11 + tt * d12;
+      const m11 = 1 + t * d12 + tt * d22;
+      const det = m00 * m11 - m01 * m10;
+      if (det > 1e100) logDetH += Math.log(det);
+      else {
+        detProduct *= det;
+        if (!(detProduct < 1e200 && detProduct > 1e-200)) {
+          logDetH += Math.log(detProduct);
+          detProduct = 1;
+        }
       }
+      const inv = 1 / det;
+      const f00 = m11 * inv;
+      const f01 = -m01 * inv;
+      const f10 = -m10 * inv;
+      const f11 = m00 * inv;
+      const M00 = d11 * f00 + d12 * f10;
+      const M01 = 0.5 * (d11 * f01 + d12 * f11 + d12 * f00 + d22 * f10);
+      const M11 = d12 * f01 + d22 * f11;
+      const r0 = ry[i]!;
+      const r1 = rty[i]!;
+      const mr0 = M00 * r0 + M01 * r1;
+      const mr1 = M01 * r0 + M11 * r1;
+      rMr += r0 * mr0 + r1 * mr1;
+      // C M (C symmetric), then C M C, symmetric: its (1, 0) entry is the (0, 1) one.
+      const a00 = n * M00 + t * M01;
+      const a01 = n * M01 + t * M11;
+      const a11 = t * M01 + tt * M11;
+      c00 += a00 * n + a01 * t;
+      c01 += a00 * t + a01 * tt;
+      c11 += (t * M00 + tt * M01) * t + a11 * tt;
+      q0 += n * mr0 + t * mr1;
+      q1 += t * mr0 + tt * mr1;
     }
-    const inv = 1 / det;
-    const f00 = m11 * inv;
-    const f01 = -m01 * inv;
-    const f10 = -m10 * inv;
-    const f11 = m00 * inv;
-    const M00 = d11 * f00 + d12 * f10;
-    const M01 = 0.5 * (d11 * f01 + d12 * f11 + d12 * f00 + d22 * f10);
-    const M11 = d12 * f01 + d22 * f11;
-    const r0 = ry[i]!;
-    const r1 = rty[i]!;
-    const mr0 = M00 * r0 + M01 * r1;
-    const mr1 = M01 * r0 + M11 * r1;
-    rMr += r0 * mr0 + r1 * mr1;
-    // C M (C symmetric), then C M C, symmetric: its (1, 0) entry is the (0, 1) one.
-    const a00 = n * M00 + t * M01;
-    const a01 = n * M01 + t * M11;
-    const a11 = t * M01 + tt * M11;
-    const o = 4 * g[i]!;
-    cmc[o] = cmc[o]! + a00 * n + a01 * t;
-    cmc[o + 1] = cmc[o + 1]! + a00 * t + a01 * tt;
-    cmc[o + 3] = cmc[o + 3]! + (t * M00 + tt * M01) * t + a11 * tt;
-    const o2 = 2 * g[i]!;
-    cmr[o2] = cmr[o2]! + n * mr0 + t * mr1;
-    cmr[o2 + 1] = cmr[o2 + 1]! + t * mr0 + tt * mr1;
+    cmc[4 * a] = c00;
+    cmc[4 * a + 1] = c01;
+    cmc[4 * a + 3] = c11;
+    cmr[2 * a] = q0;
+    cmr[2 * a + 1] = q1;
   }
   logDetH += Math.log(detProduct);
   const BMB = new Float64Array(p * p);
@@ -273,51 +284,52 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
   let sq0 = 0;
   let sq1 = 0;
   let sq2 = 0;
-  for (let i = 0; i < nP; i++) {
-    const n = cn[i]!;
-    const t = ct[i]!;
-    const tt = ctt[i]!;
-    const m00 = 1 + n * d11 + t * d12;
-    const m01 = n * d12 + t * d22;
-    const m10 = t * d11 + tt * d12;
-    const m11 = 1 + t * d12 + tt * d22;
-    const inv = 1 / (m00 * m11 - m01 * m10);
-    const f00 = m11 * inv;
-    const f01 = -m01 * inv;
-    const f10 = -m10 * inv;
-    const f11 = m00 * inv;
-    const ga = g[i]!;
-    const e0b = eb[2 * ga]!;
-    const e1b = eb[2 * ga + 1]!;
-    const e0 = ry[i]! - (n * e0b + t * e1b);
-    const e1 = rty[i]! - (t * e0b + tt * e1b);
-    const v0 = f00 * e0 + f01 * e1;
-    const v1 = f10 * e0 + f11 * e1;
-    sv0 += v0 * v0;
-    sv1 += 2 * v0 * v1;
-    sv2 += v1 * v1;
-    // K = F C.
-    const k00 = f00 * n + f01 * t;
-    const k01 = f00 * t + f01 * tt;
-    const k10 = f10 * n + f11 * t;
-    const k11 = f10 * t + f11 * tt;
-    sk0 += k00;
-    sk1 += k01 + k10;
-    sk2 += k11;
-    if (reml) {
-      // Q = K H K' with H = E_a A⁻¹ E_a' (F B = F C E_a = K E_a).
-      const o = 4 * ga;
-      const h00 = eh[o]!;
-      const h01 = eh[o + 1]!;
-      const h10 = eh[o + 2]!;
-      const h11 = eh[o + 3]!;
-      const a00 = k00 * h00 + k01 * h10;
-      const a01 = k00 * h01 + k01 * h11;
-      const a10 = k10 * h00 + k11 * h10;
-      const a11 = k10 * h01 + k11 * h11;
-      sq0 += a00 * k00 + a01 * k01;
-      sq1 += a00 * k10 + a01 * k11 + a10 * k00 + a11 * k01;
-      sq2 += a10 * k10 + a11 * k11;
+  for (let a = 0; a < nA; a++) {
+    const e0b = eb[2 * a]!;
+    const e1b = eb[2 * a + 1]!;
+    const h00 = eh[4 * a]!;
+    const h01 = eh[4 * a + 1]!;
+    const h10 = eh[4 * a + 2]!;
+    const h11 = eh[4 * a + 3]!;
+    const end = starts[a + 1]!;
+    for (let i = starts[a]!; i < end; i++) {
+      const n = cn[i]!;
+      const t = ct[i]!;
+      const tt = ctt[i]!;
+      const m00 = 1 + n * d11 + t * d12;
+      const m01 = n * d12 + t * d22;
+      const m10 = t * d11 + tt * d12;
+      const m11 = 1 + t * d12 + tt * d22;
+      const inv = 1 / (m00 * m11 - m01 * m10);
+      const f00 = m11 * inv;
+      const f01 = -m01 * inv;
+      const f10 = -m10 * inv;
+      const f11 = m00 * inv;
+      const e0 = ry[i]! - (n * e0b + t * e1b);
+      const e1 = rty[i]! - (t * e0b + tt * e1b);
+      const v0 = f00 * e0 + f01 * e1;
+      const v1 = f10 * e0 + f11 * e1;
+      sv0 += v0 * v0;
+      sv1 += 2 * v0 * v1;
+      sv2 += v1 * v1;
+      // K = F C.
+      const k00 = f00 * n + f01 * t;
+      const k01 = f00 * t + f01 * tt;
+      const k10 = f10 * n + f11 * t;
+      const k11 = f10 * t + f11 * tt;
+      sk0 += k00;
+      sk1 += k01 + k10;
+      sk2 += k11;
+      if (reml) {
+        // Q = K H K' with H = E_a A⁻¹ E_a' (F B = F C E_a = K E_a).
+        const a00 = k00 * h00 + k01 * h10;
+        const a01 = k00 * h01 + k01 * h11;
+        const a10 = k10 * h00 + k11 * h10;
+        const a11 = k10 * h01 + k11 * h11;
+        sq0 += a00 * k00 + a01 * k01;
+        sq1 += a00 * k10 + a01 * k11 + a10 * k00 + a11 * k01;
+        sq2 += a10 * k10 + a11 * k11;
+      }
     }
   }
   const gr = (sv: number, sk: number, sq: number): number => -0.5 * ((nu * -sv) / R + sk - sq);

@@ -29,8 +29,13 @@ export interface SlopeSums {
   readonly stt: Float64Array;
   readonly sy: Float64Array;
   readonly sty: Float64Array;
-  /** Grouped: the arm per participant and E_a per arm (2 × p, row-major); null for the general layout. */
+  /**
+   * Grouped: the arm per participant and E_a per arm (2 × p, row-major); null for the general layout. Grouped
+   * participants are stored arm by arm (arm a's are armStart[a] .. armStart[a + 1] − 1, in subject order within the
+   * arm), so the per-arm sums of every pass keep their totals in local variables.
+   */
   readonly group: Int32Array | null;
+  readonly armStart: Int32Array | null;
   readonly E: readonly Float64Array[];
   /** General: B_i = Z_i'X_i per participant (2 × p, row-major, participant-major); null when grouped. */
   readonly B: Float64Array | null;
@@ -79,11 +84,13 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
   const groupOf = new Int32Array(groupedDesign ? nS : 0).fill(-1);
   // The grouped layout needs every participant in one arm; a participant in two arms sends the data to the general
   // one. That check rides along in the same pass.
-  const acc = { n, st, stt, sy, sty, yty: 0 };
+  // y'y comes back in a one-number typed array: a number field written after the loop would change the literal's
+  // hidden class (a small integer 0 becoming a double) and throw the pass's compiled code away at every fit.
+  const acc: RowAccumulators = { n, st, stt, sy, sty, yty: new Float64Array(1) };
   let grouped = groupedDesign;
   if (grouped && arm !== null) grouped = rowSumsCheckingArms(data, acc, yc, ys, tc, ts, arm, design.nArms, groupOf);
   else rowSums(data, acc, yc, ys, tc, ts);
-  const yty = acc.yty;
+  const yty = acc.yty[0]!;
   if (grouped && arm === null) groupOf.fill(0);
   if (!grouped && scaled) {
     const copy = applyScaling(data, scaling);
@@ -91,42 +98,60 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
   }
   const group = grouped ? groupOf : null;
   let nP = 0;
-  for (let s = 0; s < nS; s++) if (n[s]! > 0) nP++;
+  for (let k = 0; k < nS; k++) if (n[k]! > 0) nP++;
+  if (group !== null) {
+    const nArms = design.armCol >= 0 ? design.nArms : 1;
+    const E = Array.from({ length: nArms }, (_, a) => armMatrix(design, a));
+    // Participants arm by arm (a stable counting sort of the subjects present), copied into place in one loop that
+    // also totals C_i and r_i per arm.
+    const armStart = new Int32Array(nArms + 1);
+    for (let k = 0; k < nS; k++) if (n[k]! > 0) armStart[group[k]! + 1] = armStart[group[k]! + 1]! + 1;
+    for (let a = 0; a < nArms; a++) armStart[a + 1] = armStart[a + 1]! + armStart[a]!;
+    const next = armStart.slice(0, nArms);
+    const subjectOf = new Int32Array(nP);
+    const g = new Int32Array(nP);
+    const cols: Columns = { subjectOf, n: new Float64Array(nP), st: new Float64Array(nP), stt: new Float64Array(nP), sy: new Float64Array(nP), sty: new Float64Array(nP) };
+    const { n: n2, st: st2, stt: stt2, sy: sy2, sty: sty2 } = cols;
+    // X'X = Σ_a E_a'(Σ C_i)E_a and X'y = Σ_a E_a'(Σ r_i): no row-level p × p work.
+    const C = new Float64Array(nArms * 3);
+    const R = new Float64Array(nArms * 2);
+    for (let k = 0; k < nS; k++) {
+      const nk = n[k]!;
+      if (!(nk > 0)) continue;
+      const a = group[k]!;
+      const i = next[a]!;
+      next[a] = i + 1;
+      subjectOf[i] = k;
+      g[i] = a;
+      n2[i] = nk;
+      st2[i] = st[k]!;
+      stt2[i] = stt[k]!;
+      sy2[i] = sy[k]!;
+      sty2[i] = sty[k]!;
+      C[3 * a] = C[3 * a]! + nk;
+      C[3 * a + 1] = C[3 * a + 1]! + st[k]!;
+      C[3 * a + 2] = C[3 * a + 2]! + stt[k]!;
+      R[2 * a] = R[2 * a]! + sy[k]!;
+      R[2 * a + 1] = R[2 * a + 1]! + sty[k]!;
+    }
+    const xtx = new Float64Array(p * p);
+    const xty = new Float64Array(p);
+    for (let a = 0; a < nArms; a++) {
+      addSandwich(xtx, E[a]!, C[3 * a]!, C[3 * a + 1]!, C[3 * a + 1]!, C[3 * a + 2]!, p);
+      addTransposed(xty, E[a]!, R[2 * a]!, R[2 * a + 1]!, p);
+    }
+    return sumsObject(p, nRows, nP, yty, cols, g, armStart, E, null, xtx, xty);
+  }
+
   const subjectOf = new Int32Array(nP);
-  for (let s = 0, k = 0; s < nS; s++) if (n[s]! > 0) subjectOf[k++] = s;
-  // Plain loops: TypedArray.from with a mapping function goes through the iterator protocol, far slower at this size.
+  for (let k = 0, i = 0; k < nS; k++) if (n[k]! > 0) subjectOf[i++] = k;
   const pick = (v: Float64Array): Float64Array => {
     if (nP === nS) return v;
     const out = new Float64Array(nP);
     for (let i = 0; i < nP; i++) out[i] = v[subjectOf[i]!]!;
     return out;
   };
-  const base = { p, nObs: nRows, nP, subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty), yty };
-
-  if (group !== null) {
-    const nArms = design.armCol >= 0 ? design.nArms : 1;
-    const E = Array.from({ length: nArms }, (_, a) => armMatrix(design, a));
-    const g = nP === nS ? group : new Int32Array(nP);
-    if (g !== group) for (let i = 0; i < nP; i++) g[i] = group[subjectOf[i]!]!;
-    // X'X = Σ_a E_a'(Σ C_i)E_a and X'y = Σ_a E_a'(Σ r_i): no row-level p × p work.
-    const xtx = new Float64Array(p * p);
-    const xty = new Float64Array(p);
-    const C = new Float64Array(nArms * 3);
-    const R = new Float64Array(nArms * 2);
-    for (let i = 0; i < nP; i++) {
-      const a = g[i]!;
-      C[3 * a] = C[3 * a]! + base.n[i]!;
-      C[3 * a + 1] = C[3 * a + 1]! + base.st[i]!;
-      C[3 * a + 2] = C[3 * a + 2]! + base.stt[i]!;
-      R[2 * a] = R[2 * a]! + base.sy[i]!;
-      R[2 * a + 1] = R[2 * a + 1]! + base.sty[i]!;
-    }
-    for (let a = 0; a < nArms; a++) {
-      addSandwich(xtx, E[a]!, C[3 * a]!, C[3 * a + 1]!, C[3 * a + 1]!, C[3 * a + 2]!, p);
-      addTransposed(xty, E[a]!, R[2 * a]!, R[2 * a + 1]!, p);
-    }
-    return { ...base, group: g, E, B: null, xtx, xty };
-  }
+  const base: Columns = { subjectOf, n: pick(n), st: pick(st), stt: pick(stt), sy: pick(sy), sty: pick(sty) };
 
   // General layout: the intercept model's pass gives X'X, X'y; one more pass gives B_i = Σ_j [x_ij; t_ij x_ij].
   const general = sufficientStats(y, subject, nS, design, time);
@@ -148,7 +173,36 @@ export function slopeSums(data: ModelData, design: Design, scaling?: Scaling): S
     B = new Float64Array(nP * 2 * p);
     for (let i = 0; i < nP; i++) B.set(Bfull.subarray(subjectOf[i]! * 2 * p, (subjectOf[i]! + 1) * 2 * p), i * 2 * p);
   }
-  return { ...base, group: null, E: [], B, xtx: general.xtx, xty: general.xty };
+  return sumsObject(p, nRows, nP, yty, base, null, null, [], B, general.xtx, general.xty);
+}
+
+interface Columns {
+  readonly subjectOf: Int32Array;
+  readonly n: Float64Array;
+  readonly st: Float64Array;
+  readonly stt: Float64Array;
+  readonly sy: Float64Array;
+  readonly sty: Float64Array;
+}
+
+/**
+ * The sums as one object literal written out in full (no spread), so every SlopeSums has the same hidden class and the
+ * compiled passes over it stay valid from one fit to the next (a spread gave each fit's sums a new one).
+ */
+function sumsObject(
+  p: number,
+  nObs: number,
+  nP: number,
+  yty: number,
+  c: Columns,
+  group: Int32Array | null,
+  armStart: Int32Array | null,
+  E: readonly Float64Array[],
+  B: Float64Array | null,
+  xtx: Float64Array,
+  xty: Float64Array,
+): SlopeSums {
+  return { p, nObs, nP, subjectOf: c.subjectOf, n: c.n, st: c.st, stt: c.stt, sy: c.sy, sty: c.sty, group, armStart, E, B, xtx, xty, yty };
 }
 
 interface RowAccumulators {
@@ -157,7 +211,7 @@ interface RowAccumulators {
   readonly stt: Float64Array;
   readonly sy: Float64Array;
   readonly sty: Float64Array;
-  yty: number;
+  readonly yty: Float64Array;
 }
 
 /**
@@ -179,7 +233,7 @@ function rowSums(data: ModelData, acc: RowAccumulators, yc: number, ys: number, 
     sty[s] = sty[s]! + t * v;
     yty += v * v;
   }
-  acc.yty = yty;
+  acc.yty[0] = yty;
 }
 
 /** rowSums that also records each participant's arm in groupOf; false when an arm is out of range or a participant has two. */
@@ -205,7 +259,7 @@ function rowSumsCheckingArms(data: ModelData, acc: RowAccumulators, yc: number, 
       else ok = false;
     }
   }
-  acc.yty = yty;
+  acc.yty[0] = yty;
   return ok;
 }
 

@@ -133,7 +133,7 @@ async function sheetCells(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget,
       new FileFormatError(
         `The sheet "${sheet}" has a cell at ${where}, past the last row or column a worksheet can have (${SHEET_ROWS.toLocaleString('en-US')} rows, ${SHEET_COLUMNS.toLocaleString('en-US')} columns to XFD); the file was not written by a spreadsheet program within its limits.`,
       ),
-  });
+  }, Math.min(e.size, cap));
   await inflatePart(bytes, e, cap, budget, (c) => scanner.push(c), `sheet "${sheet}"`);
   scanner.end();
   return scanner.found;
@@ -263,10 +263,12 @@ function toSource(found: FoundCells, strings: readonly string[], sheet: string, 
       order[m++] = k;
     }
   }
+  // In order, the found arrays are kept as they are (no copy; room never written costs no memory) and the columns
+  // made relative in place; otherwise they are gathered in the sorted order.
   const rowStart = new Int32Array(height + 1);
-  const outCols = new Uint16Array(m);
-  const kinds = order === null ? found.kinds.slice(0, n) : new Uint8Array(m);
-  const nums = order === null ? found.nums.slice(0, n) : new Float64Array(m);
+  const outCols = order === null ? cols.subarray(0, n) : new Uint16Array(m);
+  const kinds = order === null ? found.kinds.subarray(0, n) : new Uint8Array(m);
+  const nums = order === null ? found.nums.subarray(0, n) : new Float64Array(m);
   for (let j = 0; j < m; j++) {
     const k = order === null ? j : order[j]!;
     const at = rows[k]! - minRow + 1;
@@ -277,6 +279,7 @@ function toSource(found: FoundCells, strings: readonly string[], sheet: string, 
       nums[j] = found.nums[k]!;
     }
   }
+  found.rows = new Int32Array(0);
   for (let r = 0; r < height; r++) rowStart[r + 1] = rowStart[r + 1]! + rowStart[r]!;
   let longest = found.longestText;
   for (const t of strings) if (t.length > longest) longest = t.length;

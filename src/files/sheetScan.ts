@@ -76,7 +76,8 @@ function typeCode(t: string | undefined): number {
 /** Growable typed arrays of the cells found, in the order found. */
 export class FoundCells {
   rows: Int32Array;
-  cols: Int32Array;
+  /** Columns, 1-based (a worksheet has at most 16,384). */
+  cols: Uint16Array;
   kinds: Uint8Array;
   nums: Float64Array;
   length = 0;
@@ -88,9 +89,12 @@ export class FoundCells {
   ordered = true;
   private lastKey = -1;
 
+  /** `capacity`: cells to make room for at once. Room that is never written costs address space, not memory (the
+   * platform hands out zeroed pages as they are first touched), so an estimate on the high side is cheap and saves
+   * the copies of growing. */
   constructor(capacity = 1 << 14) {
     this.rows = new Int32Array(capacity);
-    this.cols = new Int32Array(capacity);
+    this.cols = new Uint16Array(capacity);
     this.kinds = new Uint8Array(capacity);
     this.nums = new Float64Array(capacity);
   }
@@ -100,7 +104,7 @@ export class FoundCells {
     const rows = new Int32Array(n);
     rows.set(this.rows);
     this.rows = rows;
-    const cols = new Int32Array(n);
+    const cols = new Uint16Array(n);
     cols.set(this.cols);
     this.cols = cols;
     const kinds = new Uint8Array(n);
@@ -148,7 +152,7 @@ export interface ScanContext {
  * `found`. Throws ctx.past(...) for a row or cell past the worksheet's limits, as soon as it is met.
  */
 export class SheetScanner {
-  readonly found = new FoundCells();
+  readonly found: FoundCells;
   private pending: Uint8Array = new Uint8Array(0);
   private row = 0;
   private col = 0;
@@ -164,22 +168,46 @@ export class SheetScanner {
   private raw: string | null = null;
   private buf: Uint8Array = this.pending;
 
-  constructor(private readonly ctx: ScanContext) {}
+  /** `expectedBytes`: the part's inflated size as far as known (it sizes the first room for cells). */
+  constructor(
+    private readonly ctx: ScanContext,
+    expectedBytes = 0,
+  ) {
+    // A cell with a value takes at least 15 bytes of XML (<c><v>1</v></c>); most take 30 or more.
+    this.found = new FoundCells(Math.max(1 << 14, Math.min(Math.ceil(expectedBytes / 24), 1 << 25)));
+  }
 
   push(chunk: Uint8Array): void {
-    let buf: Uint8Array;
-    if (this.pending.length === 0) buf = chunk;
-    else {
-      buf = new Uint8Array(this.pending.length + chunk.length);
-      buf.set(this.pending);
-      buf.set(chunk, this.pending.length);
-    }
-    this.buf = buf;
     // Everything up to the last '>' is complete tags and text; the rest waits for the next chunk, except text before
-    // its first '<' (which can be long), handed on now up to its last complete character.
+    // its first '<' (which can be long), handed on now up to its last complete character. What waits is joined to
+    // the new chunk's bytes up to its first '>' only, so the chunk itself is read where it lies.
+    let start = 0;
+    if (this.pending.length > 0) {
+      let g = 0;
+      while (g < chunk.length && chunk[g] !== GT) g++;
+      const head = g < chunk.length ? g + 1 : chunk.length;
+      const joined = new Uint8Array(this.pending.length + head);
+      joined.set(this.pending);
+      joined.set(chunk.subarray(0, head), this.pending.length);
+      this.pending = new Uint8Array(0);
+      if (head === chunk.length) {
+        this.tail(joined);
+        return;
+      }
+      this.buf = joined;
+      this.run(joined, 0, joined.length);
+      this.settleRun();
+      start = head;
+    }
+    this.tail(chunk, start);
+  }
+
+  /** Reads buf[start..] up to its last '>', then keeps the rest as `pending` under the rule above. */
+  private tail(buf: Uint8Array, start = 0): void {
+    this.buf = buf;
     let cut = buf.length;
-    while (cut > 0 && buf[cut - 1] !== GT) cut--;
-    this.run(buf, cut);
+    while (cut > start && buf[cut - 1] !== GT) cut--;
+    this.run(buf, start, cut);
     let lt = cut;
     while (lt < buf.length && buf[lt] !== LT) lt++;
     let keep = lt;
@@ -219,8 +247,8 @@ export class SheetScanner {
     this.raw = (this.raw ?? '') + decodeRun(buf, s, e);
   }
 
-  private run(buf: Uint8Array, cut: number): void {
-    let i = 0;
+  private run(buf: Uint8Array, start: number, cut: number): void {
+    let i = start;
     while (i < cut) {
       if (buf[i] !== LT) {
         let j = i + 1;
@@ -263,7 +291,7 @@ export class SheetScanner {
       if (a === 0x69 /* i */ && buf[ls + 1] === 0x73 /* s */) this.inIs = !close && !empty;
     } else if (len === 3) {
       if (a === 0x72 /* r */ && buf[ls + 1] === 0x6f /* o */ && buf[ls + 2] === 0x77 /* w */) {
-        if (!close) this.rowTag(this.attrText(buf, q, end, 'r'));
+        if (!close) this.rowBytes(buf, q, end);
       } else if (a === 0x72 /* r */ && buf[ls + 1] === 0x50 /* P */ && buf[ls + 2] === 0x68 /* h */) {
         if (!empty) this.inPh += close ? -1 : 1;
       }
@@ -344,6 +372,26 @@ export class SheetScanner {
       const ls = colon < 0 ? ns : colon + 1;
       if (ne - ls === nlen && buf[ls] === n0 && (nlen === 1 || decodeRun(buf, ls, ne) === name)) return decodeXml(decodeRun(buf, vs, ve));
     }
+  }
+
+  /** A row tag's attributes in bytes [s, e): a plain r="digits" is read directly, anything else as text. */
+  private rowBytes(buf: Uint8Array, s: number, e: number): void {
+    if (this.cellAttrs(buf, s, e) && this.refS >= 0 && this.refE > this.refS && this.refE - this.refS <= 9) {
+      let row = 0;
+      let k = this.refS;
+      for (; k < this.refE; k++) {
+        const d = buf[k]! - 0x30;
+        if (d < 0 || d > 9) break;
+        row = row * 10 + d;
+      }
+      if (k === this.refE) {
+        this.row = row;
+        if (row < 1 || row > this.ctx.rowsMax) throw this.ctx.past(`row ${decodeRun(buf, this.refS, this.refE)}`);
+        this.col = 0;
+        return;
+      }
+    }
+    this.rowTag(this.attrText(buf, s, e, 'r'));
   }
 
   private rowTag(r: string | undefined): void {

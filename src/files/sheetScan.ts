@@ -257,6 +257,35 @@ export class SheetScanner {
         i = j;
         continue;
       }
+      // The commonest tags by their bytes (<v>, </v>, </c>), with the same effect as through tag(); a '>' found
+      // here lies before `cut`, as every '>' of the buffer does.
+      const b1 = buf[i + 1];
+      if (b1 === 0x76 /* v */ && buf[i + 2] === GT) {
+        this.collect = this.inCell && !this.inIs ? 1 : 0;
+        i += 3;
+        continue;
+      }
+      if (b1 === SLASH && buf[i + 3] === GT) {
+        const b2 = buf[i + 2];
+        if (b2 === 0x76 /* v */) {
+          this.collect = 0;
+          i += 4;
+          continue;
+        }
+        if (b2 === 0x63 /* c */) {
+          if (this.inCell) this.finishCell();
+          this.inCell = false;
+          i += 4;
+          continue;
+        }
+      }
+      if (b1 === 0x63 /* c */ && buf[i + 2] === 0x20) {
+        const next = this.fastCell(buf, i + 3);
+        if (next > 0) {
+          i = next;
+          continue;
+        }
+      }
       let gt = i + 1;
       while (buf[gt] !== GT) gt++;
       this.tag(buf, i + 1, gt);
@@ -458,6 +487,80 @@ export class SheetScanner {
     }
   }
 
+  /**
+   * A c tag opened with "<c " whose attributes start at `s`, read in one walk up to its '>' when every attribute has
+   * the plain form (as cellAttrs), giving the position after the tag; -1 when it must go through tag() (a '>' inside
+   * a value ends the tag there for the tokeniser, so that case goes the general way too).
+   */
+  private fastCell(buf: Uint8Array, s: number): number {
+    this.refS = this.refE = this.typeS = this.typeE = -1;
+    let i = s;
+    for (;;) {
+      while (isSpace(buf[i]!)) i++;
+      const c0 = buf[i];
+      if (c0 === GT) {
+        this.openCell(buf, false);
+        return i + 1;
+      }
+      if (c0 === SLASH) {
+        if (buf[i + 1] !== GT) return -1;
+        this.openCell(buf, true);
+        return i + 2;
+      }
+      const ns = i;
+      let colon = -1;
+      for (;;) {
+        const c = buf[i]!;
+        if ((c >= 0x61 && c <= 0x7a) || (c >= 0x41 && c <= 0x5a) || (c >= 0x30 && c <= 0x39) || c === 0x5f || c === 0x2e || c === 0x2d) i++;
+        else if (c === COLON) {
+          if (colon < 0) colon = i;
+          i++;
+        } else break;
+      }
+      if (i === ns) return -1;
+      const ne = i;
+      while (isSpace(buf[i]!)) i++;
+      if (buf[i] !== EQ) return -1;
+      i++;
+      while (isSpace(buf[i]!)) i++;
+      const q = buf[i];
+      if (q !== QUOTE && q !== APOS) return -1;
+      const vs = ++i;
+      for (;;) {
+        const c = buf[i]!;
+        if (c === q) break;
+        if (c === GT || c === 0x26 /* & */ || c === 0x5f /* _ */) return -1;
+        i++;
+      }
+      const ve = i++;
+      const ls = colon < 0 ? ns : colon + 1;
+      if (ne - ls === 1) {
+        const a = buf[ls];
+        if (a === 0x72 /* r */ && this.refS < 0) {
+          this.refS = vs;
+          this.refE = ve;
+        } else if (a === 0x74 /* t */ && this.typeS < 0) {
+          this.typeS = vs;
+          this.typeE = ve;
+        }
+      }
+    }
+  }
+
+  /** Opens a cell whose r and t attributes cellAttrs or fastCell found. */
+  private openCell(buf: Uint8Array, empty: boolean): void {
+    if (this.refS < 0) this.col += 1;
+    else this.cellRef(buf, this.refS, this.refE);
+    this.type = this.typeS < 0 ? T_N : this.typeE - this.typeS === 1 && buf[this.typeS] === 0x73 /* s */ ? T_S : typeCode(decodeRun(buf, this.typeS, this.typeE));
+    if (this.col > this.ctx.columnsMax) throw this.ctx.past(`column ${this.col} of row ${this.row}`);
+    this.raw = null;
+    this.runStart = -1;
+    this.inIs = false;
+    this.inPh = 0;
+    this.collect = 0;
+    this.inCell = !empty;
+  }
+
   private cellTag(close: boolean, empty: boolean, buf: Uint8Array, s: number, e: number, attrsGiven: string | null): void {
     if (close) {
       if (this.inCell) this.finishCell();
@@ -466,16 +569,11 @@ export class SheetScanner {
     }
     let attrs = attrsGiven;
     if (attrs === null && !this.cellAttrs(buf, s, e)) attrs = decoder.decode(buf.subarray(s, e));
-    if (attrs === null) {
-      if (this.refS < 0) this.col += 1;
-      else this.cellRef(buf, this.refS, this.refE);
-      this.type = this.typeS < 0 ? T_N : this.typeE - this.typeS === 1 && buf[this.typeS] === 0x73 /* s */ ? T_S : typeCode(decodeRun(buf, this.typeS, this.typeE));
-    } else {
-      const r = attr(attrs, 'r');
-      if (r === undefined) this.col += 1;
-      else this.placeRef(r);
-      this.type = typeCode(attr(attrs, 't'));
-    }
+    if (attrs === null) return this.openCell(buf, empty);
+    const r = attr(attrs, 'r');
+    if (r === undefined) this.col += 1;
+    else this.placeRef(r);
+    this.type = typeCode(attr(attrs, 't'));
     if (this.col > this.ctx.columnsMax) throw this.ctx.past(`column ${this.col} of row ${this.row}`);
     this.raw = null;
     this.runStart = -1;

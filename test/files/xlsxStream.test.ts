@@ -130,6 +130,9 @@ describe('the streaming .xlsx reader against the grid reader it replaced', () =>
       '<row r="5"><c r="C5"><v>3</v></c><c r="A5"><v>1</v></c></row><row r="2"><c r="B2"><v>2</v></c><c r="B2"><v>22</v></c><c r="B2" t="inlineStr"><is><t></t></is></c></row>',
       // A processing instruction and comments holding tags; a tag name with a non-ASCII character.
       '<?pi <c r="Z9"><v>9</v></c>?><!-- <row r="7"><c r="A7"><v>1</v></c></row> --><row r="1"><c r="A1"><v>1</v></c><c\u00a0r="B1"><v>2</v></c><cé r="C1"><v>3</v></cé></row>',
+      // c tags in every spacing: no space between attributes, two spaces, a tab, an empty cell with a space before
+      // '/>', a '/' not before '>', a '>' inside a quoted value (the tag ends there for the tokeniser).
+      '<row r="1"><c r="A1"t="s"><v>0</v></c><c  r="B1"><v>2</v></c><c\tr="C1"><v>3</v></c><c r="D1" /><c r="E1" / ><v>5</v></c><c r="F1>" t="s"><v>0</v></c><c r="G1"><v>7</v></c></row>',
       // Limits: a row number and references past the worksheet, and an unreadable reference.
       '<row r="1048577"><c><v>1</v></c></row>',
       '<row r="1"><c r="XFE1"><v>1</v></c></row>',

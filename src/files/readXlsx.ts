@@ -2,8 +2,8 @@ import type { CellValue, DateSystem } from '../core/intake/types';
 import { columnLetters } from '../core/intake/cellAddress';
 import { xsdBoolean } from './dateSystem';
 import { FileFormatError } from './errors';
-import { attr, decodeXml, XmlStream, type XmlTag } from './xml';
-import { type FoundCells, SheetScanner } from './sheetScan';
+import { attr } from './xml';
+import { type FoundCells, SharedStringScanner, SheetScanner } from './sheetScan';
 import { XlsxCells } from './xlsxCells';
 import { inflatePart, zipEntries, type InflateBudget, type ZipEntry } from './zip';
 
@@ -55,14 +55,6 @@ async function partText(bytes: Uint8Array, entries: Map<string, ZipEntry>, name:
   return text + decoder.decode();
 }
 
-/** Streams a part through an XML handler. */
-async function streamPart(bytes: Uint8Array, e: ZipEntry, cap: number, budget: InflateBudget, xml: XmlStream, what: string): Promise<void> {
-  const decoder = new TextDecoder('utf-8');
-  await inflatePart(bytes, e, cap, budget, (c) => xml.push(decoder.decode(c, { stream: true })), what);
-  xml.push(decoder.decode());
-  xml.end();
-}
-
 /** The relationships of a part (Open Packaging Conventions, ECMA-376 Part 2): id → [type, absolute target]. */
 function relationships(xml: string | undefined, from: string): Map<string, { type: string; target: string }> {
   const rels = new Map<string, { type: string; target: string }>();
@@ -95,27 +87,13 @@ function relsPath(part: string): string {
   return `${part.slice(0, slash + 1)}_rels/${part.slice(slash + 1)}.rels`;
 }
 
-/** Reads the shared-string table (ECMA-376 Part 1, §18.4): the plain text of each si, phonetic runs (rPh) left out. */
+/** Reads the shared-string table (ECMA-376 Part 1, §18.4): the plain text of each si, phonetic runs (rPh) left out,
+ * from its bytes as it inflates (sheetScan.ts). */
 async function sharedStrings(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget, cap: number): Promise<string[]> {
-  const out: string[] = [];
-  let raw = '';
-  let inT = false;
-  let inPh = 0;
-  const xml = new XmlStream({
-    tag(t: XmlTag) {
-      if (t.name === 'si') {
-        if (!t.close) raw = '';
-        if (t.close || t.empty) out.push(decodeXml(raw));
-      } else if (t.name === 'rPh') {
-        if (!t.empty) inPh += t.close ? -1 : 1;
-      } else if (t.name === 't') inT = !t.close && !t.empty && inPh === 0;
-    },
-    text(s: string) {
-      if (inT) raw += s;
-    },
-  });
-  await streamPart(bytes, e, cap, budget, xml, 'shared-string table');
-  return out;
+  const scanner = new SharedStringScanner();
+  await inflatePart(bytes, e, cap, budget, (c) => scanner.push(c), 'shared-string table');
+  scanner.end();
+  return scanner.strings;
 }
 
 /**

@@ -744,3 +744,103 @@ export function splitRef(ref: string): { col: number; row: number } {
   for (const ch of m[1]!.toUpperCase()) col = col * 26 + (ch.charCodeAt(0) - 64);
   return { col, row: Number(m[2]) };
 }
+
+/**
+ * The shared-string table (ECMA-376 Part 1, §18.4: sst, si, t, r, rPh; section numbers from memory) read from its
+ * bytes as it inflates, with the tokeniser's rules (xml.ts) as SheetScanner has them: each si gives the text of its
+ * t elements outside rPh (phonetic runs), entities and _xHHHH_ escapes decoded; an empty <si/> gives "".
+ * push() each chunk, then end(); the table is `strings`. Cost O(bytes).
+ */
+export class SharedStringScanner {
+  readonly strings: string[] = [];
+  private pending: Uint8Array = new Uint8Array(0);
+  private raw = '';
+  private inT = false;
+  private inPh = 0;
+
+  push(chunk: Uint8Array): void {
+    let buf = chunk;
+    if (this.pending.length > 0) {
+      buf = new Uint8Array(this.pending.length + chunk.length);
+      buf.set(this.pending);
+      buf.set(chunk, this.pending.length);
+    }
+    let cut = buf.length;
+    while (cut > 0 && buf[cut - 1] !== GT) cut--;
+    this.run(buf, cut);
+    let lt = cut;
+    while (lt < buf.length && buf[lt] !== LT) lt++;
+    let keep = lt;
+    if (lt > cut) {
+      const end = lt < buf.length ? lt : utf8Cut(buf, cut, buf.length);
+      if (end > cut && this.inT) this.raw += decodeRun(buf, cut, end);
+      keep = end;
+    }
+    this.pending = buf.slice(keep);
+  }
+
+  end(): void {
+    const p = this.pending;
+    if (p.length > 0 && p[0] !== LT && this.inT) this.raw += decodeRun(p, 0, p.length);
+    this.pending = new Uint8Array(0);
+  }
+
+  private run(buf: Uint8Array, cut: number): void {
+    let i = 0;
+    while (i < cut) {
+      if (buf[i] !== LT) {
+        let j = i + 1;
+        while (j < cut && buf[j] !== LT) j++;
+        if (this.inT) this.raw += decodeRun(buf, i, j);
+        i = j;
+        continue;
+      }
+      let gt = i + 1;
+      while (buf[gt] !== GT) gt++;
+      this.tag(buf, i + 1, gt);
+      i = gt + 1;
+    }
+  }
+
+  /** One tag, inner bytes [s, e). */
+  private tag(buf: Uint8Array, s: number, e: number): void {
+    const first = buf[s];
+    if (first === 0x3f /* ? */ || first === 0x21 /* ! */) return;
+    const close = first === SLASH;
+    const empty = !close && e > s && buf[e - 1] === SLASH;
+    const p = close ? s + 1 : s;
+    const end = empty ? e - 1 : e;
+    let q = p;
+    let colon = -1;
+    let name: string | null = null;
+    for (; q < end; q++) {
+      const c = buf[q]!;
+      if (isSpace(c)) break;
+      if (c >= 0x80) {
+        name = tagNameOf(decoder.decode(buf.subarray(p, end)));
+        break;
+      }
+      if (c === COLON && colon < 0) colon = q;
+    }
+    if (name === null) {
+      const ls = colon < 0 ? p : colon + 1;
+      const len = q - ls;
+      if (len > 3) return;
+      name = decodeRun(buf, ls, q);
+    }
+    if (name === 'si') {
+      if (!close) this.raw = '';
+      if (close || empty) this.strings.push(decodeXml(this.raw));
+    } else if (name === 'rPh') {
+      if (!empty) this.inPh += close ? -1 : 1;
+    } else if (name === 't') this.inT = !close && !empty && this.inPh === 0;
+  }
+}
+
+/** The local name of a tag's body (name and attributes, without '<', '/' and '>'), as xml.ts splits it. */
+function tagNameOf(body: string): string {
+  const sp = body.search(/\s/);
+  const qname = sp < 0 ? body : body.slice(0, sp);
+  const colon = qname.indexOf(':');
+  return colon < 0 ? qname : qname.slice(colon + 1);
+}

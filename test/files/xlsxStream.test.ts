@@ -4,7 +4,7 @@ import { readFileSync } from 'node:fs';
 import { GridSource } from '../../src/core/intake/cellSource';
 import type { CellValue } from '../../src/core/intake/types';
 import { readXlsxBuffer, readXlsxSource } from '../../src/files/readXlsx';
-import { plainDecimal, SheetScanner, type FoundCells } from '../../src/files/sheetScan';
+import { plainDecimal, SharedStringScanner, SheetScanner, type FoundCells } from '../../src/files/sheetScan';
 import { readXlsxGrid } from '../support/gridXlsxReader';
 import { sheetWorkbook, type SheetCell, type SheetRow } from '../support/sheetWorkbook';
 import { makeZip, workbookParts } from '../support/zipFixture';
@@ -247,6 +247,39 @@ describe('SheetScanner', () => {
     s.push(new TextEncoder().encode('</sheetData></worksheet>'));
     s.end();
     expect(s.found.length).toBe(1);
+  });
+});
+
+describe('SharedStringScanner', () => {
+  it('reads each si as the text of its t elements outside rPh, decoded, whatever the chunks (ECMA-376 Part 1, §18.4; property)', async () => {
+    const xml =
+      '<?xml version="1.0"?><x:sst xmlns:x="main" count="6"><x:si><x:t>alpha</x:t></x:si><si><t xml:space="preserve">  </t></si><si/><si><t></t></si>' +
+      '<si><r><rPr><b/></rPr><t>be</t></r><r><t>ta</t></r><rPh sb="0" eb="1"><t>PH</t></rPh></si><si><t>Z&#252;rich &amp; _x000D_ \u4e2d\ud83d\ude00 a&gt;b</t></si>' +
+      '<!-- a comment --><si><t>last</t></si></x:sst>';
+    const bytes = new TextEncoder().encode(xml);
+    const read = (cuts: readonly number[]): string[] => {
+      const s = new SharedStringScanner();
+      let at = 0;
+      for (const cut of [...cuts, bytes.length]) {
+        s.push(bytes.subarray(at, Math.max(at, cut)));
+        at = Math.max(at, cut);
+      }
+      s.end();
+      return s.strings;
+    };
+    const expected = ['alpha', '  ', '', '', 'beta', 'Z\u00fcrich & \r \u4e2d\ud83d\ude00 a>b', 'last'];
+    expect(read([])).toEqual(expected);
+    for (const size of [1, 2, 3, 5]) {
+      const cuts: number[] = [];
+      for (let k = size; k < bytes.length; k += size) cuts.push(k);
+      expect(read(cuts), `chunks of ${size}`).toEqual(expected);
+    }
+    await fc.assert(
+      fc.asyncProperty(fc.uniqueArray(fc.integer({ min: 1, max: bytes.length - 1 }), { maxLength: 30 }), async (cuts) => {
+        expect(read([...cuts].sort((a, b) => a - b))).toEqual(expected);
+      }),
+      { numRuns: 200 },
+    );
   });
 });
 

@@ -7,6 +7,7 @@
  * only that (sizes may follow: `npm run bench -- writer 200000`).
  * `npm run bench -- page [rows…]` runs only the browser page's bench (bench/page-bench.ts, bench/page-latest.json).
  * `npm run bench -- whole [sizes]` runs only the whole command-line run against papaparse (bench/whole-run.ts).
+ * `npm run bench -- xlsx [rows…]` runs only the .xlsx input's bench (bench/xlsx-bench.ts, bench/xlsx-latest.json).
  */
 import { writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
@@ -17,6 +18,7 @@ import { runHostileBench } from './hostile-bench';
 import { pageBenchTable, runPageBench } from './page-bench';
 import { runWriterBench, writerTable } from './writer-bench';
 import { mainWhole } from './whole-run';
+import { mainXlsx } from './xlsx-bench';
 import type { BenchEntry } from './types';
 
 // `npm run bench -- page [rows…]`: the browser page only (bench/page-bench.ts), at 300,000 and 1,000,000 rows by
@@ -33,6 +35,13 @@ const onlyHostile = process.argv.includes('hostile');
 const onlyWriter = process.argv.includes('writer');
 const sizes = process.argv.slice(2).map(Number).filter((n) => Number.isInteger(n) && n > 0);
 const rowsList = sizes.length > 0 ? sizes : [10_000, 100_000, 1_000_000];
+
+// `npm run bench -- xlsx [rows…]`: the command line on an .xlsx listing against the same cells as CSV
+// (bench/xlsx-bench.ts), nothing else.
+if (process.argv[2] === 'xlsx') {
+  await mainXlsx(sizes);
+  process.exit(0);
+}
 
 // `npm run bench -- whole [sizes]`: the whole command-line run against papaparse (bench/whole-run.ts), nothing else.
 if (process.argv.includes('whole')) {

@@ -1,10 +1,10 @@
 import { readFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
 import type { DateSystem } from '../core/intake/types';
-import { GridSource, type CellSource } from '../core/intake/cellSource';
+import type { CellSource } from '../core/intake/cellSource';
 import { parseSchedule } from '../core/schedule';
 import type { ScheduleVisit } from '../core/schedule/types';
-import { fileFingerprint, FileFormatError, gridRange, readCsvFile, readCsvSource, readXlsxBuffer } from '../files';
+import { fileFingerprint, FileFormatError, rangeOf, readCsvFile, readCsvSource, readXlsxSource } from '../files';
 import { UsageError } from './args';
 
 /** The data file as cells, with where they came from (for cell addresses and the analysis record). */
@@ -13,7 +13,8 @@ export interface DataInput {
   readonly sheet: string;
   readonly topLeft: string;
   readonly dateSystem: DateSystem;
-  /** The cells, read cell by cell by intake (a CSV file stays an index over its text, csvIndex.ts). */
+  /** The cells, read cell by cell by intake (a CSV file stays an index over its text, csvIndex.ts; an .xlsx sheet
+   * typed arrays, xlsxCells.ts). */
   readonly source: CellSource;
   /** SHA-256 of the file's bytes (fileFingerprint), the run's input fingerprint. */
   readonly fingerprint: string;
@@ -54,19 +55,20 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
     };
   }
   if (ext === '.xlsx' || ext === '.xlsm') {
-    let read: Awaited<ReturnType<typeof readXlsxBuffer>>;
+    let read: Awaited<ReturnType<typeof readXlsxSource>>;
     try {
-      read = await readXlsxBuffer(new Uint8Array(bytes), sheet);
+      // The sheet stays in typed arrays behind a CellSource (src/files/xlsxCells.ts), as a CSV file stays an index.
+      read = await readXlsxSource(new Uint8Array(bytes), sheet);
     } catch (e) {
       if (e instanceof FileFormatError) throw new FileFormatError(`"${path}": ${e.message}`);
       throw e;
     }
     return {
-      label: `${basename(path)}, sheet ${read.sheet}!${gridRange(read.topLeft, read.cells)}`,
+      label: `${basename(path)}, sheet ${read.sheet}!${rangeOf(read.topLeft, read.source.rowCount, read.source.width)}`,
       sheet: read.sheet,
       topLeft: read.topLeft,
       dateSystem: read.dateSystem,
-      source: new GridSource(read.cells),
+      source: read.source,
       fingerprint: await fileFingerprint(bytes),
       numericText: 'reject',
       notes: [],

@@ -1,8 +1,9 @@
 export { FileFormatError } from './errors';
 export { readCsvText } from './readCsv';
-export { readXlsxBuffer } from './readXlsx';
+export { readXlsxBuffer, readXlsxSource } from './readXlsx';
 export { XLSX_LIMITS, SHEET_ROWS, SHEET_COLUMNS } from './readXlsx';
-export type { XlsxSheet, XlsxLimits } from './readXlsx';
+export type { XlsxSheet, XlsxSheetSource, XlsxLimits } from './readXlsx';
+export { XlsxCells } from './xlsxCells';
 export { writeWorkbook, CHART_DATA_CAPTION } from './writeWorkbook';
 export { printStampOf } from './printSetup';
 export type { PrintStamp } from './printSetup';

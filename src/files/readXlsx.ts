@@ -2,7 +2,9 @@ import type { CellValue, DateSystem } from '../core/intake/types';
 import { columnLetters } from '../core/intake/cellAddress';
 import { xsdBoolean } from './dateSystem';
 import { FileFormatError } from './errors';
-import { attr, decodeXml, XmlStream, type XmlTag } from './xml';
+import { attr } from './xml';
+import { type FoundCells, SharedStringScanner, SheetScanner } from './sheetScan';
+import { XlsxCells } from './xlsxCells';
 import { inflatePart, zipEntries, type InflateBudget, type ZipEntry } from './zip';
 
 /** A sheet read from an .xlsx file: its name, the address of its first used cell, its date system and its cells. */
@@ -53,14 +55,6 @@ async function partText(bytes: Uint8Array, entries: Map<string, ZipEntry>, name:
   return text + decoder.decode();
 }
 
-/** Streams a part through an XML handler. */
-async function streamPart(bytes: Uint8Array, e: ZipEntry, cap: number, budget: InflateBudget, xml: XmlStream, what: string): Promise<void> {
-  const decoder = new TextDecoder('utf-8');
-  await inflatePart(bytes, e, cap, budget, (c) => xml.push(decoder.decode(c, { stream: true })), what);
-  xml.push(decoder.decode());
-  xml.end();
-}
-
 /** The relationships of a part (Open Packaging Conventions, ECMA-376 Part 2): id → [type, absolute target]. */
 function relationships(xml: string | undefined, from: string): Map<string, { type: string; target: string }> {
   const rels = new Map<string, { type: string; target: string }>();
@@ -93,136 +87,43 @@ function relsPath(part: string): string {
   return `${part.slice(0, slash + 1)}_rels/${part.slice(slash + 1)}.rels`;
 }
 
-/** Reads the shared-string table (ECMA-376 Part 1, §18.4): the plain text of each si, phonetic runs (rPh) left out. */
+/** Reads the shared-string table (ECMA-376 Part 1, §18.4): the plain text of each si, phonetic runs (rPh) left out,
+ * from its bytes as it inflates (sheetScan.ts). */
 async function sharedStrings(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget, cap: number): Promise<string[]> {
-  const out: string[] = [];
-  let raw = '';
-  let inT = false;
-  let inPh = 0;
-  const xml = new XmlStream({
-    tag(t: XmlTag) {
-      if (t.name === 'si') {
-        if (!t.close) raw = '';
-        if (t.close || t.empty) out.push(decodeXml(raw));
-      } else if (t.name === 'rPh') {
-        if (!t.empty) inPh += t.close ? -1 : 1;
-      } else if (t.name === 't') inT = !t.close && !t.empty && inPh === 0;
-    },
-    text(s: string) {
-      if (inT) raw += s;
-    },
-  });
-  await streamPart(bytes, e, cap, budget, xml, 'shared-string table');
-  return out;
-}
-
-/** Column number (1-based) and row of an A1 reference; NaN parts when it is not one. */
-function splitRef(ref: string): { col: number; row: number } {
-  const m = /^\$?([A-Za-z]{1,7})\$?(\d{1,12})$/.exec(ref);
-  if (m === null) return { col: NaN, row: NaN };
-  let col = 0;
-  for (const ch of m[1]!.toUpperCase()) col = col * 26 + (ch.charCodeAt(0) - 64);
-  return { col, row: Number(m[2]) };
-}
-
-/** One cell with a value, as read: 1-based row and column. */
-interface Found {
-  rows: number[];
-  cols: number[];
-  values: CellValue[];
+  const scanner = new SharedStringScanner();
+  await inflatePart(bytes, e, cap, budget, (c) => scanner.push(c), 'shared-string table');
+  scanner.end();
+  return scanner.strings;
 }
 
 /**
  * Reads the cells of a worksheet part (ECMA-376 Part 1, §18.3.1.4 c, §18.18.11 ST_CellType) sparsely, in the order
- * they appear: only cells with a value are kept, so empty styled cells and stray formatting cost nothing.
+ * they appear, streaming (sheetScan.ts): only cells with a value are kept, so empty styled cells and stray formatting
+ * cost nothing.
  * @throws FileFormatError for a row or cell past the worksheet's limits.
  */
-async function sheetCells(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget, cap: number, strings: readonly string[], sheet: string): Promise<Found> {
-  const found: Found = { rows: [], cols: [], values: [] };
-  let row = 0;
-  let col = 0;
-  let type = 'n';
-  let raw = '';
-  let collect: 'v' | 't' | null = null;
-  let inIs = false;
-  let inPh = 0;
-  let inCell = false;
-  const past = (where: string): FileFormatError =>
-    new FileFormatError(
-      `The sheet "${sheet}" has a cell at ${where}, past the last row or column a worksheet can have (${SHEET_ROWS.toLocaleString('en-US')} rows, ${SHEET_COLUMNS.toLocaleString('en-US')} columns to XFD); the file was not written by a spreadsheet program within its limits.`,
-    );
-  const finishCell = (): void => {
-    let v: CellValue = null;
-    if (type === 'inlineStr') v = decodeXml(raw);
-    else if (raw !== '') {
-      const text = decodeXml(raw);
-      if (type === 's') v = strings[Number(text)] ?? null;
-      else if (type === 'b') v = text.trim() === '1' || text.trim() === 'true';
-      else if (type === 'n' || type === '') {
-        const n = Number(text);
-        v = text.trim() !== '' && Number.isFinite(n) ? n : text;
-      } else v = text; // str (formula text), e (error value such as #N/A), d (ISO 8601 date text)
-    }
-    if (v === null || v === '') return;
-    found.rows.push(row);
-    found.cols.push(col);
-    found.values.push(v);
-  };
-  const xml = new XmlStream({
-    tag(t: XmlTag) {
-      switch (t.name) {
-        case 'row':
-          if (!t.close) {
-            const r = attr(t.attrs, 'r');
-            row = r === undefined ? row + 1 : Number(r);
-            if (!Number.isInteger(row) || row < 1 || row > SHEET_ROWS) throw past(`row ${r ?? String(row)}`);
-            col = 0;
-          }
-          break;
-        case 'c':
-          if (t.close) {
-            if (inCell) finishCell();
-            inCell = false;
-          } else {
-            const r = attr(t.attrs, 'r');
-            if (r === undefined) col += 1;
-            else {
-              const at = splitRef(r);
-              if (!(at.row >= 1 && at.row <= SHEET_ROWS && at.col >= 1 && at.col <= SHEET_COLUMNS)) throw past(r);
-              row = at.row;
-              col = at.col;
-            }
-            if (col > SHEET_COLUMNS) throw past(`column ${col} of row ${row}`);
-            type = attr(t.attrs, 't') ?? 'n';
-            raw = '';
-            inIs = false;
-            inPh = 0;
-            collect = null;
-            inCell = !t.empty;
-          }
-          break;
-        case 'v':
-          collect = !t.close && !t.empty && inCell && !inIs ? 'v' : null;
-          break;
-        case 'is':
-          inIs = !t.close && !t.empty;
-          break;
-        case 'rPh':
-          if (!t.empty) inPh += t.close ? -1 : 1;
-          break;
-        case 't':
-          collect = !t.close && !t.empty && inIs && inPh === 0 ? 't' : null;
-          break;
-        default:
-          break;
-      }
-    },
-    text(s: string) {
-      if (collect !== null) raw += s;
-    },
-  });
-  await streamPart(bytes, e, cap, budget, xml, `sheet "${sheet}"`);
-  return found;
+async function sheetCells(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget, cap: number, strings: readonly string[], sheet: string): Promise<FoundCells> {
+  const scanner = new SheetScanner({
+    strings,
+    rowsMax: SHEET_ROWS,
+    columnsMax: SHEET_COLUMNS,
+    past: (where: string): FileFormatError =>
+      new FileFormatError(
+        `The sheet "${sheet}" has a cell at ${where}, past the last row or column a worksheet can have (${SHEET_ROWS.toLocaleString('en-US')} rows, ${SHEET_COLUMNS.toLocaleString('en-US')} columns to XFD); the file was not written by a spreadsheet program within its limits.`,
+      ),
+  }, Math.min(e.size, cap));
+  await inflatePart(bytes, e, cap, budget, (c) => scanner.push(c), `sheet "${sheet}"`);
+  scanner.end();
+  return scanner.found;
+}
+
+/** One worksheet read from an .xlsx file as a CellSource: the cells stay in typed arrays (xlsxCells.ts). */
+export interface XlsxSheetSource {
+  readonly sheet: string;
+  readonly topLeft: string;
+  readonly dateSystem: DateSystem;
+  readonly source: XlsxCells;
+  readonly sheetNames: readonly string[];
 }
 
 /**
@@ -240,6 +141,18 @@ async function sheetCells(bytes: Uint8Array, e: ZipEntry, budget: InflateBudget,
  * over its cap, the named sheet does not exist, the sheet is empty or past a worksheet's limits.
  */
 export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: string, limits: XlsxLimits = XLSX_LIMITS): Promise<XlsxSheet> {
+  const read = await readXlsxSource(buf, sheetName, limits);
+  return { sheet: read.sheet, topLeft: read.topLeft, dateSystem: read.dateSystem, sheetNames: read.sheetNames, cells: read.source.toGrid() };
+}
+
+/**
+ * readXlsxBuffer without the grid: the same checks, limits and messages, with the cells left in typed arrays behind a
+ * CellSource (xlsxCells.ts), read from the sheet part as it inflates (sheetScan.ts). The command line reads data this
+ * way. Cost O(inflated bytes of the parts read + cells); memory about 11 bytes per cell with a value plus the
+ * distinct texts and the shared strings, never O(sheet XML) or O(grid).
+ * @throws FileFormatError as readXlsxBuffer.
+ */
+export async function readXlsxSource(buf: Uint8Array | ArrayBuffer, sheetName?: string, limits: XlsxLimits = XLSX_LIMITS): Promise<XlsxSheetSource> {
   // ArrayBuffer.isView rather than instanceof: a buffer made in another realm (a worker, a test DOM) fails instanceof.
   const bytes = ArrayBuffer.isView(buf) ? new Uint8Array(buf.buffer, buf.byteOffset, buf.byteLength) : new Uint8Array(buf);
   if (OLE2_MAGIC.every((b, k) => bytes[k] === b)) {
@@ -278,13 +191,19 @@ export async function readXlsxBuffer(buf: Uint8Array | ArrayBuffer, sheetName?: 
   const ssEntry = ssRel === undefined ? undefined : entries.get(ssRel.target);
   const strings = ssEntry === undefined ? [] : await sharedStrings(bytes, ssEntry, budget, limits.sharedStringsBytes);
   const found = await sheetCells(bytes, sheetEntry, budget, limits.sheetBytes, strings, chosen.name);
-  return { sheet: chosen.name, dateSystem, sheetNames, ...toGrid(found, chosen.name, limits.gridCells) };
+  return { sheet: chosen.name, dateSystem, sheetNames, ...toSource(found, strings, chosen.name, limits.gridCells) };
 }
 
-/** The dense grid from the first to the last used row and column; blank rows share one frozen row of nulls. */
-function toGrid(found: Found, sheet: string, gridCells: number): { topLeft: string; cells: CellValue[][] } {
-  const n = found.values.length;
+/**
+ * The cells found, from the first to the last used row and column, as a CellSource. Cells come in row order in every
+ * file a spreadsheet program writes; others are sorted (a later cell at the same address replaces an earlier one, as
+ * in the grid before). A span over `gridCells` is refused with the far cells named.
+ */
+function toSource(found: FoundCells, strings: readonly string[], sheet: string, gridCells: number): { topLeft: string; source: XlsxCells } {
+  const n = found.length;
   if (n === 0) throw new FileFormatError(`The sheet "${sheet}" is empty.`);
+  const rows = found.rows;
+  const cols = found.cols;
   let minRow = Infinity;
   let maxRow = 0;
   let minCol = Infinity;
@@ -292,8 +211,8 @@ function toGrid(found: Found, sheet: string, gridCells: number): { topLeft: stri
   let farRow = 0;
   let farCol = 0;
   for (let k = 0; k < n; k++) {
-    const r = found.rows[k]!;
-    const c = found.cols[k]!;
+    const r = rows[k]!;
+    const c = cols[k]!;
     if (r < minRow) minRow = r;
     if (r > maxRow) [maxRow, farRow] = [r, k];
     if (c < minCol) minCol = c;
@@ -301,23 +220,46 @@ function toGrid(found: Found, sheet: string, gridCells: number): { topLeft: stri
   }
   const height = maxRow - minRow + 1;
   const width = maxCol - minCol + 1;
-  const address = (k: number): string => `${columnLetters(found.cols[k]! - 1)}${found.rows[k]!}`;
+  const address = (k: number): string => `${columnLetters(cols[k]! - 1)}${rows[k]!}`;
   const topLeft = `${columnLetters(minCol - 1)}${minRow}`;
   if (height * width > gridCells) {
     throw new FileFormatError(
       `The sheet "${sheet}" has values from ${topLeft} to ${columnLetters(maxCol - 1)}${maxRow} (${height.toLocaleString('en-US')} rows by ${width.toLocaleString('en-US')} columns), but only ${n.toLocaleString('en-US')} cells hold anything: ${farRow === farCol ? `the far cell is ${address(farRow)}` : `the last row with a value is at ${address(farRow)} and the last column at ${address(farCol)}`}. Delete stray cells outside the table (or copy the table to a new sheet) and save again.`,
     );
   }
-  const blank = Object.freeze(new Array<CellValue>(width).fill(null)) as CellValue[];
-  const cells: CellValue[][] = new Array<CellValue[]>(height).fill(blank);
-  for (let k = 0; k < n; k++) {
-    const i = found.rows[k]! - minRow;
-    let row = cells[i]!;
-    if (row === blank) {
-      row = new Array<CellValue>(width).fill(null);
-      cells[i] = row;
+  // The order to keep: every cell when they came in order, else sorted by address, the last of equal addresses kept.
+  let order: Int32Array | null = null;
+  let m = n;
+  if (!found.ordered) {
+    const key = (k: number): number => rows[k]! * 16_385 + cols[k]!;
+    const all = Int32Array.from({ length: n }, (_, k) => k).sort((a, b) => key(a) - key(b) || a - b);
+    order = new Int32Array(n);
+    m = 0;
+    for (let j = 0; j < n; j++) {
+      const k = all[j]!;
+      if (j + 1 < n && key(all[j + 1]!) === key(k)) continue;
+      order[m++] = k;
     }
-    row[found.cols[k]! - minCol] = found.values[k];
   }
-  return { topLeft, cells };
+  // In order, the found arrays are kept as they are (no copy; room never written costs no memory) and the columns
+  // made relative in place; otherwise they are gathered in the sorted order.
+  const rowStart = new Int32Array(height + 1);
+  const outCols = order === null ? cols.subarray(0, n) : new Uint16Array(m);
+  const kinds = order === null ? found.kinds.subarray(0, n) : new Uint8Array(m);
+  const nums = order === null ? found.nums.subarray(0, n) : new Float64Array(m);
+  for (let j = 0; j < m; j++) {
+    const k = order === null ? j : order[j]!;
+    const at = rows[k]! - minRow + 1;
+    rowStart[at] = rowStart[at]! + 1;
+    outCols[j] = cols[k]! - minCol;
+    if (order !== null) {
+      kinds[j] = found.kinds[k]!;
+      nums[j] = found.nums[k]!;
+    }
+  }
+  found.rows = new Int32Array(0);
+  for (let r = 0; r < height; r++) rowStart[r + 1] = rowStart[r + 1]! + rowStart[r]!;
+  let longest = found.longestText;
+  for (const t of strings) if (t.length > longest) longest = t.length;
+  return { topLeft, source: new XlsxCells(height, width, rowStart, outCols, kinds, nums, strings, found.texts, longest) };
 }

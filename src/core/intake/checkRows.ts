@@ -9,7 +9,7 @@ import type { CovariatePlan } from './covariatePlan';
 import { IntakeUsageError } from './errors';
 import type { IssueList } from './issueList';
 import { DATE_PROBLEMS, dateCellIssue } from './dateColumn';
-import { NUMBER_PROBLEMS, TEXT_BLANK, TEXT_ERROR, TEXT_OK, type CodedColumn, type NumberColumn } from './decodeColumns';
+import { NUMBER_PROBLEMS, TEXT_BLANK, TEXT_ERROR, TEXT_OK, type CodedColumn } from './decodeColumns';
 import type { DecodedColumns } from './decodeTable';
 import type { ColumnMapping, IssueCode, Role, TextCodes, Use } from './types';
 

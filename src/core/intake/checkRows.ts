@@ -12,6 +12,7 @@ import { DATE_PROBLEMS, dateCellIssue } from './dateColumn';
 import { NUMBER_PROBLEMS, TEXT_BLANK, TEXT_ERROR, TEXT_OK, type CodedColumn } from './decodeColumns';
 import type { DecodedColumns } from './decodeTable';
 import type { ColumnMapping, IssueCode, Role, TextCodes, Use } from './types';
+import { textsOfCodes } from './textCodes';
 
 const USES: readonly Use[] = ['timing', 'model'];
 
@@ -26,16 +27,12 @@ export interface RowCheckSetup {
 export interface RowColumns {
   readonly timeKind: 'date' | 'studyDay';
   readonly sheetRows: Int32Array;
-  readonly subject: string[];
   readonly subjectIndex: Int32Array;
   readonly subjectIds: string[];
   readonly date: Float64Array;
   readonly studyDay: Float64Array;
   readonly reference: Float64Array;
   readonly value: Float64Array;
-  readonly visit: string[] | null;
-  readonly site: string[] | null;
-  readonly arm: string[] | null;
   readonly visitCodes: TextCodes | null;
   readonly siteCodes: TextCodes | null;
   readonly armCodes: TextCodes | null;
@@ -49,7 +46,8 @@ export interface RowColumns {
 /**
  * Checks data rows 0..nRows-1 of the decoded columns and adds row warnings to `issues`, in the order a row-by-row
  * reading gives them (per row: subject, time, reference date, visit, site, value, arm, covariates; then the blank-row
- * summary). Number columns are shared with the decoded columns, not copied.
+ * summary). Number columns are shared with the decoded columns, not copied; text columns are given as codes (the
+ * per-row strings of the table are made by checkTable only when read).
  * @example checkRows(decoded of [["Subject", "Study day", "Result"], ["K-1", 0, 60]], setup, issues).usableTiming // Uint8Array [0]
  * // with two 'bad-study-day' warnings (timing and model) at B2
  */
@@ -72,11 +70,9 @@ export function checkRows(columns: DecodedColumns, setup: RowCheckSetup, issues:
   const subjectOfCode = new Int32Array(subj.texts.length).fill(-1);
   const subjectIds: string[] = [];
   const subjectIndex = new Int32Array(n).fill(-1);
-  const subject = new Array<string>(n);
   const sheetRows = new Int32Array(n);
   for (let i = 0; i < n; i++) {
     sheetRows[i] = top.row + 1 + i;
-    subject[i] = '';
     if (blank[i] === 1) continue;
     const c = subj.codes[i]!;
     if (subj.kinds[c] !== TEXT_OK) continue;
@@ -87,7 +83,6 @@ export function checkRows(columns: DecodedColumns, setup: RowCheckSetup, issues:
       subjectIds.push(subj.texts[c]!);
     }
     subjectIndex[i] = k;
-    subject[i] = subjectIds[k]!;
   }
 
   const nan = (): Float64Array => new Float64Array(n).fill(NaN);
@@ -188,20 +183,16 @@ export function checkRows(columns: DecodedColumns, setup: RowCheckSetup, issues:
   return {
     timeKind,
     sheetRows,
-    subject,
     subjectIndex,
     subjectIds,
     date,
     studyDay,
     reference,
     value,
-    visit: visitCodes === null ? null : textsOf(visitCodes),
-    site: siteCodes === null ? null : textsOf(siteCodes),
-    arm: armCodes === null ? null : textsOf(armCodes),
     visitCodes,
     siteCodes,
     armCodes,
-    covariates: columns.covariates.map((col) => ('values' in col ? col.values : textsOf(tableCodes(col, blank)))),
+    covariates: columns.covariates.map((col) => ('values' in col ? col.values : textsOfCodes(tableCodes(col, blank)))),
     usableTiming,
     usableModel,
     ...(responder === undefined ? {} : { responder }),
@@ -278,9 +269,3 @@ function tableCodes(col: CodedColumn, blank: Uint8Array): TextCodes {
   return { codes, texts };
 }
 
-/** One string reference per row: texts[codes[i]]. */
-function textsOf(c: TextCodes): string[] {
-  const out = new Array<string>(c.codes.length);
-  for (let i = 0; i < out.length; i++) out[i] = c.texts[c.codes[i]!]!;
-  return out;
-}

@@ -40,3 +40,4 @@ export { duplicateHeaderGroups } from './duplicateHeaders';
 export { decodeTable, type DecodedTable, type DecodedColumns, type DecodeResult } from './decodeTable';
 export { checkTable } from './readTable';
 export { decodeText, decodeNumbers, NUMBER_PROBLEMS, TEXT_OK, TEXT_BLANK, TEXT_ERROR, type CodedColumn, type NumberColumn } from './decodeColumns';
+export { codesOfTexts, textCodesOf, textsOfCodes } from './textCodes';

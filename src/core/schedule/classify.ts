@@ -1,4 +1,5 @@
 import type { IntakeTable } from '../intake/types';
+import { textCodesOf } from '../intake/textCodes';
 import type { DataPlace } from './computeStudyDays';
 import { afterCutoffIssue, afterExitIssue, nearest, sortSegment } from './classifyParts';
 import { labelKey } from './labels';
@@ -88,20 +89,15 @@ export function classifyVisits(
   const target = Float64Array.from(windows, (w) => w.target);
   const open = Float64Array.from(windows, (w) => w.opens);
   const close = Float64Array.from(windows, (w) => w.closes);
-  const byLabel = table.visit !== null;
   const labelIndex = new Map<string, number>();
   schedule.forEach((v, k) => {
     if (!labelIndex.has(labelKey(v.label))) labelIndex.set(labelKey(v.label), k);
   });
-  const rawLabelIndex = new Map<string, number>(); // raw label text → visit index, so each distinct text is keyed once
-  const visitOfLabel = (raw: string): number => {
-    let k = rawLabelIndex.get(raw);
-    if (k === undefined) {
-      k = labelIndex.get(labelKey(raw)) ?? -1;
-      rawLabelIndex.set(raw, k);
-    }
-    return k;
-  };
+  // With a visit column, each distinct label text is matched to a scheduled visit once (-1: none); rows by code.
+  const visits = textCodesOf(table, 'visit');
+  const byLabel = visits !== null;
+  const visitOfCode = visits === null ? null : Int32Array.from(visits.texts, (t) => labelIndex.get(labelKey(t)) ?? -1);
+  const visitCode = visits === null ? null : visits.codes;
 
   // Cut-off.
   let cutoff: number | null = options.cutoff ?? null;
@@ -170,7 +166,7 @@ export function classifyVisits(
     for (let j = a; j < b; j++) {
       const i = idx[j]!;
       const d = sd[i]!;
-      const v = byLabel ? visitOfLabel(table.visit![i]!) : order[nearest(sortedTargets, d)]!;
+      const v = byLabel ? visitOfCode![visitCode![i]!]! : order[nearest(sortedTargets, d)]!;
       rowVisit[i] = v;
       if (v < 0) continue;
       const best = slotRow[base + v]!;

@@ -1,4 +1,5 @@
 import type { IntakeTable } from '../intake/types';
+import { textCodesOf } from '../intake/textCodes';
 import { cellAddress } from './address';
 import { labelKey } from './labels';
 import { offsetOfStudyDay } from '../intake/dayOffset';
@@ -59,10 +60,12 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
   } else {
     const first = schedule.reduce<ScheduleVisit | null>((a, v) => (a === null || v.targetDay < a.targetDay ? v : a), null);
     const firstKey = first === null ? null : labelKey(first.label);
-    const byLabel = table.visit !== null;
+    // With a visit column, only records of the first visit count: decided once per distinct label (codes).
+    const visits = textCodesOf(table, 'visit');
+    const isFirst = visits === null ? null : Uint8Array.from(visits.texts, (t) => (firstKey !== null && labelKey(t) === firstKey ? 1 : 0));
     for (let i = 0; i < n; i++) {
       if (!usable(i)) continue;
-      if (byLabel && (firstKey === null || labelKey(table.visit![i]!) !== firstKey)) continue;
+      if (isFirst !== null && isFirst[visits!.codes[i]!] !== 1) continue;
       const s = table.subjectIndex[i]!;
       const d = table.date[i]!;
       if (Number.isNaN(refDay[s]!) || d < refDay[s]!) refDay[s] = d;
@@ -84,7 +87,7 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
       continue;
     }
     const sheetRow = table.sheetRows[i]!;
-    const subject = table.subject[i]!;
+    const subject = table.subjectIds[s]!;
     issues.push({
       code: hasRefColumn ? 'no-reference-date' : 'no-baseline-record',
       severity: 'warning',

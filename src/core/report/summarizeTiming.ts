@@ -1,10 +1,10 @@
 import { siteGroups, armGroups } from './groups';
 import { listDeviations } from './deviationList';
 import { summarizeBySite } from './siteSummary';
-import type { LastRecord, TimingInput, TimingSummary } from './timingTypes';
+import type { TimingInput, TimingSummary } from './timingTypes';
 import { summarizeByVisit } from './visitSummary';
 import { listVisitsDue } from './visitsDue';
-import { lastRecords, listExits, silenceThreshold } from './participants';
+import { lastRecordOf, listExits, silenceThreshold } from './participants';
 
 /**
  * All visit-timing reports as plain data (SPEC §4 a–d): counts, by visit, by arm and visit (unblinded mode only,
@@ -17,8 +17,7 @@ export function summarizeTiming(input: TimingInput): TimingSummary {
   const arms = armGroups(table);
   const siteOf = (s: number): string => (sites === null ? '' : sites.names[sites.group[s]!]!);
   const silenceDays = silenceThreshold(input);
-  const last = lastRecords(input, silenceDays);
-  const lastOf = (s: number): LastRecord => last[s]!;
+  const lastOf = lastRecordOf(input, silenceDays);
   let subjects = 0;
   for (let s = 0; s < timing.nSubjects; s++) subjects += timing.subjectInTiming[s]!;
   return {

@@ -1,5 +1,6 @@
 import { windowDates, windowOffsets, windowStudyDays } from '../schedule/studyDay';
 import type { DueRow, DueStatus, LastRecord, TimingInput } from './timingTypes';
+import { orderByKey } from './numberOrder';
 
 /**
  * Upcoming and overdue visits as of the cut-off (SPEC §4 d). A subject is still in follow-up when no record is
@@ -10,7 +11,7 @@ import type { DueRow, DueStatus, LastRecord, TimingInput } from './timingTypes';
  * cut-off, "windowOpen" when the cut-off falls inside the window (bounds included), else "comingUp". Dates are day
  * numbers for dated data and study days for study-day data (whose cut-off is the given study day, or else the
  * subject's own last record). Sorted by days until target (most overdue first), then subject order.
- * Cost O(subjects · visits + k log k).
+ * Cost O(subjects · visits + d log d) for d distinct days until the target.
  * Example: cut-off on study day 90, next visit Week 12 (target 85, window 78–92) → daysUntilTarget −5, "windowOpen".
  */
 export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => string, lastOf: (subject: number) => LastRecord): DueRow[] {
@@ -19,7 +20,11 @@ export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => s
   const dated = table.timeKind === 'date';
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
   const last = order[V - 1]!;
-  const rows: { row: DueRow; s: number }[] = [];
+  // Listed subjects and their days until the target first (numbers), ordered by a counting sort on those days (ties
+  // in subject order), and the rows made in that order.
+  const listed: number[] = [];
+  const listedVisit: number[] = [];
+  const until: number[] = [];
   for (let s = 0; s < timing.nSubjects; s++) {
     if (timing.subjectInTiming[s] !== 1 || timing.slotRow[s * V + last]! >= 0) continue;
     if (Number.isFinite(timing.exitOffset[s]!)) continue; // left the study: no visit is due
@@ -28,25 +33,33 @@ export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => s
     let k = V - 1;
     while (k > 0 && timing.slotRow[s * V + order[k - 1]!]! < 0) k--;
     const v = order[k]!;
+    listed.push(s);
+    listedVisit.push(v);
+    until.push(windowOffsets(schedule[v]!).target - cut);
+  }
+  const position = orderByKey(Float64Array.from(until), Int32Array.from(listed, (_, j) => j));
+  const wins = schedule.map(windowOffsets);
+  const rows: DueRow[] = new Array<DueRow>(position.length);
+  for (let k = 0; k < position.length; k++) {
+    const j = position[k]!;
+    const s = listed[j]!;
+    const v = listedVisit[j]!;
     const vis = schedule[v]!;
-    const w = windowOffsets(vis);
+    const w = wins[v]!;
+    const cut = timing.cutoffOffset[s]!;
     const status: DueStatus = w.closes < cut ? 'overdue' : w.opens <= cut ? 'windowOpen' : 'comingUp';
     const dates = dated ? windowDates(days.referenceDay[s]!, vis) : windowStudyDays(vis);
-    rows.push({
-      s,
-      row: {
-        subject: table.subjectIds[s]!,
-        site: siteOf(s),
-        visit: vis.label,
-        windowOpens: dates.opens,
-        targetDate: dates.target,
-        windowCloses: dates.closes,
-        daysUntilTarget: w.target - cut,
-        status,
-        lastRecord: lastOf(s),
-      },
-    });
+    rows[k] = {
+      subject: table.subjectIds[s]!,
+      site: siteOf(s),
+      visit: vis.label,
+      windowOpens: dates.opens,
+      targetDate: dates.target,
+      windowCloses: dates.closes,
+      daysUntilTarget: until[j]!,
+      status,
+      lastRecord: lastOf(s),
+    };
   }
-  rows.sort((a, b) => a.row.daysUntilTarget - b.row.daysUntilTarget || a.s - b.s);
-  return rows.map((r) => r.row);
+  return rows;
 }

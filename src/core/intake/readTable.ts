@@ -11,6 +11,7 @@ import { readExit } from './readExit';
 import type { CellInput } from './cellSource';
 import type { CovariateColumn, IntakeOptions, IntakeResult, IntakeTable } from './types';
 import { textsOfCodes } from './textCodes';
+import { lazyProperty } from './lazyProperty';
 
 /**
  * Turns cells (a 2-D array or any CellSource, cellSource.ts: a CSV file's field index, the add-in's blocks) into the
@@ -83,22 +84,9 @@ export function checkTable(decoded: DecodedTable): IntakeResult {
   const table = { nRows, headers, mapping, mode, ...columnsOut, arms, covariates, dateReadings, ...exit, ...codes };
   // The per-row texts (one string reference per row) are made when first read: visit timing works on the codes.
   const { subjectIds, subjectIndex } = cols;
-  lazy(table, 'subject', () => Array.from(subjectIndex, (k) => (k < 0 ? '' : subjectIds[k]!)));
-  lazy(table, 'visit', () => (visitCodes === null ? null : textsOfCodes(visitCodes)));
-  lazy(table, 'site', () => (siteCodes === null ? null : textsOfCodes(siteCodes)));
-  lazy(table, 'arm', () => (armCodes === null ? null : textsOfCodes(armCodes)));
+  lazyProperty(table, 'subject', () => Array.from(subjectIndex, (k) => (k < 0 ? '' : subjectIds[k]!)));
+  lazyProperty(table, 'visit', () => (visitCodes === null ? null : textsOfCodes(visitCodes)));
+  lazyProperty(table, 'site', () => (siteCodes === null ? null : textsOfCodes(siteCodes)));
+  lazyProperty(table, 'arm', () => (armCodes === null ? null : textsOfCodes(armCodes)));
   return { ok: true, issues: issues.items, table: table as unknown as IntakeTable };
-}
-
-/** Defines `key` on `target` as an enumerable property computed on first read and then kept as a plain value. */
-function lazy(target: object, key: string, make: () => unknown): void {
-  Object.defineProperty(target, key, {
-    enumerable: true,
-    configurable: true,
-    get(): unknown {
-      const value = make();
-      Object.defineProperty(target, key, { value, enumerable: true, configurable: false, writable: false });
-      return value;
-    },
-  });
 }

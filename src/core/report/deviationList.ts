@@ -15,19 +15,18 @@ const { early: EARLY, late: LATE, missed: MISSED, extra: EXTRA, repeat: REPEAT }
  * Example: a Week 12 record on study day 95 (target 85, window 78–92) → daysOff 10, status "late".
  */
 export function listDeviations(input: TimingInput, siteOf: (subject: number) => string, lastOf: (subject: number) => LastRecord): DeviationRow[] {
-  const { table, schedule, days, timing } = input;
+  return deviationRows(input, deviationOrder(input, siteOf), siteOf, lastOf);
+}
+
+/**
+ * The deviation listing as numbers, in its order: per line a slot s·V + v (an early, late or missed visit) as itself,
+ * or a record i (extra or repeat) as −(i + 1). Rows are made from it by deviationRows when the listing is written.
+ * O(rows + slots + sites log sites) plus a small insertion sort per subject.
+ */
+export function deviationOrder(input: TimingInput, siteOf: (subject: number) => string): Int32Array {
+  const { table, days, timing, schedule } = input;
   const V = timing.nVisits;
   const S = timing.nSubjects;
-  const dated = table.timeKind === 'date';
-  // Each visit's window once: calendar offsets (dated data add the subject's reference date) or study days.
-  const wins = schedule.map((vis) => (dated ? windowOffsets(vis) : windowStudyDays(vis)));
-  const opens = Float64Array.from(wins, (w) => w.opens);
-  const targets = Float64Array.from(wins, (w) => w.target);
-  const closes = Float64Array.from(wins, (w) => w.closes);
-  const actual = dated ? table.date : days.studyDays;
-  // An extra record's own visit label, read from the codes (no per-row strings).
-  const visits = textCodesOf(table, 'visit');
-  const visitText = (i: number): string => (visits === null ? '' : visits.texts[visits.codes[i]!]!);
 
   // The listed lines as numbers only: a slot s·V + v (an early, late or missed visit) as itself, a record i (extra or
   // repeat) as −(i + 1). Lines are bucketed by subject in the order they are found (slots first, then records).
@@ -90,50 +89,74 @@ export function listDeviations(input: TimingInput, siteOf: (subject: number) => 
   const subjectOrder = new Int32Array(S);
   for (let s = 0; s < S; s++) subjectOrder[bySite[site[s]!]!++] = s;
 
-  const rows: DeviationRow[] = new Array<DeviationRow>(total);
+  const lines = new Int32Array(total);
   let out = 0;
   for (let k = 0; k < S; k++) {
     const s = subjectOrder[k]!;
-    if (start[s] === start[s + 1]) continue;
+    for (let j = start[s]!; j < start[s + 1]!; j++) lines[out++] = ref[j]!;
+  }
+  return lines;
+}
+
+/** The rows of the deviation listing for the lines of deviationOrder (subject, site, dates, status, latest record). O(lines). */
+export function deviationRows(
+  input: TimingInput,
+  lines: Int32Array,
+  siteOf: (subject: number) => string,
+  lastOf: (subject: number) => LastRecord,
+): DeviationRow[] {
+  const { table, schedule, days, timing } = input;
+  const V = timing.nVisits;
+  const dated = table.timeKind === 'date';
+  // Each visit's window once: calendar offsets (dated data add the subject's reference date) or study days.
+  const wins = schedule.map((vis) => (dated ? windowOffsets(vis) : windowStudyDays(vis)));
+  const opens = Float64Array.from(wins, (w) => w.opens);
+  const targets = Float64Array.from(wins, (w) => w.target);
+  const closes = Float64Array.from(wins, (w) => w.closes);
+  const actual = dated ? table.date : days.studyDays;
+  // An extra record's own visit label, read from the codes (no per-row strings).
+  const visits = textCodesOf(table, 'visit');
+  const visitText = (i: number): string => (visits === null ? '' : visits.texts[visits.codes[i]!]!);
+  const rows: DeviationRow[] = new Array<DeviationRow>(lines.length);
+  for (let out = 0; out < lines.length; out++) {
+    const r0 = lines[out]!;
+    const s = r0 >= 0 ? Math.floor(r0 / V) : table.subjectIndex[-r0 - 1]!;
     const subject = table.subjectIds[s]!;
     const siteName = siteOf(s);
     const last = lastOf(s);
     const base = dated ? days.referenceDay[s]! : 0;
-    for (let j = start[s]!; j < start[s + 1]!; j++) {
-      const r0 = ref[j]!;
-      if (r0 >= 0) {
-        const v = r0 - s * V;
-        const r = timing.slotRow[r0]!;
-        rows[out++] = {
-          subject,
-          site: siteName,
-          visit: schedule[v]!.label,
-          targetDate: base + targets[v]!,
-          windowOpens: base + opens[v]!,
-          windowCloses: base + closes[v]!,
-          actualDate: r >= 0 ? actual[r]! : null,
-          daysOff: r >= 0 ? timing.rowDeviation[r]! : null,
-          status: STATUS_ORDER[timing.slotStatus[r0]!]!,
-          sheetRow: r >= 0 ? table.sheetRows[r]! : null,
-          lastRecord: last,
-        };
-      } else {
-        const i = -r0 - 1;
-        const v = timing.rowVisit[i]!;
-        rows[out++] = {
-          subject,
-          site: siteName,
-          visit: v >= 0 ? schedule[v]!.label : visitText(i),
-          targetDate: v >= 0 ? base + targets[v]! : null,
-          windowOpens: v >= 0 ? base + opens[v]! : null,
-          windowCloses: v >= 0 ? base + closes[v]! : null,
-          actualDate: actual[i]!,
-          daysOff: v >= 0 ? timing.rowDeviation[i]! : null,
-          status: STATUS_ORDER[timing.rowStatus[i]!]!,
-          sheetRow: table.sheetRows[i]!,
-          lastRecord: last,
-        };
-      }
+    if (r0 >= 0) {
+      const v = r0 - s * V;
+      const r = timing.slotRow[r0]!;
+      rows[out] = {
+        subject,
+        site: siteName,
+        visit: schedule[v]!.label,
+        targetDate: base + targets[v]!,
+        windowOpens: base + opens[v]!,
+        windowCloses: base + closes[v]!,
+        actualDate: r >= 0 ? actual[r]! : null,
+        daysOff: r >= 0 ? timing.rowDeviation[r]! : null,
+        status: STATUS_ORDER[timing.slotStatus[r0]!]!,
+        sheetRow: r >= 0 ? table.sheetRows[r]! : null,
+        lastRecord: last,
+      };
+    } else {
+      const i = -r0 - 1;
+      const v = timing.rowVisit[i]!;
+      rows[out] = {
+        subject,
+        site: siteName,
+        visit: v >= 0 ? schedule[v]!.label : visitText(i),
+        targetDate: v >= 0 ? base + targets[v]! : null,
+        windowOpens: v >= 0 ? base + opens[v]! : null,
+        windowCloses: v >= 0 ? base + closes[v]! : null,
+        actualDate: actual[i]!,
+        daysOff: v >= 0 ? timing.rowDeviation[i]! : null,
+        status: STATUS_ORDER[timing.rowStatus[i]!]!,
+        sheetRow: table.sheetRows[i]!,
+        lastRecord: last,
+      };
     }
   }
   return rows;

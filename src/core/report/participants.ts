@@ -71,9 +71,12 @@ export function lastRecordOf(input: TimingInput, silence: number | null): (subje
  * O(subjects · visits + d log d) for d distinct exit dates.
  */
 export function listExits(input: TimingInput, siteOf: (subject: number) => string): ExitRow[] {
-  const { table, schedule, timing } = input;
-  const V = timing.nVisits;
-  const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
+  return exitRows(input, exitOrder(input), siteOf);
+}
+
+/** The participants who left, in listExits' order, as subject indices (rows are made by exitRows when written). O(subjects + d log d). */
+export function exitOrder(input: TimingInput): Int32Array {
+  const { table, timing } = input;
   // The participants who left, as indices sorted by exit date then index (a counting sort on the dates' ranks).
   const exitDate = table.subjectExit;
   let count = 0;
@@ -86,7 +89,15 @@ export function listExits(input: TimingInput, siteOf: (subject: number) => strin
     keys[count] = exitDate[s]!;
     left[count++] = s;
   }
-  const sorted = orderByKey(keys, left);
+  return orderByKey(keys, left);
+}
+
+/** The rows of the list of participants who left, for exitOrder's participants. O(participants · visits). */
+export function exitRows(input: TimingInput, sorted: Int32Array, siteOf: (subject: number) => string): ExitRow[] {
+  const { table, schedule, timing } = input;
+  const V = timing.nVisits;
+  const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
+  const exitDate = table.subjectExit;
   const status = table.subjectExitStatus;
   const reason = table.subjectExitReason;
   const rows: ExitRow[] = new Array<ExitRow>(sorted.length);

@@ -15,9 +15,20 @@ import { orderByKey } from './numberOrder';
  * Example: cut-off on study day 90, next visit Week 12 (target 85, window 78–92) → daysUntilTarget −5, "windowOpen".
  */
 export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => string, lastOf: (subject: number) => LastRecord): DueRow[] {
-  const { table, schedule, days, timing } = input;
+  return dueRows(input, dueOrder(input), siteOf, lastOf);
+}
+
+/** The visits due as numbers, in listing order: the participant, the visit and the days until its target. */
+export interface DueOrder {
+  readonly subjects: Int32Array;
+  readonly visits: Int32Array;
+  readonly until: Float64Array;
+}
+
+/** The visits due of listVisitsDue as numbers (rows are made by dueRows when the list is written). O(subjects · visits + d log d). */
+export function dueOrder(input: TimingInput): DueOrder {
+  const { schedule, timing } = input;
   const V = timing.nVisits;
-  const dated = table.timeKind === 'date';
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
   const last = order[V - 1]!;
   // Listed subjects and their days until the target first (numbers), ordered by a counting sort on those days (ties
@@ -38,12 +49,22 @@ export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => s
     until.push(windowOffsets(schedule[v]!).target - cut);
   }
   const position = orderByKey(Float64Array.from(until), Int32Array.from(listed, (_, j) => j));
+  return {
+    subjects: Int32Array.from(position, (j) => listed[j]!),
+    visits: Int32Array.from(position, (j) => listedVisit[j]!),
+    until: Float64Array.from(position, (j) => until[j]!),
+  };
+}
+
+/** The rows of the visits-due list for dueOrder's entries (window dates, status, latest record). O(entries). */
+export function dueRows(input: TimingInput, due: DueOrder, siteOf: (subject: number) => string, lastOf: (subject: number) => LastRecord): DueRow[] {
+  const { table, schedule, days, timing } = input;
+  const dated = table.timeKind === 'date';
   const wins = schedule.map(windowOffsets);
-  const rows: DueRow[] = new Array<DueRow>(position.length);
-  for (let k = 0; k < position.length; k++) {
-    const j = position[k]!;
-    const s = listed[j]!;
-    const v = listedVisit[j]!;
+  const rows: DueRow[] = new Array<DueRow>(due.subjects.length);
+  for (let k = 0; k < rows.length; k++) {
+    const s = due.subjects[k]!;
+    const v = due.visits[k]!;
     const vis = schedule[v]!;
     const w = wins[v]!;
     const cut = timing.cutoffOffset[s]!;
@@ -56,7 +77,7 @@ export function listVisitsDue(input: TimingInput, siteOf: (subject: number) => s
       windowOpens: dates.opens,
       targetDate: dates.target,
       windowCloses: dates.closes,
-      daysUntilTarget: until[j]!,
+      daysUntilTarget: due.until[k]!,
       status,
       lastRecord: lastOf(s),
     };

@@ -15,6 +15,10 @@ import type { ColumnMapping, IssueCode, Role, TextCodes, Use } from './types';
 import { textsOfCodes } from './textCodes';
 
 const USES: readonly Use[] = ['timing', 'model'];
+// Local copies of the code kinds, read per row.
+const OK = TEXT_OK;
+const BLANK = TEXT_BLANK;
+const ERROR = TEXT_ERROR;
 
 /** What the row checks need besides the columns. `mapping` is the checked, effective mapping (subject and a time column present). */
 export interface RowCheckSetup {
@@ -75,7 +79,7 @@ export function checkRows(columns: DecodedColumns, setup: RowCheckSetup, issues:
     sheetRows[i] = top.row + 1 + i;
     if (blank[i] === 1) continue;
     const c = subj.codes[i]!;
-    if (subj.kinds[c] !== TEXT_OK) continue;
+    if (subj.kinds[c] !== OK) continue;
     let k = subjectOfCode[c]!;
     if (k < 0) {
       k = subjectIds.length;
@@ -114,8 +118,8 @@ export function checkRows(columns: DecodedColumns, setup: RowCheckSetup, issues:
 
     const sCode = subj.codes[i]!;
     const sKind = subj.kinds[sCode]!;
-    if (sKind === TEXT_ERROR) timingOk = excludeBoth(issues, 'error-value', i, sc, 'subject', subj.texts[sCode]!);
-    else if (sKind === TEXT_BLANK) timingOk = excludeBoth(issues, 'blank-subject', i, sc, 'subject', '');
+    if (sKind === ERROR) timingOk = excludeBoth(issues, 'error-value', i, sc, 'subject', subj.texts[sCode]!);
+    else if (sKind === BLANK) timingOk = excludeBoth(issues, 'blank-subject', i, sc, 'subject', '');
 
     if (timeKind === 'date') {
       const col = dateRead!.column;
@@ -153,8 +157,8 @@ export function checkRows(columns: DecodedColumns, setup: RowCheckSetup, issues:
     if (armCol !== null) {
       const c = armCol.codes[i]!;
       const kind = armCol.kinds[c]!;
-      if (kind === TEXT_ERROR) modelOk = excludeModel(issues, 'error-value', i, mapping.arm!, 'arm', armCol.texts[c]!);
-      else if (kind === TEXT_BLANK) modelOk = excludeModel(issues, 'blank-arm', i, mapping.arm!, 'arm', '');
+      if (kind === ERROR) modelOk = excludeModel(issues, 'error-value', i, mapping.arm!, 'arm', armCol.texts[c]!);
+      else if (kind === BLANK) modelOk = excludeModel(issues, 'blank-arm', i, mapping.arm!, 'arm', '');
     }
 
     for (let c = 0; c < plans.length; c++) {
@@ -167,8 +171,8 @@ export function checkRows(columns: DecodedColumns, setup: RowCheckSetup, issues:
       } else {
         const code = col.codes[i]!;
         const kind = col.kinds[code]!;
-        if (kind === TEXT_ERROR) modelOk = excludeModel(issues, 'error-value', i, plan.col, 'covariate', col.texts[code]!, plan.name);
-        else if (kind === TEXT_BLANK) modelOk = excludeModel(issues, 'blank-value', i, plan.col, 'covariate', '', plan.name);
+        if (kind === ERROR) modelOk = excludeModel(issues, 'error-value', i, plan.col, 'covariate', col.texts[code]!, plan.name);
+        else if (kind === BLANK) modelOk = excludeModel(issues, 'blank-value', i, plan.col, 'covariate', '', plan.name);
       }
     }
 
@@ -230,7 +234,7 @@ function excludeModel(issues: IssueList, code: IssueCode, i: number, col: number
 /** An optional text role (visit label, site) of data row i: an error value becomes "" with a warning (use null). */
 function optionalText(col: CodedColumn, c: number, role: Role, i: number, issues: IssueList): void {
   const code = col.codes[i]!;
-  if (col.kinds[code] === TEXT_ERROR) issues.at('error-value', 'warning', i, c, role, col.texts[code]!, null);
+  if (col.kinds[code] === ERROR) issues.at('error-value', 'warning', i, c, role, col.texts[code]!, null);
 }
 
 /**

@@ -36,11 +36,12 @@ export function readExit(input: ExitInput, subjectIndex: Int32Array, subjectIds:
   const firstText = (col: CodedColumn | null): string[] | null => {
     if (col === null) return null;
     const out = new Array<string>(S).fill('');
+    const ok = TEXT_OK;
     for (let i = 0; i < subjectIndex.length; i++) {
       const s = subjectIndex[i]!;
       if (s < 0 || out[s] !== '') continue;
       const c = col.codes[i]!;
-      if (col.kinds[c] === TEXT_OK) out[s] = col.texts[c]!;
+      if (col.kinds[c] === ok) out[s] = col.texts[c]!;
     }
     return out;
   };

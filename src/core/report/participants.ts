@@ -43,8 +43,9 @@ export function lastRecordOf(input: TimingInput, silence: number | null): (subje
   const status = timing.rowStatus;
   const subjectOf = table.subjectIndex;
   const offsets = days.offsets;
+  const none = NO_STATUS;
   for (let i = 0; i < table.nRows; i++) {
-    if (status[i] === NO_STATUS) continue;
+    if (status[i] === none) continue;
     const s = subjectOf[i]!;
     const o = offsets[i]!;
     if (!(o <= last[s]!)) {

@@ -2,6 +2,10 @@ import { SLOT_STATUSES, STATUS_CODE } from '../schedule/types';
 import type { TimingInput, VisitSummaryRow } from './timingTypes';
 import { medianMinMax } from './numberOrder';
 
+// Local copies of the shared constants, read in the loops below.
+const SLOTS = SLOT_STATUSES;
+const CODE = { ...STATUS_CODE };
+
 /**
  * The summary by scheduled visit (SPEC §4 a), one row per visit in order of target day, or per (group, visit) when
  * subjects are grouped (by arm). Counts come from the (subject, visit) statuses of subjects in timing; visits not
@@ -17,7 +21,7 @@ export function summarizeByVisit(
   const { schedule, timing } = input;
   const V = timing.nVisits;
   const G = groups?.names.length ?? 1;
-  const counts = new Float64Array(G * V * SLOT_STATUSES);
+  const counts = new Float64Array(G * V * SLOTS);
   // The deviations of each (group, visit) in one typed array: counted first, then placed, then each part sorted.
   const starts = new Int32Array(G * V + 1);
   for (let s = 0; s < timing.nSubjects; s++) {
@@ -25,7 +29,7 @@ export function summarizeByVisit(
     const g = groups?.group[s] ?? 0;
     for (let v = 0; v < V; v++) {
       const code = timing.slotStatus[s * V + v]!;
-      counts[(g * V + v) * SLOT_STATUSES + code]!++;
+      counts[(g * V + v) * SLOTS + code]!++;
       if (timing.slotRow[s * V + v]! >= 0) starts[g * V + v + 1]!++;
     }
   }
@@ -44,13 +48,13 @@ export function summarizeByVisit(
   const rows: VisitSummaryRow[] = [];
   for (let g = 0; g < G; g++) {
     for (const v of order) {
-      const c = (code: number): number => counts[(g * V + v) * SLOT_STATUSES + code]!;
-      const onTime = c(STATUS_CODE.onTime);
-      const early = c(STATUS_CODE.early);
-      const late = c(STATUS_CODE.late);
-      const missed = c(STATUS_CODE.missed);
-      const notYetDue = c(STATUS_CODE.notYetDue);
-      const afterExit = c(STATUS_CODE.afterExit);
+      const c = (code: number): number => counts[(g * V + v) * SLOTS + code]!;
+      const onTime = c(CODE.onTime);
+      const early = c(CODE.early);
+      const late = c(CODE.late);
+      const missed = c(CODE.missed);
+      const notYetDue = c(CODE.notYetDue);
+      const afterExit = c(CODE.afterExit);
       const expected = onTime + early + late + missed + notYetDue;
       const due = expected - notYetDue;
       const d = medianMinMax(all.subarray(starts[g * V + v]!, starts[g * V + v + 1]!));

@@ -114,8 +114,11 @@ export function classifyVisits(
     cutoff = Number.isFinite(latest) ? latest : null;
     cutoffRule = 'latestDate';
   }
-  const afterCutoff = (i: number): boolean =>
-    cutoff !== null && (dated ? table.date[i]! > cutoff : cutoffRule === 'given' && sd[i]! > offsetOfStudyDay(cutoff));
+  // The cut-off as a bound on the date (dated data) or on the offset (study-day data with a given cut-off).
+  const date = table.date;
+  const dateBound = cutoff !== null && dated ? cutoff : Infinity;
+  const offsetBound = cutoff !== null && !dated && cutoffRule === 'given' ? offsetOfStudyDay(cutoff) : Infinity;
+  const afterCutoff = (i: number): boolean => date[i]! > dateBound || sd[i]! > offsetBound;
 
   // Bucket usable rows by subject (counting sort), then sort each subject's rows by (day, row).
   const rowStatus = new Uint8Array(n).fill(NO_STATUS);
@@ -138,7 +141,12 @@ export function classifyVisits(
   const idx = new Int32Array(start[S]!);
   for (let i = 0; i < n; i++) if (take[i] === 1) idx[fill[subjectOf[i]!]!++] = i;
   const byDay = (a: number, b: number): number => sd[a]! - sd[b]! || a - b;
-  for (let s = 0; s < S; s++) sortSegment(idx, start[s]!, start[s + 1]!, byDay);
+  for (let s = 0; s < S; s++) {
+    // Listings are usually in day order within a participant: check that on numbers before sorting.
+    let sorted = true;
+    for (let j = start[s]! + 1; j < start[s + 1]! && sorted; j++) sorted = sd[idx[j - 1]!]! <= sd[idx[j]!]!; // rows are filled in row order, so ties are in order
+    if (!sorted) sortSegment(idx, start[s]!, start[s + 1]!, byDay);
+  }
 
   const slotStatus = new Uint8Array(S * V).fill(NO_STATUS);
   const slotRow = new Int32Array(S * V).fill(-1);

@@ -22,26 +22,33 @@ export function summarizeByVisit(
   const V = timing.nVisits;
   const G = groups?.names.length ?? 1;
   const counts = new Float64Array(G * V * SLOTS);
-  // The deviations of each (group, visit) in one typed array: counted first, then placed, then each part sorted.
+  // The per-slot arrays as locals, and one group (0) when not grouped: the loops below run over every slot.
+  const S = timing.nSubjects;
+  const inTiming = timing.subjectInTiming;
+  const slotStatus = timing.slotStatus;
+  const slotRow = timing.slotRow;
+  const rowDeviation = timing.rowDeviation;
+  const group = groups?.group ?? new Int32Array(S);
+  // The deviations of each (group, visit) in one typed array: counted first, then placed, then each part selected.
   const starts = new Int32Array(G * V + 1);
-  for (let s = 0; s < timing.nSubjects; s++) {
-    if (timing.subjectInTiming[s] !== 1) continue;
-    const g = groups?.group[s] ?? 0;
+  for (let s = 0; s < S; s++) {
+    if (inTiming[s] !== 1) continue;
+    const gv = group[s]! * V;
     for (let v = 0; v < V; v++) {
-      const code = timing.slotStatus[s * V + v]!;
-      counts[(g * V + v) * SLOTS + code]!++;
-      if (timing.slotRow[s * V + v]! >= 0) starts[g * V + v + 1]!++;
+      const k = s * V + v;
+      counts[(gv + v) * SLOTS + slotStatus[k]!]!++;
+      if (slotRow[k]! >= 0) starts[gv + v + 1]!++;
     }
   }
   for (let k = 0; k < G * V; k++) starts[k + 1]! += starts[k]!;
   const all = new Float64Array(starts[G * V]!);
   const fill = starts.slice(0, G * V);
-  for (let s = 0; s < timing.nSubjects; s++) {
-    if (timing.subjectInTiming[s] !== 1) continue;
-    const g = groups?.group[s] ?? 0;
+  for (let s = 0; s < S; s++) {
+    if (inTiming[s] !== 1) continue;
+    const gv = group[s]! * V;
     for (let v = 0; v < V; v++) {
-      const r = timing.slotRow[s * V + v]!;
-      if (r >= 0) all[fill[g * V + v]!++] = timing.rowDeviation[r]!;
+      const r = slotRow[s * V + v]!;
+      if (r >= 0) all[fill[gv + v]!++] = rowDeviation[r]!;
     }
   }
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);

@@ -32,23 +32,26 @@ export function dueOrder(input: TimingInput): DueOrder {
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
   const last = order[V - 1]!;
   // Listed subjects and their days until the target first (numbers), ordered by a counting sort on those days (ties
-  // in subject order), and the rows made in that order.
-  const listed: number[] = [];
-  const listedVisit: number[] = [];
-  const until: number[] = [];
+  // in subject order); the rows are made in that order by dueRows.
+  const target = Float64Array.from(schedule, (vis) => windowOffsets(vis).target);
+  const slotRow = timing.slotRow;
+  const listed = new Int32Array(timing.nSubjects);
+  const listedVisit = new Int32Array(timing.nSubjects);
+  const until = new Float64Array(timing.nSubjects);
+  let m = 0;
   for (let s = 0; s < timing.nSubjects; s++) {
-    if (timing.subjectInTiming[s] !== 1 || timing.slotRow[s * V + last]! >= 0) continue;
+    if (timing.subjectInTiming[s] !== 1 || slotRow[s * V + last]! >= 0) continue;
     if (Number.isFinite(timing.exitOffset[s]!)) continue; // left the study: no visit is due
     const cut = timing.cutoffOffset[s]!;
     if (!Number.isFinite(cut)) continue;
     let k = V - 1;
-    while (k > 0 && timing.slotRow[s * V + order[k - 1]!]! < 0) k--;
+    while (k > 0 && slotRow[s * V + order[k - 1]!]! < 0) k--;
     const v = order[k]!;
-    listed.push(s);
-    listedVisit.push(v);
-    until.push(windowOffsets(schedule[v]!).target - cut);
+    listed[m] = s;
+    listedVisit[m] = v;
+    until[m++] = target[v]! - cut;
   }
-  const position = orderByKey(Float64Array.from(until), Int32Array.from(listed, (_, j) => j));
+  const position = orderByKey(until.subarray(0, m), Int32Array.from({ length: m }, (_, j) => j));
   return {
     subjects: Int32Array.from(position, (j) => listed[j]!),
     visits: Int32Array.from(position, (j) => listedVisit[j]!),

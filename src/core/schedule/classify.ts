@@ -155,26 +155,32 @@ export function classifyVisits(
   const exitOffset = new Float64Array(S).fill(NaN);
   const counts = new Float64Array(STATUS_ORDER.length);
 
+  // Per-participant columns as locals, read in the loop below.
+  const subjectExit = table.subjectExit;
+  const referenceDay = days.referenceDay;
+  const visitOf = visitOfCode ?? new Int32Array(0);
+  const rowCode = visitCode ?? new Int32Array(0);
+  const givenCutoffOffset = !dated && cutoff !== null ? offsetOfStudyDay(cutoff) : NaN;
   for (let s = 0; s < S; s++) {
     const a = start[s]!;
     const b = start[s + 1]!;
     if (a === b) continue;
     subjectInTiming[s] = 1;
     const base = s * V;
-    if (dated) exitOffset[s] = table.subjectExit[s]! - days.referenceDay[s]!;
+    if (dated) exitOffset[s] = subjectExit[s]! - referenceDay[s]!;
     const exit = exitOffset[s]!;
     cutoffOffset[s] = dated
       ? cutoff === null
         ? NaN
-        : cutoff - days.referenceDay[s]!
+        : cutoff - referenceDay[s]!
       : cutoff === null
         ? sd[idx[b - 1]!]!
-        : offsetOfStudyDay(cutoff);
+        : givenCutoffOffset;
     // First pass: candidate visit per record; keep the closest record per visit (earlier wins ties: rows are sorted).
     for (let j = a; j < b; j++) {
       const i = idx[j]!;
       const d = sd[i]!;
-      const v = byLabel ? visitOfCode![visitCode![i]!]! : order[nearest(sortedTargets, d)]!;
+      const v = byLabel ? visitOf[rowCode[i]!]! : order[nearest(sortedTargets, d)]!;
       rowVisit[i] = v;
       if (v < 0) continue;
       const best = slotRow[base + v]!;

@@ -15,8 +15,8 @@ import { lazyProperty } from './lazyProperty';
 
 /**
  * Turns cells (a 2-D array or any CellSource, cellSource.ts: a CSV file's field index, the add-in's blocks) into the
- * IntakeTable: row 0 is the header row, each later row one assessment. One linear
- * pass over the rows (plus one per covariate to decide its kind), typed arrays for numbers: O(rows · mapped columns).
+ * IntakeTable: row 0 is the header row, each later row one assessment. One pass per mapped column decodes it (plus
+ * one per covariate to decide its kind), then one pass of checks on the typed columns: O(rows · mapped columns).
  * The grid is never modified.
  *
  * A row serves each use it can: visit timing needs a non-blank subject and a valid date or study day; the model also

@@ -2,7 +2,7 @@
  * Reads one date column in one pass, once its order is decided: each cell becomes a day number or a problem code.
  * Any date role (visit date, reference date, exit date) is read this way, so every date column follows one set of rules.
  */
-import { isBlankCell, isErrorCell } from './cellText';
+import { cellText, isBlankCell, isErrorCell } from './cellText';
 import { serialToDayNumber } from './dates';
 import { parseDateText } from './dateText';
 import { toCellSource, type CellInput } from './cellSource';
@@ -39,6 +39,8 @@ export interface DateColumn {
   readonly examples: readonly string[];
   /** True when some value has a two-digit year. */
   readonly twoDigitYears: boolean;
+  /** The text (cellText) of each row whose cell gives no date and is not blank, for the issue that names it. */
+  readonly texts: ReadonlyMap<number, string>;
 }
 
 /**
@@ -55,6 +57,7 @@ export function readDateColumn(cells: CellInput, col: number, system: DateSystem
   let dates = 0;
   let partials = 0;
   let twoDigitYears = false;
+  const texts = new Map<number, string>();
   // Text → day number, or PROBLEM_BASE - problem; the same text always reads the same way in one column.
   const seen = new Map<string, number>();
   for (let i = 0; i < n; i++) {
@@ -81,6 +84,7 @@ export function readDateColumn(cells: CellInput, col: number, system: DateSystem
       }
     }
     problems[i] = problem;
+    if (problem !== 0 && problem !== BLANK) texts.set(i, cellText(cell));
     if (problem === 0) dates++;
     else if (DATE_PROBLEMS[problem] === 'partial') partials++;
     else if (problem !== BLANK && problem !== ERROR_VALUE && examples.length < EXAMPLES) {
@@ -88,7 +92,7 @@ export function readDateColumn(cells: CellInput, col: number, system: DateSystem
       if (!examples.includes(text)) examples.push(text);
     }
   }
-  return { days, problems, dates, partials, examples, twoDigitYears };
+  return { days, problems, dates, partials, examples, twoDigitYears, texts };
 }
 
 /** True when the column has values but none gives a date or a partial date: one message for the column, not one per row. */

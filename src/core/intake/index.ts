@@ -37,3 +37,7 @@ export { isArmHeader } from './armColumns';
 export { offsetOfStudyDay, studyDayOfOffset } from './dayOffset';
 export { CELL_TEXT_LIMIT, JSON_TEXT_CAP, capJsonText } from './longText';
 export { duplicateHeaderGroups } from './duplicateHeaders';
+export { decodeTable, type DecodedTable, type DecodedColumns, type DecodeResult } from './decodeTable';
+export { checkTable } from './readTable';
+export { decodeText, decodeNumbers, NUMBER_PROBLEMS, TEXT_OK, TEXT_BLANK, TEXT_ERROR, type CodedColumn, type NumberColumn } from './decodeColumns';
+export { codesOfTexts, textCodesOf, textsOfCodes } from './textCodes';

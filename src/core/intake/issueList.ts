@@ -15,6 +15,14 @@ export class IssueList {
     private readonly top: CellRef,
   ) {}
 
+  /** Issues found earlier (e.g. while decoding), kept in their order. */
+  addAll(items: readonly Issue[]): void {
+    for (const item of items) {
+      this.items.push(item);
+      if (item.severity === 'error') this.errors++;
+    }
+  }
+
   /** An issue about the whole range or the mapping (no cell, no row). */
   range(code: IssueCode, severity: Severity, role: Role | null, value: string, use: Use | null, context?: string): void {
     this.push(code, severity, null, null, role, value, use, context);

@@ -2,28 +2,21 @@
  * Reads a long-format range (header row, then one row per assessment) into typed columns, collecting every problem
  * as an issue with its cell address (SPEC §3).
  */
-import { columnLetters, MAX_COLUMN_INDEX, MAX_ROW, parseCell } from './cellAddress';
-import { cellText } from './cellText';
-import { checkMapping, effectiveMapping } from './checkMapping';
-import { checkBlindedColumns } from './armColumns';
-import { planCovariate, type CovariatePlan } from './covariatePlan';
-import { detectMapping } from './detect';
-import { IntakeUsageError } from './errors';
-import { IssueList } from './issueList';
-import { readRows } from './readRows';
-import { checkReference } from './checkReference';
-import type { CovariateColumn, DateReading, IntakeOptions, IntakeResult } from './types';
-import { readDateRole } from './dateRole';
+import { checkRows } from './checkRows';
 import { checkArms } from './checkArms';
+import { checkReference } from './checkReference';
+import { decodeTable, type DecodedTable } from './decodeTable';
+import { IssueList } from './issueList';
 import { readExit } from './readExit';
-import { checkDuplicateHeaders } from './duplicateHeaders';
-import { checkLongText } from './longText';
-import { toCellSource, type CellInput } from './cellSource';
+import type { CellInput } from './cellSource';
+import type { CovariateColumn, IntakeOptions, IntakeResult, IntakeTable } from './types';
+import { textsOfCodes } from './textCodes';
+import { lazyProperty } from './lazyProperty';
 
 /**
  * Turns cells (a 2-D array or any CellSource, cellSource.ts: a CSV file's field index, the add-in's blocks) into the
- * IntakeTable: row 0 is the header row, each later row one assessment. One linear
- * pass over the rows (plus one per covariate to decide its kind), typed arrays for numbers: O(rows · mapped columns).
+ * IntakeTable: row 0 is the header row, each later row one assessment. One pass per mapped column decodes it (plus
+ * one per covariate to decide its kind), then one pass of checks on the typed columns: O(rows · mapped columns).
  * The grid is never modified.
  *
  * A row serves each use it can: visit timing needs a non-blank subject and a valid date or study day; the model also
@@ -44,65 +37,32 @@ import { toCellSource, type CellInput } from './cellSource';
  * When both a date and a study-day column are mapped, the date is read and the study-day column is not. Visit label,
  * site and reference date are never required: a blank or unusable one is kept as missing ("" or NaN), with a warning
  * (use null) when the cell held an error value or an invalid reference date. A subject's second, different
- * reference date is a warning too ('reference-date-differs'). The row pass itself is in readRows.ts.
+ * reference date is a warning too ('reference-date-differs'). Two steps: decodeTable (decodeTable.ts) checks the header and decodes each mapped column once into typed columns; checkTable
+ * applies the row rules to those columns (checkRows.ts), never reading a cell.
  *
  * Misuse throws IntakeUsageError: a malformed `topLeft`, or a grid that does not fit on a worksheet from `topLeft`.
  * @example readTable([["USUBJID", "ADY", "AVAL"], ["S1", 1, 60.5]], { sheet: "Visits", topLeft: "A1", dateSystem: 1900, mode: "blinded" })
  * // { ok: true, issues: [], table: { nRows: 1, subjectIds: ["S1"], studyDay: Float64Array [1], value: Float64Array [60.5], ... } }
  */
 export function readTable(input: CellInput, options: IntakeOptions): IntakeResult {
-  const top = parseCell(options.topLeft);
-  const cells = toCellSource(input);
-  const headerRow = cells.rowCount > 0 ? cells.rowCells(0) : [];
-  const width = headerRow.length;
-  const nRows = Math.max(0, cells.rowCount - 1);
-  if (top.col + Math.max(width, 1) - 1 > MAX_COLUMN_INDEX || top.row + nRows > MAX_ROW) {
-    throw new IntakeUsageError('readTable', 'the grid does not fit on a worksheet from its top-left cell', `${options.topLeft}, ${cells.rowCount} rows x ${width} columns`);
-  }
+  const decoded = decodeTable(input, options);
+  return decoded.ok ? checkTable(decoded.decoded) : { ok: false, issues: decoded.issues };
+}
+
+/**
+ * The second step of readTable: the row rules, the arm, reference-date and exit checks on decoded columns, and the
+ * IntakeTable. Reads no cell; may be called again on the same decoded table (nothing in it is changed).
+ * O(rows · mapped columns) on typed arrays.
+ */
+export function checkTable(decoded: DecodedTable): IntakeResult {
+  const { options, top, headers, mapping, plans, nRows, columns } = decoded;
   const issues = new IssueList(options.sheet, top);
-  const headers = Array.from(headerRow, (h) => cellText(h));
-  if (headers.every((h) => h === '')) {
-    issues.range('empty-header', 'error', null, '', null);
-    return { ok: false, issues: issues.items };
-  }
-  if (nRows === 0) {
-    issues.range('no-rows', 'error', null, '', null);
-    return { ok: false, issues: issues.items };
-  }
-  const mode = options.mode;
-  const mapping = effectiveMapping(options.mapping ?? detectMapping(headers, mode).mapping, mode);
-  checkMapping(mapping, headers, mode, issues);
-  checkDuplicateHeaders(headers, mapping, options.sheet, top, issues);
-  checkLongText(cells, mapping, issues);
-  if (mode === 'blinded') checkBlindedColumns(mapping, headers, issues);
-  if (issues.hasErrors) return { ok: false, issues: issues.items };
-
-  // Date columns first: each decides its order of day and month, and a column that cannot be read, or whose order
-  // cannot be decided, stops the run with one message at its header cell before any row is read.
-  const nameOf = (col: number): string => (headers[col] !== '' ? headers[col]! : `column ${columnLetters(top.col + col)}`);
-  const dateOptions = { dateSystem: options.dateSystem, ...(options.dateOrder === undefined ? {} : { dateOrder: options.dateOrder }) };
-  const dateRead = mapping.date === undefined ? undefined : readDateRole(cells, mapping.date, 'date', nameOf(mapping.date), dateOptions, issues);
-  const refRead =
-    mapping.reference === undefined ? undefined : readDateRole(cells, mapping.reference, 'reference', nameOf(mapping.reference), dateOptions, issues);
-  const exitRead = mapping.exit === undefined ? undefined : readDateRole(cells, mapping.exit, 'exit', nameOf(mapping.exit), dateOptions, issues);
-  if (issues.hasErrors) return { ok: false, issues: issues.items };
-  const dates = { ...(dateRead === undefined ? {} : { date: dateRead }), ...(refRead === undefined ? {} : { reference: refRead }) };
-  const dateReadings = [dateRead?.reading, refRead?.reading, exitRead?.reading].filter((r): r is DateReading => r !== null && r !== undefined);
-
-  const accept = options.numericText === 'accept';
-  const plans: CovariatePlan[] = mapping.covariates.map((col) => {
-    const name = headers[col] !== '' ? headers[col]! : `column ${columnLetters(top.col + col)}`;
-    const plan = planCovariate(cells, col, name, accept);
-    if (!plan.numeric && plan.hasNumbers) {
-      issues.at('bad-covariate', 'warning', plan.firstNonNumericRow, col, 'covariate', plan.firstNonNumericText, null, name);
-    }
-    return plan;
-  });
-
-  const cols = readRows(cells, { mapping, plans, width, top, acceptText: accept, unblinded: mode === 'unblinded', dates }, issues);
-  const arms = cols.arm === null ? [] : checkArms(cols.arm, cols.subjectIndex, cols.subjectIds, cols.usableTiming, mapping.arm!, issues);
+  issues.addAll(decoded.issues);
+  const cols = checkRows(columns, { mapping, plans, top }, issues);
+  const arms = cols.armCodes === null ? [] : checkArms(cols.armCodes, cols.subjectIndex, cols.subjectIds, cols.usableTiming, mapping.arm!, issues);
   if (mapping.reference !== undefined) checkReference(cols.reference, cols.subjectIndex, cols.subjectIds, mapping.reference, issues);
-  const exit = readExit(cells, mapping, cols.subjectIndex, cols.subjectIds, exitRead?.column ?? null, issues);
+  const exitInput = { exit: columns.exit?.column ?? null, exitCol: mapping.exit ?? null, status: columns.exitStatus, reason: columns.exitReason };
+  const exit = readExit(exitInput, cols.subjectIndex, cols.subjectIds, issues);
   if (!cols.usableTiming.includes(1)) issues.range('no-usable-rows', 'error', null, '', null);
   else if (mapping.value !== undefined && !cols.usableModel.includes(1)) issues.range('no-usable-rows', 'warning', null, '', 'model');
   if (issues.hasErrors) return { ok: false, issues: issues.items };
@@ -113,6 +73,20 @@ export function readTable(input: CellInput, options: IntakeOptions): IntakeResul
     const levels = [...new Set(values.filter((v) => v !== ''))].sort();
     return { name: p.name, kind: 'categorical', values, levels };
   });
-  const { covariates: _raw, ...columns } = cols;
-  return { ok: true, issues: issues.items, table: { nRows, headers, mapping, mode, ...columns, arms, covariates, dateReadings, ...exit } };
+  const { covariates: _raw, visitCodes, siteCodes, armCodes, ...columnsOut } = cols;
+  const codes = {
+    ...(visitCodes === null ? {} : { visitCodes }),
+    ...(siteCodes === null ? {} : { siteCodes }),
+    ...(armCodes === null ? {} : { armCodes }),
+  };
+  const mode = options.mode;
+  const dateReadings = decoded.dateReadings;
+  const table = { nRows, headers, mapping, mode, ...columnsOut, arms, covariates, dateReadings, ...exit, ...codes };
+  // The per-row texts (one string reference per row) are made when first read: visit timing works on the codes.
+  const { subjectIds, subjectIndex } = cols;
+  lazyProperty(table, 'subject', () => Array.from(subjectIndex, (k) => (k < 0 ? '' : subjectIds[k]!)));
+  lazyProperty(table, 'visit', () => (visitCodes === null ? null : textsOfCodes(visitCodes)));
+  lazyProperty(table, 'site', () => (siteCodes === null ? null : textsOfCodes(siteCodes)));
+  lazyProperty(table, 'arm', () => (armCodes === null ? null : textsOfCodes(armCodes)));
+  return { ok: true, issues: issues.items, table: table as unknown as IntakeTable };
 }

@@ -204,6 +204,17 @@ export interface IntakeTable {
   readonly usableModel: Uint8Array;
   /** The mapped yes/no column: 0, 1, or NaN for anything else; absent when none is mapped. */
   readonly responder?: Float64Array;
+  /** The visit, site and arm columns as codes (`texts[codes[i]]` equals visit[i], site[i], arm[i]; each text once),
+   * so later layers can group and match by number; absent for a table not made by readTable. */
+  readonly visitCodes?: TextCodes;
+  readonly siteCodes?: TextCodes;
+  readonly armCodes?: TextCodes;
+}
+
+/** A text column as codes: row i's text is texts[codes[i]]; every text appears once in `texts`. */
+export interface TextCodes {
+  readonly codes: Int32Array;
+  readonly texts: readonly string[];
 }
 
 export type IntakeResult =

@@ -3,6 +3,7 @@ import { studyDayOfOffset } from '../intake/dayOffset';
 import { windowOffsets } from '../schedule/studyDay';
 import { NO_STATUS } from '../schedule/types';
 import type { ExitRow, LastRecord, TimingInput } from './timingTypes';
+import { orderByKey } from './numberOrder';
 
 /**
  * Days without a record after which a participant still in follow-up is marked as silent: two scheduled intervals,
@@ -25,57 +26,97 @@ export function silenceThreshold(input: Pick<TimingInput, 'schedule'>): number |
  * for a participant with no exit date (never a reclassification: a mark for follow-up only). O(rows + subjects).
  */
 export function lastRecords(input: TimingInput, silence: number | null): LastRecord[] {
+  const of = lastRecordOf(input, silence);
+  return Array.from({ length: input.timing.nSubjects }, (_, s) => of(s));
+}
+
+/**
+ * The same as lastRecords, as a function of the participant: one pass over the rows into typed arrays, and each
+ * participant's record made when first asked for (then kept), so only participants named in a list cost an object.
+ * O(rows) once, O(1) per participant.
+ */
+export function lastRecordOf(input: TimingInput, silence: number | null): (subject: number) => LastRecord {
   const { table, days, timing } = input;
   const S = timing.nSubjects;
   const last = new Float64Array(S).fill(NaN);
   const lastRow = new Int32Array(S).fill(-1);
+  const status = timing.rowStatus;
+  const subjectOf = table.subjectIndex;
+  const offsets = days.offsets;
+  const none = NO_STATUS;
   for (let i = 0; i < table.nRows; i++) {
-    if (timing.rowStatus[i] === NO_STATUS) continue;
-    const s = table.subjectIndex[i]!;
-    const o = days.offsets[i]!;
+    if (status[i] === none) continue;
+    const s = subjectOf[i]!;
+    const o = offsets[i]!;
     if (!(o <= last[s]!)) {
       last[s] = o;
       lastRow[s] = i;
     }
   }
   const dated = table.timeKind === 'date';
-  return Array.from({ length: S }, (_, s): LastRecord => {
+  const made: (LastRecord | undefined)[] = new Array<LastRecord | undefined>(S);
+  const make = (s: number): LastRecord => {
     const r = lastRow[s]!;
     if (r < 0) return { date: null, daysSince: null, silent: false };
     const cut = timing.cutoffOffset[s]!;
     const daysSince = Number.isFinite(cut) ? cut - last[s]! : null;
     const silent = silence !== null && daysSince !== null && daysSince > silence && !Number.isFinite(timing.exitOffset[s]!);
     return { date: dated ? table.date[r]! : days.studyDays[r]!, daysSince, silent };
-  });
+  };
+  return (s) => made[s] ?? (made[s] = make(s));
 }
 
 /**
  * Participants who left the study (an exit date, dated data), in order of exit date then order of appearance: exit
  * date and study day, the last scheduled visit with a record, and the end-of-study status and reason when mapped.
- * O(subjects · visits + k log k).
+ * O(subjects · visits + d log d) for d distinct exit dates.
  */
 export function listExits(input: TimingInput, siteOf: (subject: number) => string): ExitRow[] {
+  return exitRows(input, exitOrder(input), siteOf);
+}
+
+/** The participants who left, in listExits' order, as subject indices (rows are made by exitRows when written). O(subjects + d log d). */
+export function exitOrder(input: TimingInput): Int32Array {
+  const { table, timing } = input;
+  // The participants who left, as indices sorted by exit date then index (a counting sort on the dates' ranks).
+  const exitDate = table.subjectExit;
+  let count = 0;
+  for (let s = 0; s < timing.nSubjects; s++) if (timing.subjectInTiming[s] === 1 && Number.isFinite(timing.exitOffset[s]!)) count++;
+  const left = new Int32Array(count);
+  const keys = new Float64Array(count);
+  count = 0;
+  for (let s = 0; s < timing.nSubjects; s++) {
+    if (timing.subjectInTiming[s] !== 1 || !Number.isFinite(timing.exitOffset[s]!)) continue;
+    keys[count] = exitDate[s]!;
+    left[count++] = s;
+  }
+  return orderByKey(keys, left);
+}
+
+/** The rows of the list of participants who left, for exitOrder's participants. O(participants · visits). */
+export function exitRows(input: TimingInput, sorted: Int32Array, siteOf: (subject: number) => string): ExitRow[] {
   const { table, schedule, timing } = input;
   const V = timing.nVisits;
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
-  // The participants who left, as indices sorted by exit date then index; rows are made in that order.
   const exitDate = table.subjectExit;
-  const left: number[] = [];
-  for (let s = 0; s < timing.nSubjects; s++) if (timing.subjectInTiming[s] === 1 && Number.isFinite(timing.exitOffset[s]!)) left.push(s);
-  const sorted = Int32Array.from(left).sort((a, b) => exitDate[a]! - exitDate[b]! || a - b);
+  const status = table.subjectExitStatus;
+  const reason = table.subjectExitReason;
   const rows: ExitRow[] = new Array<ExitRow>(sorted.length);
   for (let k = 0; k < sorted.length; k++) {
     const s = sorted[k]!;
     let lastVisit = '';
-    for (const v of order) if (timing.slotRow[s * V + v]! >= 0) lastVisit = schedule[v]!.label;
+    for (let j = 0; j < V; j++) {
+      const v = order[j]!;
+      if (timing.slotRow[s * V + v]! >= 0) lastVisit = schedule[v]!.label;
+    }
     rows[k] = {
       subject: table.subjectIds[s]!,
       site: siteOf(s),
       exitDate: exitDate[s]!,
       exitStudyDay: studyDayOfOffset(timing.exitOffset[s]!),
       lastVisit,
-      status: table.subjectExitStatus?.[s] ?? '',
-      reason: table.subjectExitReason?.[s] ?? '',
+      status: status?.[s] ?? '',
+      reason: reason?.[s] ?? '',
     };
   }
   return rows;

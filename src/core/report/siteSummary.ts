@@ -1,6 +1,8 @@
 import { STATUS_CODE } from '../schedule/types';
 import type { SiteSummaryRow, TimingInput } from './timingTypes';
 
+const { onTime: ON_TIME, early: EARLY, late: LATE, missed: MISSED, notYetDue: NOT_YET_DUE, afterExit: AFTER_EXIT } = STATUS_CODE;
+
 /**
  * The summary by site (SPEC §4 b): subjects in timing and how many of them left the study, visits not expected
  * because the participant had left, visits due (all but not yet due and not expected), on time, out of window
@@ -27,14 +29,14 @@ export function summarizeBySite(input: TimingInput, sites: { readonly names: rea
     if (Number.isFinite(timing.exitOffset[s]!)) left[g]!++;
     for (let v = 0; v < V; v++) {
       const code = timing.slotStatus[s * V + v]!;
-      if (code === STATUS_CODE.afterExit) {
+      if (code === AFTER_EXIT) {
         afterExit[g]!++;
         continue;
       }
-      if (code !== STATUS_CODE.notYetDue) due[g]!++;
-      if (code === STATUS_CODE.onTime) onTime[g]!++;
-      else if (code === STATUS_CODE.early || code === STATUS_CODE.late) out[g]!++;
-      else if (code === STATUS_CODE.missed) missed[g]!++;
+      if (code !== NOT_YET_DUE) due[g]!++;
+      if (code === ON_TIME) onTime[g]!++;
+      else if (code === EARLY || code === LATE) out[g]!++;
+      else if (code === MISSED) missed[g]!++;
     }
   }
   const rate = (k: number, g: number): number | null => (due[g]! > 0 ? k / due[g]! : null);

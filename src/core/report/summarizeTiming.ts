@@ -1,15 +1,16 @@
 import { siteGroups, armGroups } from './groups';
-import { listDeviations } from './deviationList';
+import { deviationOrder, deviationRows } from './deviationList';
+import { lazyProperty } from '../intake/lazyProperty';
 import { summarizeBySite } from './siteSummary';
-import type { LastRecord, TimingInput, TimingSummary } from './timingTypes';
+import type { TimingInput, TimingSummary } from './timingTypes';
 import { summarizeByVisit } from './visitSummary';
-import { listVisitsDue } from './visitsDue';
-import { lastRecords, listExits, silenceThreshold } from './participants';
+import { dueOrder, dueRows } from './visitsDue';
+import { exitOrder, exitRows, lastRecordOf, silenceThreshold } from './participants';
 
 /**
  * All visit-timing reports as plain data (SPEC §4 a–d): counts, by visit, by arm and visit (unblinded mode only,
  * i.e. when table.arm is not null), by site (when a site column is mapped), the deviation listing and the visits due.
- * Cost O(rows + subjects · visits + k log k) for the sorted lists.
+ * Cost O(rows + subjects · visits) plus the sorts of distinct days; the listings' rows are made when first read.
  */
 export function summarizeTiming(input: TimingInput): TimingSummary {
   const { table, timing } = input;
@@ -17,11 +18,15 @@ export function summarizeTiming(input: TimingInput): TimingSummary {
   const arms = armGroups(table);
   const siteOf = (s: number): string => (sites === null ? '' : sites.names[sites.group[s]!]!);
   const silenceDays = silenceThreshold(input);
-  const last = lastRecords(input, silenceDays);
-  const lastOf = (s: number): LastRecord => last[s]!;
+  const lastOf = lastRecordOf(input, silenceDays);
   let subjects = 0;
   for (let s = 0; s < timing.nSubjects; s++) subjects += timing.subjectInTiming[s]!;
-  return {
+  // The three listings are computed here as numbers in their order; their rows (one object per line) are made when
+  // the listing is first read, i.e. when a sheet or the JSON is written.
+  const deviationLines = deviationOrder(input, siteOf);
+  const due = dueOrder(input);
+  const left = exitOrder(input);
+  const summary = {
     dated: table.timeKind === 'date',
     cutoff: timing.cutoff,
     cutoffRule: timing.cutoffRule,
@@ -30,10 +35,14 @@ export function summarizeTiming(input: TimingInput): TimingSummary {
     byVisit: summarizeByVisit(input),
     byArm: arms === null ? null : summarizeByVisit(input, arms),
     bySite: sites === null ? null : summarizeBySite(input, sites),
-    deviations: listDeviations(input, siteOf, lastOf),
-    upcoming: listVisitsDue(input, siteOf, lastOf),
-    exits: listExits(input, siteOf),
+    deviations: null,
+    upcoming: null,
+    exits: null,
     exitKnown: table.mapping.exit !== undefined && table.timeKind === 'date',
     silenceDays,
   };
+  lazyProperty(summary, 'deviations', () => deviationRows(input, deviationLines, siteOf, lastOf));
+  lazyProperty(summary, 'upcoming', () => dueRows(input, due, siteOf, lastOf));
+  lazyProperty(summary, 'exits', () => exitRows(input, left, siteOf));
+  return summary as unknown as TimingSummary;
 }

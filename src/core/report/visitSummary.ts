@@ -1,12 +1,17 @@
 import { SLOT_STATUSES, STATUS_CODE } from '../schedule/types';
 import type { TimingInput, VisitSummaryRow } from './timingTypes';
+import { medianMinMax } from './numberOrder';
+
+// Local copies of the shared constants, read in the loops below.
+const SLOTS = SLOT_STATUSES;
+const CODE = { ...STATUS_CODE };
 
 /**
  * The summary by scheduled visit (SPEC §4 a), one row per visit in order of target day, or per (group, visit) when
  * subjects are grouped (by arm). Counts come from the (subject, visit) statuses of subjects in timing; visits not
  * expected because the participant had left (afterExit) are counted apart and are not expected; visits due =
  * expected − not yet due; on-time rate = on time / due; median, min and max deviation over the visits' own records
- * (on time, early, late), in calendar days (the classification's own deviations). Cost O(subjects · visits + records · log records) for the medians.
+ * (on time, early, late), in calendar days (the classification's own deviations). Cost O(subjects · visits + records) (medians by selection).
  * Example: 2 subjects, Week 12 on time (deviation −2) and late (+9) → expected 2, due 2, on-time rate 0.5, median 3.5.
  */
 export function summarizeByVisit(
@@ -16,43 +21,50 @@ export function summarizeByVisit(
   const { schedule, timing } = input;
   const V = timing.nVisits;
   const G = groups?.names.length ?? 1;
-  const counts = new Float64Array(G * V * SLOT_STATUSES);
-  // The deviations of each (group, visit) in one typed array: counted first, then placed, then each part sorted.
+  const counts = new Float64Array(G * V * SLOTS);
+  // The per-slot arrays as locals, and one group (0) when not grouped: the loops below run over every slot.
+  const S = timing.nSubjects;
+  const inTiming = timing.subjectInTiming;
+  const slotStatus = timing.slotStatus;
+  const slotRow = timing.slotRow;
+  const rowDeviation = timing.rowDeviation;
+  const group = groups?.group ?? new Int32Array(S);
+  // The deviations of each (group, visit) in one typed array: counted first, then placed, then each part selected.
   const starts = new Int32Array(G * V + 1);
-  for (let s = 0; s < timing.nSubjects; s++) {
-    if (timing.subjectInTiming[s] !== 1) continue;
-    const g = groups?.group[s] ?? 0;
+  for (let s = 0; s < S; s++) {
+    if (inTiming[s] !== 1) continue;
+    const gv = group[s]! * V;
     for (let v = 0; v < V; v++) {
-      const code = timing.slotStatus[s * V + v]!;
-      counts[(g * V + v) * SLOT_STATUSES + code]!++;
-      if (timing.slotRow[s * V + v]! >= 0) starts[g * V + v + 1]!++;
+      const k = s * V + v;
+      counts[(gv + v) * SLOTS + slotStatus[k]!]!++;
+      if (slotRow[k]! >= 0) starts[gv + v + 1]!++;
     }
   }
   for (let k = 0; k < G * V; k++) starts[k + 1]! += starts[k]!;
   const all = new Float64Array(starts[G * V]!);
   const fill = starts.slice(0, G * V);
-  for (let s = 0; s < timing.nSubjects; s++) {
-    if (timing.subjectInTiming[s] !== 1) continue;
-    const g = groups?.group[s] ?? 0;
+  for (let s = 0; s < S; s++) {
+    if (inTiming[s] !== 1) continue;
+    const gv = group[s]! * V;
     for (let v = 0; v < V; v++) {
-      const r = timing.slotRow[s * V + v]!;
-      if (r >= 0) all[fill[g * V + v]!++] = timing.rowDeviation[r]!;
+      const r = slotRow[s * V + v]!;
+      if (r >= 0) all[fill[gv + v]!++] = rowDeviation[r]!;
     }
   }
   const order = Array.from({ length: V }, (_, v) => v).sort((a, b) => schedule[a]!.targetDay - schedule[b]!.targetDay || a - b);
   const rows: VisitSummaryRow[] = [];
   for (let g = 0; g < G; g++) {
     for (const v of order) {
-      const c = (code: number): number => counts[(g * V + v) * SLOT_STATUSES + code]!;
-      const onTime = c(STATUS_CODE.onTime);
-      const early = c(STATUS_CODE.early);
-      const late = c(STATUS_CODE.late);
-      const missed = c(STATUS_CODE.missed);
-      const notYetDue = c(STATUS_CODE.notYetDue);
-      const afterExit = c(STATUS_CODE.afterExit);
+      const c = (code: number): number => counts[(g * V + v) * SLOTS + code]!;
+      const onTime = c(CODE.onTime);
+      const early = c(CODE.early);
+      const late = c(CODE.late);
+      const missed = c(CODE.missed);
+      const notYetDue = c(CODE.notYetDue);
+      const afterExit = c(CODE.afterExit);
       const expected = onTime + early + late + missed + notYetDue;
       const due = expected - notYetDue;
-      const d = all.subarray(starts[g * V + v]!, starts[g * V + v + 1]!).sort();
+      const d = medianMinMax(all.subarray(starts[g * V + v]!, starts[g * V + v + 1]!));
       rows.push({
         visit: schedule[v]!.label,
         targetDay: schedule[v]!.targetDay,
@@ -66,9 +78,9 @@ export function summarizeByVisit(
         afterExit,
         due,
         onTimeRate: due > 0 ? onTime / due : null,
-        medianDeviation: d.length === 0 ? null : d.length % 2 === 1 ? d[(d.length - 1) / 2]! : (d[d.length / 2 - 1]! + d[d.length / 2]!) / 2,
-        minDeviation: d.length === 0 ? null : d[0]!,
-        maxDeviation: d.length === 0 ? null : d[d.length - 1]!,
+        medianDeviation: d === null ? null : d.median,
+        minDeviation: d === null ? null : d.min,
+        maxDeviation: d === null ? null : d.max,
       });
     }
   }

@@ -1,4 +1,5 @@
 import type { IntakeTable } from '../intake/types';
+import { textCodesOf } from '../intake/textCodes';
 import type { DataPlace } from './computeStudyDays';
 import { afterCutoffIssue, afterExitIssue, nearest, sortSegment } from './classifyParts';
 import { labelKey } from './labels';
@@ -88,20 +89,15 @@ export function classifyVisits(
   const target = Float64Array.from(windows, (w) => w.target);
   const open = Float64Array.from(windows, (w) => w.opens);
   const close = Float64Array.from(windows, (w) => w.closes);
-  const byLabel = table.visit !== null;
   const labelIndex = new Map<string, number>();
   schedule.forEach((v, k) => {
     if (!labelIndex.has(labelKey(v.label))) labelIndex.set(labelKey(v.label), k);
   });
-  const rawLabelIndex = new Map<string, number>(); // raw label text → visit index, so each distinct text is keyed once
-  const visitOfLabel = (raw: string): number => {
-    let k = rawLabelIndex.get(raw);
-    if (k === undefined) {
-      k = labelIndex.get(labelKey(raw)) ?? -1;
-      rawLabelIndex.set(raw, k);
-    }
-    return k;
-  };
+  // With a visit column, each distinct label text is matched to a scheduled visit once (-1: none); rows by code.
+  const visits = textCodesOf(table, 'visit');
+  const byLabel = visits !== null;
+  const visitOfCode = visits === null ? null : Int32Array.from(visits.texts, (t) => labelIndex.get(labelKey(t)) ?? -1);
+  const visitCode = visits === null ? null : visits.codes;
 
   // Cut-off.
   let cutoff: number | null = options.cutoff ?? null;
@@ -118,8 +114,11 @@ export function classifyVisits(
     cutoff = Number.isFinite(latest) ? latest : null;
     cutoffRule = 'latestDate';
   }
-  const afterCutoff = (i: number): boolean =>
-    cutoff !== null && (dated ? table.date[i]! > cutoff : cutoffRule === 'given' && sd[i]! > offsetOfStudyDay(cutoff));
+  // The cut-off as a bound on the date (dated data) or on the offset (study-day data with a given cut-off).
+  const date = table.date;
+  const dateBound = cutoff !== null && dated ? cutoff : Infinity;
+  const offsetBound = cutoff !== null && !dated && cutoffRule === 'given' ? offsetOfStudyDay(cutoff) : Infinity;
+  const afterCutoff = (i: number): boolean => date[i]! > dateBound || sd[i]! > offsetBound;
 
   // Bucket usable rows by subject (counting sort), then sort each subject's rows by (day, row).
   const rowStatus = new Uint8Array(n).fill(NO_STATUS);
@@ -142,7 +141,12 @@ export function classifyVisits(
   const idx = new Int32Array(start[S]!);
   for (let i = 0; i < n; i++) if (take[i] === 1) idx[fill[subjectOf[i]!]!++] = i;
   const byDay = (a: number, b: number): number => sd[a]! - sd[b]! || a - b;
-  for (let s = 0; s < S; s++) sortSegment(idx, start[s]!, start[s + 1]!, byDay);
+  for (let s = 0; s < S; s++) {
+    // Listings are usually in day order within a participant: check that on numbers before sorting.
+    let sorted = true;
+    for (let j = start[s]! + 1; j < start[s + 1]! && sorted; j++) sorted = sd[idx[j - 1]!]! <= sd[idx[j]!]!; // rows are filled in row order, so ties are in order
+    if (!sorted) sortSegment(idx, start[s]!, start[s + 1]!, byDay);
+  }
 
   const slotStatus = new Uint8Array(S * V).fill(NO_STATUS);
   const slotRow = new Int32Array(S * V).fill(-1);
@@ -151,26 +155,32 @@ export function classifyVisits(
   const exitOffset = new Float64Array(S).fill(NaN);
   const counts = new Float64Array(STATUS_ORDER.length);
 
+  // Per-participant columns as locals, read in the loop below.
+  const subjectExit = table.subjectExit;
+  const referenceDay = days.referenceDay;
+  const visitOf = visitOfCode ?? new Int32Array(0);
+  const rowCode = visitCode ?? new Int32Array(0);
+  const givenCutoffOffset = !dated && cutoff !== null ? offsetOfStudyDay(cutoff) : NaN;
   for (let s = 0; s < S; s++) {
     const a = start[s]!;
     const b = start[s + 1]!;
     if (a === b) continue;
     subjectInTiming[s] = 1;
     const base = s * V;
-    if (dated) exitOffset[s] = table.subjectExit[s]! - days.referenceDay[s]!;
+    if (dated) exitOffset[s] = subjectExit[s]! - referenceDay[s]!;
     const exit = exitOffset[s]!;
     cutoffOffset[s] = dated
       ? cutoff === null
         ? NaN
-        : cutoff - days.referenceDay[s]!
+        : cutoff - referenceDay[s]!
       : cutoff === null
         ? sd[idx[b - 1]!]!
-        : offsetOfStudyDay(cutoff);
+        : givenCutoffOffset;
     // First pass: candidate visit per record; keep the closest record per visit (earlier wins ties: rows are sorted).
     for (let j = a; j < b; j++) {
       const i = idx[j]!;
       const d = sd[i]!;
-      const v = byLabel ? visitOfLabel(table.visit![i]!) : order[nearest(sortedTargets, d)]!;
+      const v = byLabel ? visitOf[rowCode[i]!]! : order[nearest(sortedTargets, d)]!;
       rowVisit[i] = v;
       if (v < 0) continue;
       const best = slotRow[base + v]!;

@@ -1,8 +1,8 @@
 import type { IntakeTable } from '../intake/types';
+import { textCodesOf } from '../intake/textCodes';
 import { cellAddress } from './address';
 import { labelKey } from './labels';
 import { offsetOfStudyDay } from '../intake/dayOffset';
-import { studyDay } from './studyDay';
 import type { ScheduleIssue, ScheduleVisit, StudyDays } from './types';
 
 /** Where the data range sits, for cell addresses in issues. */
@@ -46,8 +46,12 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
     return { studyDays: days, offsets, referenceDay: refDay, issues };
   }
 
-  const usable = (i: number): boolean =>
-    table.usableTiming[i] === 1 && table.subjectIndex[i]! >= 0 && Number.isFinite(table.date[i]!);
+  // The columns as locals: the loops below read them once per row.
+  const usableTiming = table.usableTiming;
+  const subjectIndex = table.subjectIndex;
+  const date = table.date;
+  const reference = table.reference;
+  const usable = (i: number): boolean => usableTiming[i] === 1 && subjectIndex[i]! >= 0 && Number.isFinite(date[i]!);
   const hasRefColumn = table.mapping.reference !== undefined;
 
   if (hasRefColumn) {
@@ -59,10 +63,12 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
   } else {
     const first = schedule.reduce<ScheduleVisit | null>((a, v) => (a === null || v.targetDay < a.targetDay ? v : a), null);
     const firstKey = first === null ? null : labelKey(first.label);
-    const byLabel = table.visit !== null;
+    // With a visit column, only records of the first visit count: decided once per distinct label (codes).
+    const visits = textCodesOf(table, 'visit');
+    const isFirst = visits === null ? null : Uint8Array.from(visits.texts, (t) => (firstKey !== null && labelKey(t) === firstKey ? 1 : 0));
     for (let i = 0; i < n; i++) {
       if (!usable(i)) continue;
-      if (byLabel && (firstKey === null || labelKey(table.visit![i]!) !== firstKey)) continue;
+      if (isFirst !== null && isFirst[visits!.codes[i]!] !== 1) continue;
       const s = table.subjectIndex[i]!;
       const d = table.date[i]!;
       if (Number.isNaN(refDay[s]!) || d < refDay[s]!) refDay[s] = d;
@@ -75,16 +81,18 @@ export function computeStudyDays(table: IntakeTable, schedule: readonly Schedule
   const dateColumn = table.mapping.date ?? 0;
   for (let i = 0; i < n; i++) {
     if (!usable(i)) continue;
-    const s = table.subjectIndex[i]!;
-    const own = hasRefColumn ? table.reference[i]! : NaN;
+    const s = subjectIndex[i]!;
+    const own = hasRefColumn ? reference[i]! : NaN;
     const ref = Number.isFinite(own) ? own : refDay[s]!;
     if (Number.isFinite(ref)) {
-      days[i] = studyDay(table.date[i]!, ref);
-      offsets[i] = table.date[i]! - ref;
+      // CDISC study day of the calendar offset (studyDay.ts): the offset + 1 on or after the reference date.
+      const offset = date[i]! - ref;
+      days[i] = offset >= 0 ? offset + 1 : offset;
+      offsets[i] = offset;
       continue;
     }
     const sheetRow = table.sheetRows[i]!;
-    const subject = table.subject[i]!;
+    const subject = table.subjectIds[s]!;
     issues.push({
       code: hasRefColumn ? 'no-reference-date' : 'no-baseline-record',
       severity: 'warning',

@@ -33,7 +33,7 @@ import {
   type Relationship,
   type TablePart,
 } from './xlsxParts';
-import { ZipWriter, type PartWriter } from './zipWriter';
+import { ZipWriter, type Compressor, type PartWriter } from './zipWriter';
 
 /** Caption of the table a chart's numbers get when they are not all in a table of the sheet already. */
 export const CHART_DATA_CAPTION = (title: string): string => `Numbers behind the chart: ${title}`;
@@ -450,6 +450,13 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
   await out.end();
 }
 
+/** How the workbook is written (not what it holds). */
+export interface WriteOptions {
+  /** Compresses each part (default: the platform's compressor on this thread; the page's worker hands in one that
+   * works on a thread of its own, src/web/workerCompressor.ts). The bytes of the package are the same either way. */
+  readonly compressor?: Compressor;
+}
+
 /**
  * Renders sheet specs into an .xlsx workbook (ECMA-376) and returns its bytes. Per sheet: a title row, then each
  * block in order — a linking paragraph (the one-line caution) as an internal hyperlink on row 2 when it comes first, so
@@ -466,7 +473,7 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
  *
  * Example: writeWorkbook([{ name: 'A', title: 'T', blocks: [] }]) → bytes of a workbook with sheet "A", A1 = "T".
  */
-export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintStamp = {}): Promise<Uint8Array> {
+export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintStamp = {}, options: WriteOptions = {}): Promise<Uint8Array> {
   const names = uniqueSheetNames(sheets.map((s) => s.name));
   // Wanted name → the name each sheet got, for links between sheets (the first sheet of a wanted name wins).
   const nameOf = new Map<string, string>();
@@ -484,7 +491,7 @@ export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintSt
   });
   const styles = stylesXml([...used]);
 
-  const zip = new ZipWriter();
+  const zip = new ZipWriter(options.compressor);
   const counts = {
     sheets: plans.length,
     tables: plans.reduce((n, p) => n + p.st.tables.length, 0),

@@ -135,6 +135,7 @@ const PROFILE = process.env.LONGIPANE_PAGE_PROFILE === '1';
 
 interface ProfileNode {
   readonly id: number;
+  readonly children?: readonly number[];
   readonly callFrame: { readonly functionName: string; readonly url: string; readonly lineNumber: number };
 }
 
@@ -158,6 +159,37 @@ async function profiled<T>(page: Page, label: string, work: () => Promise<T>): P
   }
   const top = [...byName].filter(([n]) => !n.startsWith('(idle)') && !n.startsWith('(program)')).sort((a, b) => b[1] - a[1]).slice(0, 10);
   process.stdout.write(`${label}: page thread, most self time (ms)\n${top.map(([n, ms]) => `  ${ms.toFixed(0).padStart(6)}  ${n}`).join('\n')}\n`);
+  // The longest stretch of samples without idle time (about one long task), by time spent inside each function
+  // (its own and its callees'), to say which part of the page's code the longest task was.
+  const byId = new Map(profile.nodes.map((n) => [n.id, n]));
+  const parent = new Map<number, number>();
+  for (const n of profile.nodes) for (const c of n.children ?? []) parent.set(c, n.id);
+  const idle = (id: number): boolean => byId.get(id)?.callFrame.functionName === '(idle)';
+  let best = { from: 0, to: 0, ms: 0 };
+  let from = 0;
+  let ms = 0;
+  profile.samples.forEach((id, i) => {
+    if (idle(id)) {
+      from = i + 1;
+      ms = 0;
+      return;
+    }
+    ms += (profile.timeDeltas[i + 1] ?? 0) / 1000;
+    if (ms > best.ms) best = { from, to: i + 1, ms };
+  });
+  const inside = new Map<string, number>();
+  for (let i = best.from; i < best.to; i++) {
+    const seen = new Set<string>();
+    for (let id: number | undefined = profile.samples[i]; id !== undefined; id = parent.get(id)) {
+      const f = byId.get(id)!.callFrame;
+      const name = `${f.functionName || '(anonymous)'} ${f.url.replace(/^.*\//, '')}:${f.lineNumber}`;
+      if (seen.has(name)) continue;
+      seen.add(name);
+      inside.set(name, (inside.get(name) ?? 0) + (profile.timeDeltas[i + 1] ?? 0) / 1000);
+    }
+  }
+  const within = [...inside].filter(([n]) => !n.startsWith('(root)')).sort((a, b) => b[1] - a[1]).slice(0, 25);
+  process.stdout.write(`${label}: longest busy stretch ${best.ms.toFixed(0)} ms, time inside (ms)\n${within.map(([n, t]) => `  ${t.toFixed(0).padStart(6)}  ${n}`).join('\n')}\n`);
   await cdp.detach();
   return result;
 }

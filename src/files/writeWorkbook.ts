@@ -33,6 +33,7 @@ import {
   type Relationship,
   type TablePart,
 } from './xlsxParts';
+import { ByteRows } from './byteRows';
 import { ZipWriter, type Compressor, type PartWriter } from './zipWriter';
 
 /** Caption of the table a chart's numbers get when they are not all in a table of the sheet already. */
@@ -397,24 +398,45 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
       const formats = columns.map(cellFormat);
       const looks = formats.map((f) => styles.format.get(EXCEL_FORMAT_CODES[f])!);
       const significant = formats.map((f) => f === 'significant');
+      // The body rows as bytes (byteRows.ts): the same markup as textCell and rowOpen make, without a string per cell.
+      await out.write(buf);
+      buf = '';
+      const rows = new ByteRows(out);
+      const cellOpen = columns.map((_, j) => `<c r="${letters[j]}`);
       for (let i = 0; i < t.bodyRows; i++) {
         const rr = r + 1 + i;
         const cells = t.block.rows[i];
-        let line = rowOpen(rr);
+        const open = rowOpen(rr);
+        rows.room(open.length + 6);
+        rows.ascii(open);
         for (let j = 0; j < columns.length; j++) {
-          const ref = `${letters[j]}${rr}`;
           const v = storedValue(cells?.[j], formats[j]!);
           const look = significant[j] ? styles.format.get(numberFormatFor(v, 'significant'))! : looks[j]!;
-          if (v === null) line += `<c r="${ref}" s="${look}"/>`;
-          else if (typeof v === 'number') line += `<c r="${ref}" s="${look}"><v>${numberText(v)}</v></c>`;
-          else line += textCell(ref, look, v);
+          const head = cellOpen[j]!;
+          rows.room(head.length + 80);
+          rows.ascii(head);
+          rows.digits(rr);
+          rows.ascii('" s="');
+          rows.digits(look);
+          if (v === null || v === '') rows.ascii('"/>');
+          else if (typeof v === 'number') {
+            const text = numberText(v);
+            rows.room(text.length + 13);
+            rows.ascii('"><v>');
+            rows.ascii(text);
+            rows.ascii('</v></c>');
+          } else {
+            rows.ascii(needsPreserve(v) ? '" t="inlineStr"><is><t xml:space="preserve">' : '" t="inlineStr"><is><t>');
+            rows.text(cellText(v));
+            rows.room(13);
+            rows.ascii('</t></is></c>');
+          }
         }
-        buf += `${line}</row>`;
-        if (buf.length >= ROW_BUFFER) {
-          await out.write(buf);
-          buf = '';
-        }
+        rows.room(6);
+        rows.ascii('</row>');
+        await rows.rowDone();
       }
+      await rows.end();
       r += t.bodyRows;
       next += 1;
       continue;

@@ -29,6 +29,8 @@ interface Entry {
 /** Where one part's text goes: call write() with pieces of any size, then end() once. */
 export interface PartWriter {
   write(text: string): Promise<void>;
+  /** UTF-8 bytes made elsewhere (byteRows.ts), after the text written before; the writer takes the buffer over. */
+  writeBytes(bytes: Uint8Array<ArrayBuffer>): Promise<void>;
   end(): Promise<void>;
 }
 
@@ -188,6 +190,10 @@ export class ZipWriter {
         if (used + text.length * 3 > BYTE_CHUNK) await flush();
         if (text.length * 3 > BYTE_CHUNK) await compressor.write(encoder.encode(text));
         else used += encoder.encodeInto(text, bytes.subarray(used)).written;
+      },
+      writeBytes: async (piece: Uint8Array<ArrayBuffer>): Promise<void> => {
+        await flush();
+        if (piece.length > 0) await compressor.write(piece);
       },
       end: async (): Promise<void> => {
         await flush();

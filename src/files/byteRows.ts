@@ -14,6 +14,11 @@ const HAND_ON_AT = CHUNK - 64 * 1024;
 
 const encoder = new TextEncoder();
 
+/** A fragment of ASCII markup as bytes, made once and written with ByteRows.raw. */
+export function asciiBytes(s: string): Uint8Array {
+  return Uint8Array.from(s, (ch) => ch.charCodeAt(0));
+}
+
 export class ByteRows {
   private bytes = new Uint8Array(CHUNK);
   private used = 0;
@@ -33,6 +38,14 @@ export class ByteRows {
     const b = this.bytes;
     let u = this.used;
     for (let i = 0; i < s.length; i++) b[u++] = s.charCodeAt(i);
+    this.used = u;
+  }
+
+  /** Bytes made once (ascii() of a fixed fragment, by asciiBytes), copied (room: their length). */
+  raw(fragment: Uint8Array): void {
+    const b = this.bytes;
+    let u = this.used;
+    for (let i = 0; i < fragment.length; i++) b[u++] = fragment[i]!;
     this.used = u;
   }
 

@@ -33,7 +33,7 @@ import {
   type Relationship,
   type TablePart,
 } from './xlsxParts';
-import { ByteRows } from './byteRows';
+import { asciiBytes, ByteRows } from './byteRows';
 import { ZipWriter, type Compressor, type PartWriter } from './zipWriter';
 
 /** Caption of the table a chart's numbers get when they are not all in a table of the sheet already. */
@@ -357,6 +357,16 @@ function textCell(ref: string, style: number, text: string): string {
   return `<c r="${ref}" s="${style}" t="inlineStr"><is><t${needsPreserve(text) ? ' xml:space="preserve"' : ''}>${cellText(text)}</t></is></c>`;
 }
 
+/** The fixed markup of a body cell, as bytes (ByteRows.raw): the same text textCell and writeSheet write. */
+const EMPTY_END = asciiBytes('"/>');
+const NUMBER_OPEN = asciiBytes('"><v>');
+const NUMBER_CLOSE = asciiBytes('</v></c>');
+const MINUS = asciiBytes('-');
+const TEXT_OPEN = asciiBytes('" t="inlineStr"><is><t>');
+const TEXT_OPEN_PRESERVE = asciiBytes('" t="inlineStr"><is><t xml:space="preserve">');
+const TEXT_CLOSE = asciiBytes('</t></is></c>');
+const ROW_CLOSE = asciiBytes('</row>');
+
 /** Characters gathered before they go to the zip writer. */
 const ROW_BUFFER = 64 * 1024;
 
@@ -402,7 +412,10 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
       await out.write(buf);
       buf = '';
       const rows = new ByteRows(out);
-      const cellOpen = columns.map((_, j) => `<c r="${letters[j]}`);
+      const cellOpen = columns.map((_, j) => asciiBytes(`<c r="${letters[j]}`));
+      // '" s="<look>' per style number, made when first met (a 'significant' column's cells take several).
+      const lookBytes: Uint8Array[] = [];
+      const lookOf = (look: number): Uint8Array => (lookBytes[look] ??= asciiBytes(`" s="${look}`));
       for (let i = 0; i < t.bodyRows; i++) {
         const rr = r + 1 + i;
         const cells = t.block.rows[i];
@@ -411,29 +424,34 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
         rows.ascii(open);
         for (let j = 0; j < columns.length; j++) {
           const v = storedValue(cells?.[j], formats[j]!);
-          const look = significant[j] ? styles.format.get(numberFormatFor(v, 'significant'))! : looks[j]!;
+          const look = lookOf(significant[j] ? styles.format.get(numberFormatFor(v, 'significant'))! : looks[j]!);
           const head = cellOpen[j]!;
-          rows.room(head.length + 80);
-          rows.ascii(head);
+          rows.room(head.length + look.length + 70);
+          rows.raw(head);
           rows.digits(rr);
-          rows.ascii('" s="');
-          rows.digits(look);
-          if (v === null || v === '') rows.ascii('"/>');
+          rows.raw(look);
+          if (v === null || v === '') rows.raw(EMPTY_END);
           else if (typeof v === 'number') {
-            const text = numberText(v);
-            rows.room(text.length + 13);
-            rows.ascii('"><v>');
-            rows.ascii(text);
-            rows.ascii('</v></c>');
+            rows.raw(NUMBER_OPEN);
+            // numberText: whole numbers in range as digits here (the same text String gives), others through it.
+            if (Number.isInteger(v) && v > -0x80000000 && v < 0x80000000) {
+              if (v < 0) rows.raw(MINUS);
+              rows.digits(Math.abs(v));
+            } else {
+              const text = numberText(v);
+              rows.room(text.length + 8);
+              rows.ascii(text);
+            }
+            rows.raw(NUMBER_CLOSE);
           } else {
-            rows.ascii(needsPreserve(v) ? '" t="inlineStr"><is><t xml:space="preserve">' : '" t="inlineStr"><is><t>');
+            rows.raw(needsPreserve(v) ? TEXT_OPEN_PRESERVE : TEXT_OPEN);
             rows.text(cellText(v));
-            rows.room(13);
-            rows.ascii('</t></is></c>');
+            rows.room(TEXT_CLOSE.length);
+            rows.raw(TEXT_CLOSE);
           }
         }
-        rows.room(6);
-        rows.ascii('</row>');
+        rows.room(ROW_CLOSE.length);
+        rows.raw(ROW_CLOSE);
         await rows.rowDone();
       }
       await rows.end();

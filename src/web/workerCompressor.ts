@@ -2,9 +2,10 @@
  * The engine worker's side of the compressor worker: a zipWriter.ts Compressor whose parts are deflated on another
  * thread (compress.worker.ts). The bytes of a part are transferred as they are made; at most WINDOW pieces are on
  * their way at once, so memory stays flat when the XML is made faster than it is compressed. If the worker stops,
- * the part being written fails with a message, and the next part starts a new worker.
+ * the part being written fails with a message, and the next part starts a new worker; if none can be started at all,
+ * parts are compressed on the calling thread (the same bytes).
  */
-import type { Compressor, CompressedPart, PartCompressor } from '../files/zipWriter';
+import { platformCompressor, type Compressor, type CompressedPart, type PartCompressor } from '../files/zipWriter';
 import type { FromCompressor, ToCompressor } from './compressMessages';
 
 /** What is needed of a Worker (a real one in the browser; an in-process stand-in in tests). */
@@ -71,7 +72,18 @@ export function workerCompressor(start: () => CompressorWorkerLike): Compressor 
     return w;
   };
 
+  /** Set when no worker could be started here (say a policy forbids it): parts are then compressed on this thread. */
+  let unavailable = false;
+
   return (): PartCompressor => {
+    if (!unavailable && worker === null) {
+      try {
+        ensure();
+      } catch {
+        unavailable = true;
+      }
+    }
+    if (unavailable) return platformCompressor();
     const part = nextPart++;
     let resolve!: (c: CompressedPart) => void;
     let reject!: (e: Error) => void;

@@ -111,4 +111,19 @@ describe('the compressor worker', () => {
     expect(workers).toHaveLength(2);
     expect(workers[0]!.terminated).toBe(true);
   });
+
+  it('compresses on the calling thread, to the same bytes, when no worker can be started', async () => {
+    const compressor = workerCompressor(() => {
+      throw new Error('workers are not allowed here');
+    });
+    const data = new TextEncoder().encode('<row r="1"/>'.repeat(1000));
+    const part = compressor();
+    await part.write(data.slice());
+    const there = await part.end();
+    const here = platformCompressor();
+    await here.write(data.slice());
+    const expected = await here.end();
+    expect(Buffer.concat(there.chunks).equals(Buffer.concat(expected.chunks))).toBe(true);
+    expect(there.crc).toBe(expected.crc);
+  });
 });

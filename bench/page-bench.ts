@@ -32,8 +32,12 @@ export interface PageBenchEntry {
   /** Longest Long Tasks API entry and longest gap between animation frames during the run, in ms. */
   readonly runLongestTaskMs: number;
   readonly runLongestFrameGapMs: number;
-  /** Click "Download" → the browser has the file. */
+  /** Click "Download" → the browser has the file (best of DOWNLOADS). */
   readonly downloadSeconds: number;
+  /** The same run's baseline: one deflate pass (CompressionStream) over 32 MB of sheet-like XML on the page's thread. */
+  readonly baselineSeconds: number;
+  /** downloadSeconds / baselineSeconds. */
+  readonly downloadRatio: number;
   readonly downloadLongestTaskMs: number;
   readonly downloadLongestFrameGapMs: number;
   readonly reportMB: number;
@@ -116,6 +120,33 @@ const MONITOR = `(() => {
   requestAnimationFrame(tick);
 })()`;
 
+/** Downloads measured per size; the best time is kept (the longest task is the longest of all). */
+const DOWNLOADS = 2;
+
+/**
+ * The baseline (page script text, as MONITOR): 32 MB of invented sheet-like XML rows made on the page, then timed
+ * through one deflate pass (CompressionStream('deflate-raw'), the platform's zlib) in 1 MB pieces; seconds.
+ */
+const BASELINE = `(async () => {
+  const rows = [];
+  let n = 0;
+  for (let r = 1; n < 32e6; r++) {
+    const row = '<row r="' + r + '"><c r="A' + r + '" s="8" t="inlineStr"><is><t>KFT-' + String(100000 + (r >> 2)) + '</t></is></c><c r="B' + r + '" s="9"><v>' + (45000 + (r * 7919) % 700) + '</v></c><c r="C' + r + '" s="10"><v>' + ((r * 104729) % 10000) / 100 + '</v></c></row>';
+    rows.push(row);
+    n += row.length;
+  }
+  const bytes = new TextEncoder().encode(rows.join(''));
+  const t0 = performance.now();
+  const cs = new CompressionStream('deflate-raw');
+  const w = cs.writable.getWriter();
+  const r = cs.readable.getReader();
+  const drain = (async () => { for (;;) { const x = await r.read(); if (x.done) return; } })();
+  for (let i = 0; i < bytes.length; i += 1 << 20) await w.write(bytes.subarray(i, i + (1 << 20)));
+  await w.close();
+  await drain;
+  return (performance.now() - t0) / 1000;
+})()`;
+
 /** True once the pane lists the sheets written (page script text, as MONITOR). */
 const SHEETS_WRITTEN = `[...document.querySelectorAll('.pane h1, .pane h2, .pane h3, .pane h4')].some((h) => h.textContent === 'Sheets written')`;
 
@@ -135,6 +166,7 @@ const PROFILE = process.env.LONGIPANE_PAGE_PROFILE === '1';
 
 interface ProfileNode {
   readonly id: number;
+  readonly children?: readonly number[];
   readonly callFrame: { readonly functionName: string; readonly url: string; readonly lineNumber: number };
 }
 
@@ -158,6 +190,37 @@ async function profiled<T>(page: Page, label: string, work: () => Promise<T>): P
   }
   const top = [...byName].filter(([n]) => !n.startsWith('(idle)') && !n.startsWith('(program)')).sort((a, b) => b[1] - a[1]).slice(0, 10);
   process.stdout.write(`${label}: page thread, most self time (ms)\n${top.map(([n, ms]) => `  ${ms.toFixed(0).padStart(6)}  ${n}`).join('\n')}\n`);
+  // The longest stretch of samples without idle time (about one long task), by time spent inside each function
+  // (its own and its callees'), to say which part of the page's code the longest task was.
+  const byId = new Map(profile.nodes.map((n) => [n.id, n]));
+  const parent = new Map<number, number>();
+  for (const n of profile.nodes) for (const c of n.children ?? []) parent.set(c, n.id);
+  const idle = (id: number): boolean => byId.get(id)?.callFrame.functionName === '(idle)';
+  let best = { from: 0, to: 0, ms: 0 };
+  let from = 0;
+  let ms = 0;
+  profile.samples.forEach((id, i) => {
+    if (idle(id)) {
+      from = i + 1;
+      ms = 0;
+      return;
+    }
+    ms += (profile.timeDeltas[i + 1] ?? 0) / 1000;
+    if (ms > best.ms) best = { from, to: i + 1, ms };
+  });
+  const inside = new Map<string, number>();
+  for (let i = best.from; i < best.to; i++) {
+    const seen = new Set<string>();
+    for (let id: number | undefined = profile.samples[i]; id !== undefined; id = parent.get(id)) {
+      const f = byId.get(id)!.callFrame;
+      const name = `${f.functionName || '(anonymous)'} ${f.url.replace(/^.*\//, '')}:${f.lineNumber}`;
+      if (seen.has(name)) continue;
+      seen.add(name);
+      inside.set(name, (inside.get(name) ?? 0) + (profile.timeDeltas[i + 1] ?? 0) / 1000);
+    }
+  }
+  const within = [...inside].filter(([n]) => !n.startsWith('(root)')).sort((a, b) => b[1] - a[1]).slice(0, 25);
+  process.stdout.write(`${label}: longest busy stretch ${best.ms.toFixed(0)} ms, time inside (ms)\n${within.map(([n, t]) => `  ${t.toFixed(0).padStart(6)}  ${n}`).join('\n')}\n`);
   await cdp.detach();
   return result;
 }
@@ -197,19 +260,28 @@ async function measure(page: Page, base: string, rows: number, dir: string): Pro
   });
   const runSeconds = seconds(t0) - 0.5; // less readMonitor's settle
 
-  await resetMonitor(page);
-  t0 = performance.now();
-  let downloadSeconds = 0;
+  // The baseline, in the same browser and run: one deflate pass over 32 MB of sheet-like XML on the page's thread.
+  const baselineSeconds = (await page.evaluate(BASELINE)) as number;
+
+  // The download, best of DOWNLOADS (the machine is shared); its longest task is the longest over all of them.
+  let downloadSeconds = Infinity;
+  let dl = { task: 0, gap: 0 };
   const saved = join(dir, `report-${rows}.xlsx`);
-  const dl = await profiled(page, `download at ${rows} rows`, async () => {
-    const [download] = await Promise.all([
-      page.waitForEvent('download', { timeout: 900_000 }),
-      page.locator('.results-area').getByRole('button', { name: 'Download report (.xlsx)' }).click(),
-    ]);
-    downloadSeconds = seconds(t0);
-    await download.saveAs(saved);
-    return readMonitor(page);
-  });
+  for (let k = 0; k < DOWNLOADS; k++) {
+    await resetMonitor(page);
+    t0 = performance.now();
+    const work = async (): Promise<{ task: number; gap: number }> => {
+      const [download] = await Promise.all([
+        page.waitForEvent('download', { timeout: 900_000 }),
+        page.locator('.results-area').getByRole('button', { name: 'Download report (.xlsx)' }).click(),
+      ]);
+      downloadSeconds = Math.min(downloadSeconds, seconds(t0));
+      await download.saveAs(saved);
+      return readMonitor(page);
+    };
+    const once = k === 0 ? await profiled(page, `download at ${rows} rows`, work) : await work();
+    dl = { task: Math.max(dl.task, once.task), gap: Math.max(dl.gap, once.gap) };
+  }
   return {
     rows,
     fileMB: Math.round(statSync(data).size / 1e5) / 10,
@@ -217,6 +289,8 @@ async function measure(page: Page, base: string, rows: number, dir: string): Pro
     runLongestTaskMs: run.task,
     runLongestFrameGapMs: run.gap,
     downloadSeconds,
+    baselineSeconds,
+    downloadRatio: downloadSeconds / baselineSeconds,
     downloadLongestTaskMs: dl.task,
     downloadLongestFrameGapMs: dl.gap,
     reportMB: Math.round(statSync(saved).size / 1e5) / 10,
@@ -252,12 +326,13 @@ export function pageBenchTable(entries: readonly PageBenchEntry[]): string {
   const pad = (s: string | number, n: number): string => String(s).padStart(n);
   const f = (x: number): string => x.toFixed(2);
   return [
-    `${'rows'.padEnd(10)}${pad('file MB', 9)}${pad('run s', 8)}${pad('run task', 10)}${pad('run gap', 9)}${pad('dl s', 8)}${pad('dl task', 9)}${pad('dl gap', 8)}${pad('xlsx MB', 9)}${pad('load s', 8)}${pad('load task', 11)}`,
+    `${'rows'.padEnd(10)}${pad('file MB', 9)}${pad('run s', 8)}${pad('run task', 10)}${pad('run gap', 9)}${pad('dl s', 8)}${pad('base s', 8)}${pad('dl/base', 9)}${pad('dl task', 9)}${pad('dl gap', 8)}${pad('xlsx MB', 9)}${pad('load s', 8)}${pad('load task', 11)}`,
     ...entries.map(
       (e) =>
-        `${String(e.rows).padEnd(10)}${pad(e.fileMB, 9)}${pad(f(e.runSeconds), 8)}${pad(e.runLongestTaskMs, 10)}${pad(e.runLongestFrameGapMs, 9)}${pad(f(e.downloadSeconds), 8)}${pad(e.downloadLongestTaskMs, 9)}${pad(e.downloadLongestFrameGapMs, 8)}${pad(e.reportMB, 9)}${pad(f(e.loadSeconds), 8)}${pad(e.loadLongestTaskMs, 11)}`,
+        `${String(e.rows).padEnd(10)}${pad(e.fileMB, 9)}${pad(f(e.runSeconds), 8)}${pad(e.runLongestTaskMs, 10)}${pad(e.runLongestFrameGapMs, 9)}${pad(f(e.downloadSeconds), 8)}${pad(f(e.baselineSeconds), 8)}${pad(f(e.downloadRatio), 9)}${pad(e.downloadLongestTaskMs, 9)}${pad(e.downloadLongestFrameGapMs, 8)}${pad(e.reportMB, 9)}${pad(f(e.loadSeconds), 8)}${pad(e.loadLongestTaskMs, 11)}`,
     ),
     'task: the longest main-thread task (Long Tasks API, ms); gap: the longest gap between animation frames (ms).',
+    `dl s: best of ${DOWNLOADS} downloads; base s: the same run's baseline, one deflate pass over 32 MB of sheet-like XML on the page's thread.`,
     'Targets (issue 12): run and download task ≤ 200 ms at 300,000 rows; download ≤ 5 s at 1,000,000 rows.',
     'load: reading the file on the page (its own copy, for the column choices), not a target; shown for completeness.',
   ].join('\n');

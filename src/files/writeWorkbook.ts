@@ -33,7 +33,8 @@ import {
   type Relationship,
   type TablePart,
 } from './xlsxParts';
-import { ZipWriter, type PartWriter } from './zipWriter';
+import { asciiBytes, ByteRows } from './byteRows';
+import { ZipWriter, type Compressor, type PartWriter } from './zipWriter';
 
 /** Caption of the table a chart's numbers get when they are not all in a table of the sheet already. */
 export const CHART_DATA_CAPTION = (title: string): string => `Numbers behind the chart: ${title}`;
@@ -356,6 +357,16 @@ function textCell(ref: string, style: number, text: string): string {
   return `<c r="${ref}" s="${style}" t="inlineStr"><is><t${needsPreserve(text) ? ' xml:space="preserve"' : ''}>${cellText(text)}</t></is></c>`;
 }
 
+/** The fixed markup of a body cell, as bytes (ByteRows.raw): the same text textCell and writeSheet write. */
+const EMPTY_END = asciiBytes('"/>');
+const NUMBER_OPEN = asciiBytes('"><v>');
+const NUMBER_CLOSE = asciiBytes('</v></c>');
+const MINUS = asciiBytes('-');
+const TEXT_OPEN = asciiBytes('" t="inlineStr"><is><t>');
+const TEXT_OPEN_PRESERVE = asciiBytes('" t="inlineStr"><is><t xml:space="preserve">');
+const TEXT_CLOSE = asciiBytes('</t></is></c>');
+const ROW_CLOSE = asciiBytes('</row>');
+
 /** Characters gathered before they go to the zip writer. */
 const ROW_BUFFER = 64 * 1024;
 
@@ -397,24 +408,53 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
       const formats = columns.map(cellFormat);
       const looks = formats.map((f) => styles.format.get(EXCEL_FORMAT_CODES[f])!);
       const significant = formats.map((f) => f === 'significant');
+      // The body rows as bytes (byteRows.ts): the same markup as textCell and rowOpen make, without a string per cell.
+      await out.write(buf);
+      buf = '';
+      const rows = new ByteRows(out);
+      const cellOpen = columns.map((_, j) => asciiBytes(`<c r="${letters[j]}`));
+      // '" s="<look>' per style number, made when first met (a 'significant' column's cells take several).
+      const lookBytes: Uint8Array[] = [];
+      const lookOf = (look: number): Uint8Array => (lookBytes[look] ??= asciiBytes(`" s="${look}`));
       for (let i = 0; i < t.bodyRows; i++) {
         const rr = r + 1 + i;
         const cells = t.block.rows[i];
-        let line = rowOpen(rr);
+        const open = rowOpen(rr);
+        rows.room(open.length + 6);
+        rows.ascii(open);
         for (let j = 0; j < columns.length; j++) {
-          const ref = `${letters[j]}${rr}`;
           const v = storedValue(cells?.[j], formats[j]!);
-          const look = significant[j] ? styles.format.get(numberFormatFor(v, 'significant'))! : looks[j]!;
-          if (v === null) line += `<c r="${ref}" s="${look}"/>`;
-          else if (typeof v === 'number') line += `<c r="${ref}" s="${look}"><v>${numberText(v)}</v></c>`;
-          else line += textCell(ref, look, v);
+          const look = lookOf(significant[j] ? styles.format.get(numberFormatFor(v, 'significant'))! : looks[j]!);
+          const head = cellOpen[j]!;
+          rows.room(head.length + look.length + 70);
+          rows.raw(head);
+          rows.digits(rr);
+          rows.raw(look);
+          if (v === null || v === '') rows.raw(EMPTY_END);
+          else if (typeof v === 'number') {
+            rows.raw(NUMBER_OPEN);
+            // numberText: whole numbers in range as digits here (the same text String gives), others through it.
+            if (Number.isInteger(v) && v > -0x80000000 && v < 0x80000000) {
+              if (v < 0) rows.raw(MINUS);
+              rows.digits(Math.abs(v));
+            } else {
+              const text = numberText(v);
+              rows.room(text.length + 8);
+              rows.ascii(text);
+            }
+            rows.raw(NUMBER_CLOSE);
+          } else {
+            rows.raw(needsPreserve(v) ? TEXT_OPEN_PRESERVE : TEXT_OPEN);
+            rows.text(cellText(v));
+            rows.room(TEXT_CLOSE.length);
+            rows.raw(TEXT_CLOSE);
+          }
         }
-        buf += `${line}</row>`;
-        if (buf.length >= ROW_BUFFER) {
-          await out.write(buf);
-          buf = '';
-        }
+        rows.room(ROW_CLOSE.length);
+        rows.raw(ROW_CLOSE);
+        await rows.rowDone();
       }
+      await rows.end();
       r += t.bodyRows;
       next += 1;
       continue;
@@ -450,6 +490,13 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
   await out.end();
 }
 
+/** How the workbook is written (not what it holds). */
+export interface WriteOptions {
+  /** Compresses each part (default: the platform's compressor on this thread; the page's worker hands in one that
+   * works on a thread of its own, src/web/workerCompressor.ts). The bytes of the package are the same either way. */
+  readonly compressor?: Compressor;
+}
+
 /**
  * Renders sheet specs into an .xlsx workbook (ECMA-376) and returns its bytes. Per sheet: a title row, then each
  * block in order — a linking paragraph (the one-line caution) as an internal hyperlink on row 2 when it comes first, so
@@ -466,7 +513,7 @@ async function writeSheet(out: PartWriter, plan: SheetPlan, styles: { look: Reco
  *
  * Example: writeWorkbook([{ name: 'A', title: 'T', blocks: [] }]) → bytes of a workbook with sheet "A", A1 = "T".
  */
-export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintStamp = {}): Promise<Uint8Array> {
+export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintStamp = {}, options: WriteOptions = {}): Promise<Uint8Array> {
   const names = uniqueSheetNames(sheets.map((s) => s.name));
   // Wanted name → the name each sheet got, for links between sheets (the first sheet of a wanted name wins).
   const nameOf = new Map<string, string>();
@@ -484,7 +531,7 @@ export async function writeWorkbook(sheets: readonly SheetSpec[], stamp: PrintSt
   });
   const styles = stylesXml([...used]);
 
-  const zip = new ZipWriter();
+  const zip = new ZipWriter(options.compressor);
   const counts = {
     sheets: plans.length,
     tables: plans.reduce((n, p) => n + p.st.tables.length, 0),

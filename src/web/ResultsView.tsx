@@ -1,16 +1,60 @@
-/** The right-hand side of the page: a contents line, the report download, the "go to cell" box and every sheet. */
+/**
+ * The right-hand side of the page: a contents line, the report download, the "go to cell" box and every sheet.
+ *
+ * The sheets are drawn one per task: the first with the results, each next one in a task of its own after the last
+ * was put on the page, so no single task draws them all (at 300,000 rows the whole results view at once was the
+ * page's longest task). Every sheet's section and title are there from the start (so its link in the contents line
+ * works); its blocks follow in turn. The view tells the store how far it is (ResultStore.sheetsDrawn), and a run waits
+ * for the last sheet before it says it has finished. Sheets are drawn again only when they change (not when the
+ * download button or the "go to cell" box changes).
+ */
 import type { ReactNode } from 'react';
-import { useState, useSyncExternalStore } from 'react';
+import { memo, useEffect, useState, useSyncExternalStore } from 'react';
 import { INVENTED_DATA_NOTE } from '../core/report/cautions';
 import { isDemoSource } from './demoData';
 import { downloadReport, downloadReportFile, reportFileName } from './download';
-import type { ResultStore } from './resultStore';
+import type { PageState, ResultStore } from './resultStore';
 import { sheetDomId } from './resultStore';
 import { SheetView } from './SheetView';
 import { SourceRowView } from './SourceRowView';
 
+/** The sheets, drawn one per task (see the file comment); drawn again only when the sheets change. */
+const SheetList = memo(function SheetList({ store, sheets }: { readonly store: ResultStore; readonly sheets: PageState['sheets'] }): ReactNode {
+  // How many sheets have their blocks drawn, for which sheets (a new run starts again from its first sheet).
+  const [drawn, setDrawn] = useState({ sheets, count: Math.min(1, sheets.length) });
+  const count = drawn.sheets === sheets ? drawn.count : Math.min(1, sheets.length);
+  if (drawn.sheets !== sheets) setDrawn({ sheets, count });
+  useEffect(() => {
+    store.sheetsDrawn(sheets, count);
+    if (count >= sheets.length) return;
+    const next = setTimeout(() => setDrawn((d) => (d.sheets === sheets ? { sheets, count: d.count + 1 } : d)), 0);
+    return () => clearTimeout(next);
+  }, [store, sheets, count]);
+  return (
+    <>
+      <nav aria-label="Result sheets" className="sheet-nav">
+        {sheets.map((s) => (
+          <a key={s.name} href={`#${sheetDomId(s.name)}`}>
+            {s.spec.title}
+          </a>
+        ))}
+      </nav>
+      {sheets.map((s, i) => (
+        <SheetView
+          key={s.name}
+          name={s.name}
+          spec={s.spec}
+          {...(s.tableRows !== undefined ? { tableRows: s.tableRows } : {})}
+          {...(i >= count ? { titleOnly: true } : {})}
+        />
+      ))}
+    </>
+  );
+});
+
 export function ResultsView({ store }: { readonly store: ResultStore }): ReactNode {
   const state = useSyncExternalStore(store.subscribe, store.get);
+  useEffect(() => store.addDrawer(), [store]);
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const onDownload = async (): Promise<void> => {
@@ -64,18 +108,7 @@ export function ResultsView({ store }: { readonly store: ResultStore }): ReactNo
           <p>Everything runs inside this page: no file leaves your computer.</p>
         </div>
       ) : (
-        <>
-          <nav aria-label="Result sheets" className="sheet-nav">
-            {state.sheets.map((s) => (
-              <a key={s.name} href={`#${sheetDomId(s.name)}`}>
-                {s.spec.title}
-              </a>
-            ))}
-          </nav>
-          {state.sheets.map((s) => (
-            <SheetView key={s.name} name={s.name} spec={s.spec} {...(s.tableRows !== undefined ? { tableRows: s.tableRows } : {})} />
-          ))}
-        </>
+        <SheetList store={store} sheets={state.sheets} />
       )}
     </div>
   );

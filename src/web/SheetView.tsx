@@ -1,5 +1,6 @@
 /** One result sheet on the page: its title, then its paragraphs, tables and charts in order. */
 import type { ReactNode } from 'react';
+import { memo } from 'react';
 import type { ChartSpec, SheetSpec } from '../core/report/types';
 import { ChartView } from './ChartView';
 import { sheetDomId } from './resultStore';
@@ -19,16 +20,19 @@ export interface SheetViewProps {
   readonly spec: SheetSpec;
   /** Per block, the table's full row count where `spec` holds only its first rows (pageView.ts). */
   readonly tableRows?: readonly (number | null)[];
+  /** Only the section and its title, the blocks to follow (ResultsView draws the sheets one per task). */
+  readonly titleOnly?: boolean;
 }
 
-export function SheetView({ name, spec, tableRows }: SheetViewProps): ReactNode {
+export const SheetView = memo(function SheetView({ name, spec, tableRows, titleOnly = false }: SheetViewProps): ReactNode {
   return (
     <section className="sheet" id={sheetDomId(name)} aria-labelledby={`${sheetDomId(name)}-title`}>
       <h2 id={`${sheetDomId(name)}-title`} tabIndex={-1}>
         {spec.title}
         <span className="sheet-name"> (sheet “{name}”)</span>
       </h2>
-      {spec.blocks.map((block, i) => {
+      {titleOnly && <p className="small">Drawing this sheet…</p>}
+      {!titleOnly && spec.blocks.map((block, i) => {
         if (block.kind === 'paragraph') {
           if (block.style === 'heading') return <h3 key={i}>{block.text}</h3>;
           return (
@@ -45,4 +49,4 @@ export function SheetView({ name, spec, tableRows }: SheetViewProps): ReactNode 
       })}
     </section>
   );
-}
+});

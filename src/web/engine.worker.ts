@@ -6,6 +6,7 @@
  */
 import type { FromEngine, ToEngine } from './engineMessages';
 import { createEngineHost } from './engineHost';
+import { startCompressorWorker, workerCompressor } from './workerCompressor';
 
 /** The few members of the worker's global scope used here (the project type-checks with the DOM library). */
 interface WorkerScope {
@@ -14,5 +15,7 @@ interface WorkerScope {
 }
 
 const scope = self as unknown as WorkerScope;
-const host = createEngineHost((message, transfer) => scope.postMessage(message, transfer));
+// The report's parts are deflated in a worker of this worker's own where the browser allows one (all current ones do).
+const compressor = typeof Worker === 'function' ? workerCompressor(startCompressorWorker) : undefined;
+const host = createEngineHost((message, transfer) => scope.postMessage(message, transfer), compressor !== undefined ? { compressor } : {});
 scope.onmessage = (event) => host.handle(event.data);

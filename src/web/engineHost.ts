@@ -11,7 +11,7 @@
 import type { CellValue } from '../core/intake/types';
 import { runAnalysis } from '../core/pipeline/runAnalysis';
 import type { SheetSpec } from '../core/report/types';
-import { writeWorkbook } from '../files';
+import { writeWorkbook, type Compressor } from '../files';
 import type { FromEngine, Post, ToEngine } from './engineMessages';
 import { packCells, packedBuffers } from './packedCells';
 import { pageViewOf } from './pageView';
@@ -28,7 +28,13 @@ export interface EngineHost {
   readonly handle: (message: ToEngine) => void;
 }
 
-export function createEngineHost(post: Post<FromEngine>): EngineHost {
+export interface EngineHostOptions {
+  /** Compresses the report's parts (default: on the worker's own thread); engine.worker.ts hands in one that works
+   * in a worker of its own (workerCompressor.ts), so deflating runs beside the making of the XML. */
+  readonly compressor?: Compressor;
+}
+
+export function createEngineHost(post: Post<FromEngine>, options: EngineHostOptions = {}): EngineHost {
   /** The latest data file: its number and its cells once read (a failed read rejects). */
   let source: { readonly id: number; readonly cells: Promise<Cells> } | null = null;
   /** The latest finished run's sheets, for the report. */
@@ -70,7 +76,7 @@ export function createEngineHost(post: Post<FromEngine>): EngineHost {
       const sheets = message.sheets ?? (lastRun !== null && lastRun.id === message.run ? lastRun.sheets : null);
       if (sheets === null) throw new Error('The results of that run are no longer kept: run the analysis again.');
       const named = sheets.map((s, i) => ({ ...s, name: message.names[i] ?? s.name }));
-      const bytes = await writeWorkbook(named, message.stamp);
+      const bytes = await writeWorkbook(named, message.stamp, options.compressor !== undefined ? { compressor: options.compressor } : {});
       const blob = new Blob([bytes as Uint8Array<ArrayBuffer>], { type: XLSX_TYPE });
       const url = typeof URL.createObjectURL === 'function' ? URL.createObjectURL(blob) : null;
       post({ kind: 'written', request: message.request, blob, url }, []);

@@ -33,10 +33,26 @@ export interface PageState {
   readonly report: (() => Promise<ReportFile>) | null;
 }
 
-/** A tiny observable holder, read by React through useSyncExternalStore. */
+/** Someone waiting for the current sheets to be drawn (ResultStore.drawn). */
+interface DrawWaiter {
+  readonly sheets: PageState['sheets'];
+  readonly onProgress: ((fraction: number) => void) | undefined;
+  readonly resolve: () => void;
+}
+
+/**
+ * A tiny observable holder, read by React through useSyncExternalStore. The view that draws the sheets (ResultsView)
+ * draws them one task at a time and says how far it is (sheetsDrawn), so a run can wait until its sheets are on the
+ * page (drawn) and show that as progress.
+ */
 export class ResultStore {
   private state: PageState = { sheets: [], source: null, highlight: null, notice: null, shownHeaders: null, stamp: {}, report: null };
   private readonly listeners = new Set<() => void>();
+  private waiters: DrawWaiter[] = [];
+  /** The sheets the view has drawn whole, and how many of them (reported by the view). */
+  private drawnOf: { readonly sheets: PageState['sheets']; readonly count: number } | null = null;
+  /** Views that draw the sheets (they report progress). */
+  private drawers = 0;
 
   readonly subscribe = (listener: () => void): (() => void) => {
     this.listeners.add(listener);
@@ -47,7 +63,42 @@ export class ResultStore {
 
   update(patch: Partial<PageState>): void {
     this.state = { ...this.state, ...patch };
+    // Waiting for sheets that are no longer shown ends.
+    if (patch.sheets !== undefined) this.release((w) => w.sheets !== this.state.sheets);
     for (const l of this.listeners) l();
+  }
+
+  /** A view that draws the sheets is mounted (returns its removal); while none is, drawn() resolves at once. */
+  addDrawer(): () => void {
+    this.drawers += 1;
+    return () => {
+      this.drawers -= 1;
+      if (this.drawers === 0) this.release(() => true);
+    };
+  }
+
+  /** The view reports that the first `count` of `sheets` are drawn. */
+  sheetsDrawn(sheets: PageState['sheets'], count: number): void {
+    this.drawnOf = { sheets, count };
+    const total = Math.max(1, sheets.length);
+    for (const w of this.waiters) if (w.sheets === sheets) w.onProgress?.(Math.min(1, count / total));
+    this.release((w) => w.sheets === sheets && count >= sheets.length);
+  }
+
+  /**
+   * Resolves once the current sheets are all drawn on the page (at once when no view draws them, or when they were
+   * replaced meanwhile), reporting the fraction drawn as it goes.
+   */
+  drawn(onProgress?: (fraction: number) => void): Promise<void> {
+    const sheets = this.state.sheets;
+    if (this.drawers === 0 || sheets.length === 0 || (this.drawnOf?.sheets === sheets && this.drawnOf.count >= sheets.length)) return Promise.resolve();
+    return new Promise<void>((resolve) => this.waiters.push({ sheets, onProgress, resolve }));
+  }
+
+  private release(which: (w: DrawWaiter) => boolean): void {
+    const done = this.waiters.filter(which);
+    this.waiters = this.waiters.filter((w) => !which(w));
+    for (const w of done) w.resolve();
   }
 }
 

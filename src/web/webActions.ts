@@ -131,6 +131,9 @@ export function createWebActions(store: ResultStore = new ResultStore(), worker?
               url: null,
             });
       store.update({ sheets, highlight: null, notice: null, shownHeaders: blindedHeaders(output.json), stamp, report });
+      // The page draws the sheets one task at a time (ResultsView), so it keeps answering; the run is finished once
+      // they are all on the page.
+      await store.drawn(onProgress);
       onProgress?.(1);
       return sheets.map((s): WrittenSheet => ({ name: s.name, title: s.spec.title }));
     },

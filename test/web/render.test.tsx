@@ -1,6 +1,6 @@
 // @vitest-environment jsdom
 import { afterEach, describe, expect, it } from 'vitest';
-import { act, cleanup, fireEvent, render, screen } from '@testing-library/react';
+import { act, cleanup, fireEvent, render, screen, waitFor } from '@testing-library/react';
 import type { ChartSpec, TableBlock } from '../../src/core/report/types';
 import { ChartView, colourGroup } from '../../src/web/ChartView';
 import { yAxisOf } from '../../src/web/SheetView';
@@ -306,5 +306,49 @@ describe('go to cell after a blinded run', () => {
     expect(screen.queryByText('Active')).toBeNull();
     expect(screen.queryByText('TRT01P')).toBeNull();
     expect(screen.getByText(/Only the columns this blinded run read are shown/)).toBeTruthy();
+  });
+});
+
+describe('the sheets drawn one per task', () => {
+  const sheet = (k: number): { name: string; spec: { name: string; title: string; blocks: { kind: 'paragraph'; text: string }[] } } => ({
+    name: `S${k}`,
+    spec: { name: `S${k}`, title: `Invented sheet ${k}`, blocks: [{ kind: 'paragraph', text: `Body of sheet ${k}.` }] },
+  });
+
+  it('shows every title at once and the bodies in turn, one per task; drawn() reports the fraction and ends with the last', async () => {
+    const store = new ResultStore();
+    render(<ResultsView store={store} />);
+    const sheets = [sheet(1), sheet(2), sheet(3)];
+    const fractions: number[] = [];
+    let finished = false;
+    act(() => store.update({ sheets }));
+    const drawn = store.drawn((f) => fractions.push(f)).then(() => (finished = true));
+    // Every sheet's section and title are there from the start (the contents line's links work); only the first body.
+    for (const k of [1, 2, 3]) expect(screen.getByRole('heading', { name: new RegExp(`Invented sheet ${k}`) })).toBeTruthy();
+    expect(screen.getByText('Body of sheet 1.')).toBeTruthy();
+    expect(screen.queryByText('Body of sheet 3.')).toBeNull();
+    expect(finished).toBe(false);
+    await waitFor(() => expect(finished).toBe(true));
+    await drawn;
+    for (const k of [1, 2, 3]) expect(screen.getByText(`Body of sheet ${k}.`)).toBeTruthy();
+    expect(screen.queryByText('Drawing this sheet…')).toBeNull();
+    expect(fractions.at(-1)).toBe(1);
+    expect([...fractions].sort((a, b) => a - b)).toEqual(fractions);
+  });
+
+  it('drawn() ends at once when no view draws the sheets, and when the sheets it waited for are replaced', async () => {
+    const alone = new ResultStore();
+    alone.update({ sheets: [sheet(1), sheet(2)] });
+    await expect(alone.drawn()).resolves.toBeUndefined();
+    const store = new ResultStore();
+    const stop = store.addDrawer();
+    store.update({ sheets: [sheet(1), sheet(2)] });
+    const waiting = store.drawn();
+    store.update({ sheets: [] });
+    await expect(waiting).resolves.toBeUndefined();
+    store.update({ sheets: [sheet(3)] });
+    const last = store.drawn();
+    stop(); // the view went away
+    await expect(last).resolves.toBeUndefined();
   });
 });

@@ -101,7 +101,10 @@ async function ensureFolder(dir: string): Promise<void> {
  * replaces atomically on POSIX file systems and on NTFS). If writing any of them fails, every temporary file is
  * removed, no target is touched, and an OutputWriteError names the file and says why.
  */
-export async function writeFilesAtomic(files: readonly { readonly target: string; readonly data: Uint8Array | string }[]): Promise<void> {
+/** A file's contents: bytes, text, or text in pieces made while the file is written (written in order). */
+export type FileData = Uint8Array | string | Iterable<string>;
+
+export async function writeFilesAtomic(files: readonly { readonly target: string; readonly data: FileData }[]): Promise<void> {
   const staged: { tmp: string; full: string; target: string }[] = [];
   const cleanUp = async (): Promise<void> => {
     await Promise.all(staged.map((s) => rm(s.tmp, { force: true })));
@@ -137,6 +140,6 @@ export async function writeFilesAtomic(files: readonly { readonly target: string
 }
 
 /** Writes one whole file or nothing (see writeFilesAtomic). */
-export async function writeFileAtomic(target: string, data: Uint8Array | string): Promise<void> {
+export async function writeFileAtomic(target: string, data: FileData): Promise<void> {
   await writeFilesAtomic([{ target, data }]);
 }

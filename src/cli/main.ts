@@ -12,7 +12,8 @@ import { FileFormatError, printStampOf, writeWorkbook } from '../files';
 import pkg from '../../package.json';
 import { HELP_TEXT, parseAnalyzeArgs, UsageError } from './args';
 import type { AnalyzeArgs } from './args';
-import { OutputWriteError, writeFilesAtomic } from './atomicWrite';
+import { OutputWriteError, writeFilesAtomic, type FileData } from './atomicWrite';
+import { jsonPieces } from './jsonPieces';
 export { removeTemporariesOnSignal } from './atomicWrite';
 import { buildMapping } from './mapping';
 import { readDataFile, readScheduleFile } from './readInputs';
@@ -46,6 +47,12 @@ function countsLine(counts: unknown): string | null {
  * `--pretty`; always ending with a newline. */
 export function jsonText(json: unknown, pretty: boolean): string {
   return `${pretty ? JSON.stringify(json, null, 2) : JSON.stringify(json)}\n`;
+}
+
+/** The compact results file, jsonText(json, false), as pieces made while the file is written. */
+function* jsonFileText(json: unknown): Generator<string> {
+  yield* jsonPieces(json);
+  yield '\n';
 }
 
 function printSummary(json: Record<string, unknown>, io: CliOutput): void {
@@ -146,6 +153,8 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
     onStage: (next) => {
       if (running.stage !== null) clock.mark(running.stage);
       running.stage = next;
+      // Intake has its typed columns once windowing starts: let the file's text and index go (releasableSource.ts).
+      if (next === 'windowing') data.source.release();
     },
   });
   if (running.stage !== null) clock.mark(running.stage);
@@ -178,10 +187,11 @@ async function analyze(args: AnalyzeArgs, io: CliOutput, now: () => Date): Promi
   // The cautions of SPEC §2 go with every result, on the terminal as on every sheet.
   for (const c of CAUTIONS) io.out(`Caution: ${c}`);
   // Build every output in memory first, then write all or nothing, so a failure leaves no file half-written.
-  const files: { target: string; data: Uint8Array | string }[] = [];
+  const files: { target: string; data: FileData }[] = [];
   if (args.out !== undefined) files.push({ target: args.out, data: await writeWorkbook(output.sheets, printStampOf(output.json)) });
   clock.mark('report workbook');
-  if (args.json !== undefined) files.push({ target: args.json, data: jsonText(output.json, args.pretty) });
+  // Compact JSON goes to the file in pieces as it is written (jsonPieces.ts: the same text, never one ~60 MB string).
+  if (args.json !== undefined) files.push({ target: args.json, data: args.pretty ? jsonText(output.json, true) : jsonFileText(output.json) });
   clock.mark('results JSON text');
   await writeFilesAtomic(files);
   clock.mark('write files');

@@ -11,6 +11,9 @@ export interface StageTime {
   readonly cpuSeconds: number;
   /** Resident memory when the stage ended, in MB. */
   readonly rssMB: number;
+  /** Of which the JavaScript heap in use, and memory outside it (buffers, typed arrays' stores), in MB. */
+  readonly heapMB: number;
+  readonly externalMB: number;
 }
 
 /** The prefix of every profile line on standard error; the rest of the line is JSON (one StageTime). */
@@ -32,13 +35,19 @@ export class StageClock {
       stage,
       seconds: Number(wall - this.lastWall) / 1e9,
       cpuSeconds: (cpu.user - this.lastCpu.user + cpu.system - this.lastCpu.system) / 1e6,
-      rssMB: Math.round(process.memoryUsage.rss() / 1048576),
+      ...memoryNow(),
     };
     this.stages.push(entry);
     this.print(`${PROFILE_PREFIX}${JSON.stringify(entry)}`);
     this.lastWall = process.hrtime.bigint();
     this.lastCpu = process.cpuUsage();
   }
+}
+
+function memoryNow(): { rssMB: number; heapMB: number; externalMB: number } {
+  const m = process.memoryUsage();
+  const mb = (bytes: number): number => Math.round(bytes / 1048576);
+  return { rssMB: mb(m.rss), heapMB: mb(m.heapUsed), externalMB: mb(m.external) };
 }
 
 /** A clock that prints when LONGIPANE_PROFILE is set to anything but "" or "0", and does nothing otherwise. */

@@ -1,7 +1,7 @@
 import { readFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
 import type { DateSystem } from '../core/intake/types';
-import type { CellSource } from '../core/intake/cellSource';
+import { ReleasableSource } from './releasableSource';
 import { parseSchedule } from '../core/schedule';
 import type { ScheduleVisit } from '../core/schedule/types';
 import { fileFingerprint, FileFormatError, rangeOf, readCsvFile, readCsvSource, readXlsxSource } from '../files';
@@ -15,7 +15,7 @@ export interface DataInput {
   readonly dateSystem: DateSystem;
   /** The cells, read cell by cell by intake (a CSV file stays an index over its text, csvIndex.ts; an .xlsx sheet
    * typed arrays, xlsxCells.ts). */
-  readonly source: CellSource;
+  readonly source: ReleasableSource;
   /** SHA-256 of the file's bytes (fileFingerprint), the run's input fingerprint. */
   readonly fingerprint: string;
   /** CSV cells are all text, so intake accepts numbers written as text. */
@@ -48,7 +48,7 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
       sheet: name,
       topLeft: 'A1',
       dateSystem: 1900,
-      source: read.source,
+      source: new ReleasableSource(read.source),
       fingerprint: await fileFingerprint(bytes),
       numericText: 'accept',
       notes: read.notes,
@@ -68,7 +68,7 @@ export async function readDataFile(path: string, sheet: string | undefined): Pro
       sheet: read.sheet,
       topLeft: read.topLeft,
       dateSystem: read.dateSystem,
-      source: read.source,
+      source: new ReleasableSource(read.source),
       fingerprint: await fileFingerprint(bytes),
       numericText: 'reject',
       notes: [],

@@ -251,90 +251,23 @@ function groupedSums(s: SlopeSums, D: RelativeG, at: SlopeProfile): CurvatureSum
   const ctt = s.stt;
   const ry = s.sy;
   const rty = s.sty;
-  // Totals over all participants, kept in local variables (written to c after the pass).
-  let sv0 = 0, sv1 = 0, sv2 = 0, sk0 = 0, sk1 = 0, sk2 = 0, sq0 = 0, sq1 = 0, sq2 = 0;
-  let w00 = 0, w01 = 0, w02 = 0, w11 = 0, w12 = 0, w22 = 0;
-  let q00 = 0, q01 = 0, q02 = 0, q11 = 0, q12 = 0, q22 = 0;
+  // Totals over all participants (tot[0..20]) and over one arm (arm[0..11]), summed block by block (curvatureBlock).
+  const tot = new Float64Array(21);
+  const arm = new Float64Array(12);
   for (let a = 0; a < nA; a++) {
     const b0 = eb[2 * a]!;
     const b1 = eb[2 * a + 1]!;
     const h00 = eh[3 * a]!;
     const h01 = eh[3 * a + 1]!;
     const h11 = eh[3 * a + 2]!;
-    // Arm a's participants are stored together (sums.ts): u_k (Σ Kw_k) and Σ KE_kK in local variables.
-    let u00 = 0, u01 = 0, u10 = 0, u11 = 0, u20 = 0, u21 = 0;
-    let kk00 = 0, kk01 = 0, kk11 = 0, kkx = 0, kk1 = 0, kk22 = 0;
+    // Arm a's participants are stored together (sums.ts): u_k (Σ Kw_k) and Σ KE_kK per arm.
+    arm.fill(0);
     const end = starts[a + 1]!;
-    for (let i = starts[a]!; i < end; i++) {
-      const n = cn[i]!;
-      const t = ct[i]!;
-      const tt = ctt[i]!;
-      const m00 = 1 + n * d11 + t * d12;
-      const m01 = n * d12 + t * d22;
-      const m10 = t * d11 + tt * d12;
-      const m11 = 1 + t * d12 + tt * d22;
-      const inv = 1 / (m00 * m11 - m01 * m10);
-      const f00 = m11 * inv;
-      const f01 = -m01 * inv;
-      const f10 = -m10 * inv;
-      const f11 = m00 * inv;
-      const k00 = f00 * n + f01 * t;
-      const k01 = 0.5 * (f00 * t + f01 * tt + f10 * n + f11 * t);
-      const k11 = f10 * t + f11 * tt;
-      const e0 = ry[i]! - (n * b0 + t * b1);
-      const e1 = rty[i]! - (t * b0 + tt * b1);
-      const v0 = f00 * e0 + f01 * e1;
-      const v1 = f10 * e0 + f11 * e1;
-      // N = K H_a K.
-      const x00 = k00 * h00 + k01 * h01;
-      const x01 = k00 * h01 + k01 * h11;
-      const x10 = k01 * h00 + k11 * h01;
-      const x11 = k01 * h01 + k11 * h11;
-      const n00 = x00 * k00 + x01 * k01;
-      const n01 = 0.5 * (x00 * k01 + x01 * k11 + x10 * k00 + x11 * k01);
-      const n11 = x10 * k01 + x11 * k11;
-      sv0 += v0 * v0;
-      sv1 += 2 * v0 * v1;
-      sv2 += v1 * v1;
-      sk0 += k00;
-      sk1 += 2 * k01;
-      sk2 += k11;
-      sq0 += n00;
-      sq1 += 2 * n01;
-      sq2 += n11;
-      // K w_k with E_11 v = (v0, 0), E_12 v = (v1, v0), E_22 v = (0, v1).
-      const kw00 = k00 * v0;
-      const kw01 = k01 * v0;
-      const kw10 = k00 * v1 + k01 * v0;
-      const kw11 = k01 * v1 + k11 * v0;
-      const kw20 = k01 * v1;
-      const kw21 = k11 * v1;
-      w00 += v0 * kw00;
-      w01 += v0 * kw10;
-      w02 += v0 * kw20;
-      w11 += v1 * kw10 + v0 * kw11;
-      w12 += v1 * kw20 + v0 * kw21;
-      w22 += v1 * kw21;
-      q00 += k00 * n00;
-      q01 += k00 * n01 + k01 * n00;
-      q02 += k01 * n01;
-      q11 += k00 * n11 + 2 * k01 * n01 + k11 * n00;
-      q12 += k01 * n11 + k11 * n01;
-      q22 += k11 * n11;
-      u00 += kw00;
-      u01 += kw01;
-      u10 += kw10;
-      u11 += kw11;
-      u20 += kw20;
-      u21 += kw21;
-      // KE_11K = (k00², k00k01, k01²), KE_22K = (k01², k01k11, k11²), KE_12K = (2k00k01, k00k11 + k01², 2k01k11).
-      kk00 += k00 * k00;
-      kk01 += k00 * k01;
-      kk11 += k01 * k01;
-      kkx += k00 * k11;
-      kk1 += k01 * k11;
-      kk22 += k11 * k11;
+    for (let from = starts[a]!; from < end; from += BLOCK) {
+      curvatureBlock(tot, arm, cn, ct, ctt, ry, rty, from, Math.min(end, from + BLOCK), d11, d12, d22, b0, b1, h00, h01, h11);
     }
+    const u00 = arm[0]!, u01 = arm[1]!, u10 = arm[2]!, u11 = arm[3]!, u20 = arm[4]!, u21 = arm[5]!;
+    const kk00 = arm[6]!, kk01 = arm[7]!, kk11 = arm[8]!, kkx = arm[9]!, kk1 = arm[10]!, kk22 = arm[11]!;
     const E = s.E[a]!;
     addTransposed(c.u[0]!, E, u00, u01, p);
     addTransposed(c.u[1]!, E, u10, u11, p);
@@ -351,10 +284,106 @@ function groupedSums(s: SlopeSums, D: RelativeG, at: SlopeProfile): CurvatureSum
     t[8] = t[8]! + kk22;
     addSandwich(c.pt[2]!, E, kk11, kk1, kk1, kk22, p);
   }
-  c.sv.set([sv0, sv1, sv2]);
-  c.sk.set([sk0, sk1, sk2]);
-  c.sq.set([sq0, sq1, sq2]);
-  c.vkv.set([w00, w01, w02, 0, w11, w12, 0, 0, w22]);
-  c.qa.set([q00, q01, q02, 0, q11, q12, 0, 0, q22]);
+  c.sv.set([tot[0]!, tot[1]!, tot[2]!]);
+  c.sk.set([tot[3]!, tot[4]!, tot[5]!]);
+  c.sq.set([tot[6]!, tot[7]!, tot[8]!]);
+  c.vkv.set([tot[9]!, tot[10]!, tot[11]!, 0, tot[12]!, tot[13]!, 0, 0, tot[14]!]);
+  c.qa.set([tot[15]!, tot[16]!, tot[17]!, 0, tot[18]!, tot[19]!, 0, 0, tot[20]!]);
   return c;
+}
+
+/** Participants per call of curvatureBlock: small calls let the engine optimise the loop early (a process's first fit
+ * otherwise runs most of one long loop before it is optimised); the sums are the same up to the order of additions. */
+const BLOCK = 4096;
+
+/**
+ * The per-participant loop of groupedSums over participants [from, to) of one arm: adds Σ v², Σ K, Σ N, V'KV and
+ * Q-pieces to `tot` (21 entries: sv 0–2, sk 3–5, sq 6–8, w 9–14, q 15–20) and the arm's u_k and Σ KE_kK to `arm`
+ * (12 entries). Pure arithmetic on local variables.
+ */
+function curvatureBlock(
+  tot: Float64Array, arm: Float64Array,
+  cn: Float64Array, ct: Float64Array, ctt: Float64Array, ry: Float64Array, rty: Float64Array,
+  from: number, to: number, d11: number, d12: number, d22: number, b0: number, b1: number, h00: number, h01: number, h11: number,
+): void {
+  let sv0 = 0, sv1 = 0, sv2 = 0, sk0 = 0, sk1 = 0, sk2 = 0, sq0 = 0, sq1 = 0, sq2 = 0;
+  let w00 = 0, w01 = 0, w02 = 0, w11 = 0, w12 = 0, w22 = 0;
+  let q00 = 0, q01 = 0, q02 = 0, q11 = 0, q12 = 0, q22 = 0;
+  let u00 = 0, u01 = 0, u10 = 0, u11 = 0, u20 = 0, u21 = 0;
+  let kk00 = 0, kk01 = 0, kk11 = 0, kkx = 0, kk1 = 0, kk22 = 0;
+  for (let i = from; i < to; i++) {
+    const n = cn[i]!;
+    const t = ct[i]!;
+    const tt = ctt[i]!;
+    const m00 = 1 + n * d11 + t * d12;
+    const m01 = n * d12 + t * d22;
+    const m10 = t * d11 + tt * d12;
+    const m11 = 1 + t * d12 + tt * d22;
+    const inv = 1 / (m00 * m11 - m01 * m10);
+    const f00 = m11 * inv;
+    const f01 = -m01 * inv;
+    const f10 = -m10 * inv;
+    const f11 = m00 * inv;
+    const k00 = f00 * n + f01 * t;
+    const k01 = 0.5 * (f00 * t + f01 * tt + f10 * n + f11 * t);
+    const k11 = f10 * t + f11 * tt;
+    const e0 = ry[i]! - (n * b0 + t * b1);
+    const e1 = rty[i]! - (t * b0 + tt * b1);
+    const v0 = f00 * e0 + f01 * e1;
+    const v1 = f10 * e0 + f11 * e1;
+    // N = K H_a K.
+    const x00 = k00 * h00 + k01 * h01;
+    const x01 = k00 * h01 + k01 * h11;
+    const x10 = k01 * h00 + k11 * h01;
+    const x11 = k01 * h01 + k11 * h11;
+    const n00 = x00 * k00 + x01 * k01;
+    const n01 = 0.5 * (x00 * k01 + x01 * k11 + x10 * k00 + x11 * k01);
+    const n11 = x10 * k01 + x11 * k11;
+    sv0 += v0 * v0;
+    sv1 += 2 * v0 * v1;
+    sv2 += v1 * v1;
+    sk0 += k00;
+    sk1 += 2 * k01;
+    sk2 += k11;
+    sq0 += n00;
+    sq1 += 2 * n01;
+    sq2 += n11;
+    // K w_k with E_11 v = (v0, 0), E_12 v = (v1, v0), E_22 v = (0, v1).
+    const kw00 = k00 * v0;
+    const kw01 = k01 * v0;
+    const kw10 = k00 * v1 + k01 * v0;
+    const kw11 = k01 * v1 + k11 * v0;
+    const kw20 = k01 * v1;
+    const kw21 = k11 * v1;
+    w00 += v0 * kw00;
+    w01 += v0 * kw10;
+    w02 += v0 * kw20;
+    w11 += v1 * kw10 + v0 * kw11;
+    w12 += v1 * kw20 + v0 * kw21;
+    w22 += v1 * kw21;
+    q00 += k00 * n00;
+    q01 += k00 * n01 + k01 * n00;
+    q02 += k01 * n01;
+    q11 += k00 * n11 + 2 * k01 * n01 + k11 * n00;
+    q12 += k01 * n11 + k11 * n01;
+    q22 += k11 * n11;
+    u00 += kw00;
+    u01 += kw01;
+    u10 += kw10;
+    u11 += kw11;
+    u20 += kw20;
+    u21 += kw21;
+    // KE_11K = (k00², k00k01, k01²), KE_22K = (k01², k01k11, k11²), KE_12K = (2k00k01, k00k11 + k01², 2k01k11).
+    kk00 += k00 * k00;
+    kk01 += k00 * k01;
+    kk11 += k01 * k01;
+    kkx += k00 * k11;
+    kk1 += k01 * k11;
+    kk22 += k11 * k11;
+  }
+  tot[0] = tot[0]! + sv0; tot[1] = tot[1]! + sv1; tot[2] = tot[2]! + sv2; tot[3] = tot[3]! + sk0; tot[4] = tot[4]! + sk1; tot[5] = tot[5]! + sk2; tot[6] = tot[6]! + sq0; tot[7] = tot[7]! + sq1; tot[8] = tot[8]! + sq2;
+  tot[9] = tot[9]! + w00; tot[10] = tot[10]! + w01; tot[11] = tot[11]! + w02; tot[12] = tot[12]! + w11; tot[13] = tot[13]! + w12; tot[14] = tot[14]! + w22;
+  tot[15] = tot[15]! + q00; tot[16] = tot[16]! + q01; tot[17] = tot[17]! + q02; tot[18] = tot[18]! + q11; tot[19] = tot[19]! + q12; tot[20] = tot[20]! + q22;
+  arm[0] = arm[0]! + u00; arm[1] = arm[1]! + u01; arm[2] = arm[2]! + u10; arm[3] = arm[3]! + u11; arm[4] = arm[4]! + u20; arm[5] = arm[5]! + u21;
+  arm[6] = arm[6]! + kk00; arm[7] = arm[7]! + kk01; arm[8] = arm[8]! + kk11; arm[9] = arm[9]! + kkx; arm[10] = arm[10]! + kk1; arm[11] = arm[11]! + kk22;
 }

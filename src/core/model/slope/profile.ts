@@ -172,66 +172,28 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
   const cmc = new Float64Array(4 * nA);
   const cmr = new Float64Array(2 * nA);
   const starts = s.armStart!;
-  let rMr = 0;
-  let logDetH = 0;
+  // state: [rMr, Σ log det so far, the running product of determinants not yet logged] (valueBlock).
   // Σ log det(I + C_i D) as the log of running products (one logarithm per few hundred participants instead of one
   // each); det ≥ 1 for positive semi-definite D, a huge one is taken alone, and a non-positive or NaN one makes the sum
   // non-finite as before.
-  let detProduct = 1;
+  const state = new Float64Array([0, 0, 1]);
+  const armSums = new Float64Array(5);
   for (let a = 0; a < nA; a++) {
-    // Arm a's participants are stored together (sums.ts): its totals stay in local variables.
-    let c00 = 0;
-    let c01 = 0;
-    let c11 = 0;
-    let q0 = 0;
-    let q1 = 0;
+    // Arm a's participants are stored together (sums.ts): its totals in armSums (C M C: 00, 01, 11; C M r: 0, 1).
+    armSums.fill(0);
     const end = starts[a + 1]!;
-    for (let i = starts[a]!; i < end; i++) {
-      const n = cn[i]!;
-      const t = ct[i]!;
-      const tt = ctt[i]!;
-      const m00 = 1 + n * d11 + t * d12;
-      const m01 = n * d12 + t * d22;
-      const m10 = t * d11 + tt * d12;
-      const m11 = 1 + t * d12 + tt * d22;
-      const det = m00 * m11 - m01 * m10;
-      if (det > 1e100) logDetH += Math.log(det);
-      else {
-        detProduct *= det;
-        if (!(detProduct < 1e200 && detProduct > 1e-200)) {
-          logDetH += Math.log(detProduct);
-          detProduct = 1;
-        }
-      }
-      const inv = 1 / det;
-      const f00 = m11 * inv;
-      const f01 = -m01 * inv;
-      const f10 = -m10 * inv;
-      const f11 = m00 * inv;
-      const M00 = d11 * f00 + d12 * f10;
-      const M01 = 0.5 * (d11 * f01 + d12 * f11 + d12 * f00 + d22 * f10);
-      const M11 = d12 * f01 + d22 * f11;
-      const r0 = ry[i]!;
-      const r1 = rty[i]!;
-      const mr0 = M00 * r0 + M01 * r1;
-      const mr1 = M01 * r0 + M11 * r1;
-      rMr += r0 * mr0 + r1 * mr1;
-      // C M (C symmetric), then C M C, symmetric: its (1, 0) entry is the (0, 1) one.
-      const a00 = n * M00 + t * M01;
-      const a01 = n * M01 + t * M11;
-      const a11 = t * M01 + tt * M11;
-      c00 += a00 * n + a01 * t;
-      c01 += a00 * t + a01 * tt;
-      c11 += (t * M00 + tt * M01) * t + a11 * tt;
-      q0 += n * mr0 + t * mr1;
-      q1 += t * mr0 + tt * mr1;
+    for (let from = starts[a]!; from < end; from += VALUE_BLOCK) {
+      valueBlock(state, armSums, cn, ct, ctt, ry, rty, from, Math.min(end, from + VALUE_BLOCK), d11, d12, d22);
     }
-    cmc[4 * a] = c00;
-    cmc[4 * a + 1] = c01;
-    cmc[4 * a + 3] = c11;
-    cmr[2 * a] = q0;
-    cmr[2 * a + 1] = q1;
+    cmc[4 * a] = armSums[0]!;
+    cmc[4 * a + 1] = armSums[1]!;
+    cmc[4 * a + 3] = armSums[2]!;
+    cmr[2 * a] = armSums[3]!;
+    cmr[2 * a + 1] = armSums[4]!;
   }
+  const rMr = state[0]!;
+  let logDetH = state[1]!;
+  const detProduct = state[2]!;
   logDetH += Math.log(detProduct);
   const BMB = new Float64Array(p * p);
   const BMr = new Float64Array(p);
@@ -334,4 +296,72 @@ function groupedProfile(s: SlopeSums, D: RelativeG, method: FitMethod, gradient:
   }
   const gr = (sv: number, sk: number, sq: number): number => -0.5 * ((nu * -sv) / R + sk - sq);
   return { logLik, gradient: [gr(sv0, sk0, sq0), gr(sv1, sk1, sq1), gr(sv2, sk2, sq2)], beta, sigma2: R / nu, aInv };
+}
+
+/** Participants per call of valueBlock (see curvature.ts: small calls are optimised early in a process's first fit). */
+const VALUE_BLOCK = 4096;
+
+/** The value pass of groupedProfile over participants [from, to) of one arm: adds r'Mr to state[0], log-determinants
+ * to state[1] through the running product state[2], and C M C, C M r to the arm's sums (00, 01, 11, 0, 1). */
+function valueBlock(
+  state: Float64Array, armSums: Float64Array,
+  cn: Float64Array, ct: Float64Array, ctt: Float64Array, ry: Float64Array, rty: Float64Array,
+  from: number, to: number, d11: number, d12: number, d22: number,
+): void {
+  let rMr = 0;
+  let logDetH = state[1]!;
+  let detProduct = state[2]!;
+  let c00 = 0;
+  let c01 = 0;
+  let c11 = 0;
+  let q0 = 0;
+  let q1 = 0;
+  for (let i = from; i < to; i++) {
+    const n = cn[i]!;
+    const t = ct[i]!;
+    const tt = ctt[i]!;
+    const m00 = 1 + n * d11 + t * d12;
+    const m01 = n * d12 + t * d22;
+    const m10 = t * d11 + tt * d12;
+    const m11 = 1 + t * d12 + tt * d22;
+    const det = m00 * m11 - m01 * m10;
+    if (det > 1e100) logDetH += Math.log(det);
+    else {
+      detProduct *= det;
+      if (!(detProduct < 1e200 && detProduct > 1e-200)) {
+        logDetH += Math.log(detProduct);
+        detProduct = 1;
+      }
+    }
+    const inv = 1 / det;
+    const f00 = m11 * inv;
+    const f01 = -m01 * inv;
+    const f10 = -m10 * inv;
+    const f11 = m00 * inv;
+    const M00 = d11 * f00 + d12 * f10;
+    const M01 = 0.5 * (d11 * f01 + d12 * f11 + d12 * f00 + d22 * f10);
+    const M11 = d12 * f01 + d22 * f11;
+    const r0 = ry[i]!;
+    const r1 = rty[i]!;
+    const mr0 = M00 * r0 + M01 * r1;
+    const mr1 = M01 * r0 + M11 * r1;
+    rMr += r0 * mr0 + r1 * mr1;
+    // C M (C symmetric), then C M C, symmetric: its (1, 0) entry is the (0, 1) one.
+    const a00 = n * M00 + t * M01;
+    const a01 = n * M01 + t * M11;
+    const a11 = t * M01 + tt * M11;
+    c00 += a00 * n + a01 * t;
+    c01 += a00 * t + a01 * tt;
+    c11 += (t * M00 + tt * M01) * t + a11 * tt;
+    q0 += n * mr0 + t * mr1;
+    q1 += t * mr0 + tt * mr1;
+  }
+  state[0] = state[0]! + rMr;
+  state[1] = logDetH;
+  state[2] = detProduct;
+  armSums[0] = armSums[0]! + c00;
+  armSums[1] = armSums[1]! + c01;
+  armSums[2] = armSums[2]! + c11;
+  armSums[3] = armSums[3]! + q0;
+  armSums[4] = armSums[4]! + q1;
 }

@@ -155,7 +155,9 @@ function parseChild(csv: string): { seconds: number; cpuSeconds: number; peakMB:
   return JSON.parse(out) as { seconds: number; cpuSeconds: number; peakMB: number };
 }
 
-function cliChild(args: readonly string[]): { seconds: number; cpuSeconds: number; peakMB: number; stages: StageLine[] } {
+/** One whole command-line run (build/cli.mjs through bench/cli-child.mjs) in a child process, with its stage lines
+ * (LONGIPANE_PROFILE); throws when the run fails. Shared with bench/xlsx-bench.ts. */
+export function cliChild(args: readonly string[]): { seconds: number; cpuSeconds: number; peakMB: number; stages: StageLine[] } {
   const r = spawnSync(process.execPath, [join(here, 'cli-child.mjs'), ...args], {
     encoding: 'utf8',
     env: { ...process.env, LONGIPANE_PROFILE: '1' },

@@ -12,23 +12,16 @@
  * ratio (b) ÷ (a). Target (issue 12): (b) at 1,048,576 rows ≤ 20 s and ≤ 1.5 GB. Writes bench/xlsx-latest.json.
  * Needs `npm run build:cli` first.
  */
-import { spawnSync } from 'node:child_process';
 import { closeSync, existsSync, mkdtempSync, openSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import { tmpdir, loadavg } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { dayNumber, DEMO_OPTIONS, generateTrial, HEADER, isoDate } from '../scripts/make-demo-data';
 import { benchScheduleCsv } from './whole-run-data';
+import { cliChild, type StageLine } from './whole-run';
 import { sheetWorkbook, type SheetRow } from '../test/support/sheetWorkbook';
 
 const here = dirname(fileURLToPath(import.meta.url));
-
-interface StageLine {
-  readonly stage: string;
-  readonly seconds: number;
-  readonly cpuSeconds: number;
-  readonly rssMB: number;
-}
 
 interface RunFigures {
   readonly seconds: number;
@@ -120,18 +113,9 @@ function writeCsv(path: string, l: Listing): void {
   closeSync(fd);
 }
 
-/** One whole command-line run in a child process, with its stage lines. */
+/** One whole command-line run in a child process (whole-run.ts's cliChild), with the read and intake stages picked out. */
 function cliRun(args: readonly string[]): RunFigures {
-  const r = spawnSync(process.execPath, [join(here, 'cli-child.mjs'), ...args], { encoding: 'utf8', env: { ...process.env, LONGIPANE_PROFILE: '1' }, maxBuffer: 64 << 20 });
-  const stages: StageLine[] = [];
-  type Total = { seconds: number; cpuSeconds: number; peakMB: number; exitCode: number };
-  const totals: Total[] = [];
-  for (const line of r.stderr.split('\n')) {
-    if (line.startsWith('longipane-profile ')) stages.push(JSON.parse(line.slice('longipane-profile '.length)) as StageLine);
-    else if (line.startsWith('longipane-bench ')) totals.push(JSON.parse(line.slice('longipane-bench '.length)) as Total);
-  }
-  const total = totals[0] ?? null;
-  if (total === null || total.exitCode !== 0) throw new Error(`the command line failed (exit ${total?.exitCode ?? r.status}): ${r.stderr.slice(0, 2000)}`);
+  const { stages, ...total } = cliChild(args);
   const stage = (name: string): StageLine | undefined => stages.find((s) => s.stage === name);
   return {
     seconds: total.seconds,
